@@ -1,0 +1,167 @@
+/**
+ * The part record (`part.yaml`, CONTRACT §1) as a zod 4 schema.
+ *
+ * Keys are exactly the record's keys. Quantities are written as strings with units in the
+ * record (`12 MHz`) and come out of the schema as numbers in SI base units:
+ * Hz, F, Ω, W, °C, ppm (plain number of ppm). Types are derived from the schema.
+ */
+import { z } from 'zod';
+import { parseQuantity, parseQuantityRange, type UnitKind } from '../units/si.ts';
+
+/** A quantity string of the given kind, parsed to its SI value. */
+function quantity(kind: UnitKind, opts: { positive?: boolean } = {}) {
+  return z.union([z.string(), z.number()]).transform((input, ctx) => {
+    const parsed = parseQuantity(String(input), kind);
+    if (!parsed.ok) {
+      ctx.addIssue({ code: 'custom', message: parsed.message });
+      return z.NEVER;
+    }
+    if (opts.positive && !(parsed.value > 0)) {
+      ctx.addIssue({ code: 'custom', message: `expected a positive value, got "${input}"` });
+      return z.NEVER;
+    }
+    return parsed.value;
+  });
+}
+
+function temperatureRange() {
+  return z.string().transform((input, ctx) => {
+    const parsed = parseQuantityRange(input, 'temperature');
+    if (!parsed.ok) {
+      ctx.addIssue({ code: 'custom', message: parsed.message });
+      return z.NEVER;
+    }
+    return { min: parsed.min, max: parsed.max };
+  });
+}
+
+/** Letters, digits, '.', '_', '-' (CONTRACT §1). */
+const ID = /^[A-Za-z0-9._-]+$/;
+const idString = (what: string) =>
+  z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(
+    z.string().min(1, `expected a non-empty ${what}`).max(64, `expected a ${what} of at most 64 characters`)
+      .regex(ID, `expected a ${what} of letters, digits, '.', '_' or '-'`),
+  );
+
+/** A file name relative to the part folder; path safety is checked when the file is opened. */
+const fileName = z.string().min(1, 'expected a file name').max(255, 'expected a file name of at most 255 characters');
+
+export const PART_KINDS = ['quartz-at', 'quartz-tuning-fork', 'ceramic', 'saw', 'other'] as const;
+export const FIXTURES = ['reflection', 'series-thru', 'shunt-thru', 'impedance'] as const;
+
+const freeText = (max: number) => z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(z.string().max(max, `expected at most ${max} characters`));
+
+export const DatasheetSchema = z.object({
+  /** Nominal frequency, Hz. */
+  frequency: quantity('frequency', { positive: true }).optional(),
+  /** Frequency tolerance at 25 °C and the stated load capacitance, ppm. */
+  tolerance: quantity('ppm').optional(),
+  /** Frequency stability over the operating range, ppm. */
+  stability: quantity('ppm').optional(),
+  /** Load capacitance, F, or 'series' for series-resonant calibration. */
+  loadCapacitance: z.union([z.literal('series'), quantity('capacitance', { positive: true })]).optional(),
+  /** Maximum ESR, Ω. */
+  esrMax: quantity('resistance', { positive: true }).optional(),
+  /** Maximum shunt capacitance, F. */
+  c0Max: quantity('capacitance', { positive: true }).optional(),
+  /** Maximum drive level, W. */
+  driveMax: quantity('power', { positive: true }).optional(),
+  /** Intended overtone order: 1 fundamental, 3, 5, ... */
+  overtone: z.number().int('expected an odd whole number (1, 3, 5, ...)').positive().refine((n) => n % 2 === 1, 'expected an odd overtone order (1, 3, 5, ...)').optional(),
+  /** Operating temperature range, °C. */
+  operatingRange: temperatureRange().optional(),
+});
+
+export const SweepRefSchema = z.object({
+  file: fileName,
+  fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }),
+  /** Reference impedance, Ω (Touchstone files carry their own). */
+  referenceImpedance: quantity('resistance', { positive: true }).optional(),
+  /** A known capacitor added during this sweep, F. */
+  addedCapacitance: quantity('capacitance', { positive: true }).optional(),
+  addedConnection: z.enum(['parallel', 'series'], { message: 'expected parallel or series' }).optional(),
+  /** Temperature during this sweep, °C (overrides the sample's). */
+  temperature: quantity('temperature').optional(),
+  /** Drive level during this sweep, W. */
+  drive: quantity('power', { positive: true }).optional(),
+}).superRefine((sweep, ctx) => {
+  if (sweep.addedConnection && sweep.addedCapacitance === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['addedConnection'], message: 'addedConnection needs addedCapacitance' });
+  }
+});
+
+export const CompensationSchema = z.object({
+  open: fileName.optional(),
+  short: fileName.optional(),
+  /** Optional load standard sweep and its true impedance (open/short/load correction). */
+  load: fileName.optional(),
+  loadResistance: quantity('resistance', { positive: true }).optional(),
+  /** Fixture of the compensation sweeps; defaults to the first sweep's fixture. */
+  fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }).optional(),
+}).superRefine((c, ctx) => {
+  if ((c.open === undefined) !== (c.short === undefined)) {
+    ctx.addIssue({ code: 'custom', path: [c.open === undefined ? 'open' : 'short'], message: 'open and short compensation sweeps go together' });
+  }
+  if (c.load !== undefined && c.loadResistance === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['loadResistance'], message: 'a load sweep needs loadResistance, e.g. "50 ohm"' });
+  }
+});
+
+const isoDate = z.union([z.string(), z.date()]).transform((v, ctx) => {
+  const text = v instanceof Date ? v.toISOString().slice(0, 10) : v;
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(text) || Number.isNaN(Date.parse(text))) {
+    ctx.addIssue({ code: 'custom', message: `expected an ISO date such as 2026-05-02, got "${text}"` });
+    return z.NEVER;
+  }
+  return text;
+});
+
+export const SampleSchema = z.object({
+  id: idString('sample id'),
+  lot: freeText(200).optional(),
+  measured: isoDate.optional(),
+  by: freeText(200).optional(),
+  instrument: freeText(200).optional(),
+  /** Above this frequency the instrument's data are flagged, not trusted, Hz. */
+  instrumentMaxFrequency: quantity('frequency', { positive: true }).optional(),
+  /** Default temperature of this sample's sweeps, °C. */
+  temperature: quantity('temperature').optional(),
+  compensation: CompensationSchema.optional(),
+  sweeps: z.array(SweepRefSchema).min(1, 'expected at least one sweep'),
+});
+
+export const PartSchema = z.object({
+  id: idString('part id'),
+  title: freeText(200).pipe(z.string().min(1, 'expected a title')),
+  kind: z.enum(PART_KINDS, { message: `expected one of ${PART_KINDS.join(', ')}` }),
+  package: freeText(100).optional(),
+  supplier: freeText(200).optional(),
+  supplierPart: freeText(200).optional(),
+  notes: freeText(20_000).optional(),
+  /** Free text; the demo marks its records `synthetic: true`. */
+  synthetic: z.boolean().optional(),
+  datasheet: DatasheetSchema.optional(),
+  samples: z.array(SampleSchema).min(1, 'expected at least one sample'),
+}).superRefine((part, ctx) => {
+  const seen = new Map<string, number>();
+  part.samples.forEach((s, i) => {
+    if (seen.has(s.id)) ctx.addIssue({ code: 'custom', path: ['samples', i, 'id'], message: `duplicate sample id "${s.id}" (also samples[${seen.get(s.id)}])` });
+    else seen.set(s.id, i);
+  });
+});
+
+export type Part = z.output<typeof PartSchema>;
+export type Sample = z.output<typeof SampleSchema>;
+export type SweepRef = z.output<typeof SweepRefSchema>;
+export type Datasheet = z.output<typeof DatasheetSchema>;
+export type PartKind = (typeof PART_KINDS)[number];
+export type Fixture = (typeof FIXTURES)[number];
+
+/** Keys the schema knows, per object level, for unknown-key warnings. */
+export const KNOWN_KEYS = {
+  part: ['id', 'title', 'kind', 'package', 'supplier', 'supplierPart', 'notes', 'synthetic', 'datasheet', 'samples'],
+  datasheet: Object.keys(DatasheetSchema.shape),
+  sample: Object.keys(SampleSchema.shape),
+  sweep: ['file', 'fixture', 'referenceImpedance', 'addedCapacitance', 'addedConnection', 'temperature', 'drive'],
+  compensation: ['open', 'short', 'load', 'loadResistance', 'fixture'],
+} as const;

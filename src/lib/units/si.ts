@@ -1,0 +1,162 @@
+/**
+ * SI quantities as written in part records: `12 MHz`, `12MHz`, `12e6 Hz`, `8 pF`, `80 ohm`,
+ * `80 Ω`, `100 uW`, `100 µW`, `10 ppm`, `25 C`, `25 °C`, and ranges `-40 to 85 C`.
+ * Values come back in SI base units (Hz, F, Ω, W, H, S, V, A, °C; ppm as a plain number of ppm).
+ */
+
+/** The dimensions a record field can ask for. */
+export type UnitKind =
+  | 'frequency'
+  | 'capacitance'
+  | 'resistance'
+  | 'inductance'
+  | 'power'
+  | 'temperature'
+  | 'ppm'
+  | 'conductance'
+  | 'voltage'
+  | 'current'
+  | 'time';
+
+interface UnitDef {
+  kind: UnitKind;
+  /** Accepted spellings, case-sensitive (prefix case matters: m vs M). */
+  symbols: string[];
+  /** Whether SI prefixes are allowed. */
+  prefixed: boolean;
+}
+
+const UNITS: UnitDef[] = [
+  { kind: 'frequency', symbols: ['Hz', 'hz', 'HZ'], prefixed: true },
+  { kind: 'capacitance', symbols: ['F'], prefixed: true },
+  { kind: 'resistance', symbols: ['ohm', 'Ohm', 'ohms', 'Ohms', 'Ω', 'Ω', 'R'], prefixed: true },
+  { kind: 'inductance', symbols: ['H'], prefixed: true },
+  { kind: 'power', symbols: ['W'], prefixed: true },
+  { kind: 'conductance', symbols: ['S', 'A/V'], prefixed: true },
+  { kind: 'voltage', symbols: ['V', 'Vpp', 'Vrms'], prefixed: true },
+  { kind: 'current', symbols: ['A'], prefixed: true },
+  { kind: 'time', symbols: ['s'], prefixed: true },
+  { kind: 'temperature', symbols: ['C', '°C', 'degC', '℃'], prefixed: false },
+  { kind: 'ppm', symbols: ['ppm'], prefixed: false },
+];
+
+const PREFIXES: Record<string, number> = {
+  f: 1e-15, p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, μ: 1e-6, m: 1e-3,
+  '': 1, k: 1e3, K: 1e3, M: 1e6, MEG: 1e6, G: 1e9, T: 1e12,
+};
+
+/** What a unit kind is called in messages, with an example. */
+export const UNIT_HINT: Record<UnitKind, string> = {
+  frequency: 'a frequency such as "12 MHz"',
+  capacitance: 'a capacitance such as "8 pF"',
+  resistance: 'a resistance such as "80 ohm"',
+  inductance: 'an inductance such as "10 mH"',
+  power: 'a power such as "100 uW"',
+  temperature: 'a temperature such as "25 C"',
+  ppm: 'a relative value such as "10 ppm"',
+  conductance: 'a transconductance such as "5 mA/V" or "5 mS"',
+  voltage: 'a voltage such as "3.3 V"',
+  current: 'a current such as "1 mA"',
+  time: 'a time such as "1 ms"',
+};
+
+export type ParseResult = { ok: true; value: number } | { ok: false; message: string };
+
+const NUMBER = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*)$/;
+
+/** Split a unit token into prefix multiplier and unit definition, or undefined. */
+function resolveUnit(token: string): { mult: number; def: UnitDef } | undefined {
+  for (const def of UNITS) {
+    for (const sym of def.symbols) {
+      if (token === sym) return { mult: 1, def };
+      if (!def.prefixed || !token.endsWith(sym)) continue;
+      const prefix = token.slice(0, token.length - sym.length);
+      if (prefix in PREFIXES) return { mult: PREFIXES[prefix], def };
+    }
+  }
+  // Case-insensitive fall-back for "OHM", "kOhm" and "mhz"-style spellings of unambiguous units.
+  const lower = token.toLowerCase();
+  for (const [suffix, def] of [['ohms', UNITS[2]], ['ohm', UNITS[2]], ['hz', UNITS[0]]] as const) {
+    if (!lower.endsWith(suffix)) continue;
+    const prefix = token.slice(0, token.length - suffix.length);
+    const mult = PREFIXES[prefix] ?? (prefix === 'K' || prefix === 'k' ? 1e3 : prefix.toLowerCase() === 'meg' ? 1e6 : undefined);
+    if (mult !== undefined) return { mult, def };
+  }
+  return undefined;
+}
+
+/** Describe what was found for messages: `"8 pF" (a capacitance)`. */
+function describe(text: string, found?: UnitKind): string {
+  return found ? `"${text}" (a ${found === 'ppm' ? 'ppm value' : found})` : `"${text}"`;
+}
+
+/**
+ * Parse one quantity of the expected kind. A bare number is refused (units are required),
+ * except for `ppm` where a bare number is read as ppm.
+ */
+export function parseQuantity(text: string, expected: UnitKind): ParseResult {
+  const trimmed = String(text).trim();
+  const m = NUMBER.exec(trimmed);
+  if (!m) return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ${describe(trimmed)}` };
+  const value = Number(m[1]);
+  const unitText = m[2].trim();
+  if (!Number.isFinite(value)) return { ok: false, message: `expected a finite number, got "${trimmed}"` };
+  if (unitText === '') {
+    if (expected === 'ppm') return { ok: true, value };
+    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got "${trimmed}" with no unit` };
+  }
+  const unit = resolveUnit(unitText);
+  if (!unit) return { ok: false, message: `expected ${UNIT_HINT[expected]}, got unknown unit "${unitText}" in "${trimmed}"` };
+  if (unit.def.kind !== expected) {
+    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ${describe(trimmed, unit.def.kind)}` };
+  }
+  // Divide by the inverse for sub-unit prefixes: 100 / 1e6 is exactly 1e-4, 100 * 1e-6 is not.
+  const scaled = unit.mult < 1 ? value / Math.round(1 / unit.mult) : value * unit.mult;
+  return { ok: true, value: scaled };
+}
+
+export type RangeResult = { ok: true; min: number; max: number } | { ok: false; message: string };
+
+/** Parse a range such as `-40 to 85 C`, `-40 C to 85 C`, `-40..85 C`. */
+export function parseQuantityRange(text: string, expected: UnitKind): RangeResult {
+  const trimmed = String(text).trim();
+  const m = /^(.+?)\s*(?:\bto\b|\.\.|…)\s*(.+)$/.exec(trimmed);
+  if (!m) return { ok: false, message: `expected a range such as "-40 to 85 C", got "${trimmed}"` };
+  const hi = parseQuantity(m[2], expected);
+  if (!hi.ok) return hi;
+  let lo = parseQuantity(m[1], expected);
+  if (!lo.ok && NUMBER.exec(m[1].trim())?.[2] === '') {
+    // Unit given once at the end: borrow it for the lower bound.
+    const unit = NUMBER.exec(m[2].trim())?.[2] ?? '';
+    lo = parseQuantity(`${m[1].trim()} ${unit}`, expected);
+  }
+  if (!lo.ok) return lo;
+  if (!(lo.value < hi.value)) return { ok: false, message: `expected the lower bound first, got "${trimmed}"` };
+  return { ok: true, min: lo.value, max: hi.value };
+}
+
+const FORMAT_PREFIXES: Array<[number, string]> = [
+  [1e12, 'T'], [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''], [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'], [1e-18, 'a'],
+];
+
+/**
+ * Format a value in engineering notation with `digits` significant digits: formatSi(1.2e7, 'Hz') → "12 MHz".
+ * Trailing zeros are kept only when `fixed` is true.
+ */
+export function formatSi(value: number, unit: string, digits = 4, fixed = false): string {
+  if (!Number.isFinite(value)) return `— ${unit}`;
+  if (value === 0) return `0 ${unit}`;
+  const abs = Math.abs(value);
+  let [scale, prefix] = FORMAT_PREFIXES[FORMAT_PREFIXES.length - 1];
+  for (const [s, p] of FORMAT_PREFIXES) {
+    if (abs >= s * 0.9999999999) { scale = s; prefix = p; break; }
+  }
+  let mantissa = (value / scale).toPrecision(digits);
+  if (Math.abs(Number(mantissa)) >= 1000 && scale < 1e12) {
+    const idx = FORMAT_PREFIXES.findIndex(([s]) => s === scale);
+    [scale, prefix] = FORMAT_PREFIXES[idx - 1];
+    mantissa = (value / scale).toPrecision(digits);
+  }
+  if (!fixed && mantissa.includes('.') && !mantissa.includes('e')) mantissa = mantissa.replace(/\.?0+$/, '');
+  return `${mantissa} ${prefix}${unit}`;
+}
