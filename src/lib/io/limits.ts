@@ -84,3 +84,43 @@ export function quoteToken(token: string, max = 40): string {
   const t = token.length > max ? `${token.slice(0, max)}…` : token;
   return `'${t}'`;
 }
+
+// ---- decimal text helpers shared by the readers and writers
+
+/**
+ * Value of a decimal number text times 10^k, correctly rounded (the shift is done on the
+ * text, so `32.760` kHz gives exactly 32760 Hz, not 32759.999999999996). The text must be a
+ * valid decimal (sign, digits, point, exponent).
+ */
+export function parseScaledDecimal(s: string, k: number): number {
+  if (k === 0) return Number(s);
+  const e = s.search(/[eE]/);
+  return e < 0 ? Number(`${s}e${k}`) : Number(`${s.slice(0, e)}e${Number(s.slice(e + 1)) + k}`);
+}
+
+/**
+ * Decimal text of x·10^k, written from the shortest round-trip form of x by moving the point
+ * (so `parseScaledDecimal(shiftDecimalText(x, -6), 6) === x` for every finite x).
+ */
+export function shiftDecimalText(x: number, k: number): string {
+  const s = Object.is(x, -0) ? '0' : String(x);
+  if (k === 0) return s;
+  const e = s.indexOf('e');
+  if (e >= 0) return `${s.slice(0, e)}e${Number(s.slice(e + 1)) + k}`;
+  const sign = s[0] === '-' ? '-' : '';
+  const body = sign ? s.slice(1) : s;
+  const dot = body.indexOf('.');
+  const ip = dot < 0 ? body : body.slice(0, dot);
+  const fp = dot < 0 ? '' : body.slice(dot + 1);
+  let digits = ip + fp;
+  let point = ip.length + k;
+  if (point <= 0) {
+    digits = '0'.repeat(1 - point) + digits;
+    point = 1;
+  }
+  if (point >= digits.length) digits += '0'.repeat(point - digits.length);
+  const intPart = digits.slice(0, point).replace(/^0+(?=\d)/, '');
+  const frac = digits.slice(point).replace(/0+$/, '');
+  const out = frac ? `${intPart}.${frac}` : intPart;
+  return /^0(\.0*)?$/.test(out) ? '0' : sign + out;
+}

@@ -31,6 +31,7 @@ import {
   MAX_ISSUES_PER_FILE,
   normalizeSweepLimits,
   quoteToken,
+  shiftDecimalText,
   type SweepLimits,
   type SweepReadOptions,
 } from './limits.ts';
@@ -40,7 +41,7 @@ export type TouchstoneFormat = 'RI' | 'MA' | 'DB';
 /** Frequency unit of a Touchstone file. */
 export type TouchstoneFreqUnit = 'Hz' | 'kHz' | 'MHz' | 'GHz';
 
-const UNIT_MULT: Record<string, number> = { hz: 1, khz: 1e3, mhz: 1e6, ghz: 1e9 };
+const UNIT_EXP: Record<string, number> = { hz: 0, khz: 3, mhz: 6, ghz: 9 };
 const UNIT_NAME: Record<string, TouchstoneFreqUnit> = { hz: 'Hz', khz: 'kHz', mhz: 'MHz', ghz: 'GHz' };
 /** Exact powers of ten for the fast number path. */
 const POW10 = Array.from({ length: 23 }, (_, i) => Number(`1e${i}`));
@@ -81,6 +82,7 @@ class TouchstoneReader {
   private options: Options = { unit: 'ghz', parameter: 'S', format: 'MA', refOhm: 50 };
   private optionLine = 0;
   private ports = 0;
+  private portsKeywordSeen = false;
   private twoPortOrder: '12_21' | '21_12' | '' = '';
   private matrixFormat: 'full' | 'lower' | 'upper' = 'full';
   private numFreq = -1;
@@ -99,18 +101,18 @@ class TouchstoneReader {
   // output buffers
   private cap = 0;
   private count = 0;
-  private freqHz = new Float64Array(0);
+  private freqHz: Float64Array = new Float64Array(0);
   private re: Float64Array[] = [];
   private im: Float64Array[] = [];
 
   // point being assembled over continuation lines
-  private pending = new Float64Array(LINE_VALUES_CAP);
+  private pending: Float64Array = new Float64Array(LINE_VALUES_CAP);
   private pendingCount = 0;
   private pendingLine = 0;
   private pendingLines = 0;
 
   // scratch of the line scanner
-  private lineVals = new Float64Array(LINE_VALUES_CAP);
+  private lineVals: Float64Array = new Float64Array(LINE_VALUES_CAP);
   private badStart = -1;
   private badEnd = -1;
 
@@ -214,12 +216,12 @@ class TouchstoneReader {
     for (let i = 0; i < tokens.length; i++) {
       const tok = tokens[i];
       const k = tok.toLowerCase();
-      if (k in UNIT_MULT) {
+      if (k in UNIT_EXP) {
         if (once('frequency unit', tok)) this.options.unit = k;
       } else if (k === 's' || k === 'y' || k === 'z') {
         if (once('parameter', tok)) this.options.parameter = k.toUpperCase() as Options['parameter'];
       } else if (k === 'h' || k === 'g') {
-        this.fatal(lineNo, `${k}-parameter data is not supported (expected S, Z or Y)`, 'parameter');
+        this.fatal(lineNo, `${k.toUpperCase()}-parameter data is not supported (expected S, Z or Y)`, 'parameter');
         return;
       } else if (k === 'ri' || k === 'ma' || k === 'db') {
         if (once('format', tok)) this.options.format = k.toUpperCase() as TouchstoneFormat;
@@ -266,8 +268,14 @@ class TouchstoneReader {
         return;
       }
       this.decideVersion(true);
-    } else if (this.version === 1) {
-      this.issue(lineNo, `keyword ${shown} in a Touchstone 1 file (a Touchstone 2 file starts with [Version] 2.0)`, 'keyword');
+      if (!/^2\.\d+$/.test(arg)) this.fatal(lineNo, `[Version]: expected 2.0 or 2.1, got ${quoteToken(arg)}`, 'version');
+      return;
+    }
+    if (this.version === 1) {
+      const msg = name === 'version'
+        ? '[Version] must be the first line that is not a comment'
+        : `keyword ${shown} in a Touchstone 1 file (a Touchstone 2 file starts with [Version] 2.0)`;
+      this.issue(lineNo, msg, 'keyword');
       return;
     }
     if (this.referenceWanted > 0) this.referenceIncomplete();
@@ -278,17 +286,14 @@ class TouchstoneReader {
     if (this.phase === 'network') this.flushPending();
     switch (name) {
       case 'version':
-        if (this.optionLine > 0 || this.ports > 0 && this.numFreq >= 0) {
-          this.issue(lineNo, '[Version] must be the first keyword', 'keyword');
-        } else if (!/^2\.\d+$/.test(arg)) {
-          this.fatal(lineNo, `[Version]: expected 2.0 or 2.1, got ${quoteToken(arg)}`, 'version');
-        }
+        this.issue(lineNo, 'second [Version]', 'keyword');
         break;
       case 'number of ports': {
         const n = this.positiveInt(arg, shown, lineNo);
         if (n === undefined) return;
         if (n > 2) this.fatal(lineNo, `${n}-port data is not supported (at most 2 ports; [Number of Ports] is ${n})`, 'ports');
         else this.ports = n;
+        this.portsKeywordSeen = true;
         break;
       }
       case 'two-port data order': {
@@ -309,7 +314,7 @@ class TouchstoneReader {
         this.positiveInt(arg, shown, lineNo);
         break;
       case 'reference':
-        if (this.ports === 0) {
+        if (!this.portsKeywordSeen) {
           this.issue(lineNo, '[Reference] before [Number of Ports]', 'keyword');
           return;
         }
@@ -387,8 +392,8 @@ class TouchstoneReader {
       this.issue(lineNo, 'second [Network Data]', 'keyword');
       return;
     }
-    if (this.ports === 0) {
-      this.fatal(lineNo, 'missing [Number of Ports] before [Network Data]', 'keyword');
+    if (!this.portsKeywordSeen) {
+      this.fatal(lineNo, 'missing [Number of Ports] before [Network Data] (required in Touchstone 2)', 'keyword');
       return;
     }
     if (this.ports === 2 && this.twoPortOrder === '') {
@@ -437,7 +442,8 @@ class TouchstoneReader {
       return;
     }
     this.decideVersion(false);
-    const count = this.scanNumbers(p, le);
+    // a line that starts a point begins with the frequency: scale it to Hz on the text
+    const count = this.scanNumbers(p, le, this.pendingCount === 0 ? UNIT_EXP[this.options.unit] : 0);
     if (this.badStart >= 0) {
       this.badToken(lineNo);
       this.pendingCount = 0;
@@ -456,16 +462,16 @@ class TouchstoneReader {
       this.setLayout();
       this.phase = 'network';
     }
-    this.addLine(count, lineNo);
+    this.addLine(count, lineNo, p, le);
   }
 
-  private addLine(count: number, lineNo: number): void {
+  private addLine(count: number, lineNo: number, p: number, le: number): void {
     const need = this.perPoint;
     const vals = this.lineVals;
     if (this.pendingCount === 0) {
       // a new point starts on this line
       const f = vals[0];
-      if (this.version === 1 && this.ports === 2 && this.count > 0 && count === 5 && f * UNIT_MULT[this.options.unit] <= this.freqHz[this.count - 1]) {
+      if (this.version === 1 && this.ports === 2 && this.count > 0 && count === 5 && f <= this.freqHz[this.count - 1]) {
         this.phase = 'noise'; // v1 two-port noise block
         return;
       }
@@ -497,7 +503,8 @@ class TouchstoneReader {
     }
     // the wrapped point does not end at a line end: report it, then read this line afresh
     this.reportShortPoint();
-    this.addLine(count, lineNo);
+    this.scanNumbers(p, le, UNIT_EXP[this.options.unit]);
+    this.addLine(count, lineNo, p, le);
   }
 
   /** Report the point being assembled as short and drop it. */
@@ -512,14 +519,14 @@ class TouchstoneReader {
   }
 
   private commit(vals: Float64Array, lineNo: number): void {
-    const f = vals[0] * UNIT_MULT[this.options.unit];
+    const f = vals[0];
     const i = this.count;
     if (f < 0) {
-      this.issue(lineNo, `negative frequency ${vals[0]}`, 'frequency');
+      this.issue(lineNo, `negative frequency ${f} Hz`, 'frequency');
       return;
     }
     if (i > 0 && !(f > this.freqHz[i - 1])) {
-      this.issue(lineNo, `frequency ${vals[0]} is not above the previous one (${this.freqHz[i - 1] / UNIT_MULT[this.options.unit]}); frequencies must rise`, 'frequency');
+      this.issue(lineNo, `frequency ${f} Hz is not above the previous one (${this.freqHz[i - 1]} Hz); frequencies must rise`, 'frequency');
       return;
     }
     if (i >= this.limits.maxPoints) {
@@ -578,10 +585,11 @@ class TouchstoneReader {
 
   /**
    * Scan the numbers of one line (up to a `!`), storing up to LINE_VALUES_CAP of them in
-   * lineVals. Returns how many there are; sets badStart/badEnd to the first token that is
-   * not a finite decimal number (or −1).
+   * lineVals; the first is multiplied by 10^shift on its decimal text (frequency unit).
+   * Returns how many there are; sets badStart/badEnd to the first token that is not a
+   * finite decimal number (or −1).
    */
-  private scanNumbers(p: number, le: number): number {
+  private scanNumbers(p: number, le: number, shift: number): number {
     const t = this.text;
     const vals = this.lineVals;
     let count = 0;
@@ -618,6 +626,7 @@ class TouchstoneReader {
       }
       let ok = nd > 0;
       let e = 0;
+      const ePos = p;
       if (ok && (c === 101 || c === 69)) {
         c = t.charCodeAt(++p);
         let eneg = false;
@@ -638,12 +647,13 @@ class TouchstoneReader {
       if (!(c === 32 || c === 9 || c === 13 || c === 12 || c === 10 || c === 33 || c !== c)) ok = false;
       let v = 0;
       if (ok) {
-        const e10 = e - frac;
+        const k = count === 0 ? shift : 0;
+        const e10 = e - frac + k;
         if (nd <= 15 && e10 >= -22 && e10 <= 22) {
           v = e10 < 0 ? m / POW10[-e10] : m * POW10[e10];
           if (neg) v = -v;
         } else {
-          v = Number(t.slice(start, p));
+          v = k === 0 ? Number(t.slice(start, p)) : Number(`${t.slice(start, ePos)}e${e + k}`);
           if (!Number.isFinite(v)) ok = false;
         }
       }
@@ -669,8 +679,8 @@ class TouchstoneReader {
     if (!this.stop) {
       if (this.referenceWanted > 0) this.referenceIncomplete();
       if (this.phase === 'network') this.flushPending();
-      if (this.version === 2 && this.phase !== 'end' && this.phase !== 'header') {
-        this.issue(lastLine, 'missing [End] at the end of a Touchstone 2 file', 'keyword');
+      if (this.version === 2 && this.phase === 'header') {
+        this.issue(lastLine, 'missing [Network Data] in a Touchstone 2 file', 'keyword');
       }
       if (this.count === 0 && this.issues.length === 0) {
         this.issue(undefined, 'no network data (expected rows of a frequency followed by values)', 'empty');
@@ -714,7 +724,7 @@ export interface FormatTouchstoneOptions {
 /**
  * Write network data as Touchstone text with the shortest round-trip decimal form of every
  * number (17 significant digits at most, so reading it back gives the same doubles; the
- * frequency is divided by the unit first). Canonical option line `# <unit> <param> <format> R <ohm>`.
+ * frequency's decimal point is moved for the unit, so it reads back exactly too). Canonical option line `# <unit> <param> <format> R <ohm>`.
  * v1 normalises Z and Y to R and needs equal reference impedances on both ports; v2 writes
  * `[Reference]` per port, two-port order 12_21, and Z/Y in ohm/siemens.
  * @throws Error when v1 is asked for unequal port reference impedances
@@ -723,7 +733,7 @@ export function formatTouchstone(data: NetworkData, opts: FormatTouchstoneOption
   const version = opts.version ?? 1;
   const format = opts.format ?? 'RI';
   const unit = opts.freqUnit ?? 'Hz';
-  const mult = UNIT_MULT[unit.toLowerCase()];
+  const unitExp = UNIT_EXP[unit.toLowerCase()];
   const P = data.ports;
   const ref = data.z0Ohm[0];
   if (version === 1 && data.z0Ohm.some((z) => z !== ref)) {
@@ -746,7 +756,7 @@ export function formatTouchstone(data: NetworkData, opts: FormatTouchstoneOption
   }
   const n = data.freqHz.length;
   for (let i = 0; i < n; i++) {
-    let row = num(data.freqHz[i] / mult);
+    let row = shiftDecimalText(data.freqHz[i], -unitExp);
     for (const k of order) {
       const x = data.re[k][i] * scale;
       const y = data.im[k][i] * scale;

@@ -105,7 +105,12 @@ export function parseQuantity(text: string, expected: UnitKind): ParseResult {
     if (expected === 'ppm') return { ok: true, value };
     return { ok: false, message: `expected ${UNIT_HINT[expected]}, got "${trimmed}" with no unit` };
   }
-  const unit = resolveUnit(unitText);
+  // "mhz" is how MHz is often typed (Touchstone and the CSV reader take units case-insensitively);
+  // "mHz" is millihertz by SI, which no resonator record means: refused rather than guessed.
+  if (unitText === 'mHz' || unitText === 'mHZ') {
+    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ambiguous unit "${unitText}" in "${trimmed}" (write MHz for megahertz)` };
+  }
+  const unit = unitText === 'mhz' ? { mult: 1e6, def: UNITS[0] } : resolveUnit(unitText);
   if (!unit) return { ok: false, message: `expected ${UNIT_HINT[expected]}, got unknown unit "${unitText}" in "${trimmed}"` };
   if (unit.def.kind !== expected) {
     return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ${describe(trimmed, unit.def.kind)}` };

@@ -1,0 +1,78 @@
+// Astro configuration of the catalogue site: static output, no inline scripts or styles
+// (the pages carry a strict Content-Security-Policy).
+//
+// Environment:
+//   MOTIONAL_BASE      base path the site is served under (default '/')
+//   MOTIONAL_SITE_OUT  output folder (default 'dist')
+//   MOTIONAL_DATA      generated catalogue data, read at build time (default '.motional/catalogue')
+//
+// The generated data folder holds index.json, compare/<id>.json and downloads/<id>/…; the
+// integration below copies them into the output as data/index.json, data/compare/ and
+// downloads/ (byte for byte), and serves them from the data folder in `astro dev`.
+import { defineConfig } from 'astro/config';
+import { cpSync, createReadStream, existsSync, mkdirSync, rmSync, statSync } from 'node:fs';
+import { join, normalize, resolve, sep } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const base = process.env.MOTIONAL_BASE || '/';
+const outDir = process.env.MOTIONAL_SITE_OUT || 'dist';
+const dataDir = resolve(process.env.MOTIONAL_DATA || '.motional/catalogue');
+
+/** Site path prefix → folder or file in the data folder. */
+const COPIES = [
+  ['data/index.json', 'index.json'],
+  ['data/compare', 'compare'],
+  ['downloads', 'downloads'],
+];
+
+function catalogueData() {
+  return {
+    name: 'motional-catalogue-data',
+    hooks: {
+      'astro:build:done': ({ dir }) => {
+        const out = fileURLToPath(dir);
+        // Build leftovers of the content layer that a static site does not need.
+        for (const f of ['content-assets.mjs', 'content-modules.mjs']) rmSync(join(out, f), { force: true });
+        for (const [to, from] of COPIES) {
+          const src = join(dataDir, from);
+          if (!existsSync(src)) continue;
+          const dest = join(out, to);
+          mkdirSync(join(dest, '..'), { recursive: true });
+          cpSync(src, dest, { recursive: true });
+        }
+      },
+      'astro:server:setup': ({ server }) => {
+        const prefix = base.endsWith('/') ? base : `${base}/`;
+        server.middlewares.use((req, res, next) => {
+          const url = decodeURIComponent((req.url || '').split('?')[0]);
+          if (!url.startsWith(prefix)) return next();
+          const rel = url.slice(prefix.length);
+          const hit = COPIES.find(([to]) => rel === to || rel.startsWith(`${to}/`));
+          if (!hit) return next();
+          const file = normalize(join(dataDir, hit[1], rel.slice(hit[0].length)));
+          if (!file.startsWith(dataDir + sep) || !existsSync(file) || !statSync(file).isFile()) return next();
+          res.setHeader('Content-Type', file.endsWith('.json') ? 'application/json' : 'text/plain; charset=utf-8');
+          createReadStream(file).pipe(res);
+        });
+      },
+    },
+  };
+}
+
+export default defineConfig({
+  output: 'static',
+  base,
+  outDir,
+  trailingSlash: 'ignore',
+  build: {
+    format: 'directory',
+    inlineStylesheets: 'never',
+  },
+  devToolbar: { enabled: false },
+  integrations: [catalogueData()],
+  vite: {
+    build: {
+      assetsInlineLimit: 0,
+    },
+  },
+});

@@ -1,0 +1,8 @@
+// placeholder until its issue lands: this file will be overwritten by the `advise` command.
+import { EXIT_USAGE, processIo, type CliIo } from './io.ts';
+
+/** Run `advise` with the arguments after the command name. */
+export async function run(_args: string[], io: CliIo = processIo): Promise<number> {
+  io.err('motional advise: not yet available\n');
+  return EXIT_USAGE;
+}

@@ -1,0 +1,133 @@
+/**
+ * C0 from the capacitive region, away from every resonance.
+ *
+ * Lossless, Ceff(f) = Im Y/ω = C0 + Σk Ck/(1 − (f/fk)²) (FIELD.md §2a, [DERIVED]; IEC 60444-5
+ * has a dedicated C0 clause). A plain low-frequency reading gives C0 + ΣCk, and readings near
+ * a mode are biased, so the mode terms are kept: each Ck is fitted when the kept points lie
+ * on both sides of its mode (the terms are then well separated from the constant), else it is
+ * held at the given estimate. Points closer to a mode than `exclusion`/Q (relative) are dropped:
+ * there |X| < 2·exclusion·R1; beyond, the mode term is corrected for R1 when it is known.
+ * Input sweeps are of the part alone (added capacitors already removed, see part-alone.ts);
+ * a remaining fixture stray capacitance cannot be told from C0 here (FIELD.md §2f).
+ */
+import { linearLeastSquares } from './small-linalg.ts';
+
+/** A mode as known before C0: frequency, quality, and (if known) motional capacitance. */
+export interface C0ModeHint {
+  fsHz: number;
+  q: number;
+  /** Motional capacitance estimate, F; used when the data cannot fit it. */
+  c1F?: number;
+  /** Motional resistance estimate, Ω; with c1F it corrects the mode term for loss. */
+  r1Ohm?: number;
+}
+
+/** One sweep's admittance data (part alone). */
+export interface C0SweepInput {
+  freqHz: ArrayLike<number>;
+  gS: ArrayLike<number>;
+  bS: ArrayLike<number>;
+  source: string;
+  /** Frequencies at and above this are not used (untrusted instrument range), Hz. */
+  maxTrustedHz?: number;
+}
+
+/** Result of {@link estimateC0}; values finite when `ok`. */
+export interface C0Estimate {
+  ok: boolean;
+  reason: string;
+  c0F: number;
+  /** Standard uncertainty, F. */
+  uncertaintyF: number;
+  /** Points used. */
+  points: number;
+  /** Motional capacitance per mode hint as used (fitted or held), F. */
+  branchCF: number[];
+  /** Which branch capacitances were fitted rather than held. */
+  fitted: boolean[];
+  sweeps: string[];
+}
+
+/** Options of {@link estimateC0}. */
+export interface C0EstimateOptions {
+  /** Keep points with |f/fk − 1| ≥ exclusion/Qk for every mode. Default 50. */
+  exclusion?: number;
+  /** Minimum number of usable points. Default 5. */
+  minPoints?: number;
+}
+
+/** Estimate C0 from the capacitive region of the given sweeps. */
+export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options: C0EstimateOptions = {}): C0Estimate {
+  const exclusion = options.exclusion ?? 50;
+  const minPoints = options.minPoints ?? 5;
+  const fail = (reason: string, points = 0): C0Estimate => ({ ok: false, reason, c0F: 0, uncertaintyF: 0, points, branchCF: [], fitted: [], sweeps: [] });
+  const fs: number[] = [];
+  const ceff: number[] = [];
+  const yOverW: number[] = [];
+  const used = new Set<string>();
+  for (const s of sweeps) {
+    for (let i = 0; i < s.freqHz.length; i++) {
+      const f = s.freqHz[i];
+      if (s.maxTrustedHz !== undefined && f >= s.maxTrustedHz) continue;
+      let near = false;
+      for (const m of modes) if (Math.abs(f / m.fsHz - 1) < exclusion / Math.max(m.q, 1)) { near = true; break; }
+      if (near) continue;
+      const w = 2 * Math.PI * f;
+      const c = s.bS[i] / w;
+      if (!Number.isFinite(c)) continue;
+      fs.push(f);
+      ceff.push(c);
+      yOverW.push(Math.hypot(s.gS[i], s.bS[i]) / w);
+      used.add(s.source);
+    }
+  }
+  if (fs.length < minPoints) return fail(`only ${fs.length} points lie away from the resonances (need ${minPoints}); sweep a wider span for C0`, fs.length);
+
+  // Fit Ck only when kept points lie on both sides of fk, with some above-lossless leverage.
+  const fitted = modes.map((m) => {
+    let below = 0;
+    let above = 0;
+    for (const f of fs) {
+      if (f < m.fsHz) below++; else above++;
+    }
+    return (below >= 2 && above >= 2) || m.c1F === undefined;
+  });
+  // Lossy branch: Im Yk/ω = Ck/(1 − (f/fk)²)·X²/(X² + R²); the factor is ≈ 1 away from fk.
+  const term = (f: number, m: C0ModeHint) => {
+    const lossless = 1 / (1 - (f / m.fsHz) ** 2);
+    if (!(m.r1Ohm! > 0) || !(m.c1F! > 0)) return lossless;
+    const x = -1 / (2 * Math.PI * f * m.c1F! * lossless);
+    return (lossless * x * x) / (x * x + m.r1Ohm! * m.r1Ohm!);
+  };
+  // Noise on Ceff is proportional to |Y|/ω; cap the weight where |Y| → 0 (anti-resonance).
+  const scale = ceff.reduce((a, b) => a + Math.abs(b), 0) / ceff.length;
+  const rows: number[][] = [];
+  const y: number[] = [];
+  const wts: number[] = [];
+  for (let i = 0; i < fs.length; i++) {
+    const row = [1];
+    let held = 0;
+    modes.forEach((m, k) => {
+      if (fitted[k]) row.push(term(fs[i], m));
+      else held += (m.c1F ?? 0) * term(fs[i], m);
+    });
+    rows.push(row);
+    y.push(ceff[i] - held);
+    wts.push(1 / (yOverW[i] + 0.1 * scale) ** 2);
+  }
+  const ls = linearLeastSquares(rows, y, wts);
+  if (!ls) return fail('capacitive-region fit is singular (mode terms cannot be separated from C0)', fs.length);
+  const c0F = ls.beta[0];
+  let col = 1;
+  const branchCF = modes.map((m, k) => (fitted[k] ? ls.beta[col++] : (m.c1F ?? 0)));
+  let u = Math.sqrt(Math.max(0, ls.covariance[0][0]));
+  // Held capacitances carry their own uncertainty (taken as 1 % of Ck, common practice),
+  // which moves C0 by the mean of the term.
+  modes.forEach((m, k) => {
+    if (fitted[k] || m.c1F === undefined) return;
+    const mean = fs.reduce((a, f) => a + term(f, m), 0) / fs.length;
+    u = Math.hypot(u, 0.01 * m.c1F * mean);
+  });
+  if (!(c0F > 0) || !Number.isFinite(u)) return fail(`capacitive-region fit gave a non-physical C0 (${c0F})`, fs.length);
+  return { ok: true, reason: 'ok', c0F, uncertaintyF: u, points: fs.length, branchCF, fitted, sweeps: [...used] };
+}

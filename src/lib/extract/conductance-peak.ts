@@ -1,0 +1,186 @@
+/**
+ * Conductance-peak method: fs, R1 and L1 from the shape of G = Re Y around a resonance.
+ *
+ * C0 only adds susceptance, so G is exactly the motional branch's conductance (FIELD.md §2b):
+ *   G = R1/(R1² + X²),  X = 2πL1·(f − fs²/f)
+ * hence h = 1/G = R1 + K·v² with v = f − fs²/f and K = (2πL1)²/R1: a parabola in v whose
+ * vertex is (fs, R1) and whose curvature gives L1. Gmax = 1/R1 sits exactly at fs [DERIVED;
+ * QCM usage R1 = 1/Gmax, Sensors 21(10):3490, 2021]. The model is fitted by Gauss–Newton
+ * on the points with G above a fraction of the peak, weighted for noise proportional to |Y|.
+ * Other branches' conductance tails are neglected (they are many orders smaller at a peak).
+ */
+import { invertSmall, propagate } from './small-linalg.ts';
+
+/** Result of the conductance-peak fit; values finite when `ok`. */
+export interface ConductancePeakResult {
+  ok: boolean;
+  reason: string;
+  fsHz: number;
+  r1Ohm: number;
+  l1H: number;
+  c1F: number;
+  q: number;
+  /** Half-power bandwidth fs/Q = R1/(2πL1), Hz. */
+  bandwidthHz: number;
+  /** Standard uncertainties (absent with no spare degrees of freedom). */
+  uncertainty?: { fsHz: number; r1Ohm: number; l1H: number; c1F: number; q: number };
+  /** Number of points used. */
+  points: number;
+  /** RMS of the weighted residual: misfit of G relative to |Y| (compare with the noise level). */
+  rmsRelative: number;
+}
+
+/** Options of {@link fitConductancePeak}. */
+export interface ConductancePeakOptions {
+  /** Use the contiguous points with G ≥ this fraction of the peak value. Default 0.2. */
+  minFraction?: number;
+  /** At least this many points around the peak (widened when fewer qualify). Default 5. */
+  minPoints?: number;
+}
+
+const FAIL = (reason: string, points = 0): ConductancePeakResult => ({
+  ok: false, reason, fsHz: 0, r1Ohm: 0, l1H: 0, c1F: 0, q: 0, bandwidthHz: 0, points, rmsRelative: 0,
+});
+
+/**
+ * Fit h = 1/G = R1 + (2πL1)²/R1·(f − fs²/f)² around the G peak at `peakIndex`.
+ * @param freqHz frequencies, Hz (rising)
+ * @param gS conductance of the part, S
+ * @param yAbsS |Y| of the part, S (sets the weights; noise taken proportional to |Y|)
+ */
+export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<number>, yAbsS: ArrayLike<number>, peakIndex: number, options: ConductancePeakOptions = {}): ConductancePeakResult {
+  const minFraction = options.minFraction ?? 0.2;
+  const minPoints = options.minPoints ?? 5;
+  const n = freqHz.length;
+  const gPeak = gS[peakIndex];
+  if (!(gPeak > 0)) return FAIL('no positive conductance at the peak');
+  let lo = peakIndex;
+  let hi = peakIndex;
+  while (lo > 0 && gS[lo - 1] >= minFraction * gPeak) lo--;
+  while (hi < n - 1 && gS[hi + 1] >= minFraction * gPeak) hi++;
+  while (hi - lo + 1 < minPoints && (lo > 0 || hi < n - 1)) {
+    if (lo > 0) lo--;
+    if (hi - lo + 1 < minPoints && hi < n - 1) hi++;
+  }
+  const m = hi - lo + 1;
+  if (m < 3) return FAIL('fewer than 3 points around the conductance peak', m);
+  const f0 = freqHz[peakIndex];
+  const x: number[] = []; // f − f0, Hz
+  const h: number[] = [];
+  const w: number[] = [];
+  for (let i = lo; i <= hi; i++) {
+    if (!(gS[i] > 0)) continue;
+    x.push(freqHz[i] - f0);
+    h.push(1 / gS[i]);
+    const y = Math.max(yAbsS[i], gS[i]);
+    w.push((gS[i] ** 4) / (y * y));
+  }
+  if (x.length < 3) return FAIL('fewer than 3 points with positive conductance around the peak', x.length);
+
+  // Start: weighted parabola in (f − f0), scaled by the span for conditioning.
+  const span = Math.max(Math.abs(x[0]), Math.abs(x[x.length - 1]), 1e-300);
+  const ata = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+  const aty = [0, 0, 0];
+  for (let i = 0; i < x.length; i++) {
+    const u = x[i] / span;
+    const row = [1, u, u * u];
+    for (let a = 0; a < 3; a++) {
+      aty[a] += w[i] * row[a] * h[i];
+      for (let b = 0; b < 3; b++) ata[a][b] += w[i] * row[a] * row[b];
+    }
+  }
+  const inv0 = invertSmall(ata);
+  if (!inv0) return FAIL('conductance peak too poorly sampled to fit', x.length);
+  const [pa, pb, pc] = inv0.map((r) => r[0] * aty[0] + r[1] * aty[1] + r[2] * aty[2]);
+  if (!(pc > 0)) return FAIL('conductance does not peak (no curvature) at the found maximum', x.length);
+  let delta = (-pb / (2 * pc)) * span; // fs − f0
+  let r1 = pa - (pb * pb) / (4 * pc);
+  let k = pc / (4 * span * span);
+  if (!(r1 > 0)) r1 = h.reduce((a, b) => Math.min(a, b), Infinity);
+
+  const evaluate = (d0: number, rr: number, kk: number) => {
+    const fs = f0 + d0;
+    let sse = 0;
+    const jac: number[][] = [];
+    const res: number[] = [];
+    for (let i = 0; i < x.length; i++) {
+      const d = x[i] - d0; // f − fs
+      const f = fs + d;
+      const v = (d * (2 * fs + d)) / f;
+      const model = rr + kk * v * v;
+      const r = h[i] - model;
+      res.push(r);
+      sse += w[i] * r * r;
+      jac.push([1, v * v, 2 * kk * v * (-2 * fs / f)]);
+    }
+    return { sse, jac, res };
+  };
+
+  let cur = evaluate(delta, r1, k);
+  let lambda = 1e-6;
+  for (let iter = 0; iter < 50; iter++) {
+    const a = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+    const g = [0, 0, 0];
+    for (let i = 0; i < x.length; i++) {
+      const J = cur.jac[i];
+      for (let p = 0; p < 3; p++) {
+        g[p] += w[i] * J[p] * cur.res[i];
+        for (let q = 0; q < 3; q++) a[p][q] += w[i] * J[p] * J[q];
+      }
+    }
+    let improved = false;
+    for (let tries = 0; tries < 12; tries++) {
+      const damped = a.map((row, i) => row.map((v, j) => (i === j ? v * (1 + lambda) : v)));
+      const inv = invertSmall(damped);
+      if (!inv) break;
+      const step = inv.map((row) => row[0] * g[0] + row[1] * g[1] + row[2] * g[2]);
+      const next = evaluate(delta + step[2], r1 + step[0], k + step[1]);
+      if (next.sse <= cur.sse && r1 + step[0] > 0 && k + step[1] > 0) {
+        const gain = cur.sse - next.sse;
+        delta += step[2]; r1 += step[0]; k += step[1];
+        cur = next;
+        lambda = Math.max(lambda / 10, 1e-12);
+        improved = gain > 1e-15 * next.sse && next.sse > 0;
+        break;
+      }
+      lambda *= 10;
+    }
+    if (!improved) break;
+  }
+
+  const fsHz = f0 + delta;
+  const l1H = Math.sqrt(k * r1) / (2 * Math.PI);
+  const ws = 2 * Math.PI * fsHz;
+  const c1F = 1 / (ws * ws * l1H);
+  const q = (ws * l1H) / r1;
+  const bandwidthHz = fsHz / q;
+  if (![fsHz, r1, l1H, c1F, q].every((v) => Number.isFinite(v) && v > 0)) return FAIL('conductance-peak fit gave non-physical values', x.length);
+  if (Math.abs(delta) > 2 * span + bandwidthHz) return FAIL('conductance-peak vertex lies outside the fitted points', x.length);
+
+  let uncertainty: ConductancePeakResult['uncertainty'];
+  const dof = x.length - 3;
+  if (dof > 0) {
+    const a = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+    for (let i = 0; i < x.length; i++) {
+      const J = cur.jac[i];
+      for (let p = 0; p < 3; p++) for (let q2 = 0; q2 < 3; q2++) a[p][q2] += w[i] * J[p] * J[q2];
+    }
+    const inv = invertSmall(a);
+    if (inv) {
+      const s2 = cur.sse / dof;
+      const cov = inv.map((row) => row.map((v) => v * s2)); // order R, K, fs
+      // ln L1 = ½ ln K + ½ ln R − ln 2π; ln C1 = −2 ln fs − ln L1 + const; ln Q = ln fs + ln L1 − ln R.
+      const gL = [l1H / (2 * r1), l1H / (2 * k), 0];
+      const gC = [-c1F / (2 * r1), -c1F / (2 * k), -2 * c1F / fsHz];
+      const gQ = [q * (1 / (2 * r1) - 1 / r1), q / (2 * k), q / fsHz];
+      uncertainty = {
+        fsHz: Math.sqrt(Math.max(0, cov[2][2])),
+        r1Ohm: Math.sqrt(Math.max(0, cov[0][0])),
+        l1H: propagate(gL, cov),
+        c1F: propagate(gC, cov),
+        q: propagate(gQ, cov),
+      };
+    }
+  }
+  return { ok: true, reason: 'ok', fsHz, r1Ohm: r1, l1H, c1F, q, bandwidthHz, uncertainty, points: x.length, rmsRelative: Math.sqrt(cur.sse / x.length) };
+}

@@ -1,0 +1,234 @@
+/**
+ * Finding the resonances of one sweep of the part alone.
+ *
+ * A series resonance is a peak of the conductance G = Re Y (Gmax = 1/R1 exactly at fs; C0 only
+ * adds susceptance — FIELD.md §2b). Peaks are accepted by topographic prominence against a
+ * noise threshold estimated from the data (robust second differences of G relative to |Y|,
+ * since relative noise on Z is relative noise on Y), so noise wiggles on a resonance's flanks
+ * are not taken for modes. Each peak is then refined by the conductance-peak fit, and the
+ * zero-phase crossings above it (fr: B falls through 0, fa: B rises through 0; FIELD.md §1.3)
+ * and the |Z| maximum fn are located. Works unchanged for Q from a few hundred (ceramic) to
+ * 10⁵ and for tuning forks: nothing depends on the absolute frequency or bandwidth.
+ */
+import type { Diagnostic } from './types.ts';
+import type { AdmittanceSweep } from './part-alone.ts';
+import { fitConductancePeak, type ConductancePeakResult } from './conductance-peak.ts';
+import { crossingBetween, parabolaVertex } from './interpolate.ts';
+import { formatFrequency, formatFrequencyRange } from './format-frequency.ts';
+
+/** One series resonance seen in one sweep. */
+export interface Resonance {
+  /** Index of the sampled conductance maximum. */
+  peakIndex: number;
+  /** Best estimate of fs in this sweep (conductance-peak fit, else the sampled peak), Hz. */
+  fsHz: number;
+  /** 1/Gmax, Ω. */
+  r1Ohm: number;
+  /** Half-power bandwidth fs/Q, Hz (estimated from the sampled peak when the fit failed). */
+  bandwidthHz: number;
+  /** Local frequency step at the peak, Hz. */
+  stepHz: number;
+  /** Points per half-power bandwidth (bandwidth / step). */
+  pointsPerBandwidth: number;
+  /** The peak is not fully inside the sweep (at the first/last points, or a half-power point outside). */
+  atEdge: boolean;
+  /** The sampled maximum is the first or last point: the resonance may lie outside the sweep. */
+  atBoundary: boolean;
+  /** Two modes closer than the sweep can separate (merged peaks or a peak not shaped like one mode). */
+  unresolved: boolean;
+  /** The conductance-peak fit of this peak. */
+  conductance: ConductancePeakResult;
+  /** Lower zero-phase frequency above the peak (B falls through 0), Hz, when in the sweep. */
+  frHz?: number;
+  /** Upper zero-phase frequency (B rises through 0), Hz, when in the sweep. */
+  faHz?: number;
+  /** Maximum of |Z| between this peak and the next one, Hz, when inside the sweep. */
+  fnHz?: number;
+}
+
+/** All resonances of a sweep plus what was noticed on the way. */
+export interface FindResonancesResult {
+  resonances: Resonance[];
+  diagnostics: Diagnostic[];
+  /** Estimated relative noise of Y (≈ relative noise of Z), dimensionless. */
+  noiseRelative: number;
+}
+
+/** Options of {@link findResonances}. */
+export interface FindResonancesOptions {
+  /** Peaks need a prominence of this many noise standard deviations. Default 8. */
+  prominenceSigmas?: number;
+  /** …and at least this fraction of |Y| at the peak (rejects fixture ripple). Default 3e-3. */
+  minRelativeProminence?: number;
+}
+
+/** Noise floor assumed for perfect (synthetic, noiseless) data: −140 dB. */
+const NOISE_FLOOR = 1e-7;
+
+function median(values: number[]): number {
+  if (values.length === 0) return 0;
+  const s = [...values].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+/** Relative noise of Y from robust second differences of G and B (white noise: var(d²) = 6σ²). */
+function estimateNoise(g: Float64Array, b: Float64Array, yAbs: Float64Array): number {
+  const n = g.length;
+  if (n < 5) return NOISE_FLOOR;
+  const e: number[] = [];
+  for (let i = 1; i < n - 1; i++) {
+    const d2g = g[i + 1] - 2 * g[i] + g[i - 1];
+    const d2b = b[i + 1] - 2 * b[i] + b[i - 1];
+    e.push(Math.min(Math.abs(d2g), Math.abs(d2b)) / yAbs[i]);
+  }
+  // The smaller of two second differences is dominated by noise rather than curvature; for two
+  // independent normal values of spread s its median is 0.3755·s, and s = √6·σ.
+  return Math.max(NOISE_FLOOR, median(e) / 0.3755 / Math.sqrt(6));
+}
+
+/**
+ * Find every series resonance (and its anti-resonance, when swept) in a sweep of the part alone.
+ * A sweep with no resonance gives an error diagnostic saying what the sweep does show.
+ */
+export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOptions = {}): FindResonancesResult {
+  const { freqHz: f, gS: g, bS: b } = sweep;
+  const n = f.length;
+  const diagnostics: Diagnostic[] = [];
+  const yAbs = new Float64Array(n);
+  for (let i = 0; i < n; i++) yAbs[i] = Math.hypot(g[i], b[i]);
+  const noise = estimateNoise(g, b, yAbs);
+  const sigmas = options.prominenceSigmas ?? 8;
+  const minRel = options.minRelativeProminence ?? 3e-3;
+  const threshold = (i: number) => Math.max(sigmas * noise, minRel) * yAbs[i];
+
+  // Candidate maxima with enough prominence on both sides (a side reaching the sweep end counts).
+  const peaks: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const left = i > 0 ? g[i - 1] : -Infinity;
+    const right = i < n - 1 ? g[i + 1] : -Infinity;
+    if (!(g[i] > left && g[i] >= right) || n < 3) continue;
+    const thr = threshold(i);
+    if (!(g[i] > thr)) continue;
+    const sideOk = (dir: number) => {
+      let k = i + dir;
+      while (k >= 0 && k < n) {
+        if (g[k] > g[i]) return false;
+        if (g[k] < g[i] - thr) return true;
+        k += dir;
+      }
+      return true; // ran off the sweep: judged by the other side and flagged as at the edge
+    };
+    const lOk = sideOk(-1);
+    const rOk = sideOk(1);
+    if (!lOk || !rOk) continue;
+    // At least one side must really drop (not just run off the edge).
+    const drops = (dir: number) => {
+      for (let k = i + dir; k >= 0 && k < n; k += dir) if (g[k] < g[i] - thr) return true;
+      return false;
+    };
+    if (!drops(-1) && !drops(1)) continue;
+    peaks.push(i);
+  }
+
+  // Peaks within three samples of each other are one feature the sweep cannot separate.
+  const merged: Array<{ i: number; unresolved: boolean }> = [];
+  for (const p of peaks) {
+    const last = merged[merged.length - 1];
+    if (last && p - last.i < 3) {
+      if (g[p] > g[last.i]) last.i = p;
+      last.unresolved = true;
+    } else merged.push({ i: p, unresolved: false });
+  }
+
+  const resonances: Resonance[] = [];
+  for (let k = 0; k < merged.length; k++) {
+    const { i } = merged[k];
+    const next = k + 1 < merged.length ? merged[k + 1].i : n;
+    const step = i === 0 ? f[1] - f[0] : i === n - 1 ? f[n - 1] - f[n - 2] : 0.5 * (f[i + 1] - f[i - 1]);
+    const fit = fitConductancePeak(f, g, yAbs, i);
+    const atBoundary = i === 0 || i === n - 1;
+    let fsHz = f[i];
+    let r1Ohm = 1 / g[i];
+    let bandwidthHz: number;
+    if (fit.ok && !atBoundary) {
+      fsHz = fit.fsHz;
+      r1Ohm = fit.r1Ohm;
+      bandwidthHz = fit.bandwidthHz;
+    } else {
+      // Width of the sampled peak at half its height (at least one step).
+      let lo = i;
+      let hi = i;
+      while (lo > 0 && g[lo] >= g[i] / 2) lo--;
+      while (hi < n - 1 && g[hi] >= g[i] / 2) hi++;
+      bandwidthHz = Math.max(step, f[hi] - f[lo]);
+      if (!atBoundary) {
+        const v = parabolaVertex([f[i - 1], f[i], f[i + 1]], [1 / g[i - 1], 1 / g[i], 1 / g[i + 1]]);
+        if (v && v.y > 0 && v.y <= 1 / g[i] && Math.abs(v.x - f[i]) <= step) { fsHz = v.x; r1Ohm = v.y; }
+      }
+    }
+    const ppbw = bandwidthHz / step;
+    const fLow = fsHz - bandwidthHz / 2;
+    const fHigh = fsHz + bandwidthHz / 2;
+    const atEdge = atBoundary || i <= 1 || i >= n - 2 || fLow < f[0] || fHigh > f[n - 1];
+    // Peak shape: a lone mode fits the conductance model to the noise; two close modes do not.
+    const misfit = fit.ok && ppbw >= 4 && fit.rmsRelative > Math.max(20 * noise, 2e-3);
+    const res: Resonance = {
+      peakIndex: i, fsHz, r1Ohm, bandwidthHz, stepHz: step, pointsPerBandwidth: ppbw,
+      atEdge, atBoundary, unresolved: merged[k].unresolved || misfit, conductance: fit,
+    };
+    // Zero-phase crossings and |Z| maximum between this peak and the next.
+    let j = i;
+    while (j < next - 1 && !(b[j] > 0 && b[j + 1] <= 0)) j++;
+    if (j < next - 1 && b[j] > 0 && b[j + 1] <= 0) {
+      res.frHz = crossingBetween(f, b, j, 0);
+      let m = j + 1;
+      while (m < next - 1 && !(b[m] < 0 && b[m + 1] >= 0)) m++;
+      if (m < next - 1 && b[m] < 0 && b[m + 1] >= 0) res.faHz = crossingBetween(f, b, m, 0);
+    }
+    let best = -1;
+    for (let m = i + 1; m < next; m++) if (best < 0 || yAbs[m] < yAbs[best]) best = m;
+    if (best > i + 1 && best < Math.min(next, n) - 1 && best < n - 1) {
+      const v = parabolaVertex([f[best - 1], f[best], f[best + 1]], [yAbs[best - 1], yAbs[best], yAbs[best + 1]]);
+      res.fnHz = v && Math.abs(v.x - f[best]) <= f[best + 1] - f[best - 1] ? v.x : f[best];
+    }
+    resonances.push(res);
+  }
+
+  for (const r of resonances) {
+    if (r.unresolved) {
+      diagnostics.push({
+        code: 'modes-unresolved', severity: 'warning', sweep: sweep.source,
+        message: `sweep ${sweep.source}: two or more modes near ${formatFrequency(r.fsHz, 7)} are closer than the sweep resolves; use a finer step there`,
+      });
+    }
+    if (r.atEdge && !r.atBoundary) {
+      diagnostics.push({
+        code: 'resonance-at-edge', severity: 'info', sweep: sweep.source,
+        message: `sweep ${sweep.source}: resonance near ${formatFrequency(r.fsHz, 7)} is cut by the sweep edge; widen the span to ±5 bandwidths`,
+      });
+    } else if (r.atBoundary) {
+      diagnostics.push({
+        code: 'resonance-at-edge', severity: 'warning', sweep: sweep.source,
+        message: `sweep ${sweep.source}: conductance rises to the sweep edge at ${formatFrequency(f[r.peakIndex], 7)}; a resonance may lie just outside — widen the span`,
+      });
+    }
+  }
+
+  if (resonances.length === 0 && n > 0) {
+    diagnostics.push({ code: 'no-resonance', severity: 'error', sweep: sweep.source, message: `sweep ${sweep.source}: no resonance: ${describeFlat(sweep)}` });
+  }
+  return { resonances, diagnostics, noiseRelative: noise };
+}
+
+/** What a sweep without a resonance shows: "capacitive only between 3.97 and 4.03 MHz". */
+function describeFlat(sweep: AdmittanceSweep): string {
+  const { freqHz: f, bS: b } = sweep;
+  const n = f.length;
+  const range = formatFrequencyRange(f[0], f[n - 1]);
+  let pos = 0;
+  for (let i = 0; i < n; i++) if (b[i] > 0) pos++;
+  if (pos === n) return `capacitive only between ${range}`;
+  if (pos === 0) return `inductive only between ${range}`;
+  return `no conductance peak above the noise between ${range}`;
+}

@@ -1,0 +1,101 @@
+/**
+ * The least-squares fits of a sample: one per mode on a window of its best-resolved sweep
+ * (that branch free, the others held at their quick estimates), then one joint fit over every
+ * reference-condition sweep (narrow, loaded, wide; trusted frequencies only) with every
+ * well-fitted, unflagged branch and C0 free. The fitter itself is fit-bvd.ts (FIELD.md §2f).
+ *
+ * A per-mode window only holds C0 when it reaches away from the resonance (or covers the
+ * anti-resonance); otherwise C0 is held at the capacitive-region estimate, since a window of a
+ * few bandwidths barely constrains it. A failed joint fit is retried with the main modes only.
+ */
+import type { BvdModel } from '../models/bvd.ts';
+import type { ModeCandidate } from './classify-modes.ts';
+import type { PreparedSweep } from './reference-conditions.ts';
+import { fitBvd, type FitBvdResult, type FitSweep } from './fit-bvd.ts';
+import { timed, type TimingCollector } from './timing.ts';
+
+/** Window half-width around fs (and fa) in bandwidths. */
+export const WINDOW_BANDWIDTHS = 8;
+/** …and at least this many steps. */
+export const WINDOW_STEPS = 12;
+
+/** Fits of all modes. */
+export interface ModeFits {
+  /** Per-mode window fit, by mode index (undefined when not attempted). */
+  perMode: Array<FitBvdResult | undefined>;
+  joint?: FitBvdResult;
+  /** Modes free in the joint fit. */
+  jointFree: number[];
+  /** Model the joint fit started from. */
+  jointStart?: BvdModel;
+}
+
+function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): FitSweep | undefined {
+  const f = s.impedance.freqHz;
+  const idx: number[] = [];
+  for (let i = 0; i < f.length; i++) if (keep(f[i])) idx.push(i);
+  if (idx.length === 0) return undefined;
+  const base = { source: s.source, addedCapacitanceF: s.loaded ? s.addedCF : undefined, addedConnection: s.loaded ? s.connection : undefined };
+  if (idx.length === f.length) return { freqHz: f, zRe: s.impedance.zRe, zIm: s.impedance.zIm, ...base };
+  return {
+    freqHz: Float64Array.from(idx, (i) => f[i]),
+    zRe: Float64Array.from(idx, (i) => s.impedance.zRe[i]),
+    zIm: Float64Array.from(idx, (i) => s.impedance.zIm[i]),
+    ...base,
+  };
+}
+
+function copy(model: BvdModel): BvdModel {
+  return { ...model, branches: model.branches.map((b) => ({ ...b })) };
+}
+
+/** Window fit of mode k on its best sweep. */
+export function fitModeWindow(mode: ModeCandidate, k: number, initial: BvdModel, sweeps: PreparedSweep[]): FitBvdResult | undefined {
+  const sweep = sweeps.find((s) => s.index === mode.best.sweepIndex);
+  if (!sweep) return undefined;
+  const res = mode.best.resonance;
+  const fs = initial.branches[k].fsHz;
+  const bw = Math.max(res.bandwidthHz, 1e-12);
+  const w = Math.max(WINDOW_BANDWIDTHS * bw, WINDOW_STEPS * res.stepHz);
+  const fa = res.faHz;
+  const keep = (f: number) => Math.abs(f - fs) <= w || (fa !== undefined && Math.abs(f - fa) <= w);
+  const data = selectPoints(sweep, keep);
+  if (!data) return undefined;
+  const q = fs / bw;
+  let offResonance = 0;
+  for (const f of data.freqHz) if (Math.abs(f / fs - 1) > 50 / q) offResonance++;
+  const fitC0 = fa !== undefined || offResonance >= 10;
+  const first = fitBvd([data], initial, { freeBranches: [k], fitC0 });
+  if (first.converged || !fitC0) return first;
+  const second = fitBvd([data], initial, { freeBranches: [k], fitC0: false });
+  return second.converged ? second : first;
+}
+
+/**
+ * Per-mode window fits, then the joint fit.
+ * @param flagged modes above the instrument's trusted range: held fixed in the joint fit
+ * @param trustedMaxHz points above this frequency are left out of the joint fit
+ */
+export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: PreparedSweep[], flagged: boolean[], trustedMaxHz: number | undefined, timing?: TimingCollector): ModeFits {
+  const perMode: Array<FitBvdResult | undefined> = modes.map((mode, k) => timed(timing, 'fit-mode', () => fitModeWindow(mode, k, initial, sweeps)));
+  const start = copy(initial);
+  perMode.forEach((r, k) => {
+    if (r?.converged) start.branches[k] = { ...r.model.branches[k] };
+  });
+  const converged = perMode.map((r) => r?.converged === true);
+  let free = modes.map((_, k) => k).filter((k) => converged[k] && !flagged[k]);
+  if (free.length === 0) return { perMode, jointFree: [] };
+  const data = sweeps
+    .map((s) => selectPoints(s, (f) => trustedMaxHz === undefined || f <= trustedMaxHz))
+    .filter((d): d is FitSweep => d !== undefined);
+  if (data.length === 0) return { perMode, jointFree: [] };
+  let joint = timed(timing, 'fit-joint', () => fitBvd(data, start, { freeBranches: free, fitC0: true }));
+  if (!joint.converged) {
+    const mains = free.filter((k) => !modes[k].spurious);
+    if (mains.length && mains.length < free.length) {
+      const retry = timed(timing, 'fit-joint', () => fitBvd(data, start, { freeBranches: mains, fitC0: true }));
+      if (retry.converged) { joint = retry; free = mains; }
+    }
+  }
+  return { perMode, joint, jointFree: free, jointStart: start };
+}

@@ -1,0 +1,115 @@
+/**
+ * The team's oscillator circuits (`content/oscillators.yaml`) as a zod 4 schema.
+ *
+ * ```yaml
+ * circuits:
+ *   - name: sensor-hub-pierce          # letters, digits, '.', '_', '-'
+ *     description: MCU main clock       # optional
+ *     gm: 8 mA/V                        # amplifier transconductance (or "8 mS")
+ *     inputCapacitance: 3 pF            # amplifier input pin to ground
+ *     outputCapacitance: 4 pF           # amplifier output pin to ground
+ *     boardStray: 1.5 pF                # trace/pad capacitance of EACH crystal pin to ground
+ *     boardStrayUncertainty: 0.5 pF     # ± on each pin's board stray
+ *     pinToPinStray: 0.3 pF             # optional, across the crystal (default 0)
+ *     pinToPinStrayUncertainty: 0.1 pF  # optional (default 0)
+ *     supply: 3.3 V
+ *     swing: 2.5 V                      # optional: peak-to-peak across the crystal (default: supply)
+ *     maxDrive: 100 uW                  # optional: the circuit's own drive budget
+ *     capacitorTolerance: 5 %           # load capacitor tolerance ("5 %" or 0.05)
+ *     series: E12                       # E6 | E12 | E24
+ *     frequencyRange: 4 MHz to 50 MHz   # optional: parts this circuit is meant for
+ * ```
+ * Quantities come out in SI base units (S, F, V, W, Hz); the tolerance as a fraction.
+ */
+import { z } from 'zod';
+import { parseQuantity, parseQuantityRange, type UnitKind } from '../units/si.ts';
+import { E_SERIES_NAMES } from '../osc/e-series.ts';
+
+/** A quantity string of the given kind, parsed to SI, with a sign rule. */
+function quantity(kind: UnitKind, sign: 'positive' | 'non-negative') {
+  return z.union([z.string(), z.number()]).transform((input, ctx) => {
+    const parsed = parseQuantity(String(input), kind);
+    if (!parsed.ok) {
+      ctx.addIssue({ code: 'custom', message: parsed.message });
+      return z.NEVER;
+    }
+    const good = sign === 'positive' ? parsed.value > 0 : parsed.value >= 0;
+    if (!good) {
+      const what = kind === 'capacitance' ? 'capacitance' : kind;
+      ctx.addIssue({ code: 'custom', message: `expected a ${sign === 'positive' ? 'positive' : 'non-negative'} ${what}, got "${input}"` });
+      return z.NEVER;
+    }
+    return parsed.value;
+  });
+}
+
+/** Largest accepted capacitor tolerance (fraction). */
+const MAX_TOLERANCE = 0.5;
+
+/** "5 %", "5%", "0.05" or 0.05 → 0.05. */
+const tolerance = z.union([z.string(), z.number()]).transform((input, ctx) => {
+  const text = String(input).trim();
+  const m = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(%?)$/.exec(text.replace(/^±\s*/, ''));
+  const value = m ? Number(m[1]) / (m[2] ? 100 : 1) : Number.NaN;
+  if (!(value >= 0 && value <= MAX_TOLERANCE)) {
+    ctx.addIssue({ code: 'custom', message: `expected a tolerance between 0 and 50 % such as "5 %", got "${text}"` });
+    return z.NEVER;
+  }
+  return value;
+});
+
+const frequencyRange = z.string().transform((input, ctx) => {
+  const parsed = parseQuantityRange(input, 'frequency');
+  if (!parsed.ok) {
+    ctx.addIssue({ code: 'custom', message: parsed.message });
+    return z.NEVER;
+  }
+  return { min: parsed.min, max: parsed.max };
+});
+
+const NAME = /^[A-Za-z0-9._-]+$/;
+
+export const OscillatorCircuitSchema = z.object({
+  /** Circuit name, unique in the file. */
+  name: z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(
+    z.string().min(1, 'expected a circuit name').max(64, 'expected a circuit name of at most 64 characters')
+      .regex(NAME, "expected a circuit name of letters, digits, '.', '_' or '-'"),
+  ),
+  /** Free text. */
+  description: z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(z.string().max(500, 'expected at most 500 characters')).optional(),
+  /** Amplifier small-signal transconductance, S. */
+  gm: quantity('conductance', 'positive'),
+  /** Amplifier input pin to ground, F. */
+  inputCapacitance: quantity('capacitance', 'non-negative'),
+  /** Amplifier output pin to ground, F. */
+  outputCapacitance: quantity('capacitance', 'non-negative'),
+  /** Board trace/pad capacitance of each crystal pin to ground, F. */
+  boardStray: quantity('capacitance', 'non-negative'),
+  /** ± uncertainty of each pin's board stray, F. */
+  boardStrayUncertainty: quantity('capacitance', 'non-negative').default(0),
+  /** Capacitance across the crystal pins, F. */
+  pinToPinStray: quantity('capacitance', 'non-negative').default(0),
+  /** ± uncertainty of the pin-to-pin stray, F. */
+  pinToPinStrayUncertainty: quantity('capacitance', 'non-negative').default(0),
+  /** Supply voltage, V. */
+  supply: quantity('voltage', 'positive'),
+  /** Peak-to-peak voltage across the crystal, V (default: the supply). */
+  swing: quantity('voltage', 'positive').optional(),
+  /** The circuit's own drive budget, W. */
+  maxDrive: quantity('power', 'positive').optional(),
+  /** Load capacitor tolerance, fraction (0.05 = 5 %). */
+  capacitorTolerance: tolerance,
+  /** Preferred-value series of the load capacitors. */
+  series: z.enum(E_SERIES_NAMES as unknown as ['E6', 'E12', 'E24'], { message: `expected one of ${E_SERIES_NAMES.join(', ')}` }),
+  /** Parts this circuit is meant for, Hz. */
+  frequencyRange: frequencyRange.optional(),
+});
+
+export const OscillatorsFileSchema = z.object({
+  circuits: z.array(z.unknown()).min(1, 'expected at least one circuit'),
+});
+
+export type OscillatorCircuit = z.output<typeof OscillatorCircuitSchema>;
+
+/** Keys a circuit may have, for unknown-key warnings. */
+export const CIRCUIT_KEYS = Object.keys(OscillatorCircuitSchema.shape);

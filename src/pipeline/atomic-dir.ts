@@ -1,0 +1,109 @@
+/**
+ * Replace an output folder all at once: build into a staging folder next to it (same file
+ * system, so `rename` is atomic), then swap.
+ *
+ * Layout for an output folder `/x/dist`:
+ * - `/x/.dist.staging-<pid>/`  the build's working folder (data, site, scratch);
+ * - `/x/.dist.old-<pid>/`      the previous output during the swap, removed right after.
+ *
+ * The swap is two renames: `dist → .dist.old-<pid>`, then `staging/site → dist`. Between them
+ * (microseconds) `dist` does not exist; it is never half-written. A build killed at any point
+ * leaves either the old or the new folder in place plus leftovers that {@link cleanStale}
+ * removes on the next start (only those whose process is gone, so a concurrent build keeps its own).
+ */
+import { mkdir, readdir, rename, rm, stat } from 'node:fs/promises';
+import { basename, dirname, join, resolve } from 'node:path';
+
+/** Paths of one build's staging area. */
+export interface StagingDir {
+  /** The output folder that will be replaced, absolute. */
+  outDir: string;
+  /** The staging root, absolute: `<parent>/.<name>.staging-<pid>`. */
+  root: string;
+}
+
+const STAGING = 'staging';
+const OLD = 'old';
+
+function leftoverName(outDir: string, what: string, pid: number): string {
+  return join(dirname(outDir), `.${basename(outDir)}.${what}-${pid}`);
+}
+
+/** True when a process with this id exists (signal 0 probes without sending anything). */
+export function isProcessAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (err) {
+    return (err as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+/**
+ * Remove staging and old folders left next to `outDir` by builds that were killed.
+ * Folders of live processes (a concurrent build) are kept.
+ * @returns the folders removed
+ */
+export async function cleanStale(outDir: string): Promise<string[]> {
+  const abs = resolve(outDir);
+  const parent = dirname(abs);
+  const prefix = `.${basename(abs)}.`;
+  let entries: string[];
+  try {
+    entries = await readdir(parent);
+  } catch {
+    return [];
+  }
+  const removed: string[] = [];
+  for (const name of entries.sort()) {
+    if (!name.startsWith(prefix)) continue;
+    const m = /^(staging|old)-(\d+)$/.exec(name.slice(prefix.length));
+    if (!m) continue;
+    const pid = Number(m[2]);
+    if (pid !== process.pid && isProcessAlive(pid)) continue;
+    await rm(join(parent, name), { recursive: true, force: true });
+    removed.push(join(parent, name));
+  }
+  return removed;
+}
+
+/** Create this process's staging root next to `outDir` (emptied if it exists). */
+export async function createStaging(outDir: string): Promise<StagingDir> {
+  const abs = resolve(outDir);
+  await mkdir(dirname(abs), { recursive: true });
+  const root = leftoverName(abs, STAGING, process.pid);
+  await rm(root, { recursive: true, force: true });
+  await mkdir(root, { recursive: true });
+  return { outDir: abs, root };
+}
+
+/**
+ * Put `builtDir` (a folder inside the staging root) in place of the output folder, then remove
+ * the previous output and the staging root.
+ */
+export async function swapInto(staging: StagingDir, builtDir: string): Promise<void> {
+  const old = leftoverName(staging.outDir, OLD, process.pid);
+  await rm(old, { recursive: true, force: true });
+  let hadOld = false;
+  try {
+    await stat(staging.outDir);
+    hadOld = true;
+  } catch {
+    hadOld = false;
+  }
+  if (hadOld) await rename(staging.outDir, old);
+  try {
+    await rename(builtDir, staging.outDir);
+  } catch (err) {
+    // put the previous output back so a failed swap changes nothing
+    if (hadOld) await rename(old, staging.outDir).catch(() => undefined);
+    throw err;
+  }
+  await rm(old, { recursive: true, force: true });
+  await discardStaging(staging);
+}
+
+/** Remove the staging root (after a failure, or after the swap). */
+export async function discardStaging(staging: StagingDir): Promise<void> {
+  await rm(staging.root, { recursive: true, force: true });
+}

@@ -1,0 +1,449 @@
+/**
+ * The whole catalogue build: records in, a complete static site out, never half-written.
+ *
+ * Stages (each timed for the summary):
+ * 1. discover — find every part.yaml under the content folder; read the oscillator circuits.
+ * 2. records  — per record, in worker threads: fingerprint, cache lookup, else load + validate
+ *               + extract + page data. Once any record is invalid the remaining ones are only
+ *               validated, so every problem of every record is still listed.
+ *    Any error stops the build here, before anything is written next to the output folder.
+ * 3. emit     — write the catalogue data (per-part JSON, search index, downloads) into a staging
+ *               folder next to the output folder.
+ * 4. site     — run the Astro build from that data into the staging folder.
+ * 5. swap     — replace the output folder by the staged site (atomic-dir.ts).
+ *
+ * Accounting: parts published (pages in the built site) must equal the valid records found;
+ * a mismatch is an internal error and nothing is swapped in.
+ */
+import { spawn } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { mkdir, readFile, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { dirname, join, relative, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { formatIssue, type Issue } from '../lib/issues.ts';
+import { parseOscillatorsYaml } from '../lib/osc/oscillators-yaml.ts';
+import { cleanStale, createStaging, discardStaging, swapInto, type StagingDir } from './atomic-dir.ts';
+import { createBuildTaskRunner, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
+import { pruneCache, sha256 } from './cache.ts';
+import type { IndexEntry } from '../site/types.ts';
+import { createProgress, type ProgressStream } from './progress.ts';
+import { createWorkerPool, defaultJobs } from './worker-pool.ts';
+import { normalizeBase } from './static-server.ts';
+
+/** The project root: where astro.config.mjs and node_modules are. */
+export const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
+
+/** How deep folders of part folders are searched (as `check` does). */
+export const MAX_SEARCH_DEPTH = 8;
+
+export interface BuildCatalogueOptions {
+  /** Folder of part folders (and optionally oscillators.yaml). Default `content`. */
+  contentDir?: string;
+  /** Output folder, replaced as a whole. Default `dist`. */
+  outDir?: string;
+  /** Site base path. Default `/`. */
+  base?: string;
+  /** Worker threads; 1 runs everything in the main thread. Default: every core. */
+  jobs?: number;
+  /** Use the extraction cache. Default true. */
+  cache?: boolean;
+  /** Cache folder. Default `<project>/.motional/cache`. */
+  cacheDir?: string;
+  /** Skip the Astro build: the output folder receives the catalogue data only. */
+  dataOnly?: boolean;
+  /** Also keep a copy of the emitted catalogue data here (replaced). */
+  keepDataDir?: string;
+  /** Progress display; false for none. Default process.stderr. */
+  progress?: ProgressStream | false;
+  /** Problem and log lines (without newline handling: each call is one or more full lines). */
+  log?: (text: string) => void;
+  /** Stop the build (the output folder stays as it was). */
+  signal?: AbortSignal;
+  /** Called as each stage starts (tests, progress in other UIs). */
+  onStage?: (stage: BuildStage, info: { stagingRoot?: string }) => void;
+}
+
+export type BuildStage = 'discover' | 'records' | 'emit' | 'site' | 'swap';
+
+export interface BuildSummary {
+  /** 0 built, 1 invalid records or a failed build. */
+  exitCode: 0 | 1;
+  /** Why the build stopped, when it did. */
+  failure?: string;
+  recordsFound: number;
+  recordsValid: number;
+  recordsInvalid: number;
+  partsPublished: number;
+  samples: number;
+  modes: number;
+  /** Record warnings (issues) plus extraction warnings. */
+  warnings: number;
+  /** Error issues. */
+  errors: number;
+  cache: { enabled: boolean; hits: number; misses: number };
+  jobs: number;
+  /** Wall time per stage and in all, ms. */
+  stageMs: Partial<Record<BuildStage, number>> & { total: number };
+  /** Thread time summed over records, ms: fingerprint + cache, load + validate, extract, page data, writing. */
+  recordMs: { hash: number; load: number; extract: number; data: number; emit: number };
+  /** Peak resident memory, bytes: this process (all threads) and the Astro build process. */
+  peakRssBytes: { build: number; site: number };
+  issues: Issue[];
+  outDir: string;
+}
+
+/** Every part.yaml under `dir`: its own, else those of its sub-folders (sorted, hidden folders skipped). */
+export async function discoverRecords(dir: string, depth = 0): Promise<string[]> {
+  const own = join(dir, 'part.yaml');
+  if ((await stat(own).catch(() => undefined))?.isFile()) return [own];
+  if (depth >= MAX_SEARCH_DEPTH) return [];
+  const entries = await readdir(dir, { withFileTypes: true }).catch(() => []);
+  const names = entries.filter((e) => e.isDirectory() && !e.name.startsWith('.') && e.name !== 'node_modules').map((e) => e.name).sort();
+  const out: string[] = [];
+  for (const name of names) out.push(...(await discoverRecords(join(dir, name), depth + 1)));
+  return out;
+}
+
+class BuildFailure extends Error {}
+
+/** Run the whole build. Never throws for bad input: the summary says what happened. */
+export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promise<BuildSummary> {
+  const t0 = performance.now();
+  const contentDir = options.contentDir ?? 'content';
+  const outDir = resolve(options.outDir ?? 'dist');
+  const basePath = normalizeBase(options.base);
+  const jobs = Math.max(1, Math.floor(options.jobs ?? defaultJobs()));
+  const useCache = options.cache ?? true;
+  const log = options.log ?? ((text: string) => void process.stderr.write(text));
+  const progressStream = options.progress === false ? undefined : (options.progress ?? process.stderr);
+  const summary: BuildSummary = {
+    exitCode: 1, recordsFound: 0, recordsValid: 0, recordsInvalid: 0, partsPublished: 0, samples: 0, modes: 0,
+    warnings: 0, errors: 0, cache: { enabled: useCache, hits: 0, misses: 0 }, jobs, stageMs: { total: 0 },
+    recordMs: { hash: 0, load: 0, extract: 0, data: 0, emit: 0 }, peakRssBytes: { build: 0, site: 0 }, issues: [], outDir,
+  };
+  let stageStart = t0;
+  let current: BuildStage | undefined;
+  let staging: StagingDir | undefined;
+  const stage = (next: BuildStage | undefined) => {
+    const now = performance.now();
+    if (current) summary.stageMs[current] = now - stageStart;
+    stageStart = now;
+    current = next;
+    if (next) options.onStage?.(next, { stagingRoot: staging?.root });
+  };
+  const checkAbort = () => {
+    if (options.signal?.aborted) throw new BuildFailure('build stopped');
+  };
+
+  try {
+    await cleanStale(outDir);
+    stage('discover');
+    if (!(await stat(contentDir).catch(() => undefined))?.isDirectory()) {
+      summary.issues.push({ severity: 'error', file: contentDir, message: 'content folder not found', code: 'missing' });
+      throw new BuildFailure('no content');
+    }
+    const records = await discoverRecords(contentDir);
+    summary.recordsFound = records.length;
+    if (records.length === 0) {
+      summary.issues.push({ severity: 'error', file: contentDir, message: 'no part.yaml in this folder or its subfolders', code: 'no-parts' });
+      throw new BuildFailure('no records');
+    }
+    const oscillators = await readOscillators(contentDir, summary.issues);
+    const oscillatorsBad = summary.issues.some((i) => i.severity === 'error');
+    checkAbort();
+
+    // The staging folder sits next to the output folder, which is not touched until the swap.
+    staging = await createStaging(outDir);
+    const dataDir = join(staging.root, 'data');
+    const scratchDir = join(staging.root, 'scratch');
+    await mkdir(dataDir, { recursive: true });
+    await mkdir(scratchDir, { recursive: true });
+    const context: BuildTaskContext = {
+      cacheDir: useCache ? resolve(options.cacheDir ?? join(PROJECT_ROOT, '.motional', 'cache')) : undefined,
+      // a bad circuits file fails the build; the records are still validated to list their problems
+      oscillators: oscillatorsBad ? undefined : oscillators,
+      basePath,
+      dataDir,
+      scratchDir,
+    };
+
+    stage('records');
+    const results = await runRecords(records, context, jobs, oscillatorsBad, progressStream, options.signal);
+    for (const r of results) {
+      summary.recordMs.hash += r.ms.hash;
+      summary.recordMs.load += r.ms.load;
+      summary.recordMs.extract += r.ms.extract;
+      summary.recordMs.data += r.ms.data;
+      summary.recordMs.emit += r.ms.emit;
+      if (r.cached) summary.cache.hits++;
+      else if (r.valid && r.indexEntry !== undefined) summary.cache.misses++;
+    }
+    summary.issues.push(...results.flatMap((r) => r.issues), ...duplicateIds(results));
+    const invalid = new Set(summary.issues.filter((i) => i.severity === 'error').map((i) => i.file));
+    summary.recordsInvalid = results.filter((r) => !r.valid || invalid.has(r.yamlFile)).length;
+    summary.recordsValid = summary.recordsFound - summary.recordsInvalid;
+    if (summary.issues.some((i) => i.severity === 'error')) throw new BuildFailure('invalid records');
+    for (const r of results) {
+      summary.samples += r.stats?.samples ?? 0;
+      summary.modes += r.stats?.modes ?? 0;
+      summary.warnings += r.stats?.warnings ?? 0;
+    }
+    checkAbort();
+
+    stage('emit');
+    const index = results.map((r) => {
+      if (!r.indexEntry) throw new Error(`internal error: no data written for ${r.yamlFile}`);
+      return r.indexEntry;
+    });
+    await writeIndex(dataDir, index);
+    await rm(scratchDir, { recursive: true, force: true });
+    const ids = index.map((e) => e.id);
+    checkAbort();
+
+    let builtDir = dataDir;
+    if (!options.dataOnly) {
+      stage('site');
+      const siteDir = join(staging.root, 'site');
+      summary.peakRssBytes.site = await runAstro({ dataDir, siteDir, basePath, pages: ids.length, progress: progressStream, log, signal: options.signal });
+      builtDir = siteDir;
+      summary.partsPublished = await countPublished(siteDir, ids, basePath);
+    } else {
+      summary.partsPublished = await countPublishedData(dataDir, ids);
+    }
+    if (summary.partsPublished !== summary.recordsValid) {
+      throw new BuildFailure(`internal error: ${summary.partsPublished} parts published but ${summary.recordsValid} valid records found`);
+    }
+    checkAbort();
+
+    stage('swap');
+    if (options.keepDataDir && builtDir !== dataDir) {
+      const keep = resolve(options.keepDataDir);
+      await rm(keep, { recursive: true, force: true });
+      await mkdir(dirname(keep), { recursive: true });
+      await rename(dataDir, keep).catch(async () => {
+        // another file system: copy instead
+        const { cp } = await import('node:fs/promises');
+        await cp(dataDir, keep, { recursive: true });
+      });
+    }
+    await swapInto(staging, builtDir);
+    staging = undefined;
+    stage(undefined);
+    if (context.cacheDir) await pruneCache(context.cacheDir).catch(() => 0);
+    summary.exitCode = 0;
+  } catch (err) {
+    stage(undefined);
+    summary.failure = err instanceof Error ? err.message : String(err);
+    if (!(err instanceof BuildFailure) && err instanceof Error && err.stack && process.env.MOTIONAL_DEBUG) log(`${err.stack}\n`);
+    if (staging) await discardStaging(staging).catch(() => undefined);
+  }
+  summary.errors = summary.issues.filter((i) => i.severity === 'error').length;
+  summary.warnings += summary.issues.filter((i) => i.severity === 'warning').length;
+  summary.peakRssBytes.build = process.resourceUsage().maxRSS * 1024;
+  summary.stageMs.total = performance.now() - t0;
+  return summary;
+}
+
+/** The circuits file: `<content>/oscillators.yaml`, else the project's demo one, else none. */
+async function readOscillators(contentDir: string, issues: Issue[]): Promise<BuildTaskContext['oscillators']> {
+  const candidates = [join(contentDir, 'oscillators.yaml'), join(PROJECT_ROOT, 'content', 'oscillators.yaml')];
+  const file = candidates.find((f) => existsSync(f));
+  if (!file) return undefined;
+  const text = await readFile(file, 'utf8');
+  const parsed = parseOscillatorsYaml(text, file);
+  issues.push(...parsed.issues);
+  return { file, text, hash: sha256(text) };
+}
+
+/** Run every record through the workers (or the main thread), in order, at most a few in flight. */
+async function runRecords(
+  records: string[],
+  context: BuildTaskContext,
+  jobs: number,
+  validateOnly: boolean,
+  progressStream: ProgressStream | undefined,
+  signal: AbortSignal | undefined,
+): Promise<BuildTaskResult[]> {
+  const progress = createProgress({ label: 'records', total: records.length, stream: progressStream, silent: !progressStream });
+  const results = new Array<BuildTaskResult>(records.length);
+  let failed = validateOnly;
+  let next = 0;
+  let hits = 0;
+  let run: (task: BuildTask) => Promise<BuildTaskResult>;
+  let close = async () => {};
+  if (jobs === 1) {
+    const runner = createBuildTaskRunner(context);
+    run = (task) => runner.run(task);
+  } else {
+    const pool = createWorkerPool<BuildTask, BuildTaskResult>({
+      moduleUrl: new URL('./build-worker.ts', import.meta.url),
+      size: Math.min(jobs, records.length),
+      workerData: context,
+    });
+    run = (task) => pool.run(task);
+    close = () => pool.close();
+  }
+  const lane = async () => {
+    while (next < records.length) {
+      if (signal?.aborted) throw new BuildFailure('build stopped');
+      const index = next++;
+      const result = await run({ index, yamlFile: records[index], validateOnly: failed });
+      if (!result.valid) failed = true;
+      if (result.cached) hits++;
+      results[index] = result;
+      progress.tick(1, hits > 0 ? `${hits} cached` : undefined);
+    }
+  };
+  try {
+    // two tasks per thread keep every thread busy while results travel back
+    await Promise.all(Array.from({ length: Math.min(records.length, jobs * 2) }, lane));
+  } finally {
+    await close();
+  }
+  progress.done(`${hits} cached, ${records.length - hits} processed${failed ? ', invalid records found' : ''}`);
+  return results;
+}
+
+/**
+ * The search index: every part's row, in the order emit.ts's writeCatalogueData uses (by id,
+ * numbers in ids compared as numbers).
+ */
+async function writeIndex(dataDir: string, entries: IndexEntry[]): Promise<void> {
+  const sorted = [...entries].sort((a, b) => a.id.localeCompare(b.id, 'en', { numeric: true }));
+  await writeFile(join(dataDir, 'index.json'), JSON.stringify(sorted));
+}
+
+/** Errors for every record whose id an earlier record (in path order) already uses. */
+function duplicateIds(results: BuildTaskResult[]): Issue[] {
+  const first = new Map<string, string>();
+  const issues: Issue[] = [];
+  for (const r of results) {
+    if (r.id === undefined) continue;
+    const seen = first.get(r.id);
+    if (seen === undefined) first.set(r.id, r.yamlFile);
+    else issues.push({ severity: 'error', file: r.yamlFile, line: r.idLine, path: 'id', message: `duplicate part id "${r.id}" (also in ${seen})`, code: 'duplicate-id' });
+  }
+  return issues;
+}
+
+interface AstroRun {
+  dataDir: string;
+  siteDir: string;
+  basePath: string;
+  pages: number;
+  progress: ProgressStream | undefined;
+  log: (text: string) => void;
+  signal: AbortSignal | undefined;
+}
+
+// Ends the Astro process when the build process dies without cleaning up (kill -9): its
+// parent id changes, and a site half-written into a staging folder helps nobody.
+const ORPHAN_GUARD = `data:text/javascript,${encodeURIComponent(
+  'const p=process.ppid;setInterval(()=>{if(process.ppid!==p)process.exit(129)},500).unref();',
+)}`;
+
+/**
+ * Run `astro build` in a child process; its output is kept and shown only when it fails.
+ * @returns peak resident memory of the child, bytes (sampled)
+ */
+async function runAstro(run: AstroRun): Promise<number> {
+  const astro = join(PROJECT_ROOT, 'node_modules', 'astro', 'astro.js');
+  const progress = createProgress({ label: 'site', total: run.pages, stream: run.progress, silent: !run.progress });
+  const child = spawn(process.execPath, ['--import', ORPHAN_GUARD, astro, 'build'], {
+    cwd: PROJECT_ROOT,
+    env: {
+      ...process.env,
+      MOTIONAL_DATA: run.dataDir,
+      MOTIONAL_BASE: run.basePath,
+      MOTIONAL_SITE_OUT: run.siteDir,
+      ASTRO_TELEMETRY_DISABLED: '1',
+      NO_COLOR: '1',
+      FORCE_COLOR: '0',
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+    signal: run.signal,
+    killSignal: 'SIGTERM',
+  });
+  const output: string[] = [];
+  let outputBytes = 0;
+  let pending = '';
+  const onData = (chunk: Buffer) => {
+    const text = chunk.toString('utf8');
+    outputBytes += text.length;
+    output.push(text);
+    // keep the last ~200 kB for the error report
+    while (outputBytes > 200_000 && output.length > 1) outputBytes -= output.shift()!.length;
+    pending += text;
+    const lines = pending.split('\n');
+    pending = lines.pop() ?? '';
+    const pages = lines.filter((l) => /(├─|└─)\s+\S+\.html/.test(l)).length;
+    if (pages > 0) progress.tick(pages);
+  };
+  child.stdout.on('data', onData);
+  child.stderr.on('data', onData);
+  let peak = 0;
+  const sample = async () => {
+    if (child.pid === undefined) return;
+    const status = await readFile(`/proc/${child.pid}/status`, 'utf8').catch(() => '');
+    const m = /VmHWM:\s+(\d+) kB/.exec(status);
+    if (m) peak = Math.max(peak, Number(m[1]) * 1024);
+  };
+  const timer = setInterval(() => void sample(), 200);
+  const code = await new Promise<number | string>((done) => {
+    child.on('error', (err) => done((err as NodeJS.ErrnoException).code ?? err.message));
+    child.on('close', (c, sig) => done(c ?? sig ?? 'unknown'));
+  });
+  clearInterval(timer);
+  if (code !== 0) {
+    progress.done('failed');
+    run.log(`${output.join('').trimEnd()}\n`);
+    throw new BuildFailure(run.signal?.aborted ? 'build stopped' : `astro build failed (${code})`);
+  }
+  progress.done();
+  return peak;
+}
+
+/** Parts whose page exists in the built site: `<site>/parts/<id>/index.html` (or `parts/<id>.html`). */
+async function countPublished(siteDir: string, ids: string[], _basePath: string): Promise<number> {
+  let n = 0;
+  for (const id of ids) {
+    const page = join(siteDir, 'parts', id, 'index.html');
+    const flat = join(siteDir, 'parts', `${id}.html`);
+    if (existsSync(page) || existsSync(flat)) n++;
+  }
+  return n;
+}
+
+/** Parts whose data file was written: `<data>/parts/<id>.json`. */
+async function countPublishedData(dataDir: string, ids: string[]): Promise<number> {
+  let n = 0;
+  for (const id of ids) if (existsSync(join(dataDir, 'parts', `${id}.json`))) n++;
+  return n;
+}
+
+/** Human-readable summary lines of a build. */
+export function formatSummary(s: BuildSummary): string {
+  const sec = (ms: number | undefined) => (ms === undefined ? '-' : `${(ms / 1000).toFixed(1)} s`);
+  const mb = (b: number) => `${Math.round(b / 1e6)} MB`;
+  const stages = (['discover', 'records', 'emit', 'site', 'swap'] as const)
+    .filter((k) => s.stageMs[k] !== undefined)
+    .map((k) => `${k} ${sec(s.stageMs[k])}`)
+    .join(', ');
+  const lines = [
+    `records found: ${s.recordsFound} (${s.recordsValid} valid, ${s.recordsInvalid} invalid)`,
+    `parts published: ${s.partsPublished}`,
+    `samples: ${s.samples}, modes: ${s.modes}, warnings: ${s.warnings}, errors: ${s.errors}`,
+    `cache: ${s.cache.enabled ? `${s.cache.hits} hits, ${s.cache.misses} misses` : 'off'}; threads: ${s.jobs}`,
+    `time: ${stages}; total ${sec(s.stageMs.total)}`,
+    `record work (thread time): fingerprint ${sec(s.recordMs.hash)}, load ${sec(s.recordMs.load)}, extract ${sec(s.recordMs.extract)}, page data ${sec(s.recordMs.data)}, write ${sec(s.recordMs.emit)}`,
+    `peak memory: build ${mb(s.peakRssBytes.build)}${s.peakRssBytes.site ? `, site ${mb(s.peakRssBytes.site)}` : ''}`,
+  ];
+  if (s.exitCode === 0) lines.push(`built ${relative(process.cwd(), s.outDir) || '.'}`);
+  else lines.push(`build failed: ${s.failure ?? 'unknown'}; ${relative(process.cwd(), s.outDir) || '.'} left unchanged`);
+  return `${lines.join('\n')}\n`;
+}
+
+/** Every issue as `FILE:LINE: message`, one per line. */
+export function formatIssues(issues: Issue[]): string {
+  return issues.map((i) => `${formatIssue(i)}\n`).join('');
+}

@@ -1,0 +1,30 @@
+/**
+ * Build-time access to the generated catalogue data (written by src/pipeline/emit.ts):
+ * `<data>/index.json` and `<data>/parts/<id>.json`, with `<data>` from env MOTIONAL_DATA
+ * (default `.motional/catalogue`). Site code only: it uses node:fs while Astro renders pages.
+ */
+import { existsSync, readFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import type { IndexEntry, PartData } from './types.ts';
+
+/** Folder of the generated data, absolute. */
+export function dataDir(): string {
+  return resolve(process.env.MOTIONAL_DATA || '.motional/catalogue');
+}
+
+let indexCache: { dir: string; entries: IndexEntry[] } | undefined;
+
+/** The search index (every part, sorted by id). Empty when no data has been generated. */
+export function readIndex(): IndexEntry[] {
+  const dir = dataDir();
+  if (indexCache?.dir === dir) return indexCache.entries;
+  const file = join(dir, 'index.json');
+  const entries: IndexEntry[] = existsSync(file) ? JSON.parse(readFileSync(file, 'utf8')) : [];
+  indexCache = { dir, entries };
+  return entries;
+}
+
+/** One part's page data. */
+export function readPart(id: string): PartData {
+  return JSON.parse(readFileSync(join(dataDir(), 'parts', `${id}.json`), 'utf8')) as PartData;
+}

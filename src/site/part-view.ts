@@ -1,0 +1,322 @@
+/**
+ * View model of a part page: PartData turned into the rows, labels and plot layouts the
+ * components print. Everything here is text or numbers; components compute nothing.
+ */
+import type { CrossCheck, Diagnostic, ModeResult } from '../lib/extract/types.ts';
+import type { CapacitorPair } from '../lib/osc/pierce.ts';
+import { layoutPlot, type PlotLayout } from './plot.ts';
+import { modePlotSpec, pullingPlotSpec, temperaturePlotSpec, widePlotSpec } from './part-plots.ts';
+import { formatBytes, formatHz, formatNumber, formatPpm, formatQty, formatWithUncertainty, KIND_LABEL, STATE_LABEL, DISPLAY_DIGITS } from './format.ts';
+import { renderMarkdown } from './markdown.ts';
+import type { PartData, SampleData } from './types.ts';
+
+export interface Row {
+  label: string;
+  value: string;
+  /** Raw SI value for machine reading (data-si attribute). */
+  si?: number;
+  state?: 'pass' | 'fail' | 'unknown' | 'warn' | 'warning';
+  note?: string;
+}
+
+export interface CrossCheckView {
+  quantity: string;
+  verdict: string;
+  verdictClass: 'pass' | 'fail' | 'unknown';
+  rule: string;
+  message?: string;
+  values: Array<{ method: string; value: string; note?: string }>;
+}
+
+export interface ModeRowView {
+  label: string;
+  cells: string[];
+}
+
+export interface SampleView {
+  id: string;
+  anchor: string;
+  ok: boolean;
+  provenance: Row[];
+  sweeps: Array<{ file: string; fixture: string; conditions: string; points: string; span: string }>;
+  compensation?: string;
+  modeHeaders: string[];
+  modeRows: ModeRowView[];
+  c0: string;
+  fit?: string;
+  crossChecks: Array<{ mode: string; checks: CrossCheckView[] }>;
+  warnings: string[];
+  diagnostics: Array<{ severity: string; text: string }>;
+  drive?: { rows: string[][]; summary: string };
+  otherConditions: string[][];
+  temperatureSummary?: string;
+  plots: PlotLayout[];
+}
+
+export interface PierceView {
+  circuit: string;
+  ok: boolean;
+  reason?: string;
+  target?: string;
+  pairs: Array<{ title: string; rows: Row[] }>;
+  checks: Array<{ label: string; verdict: 'pass' | 'warn'; reason: string }>;
+  assumptions: string[];
+}
+
+export interface PartView {
+  id: string;
+  title: string;
+  subtitle: string;
+  synthetic: boolean;
+  notesHtml?: string;
+  state: string;
+  stateClass: string;
+  summary: Row[];
+  datasheet: Row[];
+  compliance: Array<{ sample: string; basis?: string; rule: string; items: Row[] }>;
+  samples: SampleView[];
+  lotStats?: { n: number; rule: string; rows: string[][]; notes: string[] };
+  pierce: PierceView[];
+  cautions: string[];
+  downloads: Array<{ href: string; label: string; name: string; size: string }>;
+  recordWarnings: string[];
+}
+
+/** The cautions every part page shows (FIELD.md §10). */
+export const PART_CAUTIONS: readonly string[] = [
+  'The parameters describe one sample at one drive level, temperature and fixture. They are not a specification and do not replace the crystal maker’s data or the qualification of the part.',
+  'Never use a circuit that exceeds the maker’s maximum drive level. Drive estimates state their assumptions (R1 or RL, voltage across the crystal or at a pin). Tuning forks and small SMD blanks are damaged by µW-level overdrive; units with drive-level dependence may not start at low drive.',
+  'Load-capacitor advice depends on stray capacitance that only a measurement on the board settles. Confirm frequency, start-up and negative-resistance margin on the real board over temperature and supply.',
+  'Transconductance and negative-resistance margins are small-signal figures; oscillator ICs vary with process, voltage and temperature. Use the IC maker’s limits where they are given.',
+  'The BVD and SPICE models are narrow-band and linear: spurious modes, drive-level dependence, aging and temperature are absent unless modelled. Fits with low M (< 4), r below the physical minimum or implausible Q·f are flagged.',
+  'Frequency accuracy for regulated radio bands and protocols is the product designer’s responsibility: these numbers are engineering estimates, not compliance evidence.',
+];
+
+const QUANTITY_LABEL: Record<CrossCheck['quantity'], [string, string]> = {
+  fsHz: ['fs', 'Hz'], r1Ohm: ['R1', 'Ω'], c1F: ['C1', 'F'], l1H: ['L1', 'H'], c0F: ['C0', 'F'], q: ['Q', ''],
+};
+
+const METHOD_LABEL: Record<string, string> = {
+  'complex-fit': 'complex least squares, one sweep',
+  'joint-fit': 'joint least squares, all sweeps',
+  'closed-form': 'closed form from fs, fp and C0',
+  'half-power': 'half-power bandwidth',
+  'conductance-peak': 'conductance peak',
+  'load-shift': 'shift with a known load',
+  'two-load': 'two known loads',
+  'capacitive-region': 'capacitive region',
+  'zero-phase': 'zero-phase points',
+};
+
+function modeLabel(m: { overtone: number; spurious: boolean }): string {
+  const order = m.overtone === 1 ? 'fundamental' : `overtone ${m.overtone}`;
+  return m.spurious ? `spurious (near ${order})` : order;
+}
+
+function valueOf(q: CrossCheck['quantity'], v: number): string {
+  const [, unit] = QUANTITY_LABEL[q];
+  if (q === 'q') return formatNumber(v, 5);
+  return formatQty(v, unit, q === 'fsHz' ? 10 : 5);
+}
+
+function crossCheckView(c: CrossCheck): CrossCheckView {
+  const [name] = QUANTITY_LABEL[c.quantity];
+  return {
+    quantity: name,
+    verdict: c.verdict === 'agree' ? 'methods agree' : c.verdict === 'disagree' ? 'methods disagree' : 'one method only',
+    verdictClass: c.verdict === 'agree' ? 'pass' : c.verdict === 'disagree' ? 'fail' : 'unknown',
+    rule: c.rule,
+    message: c.message,
+    values: c.values.map((v) => ({
+      method: METHOD_LABEL[v.method] ?? v.method,
+      value: v.uncertainty !== undefined ? `${valueOf(c.quantity, v.value)} ± ${c.quantity === 'q' ? formatNumber(v.uncertainty, 2) : formatQty(v.uncertainty, QUANTITY_LABEL[c.quantity][1], 2)}` : valueOf(c.quantity, v.value),
+      note: v.note,
+    })),
+  };
+}
+
+function modeRow(m: ModeResult): ModeRowView {
+  const u = m.uncertainty;
+  return {
+    label: modeLabel(m) + (m.flagged ? ' — above the trusted instrument range' : ''),
+    cells: [
+      formatWithUncertainty(m.fsHz, u.fsHz, 'Hz', 9),
+      formatWithUncertainty(m.fpHz, u.fpHz, 'Hz', 9),
+      formatWithUncertainty(m.r1Ohm, u.r1Ohm, 'Ω'),
+      formatWithUncertainty(m.l1H, u.l1H, 'H'),
+      formatWithUncertainty(m.c1F, u.c1F, 'F'),
+      u.q > 0 ? `${formatNumber(m.q, 5)} ± ${formatNumber(u.q, 2)}` : formatNumber(m.q, 5),
+      formatNumber(m.m, 3),
+      formatNumber(m.r, 4),
+      m.frHz !== undefined ? formatHz(m.frHz, 10) : '—',
+      m.rrOhm !== undefined ? formatQty(m.rrOhm, 'Ω', 4) : '—',
+      m.strengthDb !== undefined ? `${m.strengthDb.toFixed(1)} dB (×${formatNumber(m.resistanceRatio, 3)})` : '—',
+    ],
+  };
+}
+
+function conditions(s: { temperatureC?: number; driveW?: number; addedCapacitanceF?: number; addedConnection?: string; referenceImpedanceOhm?: number }): string {
+  const parts: string[] = [];
+  if (s.temperatureC !== undefined) parts.push(`${s.temperatureC} °C`);
+  if (s.driveW !== undefined) parts.push(`drive ${formatQty(s.driveW, 'W', 3)}`);
+  if (s.addedCapacitanceF !== undefined) parts.push(`${formatQty(s.addedCapacitanceF, 'F', 3)} added in ${s.addedConnection ?? 'parallel'}`);
+  if (s.referenceImpedanceOhm !== undefined) parts.push(`Z0 ${formatQty(s.referenceImpedanceOhm, 'Ω', 3)}`);
+  return parts.join(', ') || '—';
+}
+
+function diagnosticText(d: Diagnostic): string {
+  return `${d.sweep ? `${d.sweep}: ` : ''}${d.message}`;
+}
+
+function sampleView(s: SampleData, partId: string, si: number): SampleView {
+  const p = s.provenance;
+  const provenance: Row[] = [
+    { label: 'Measured by', value: p.by ?? 'not recorded' },
+    { label: 'Date', value: p.measured ?? 'not recorded' },
+    { label: 'Instrument', value: p.instrument ?? 'not recorded' },
+    ...(p.instrumentMaxFrequencyHz !== undefined ? [{ label: 'Trusted up to', value: formatHz(p.instrumentMaxFrequencyHz, 4) }] : []),
+    ...(p.lot ? [{ label: 'Lot', value: p.lot }] : []),
+    { label: 'Reference conditions', value: conditions({ temperatureC: s.temperatureC, driveW: s.driveW }) },
+  ];
+  const comp = p.compensation;
+  const plots: PlotLayout[] = [];
+  const base = `${partId}-s${si}`.replace(/[^A-Za-z0-9_-]/g, '_');
+  s.plots.modes.forEach((m, i) => plots.push(layoutPlot(modePlotSpec(m, `${base}-mode${i}`))));
+  if (s.plots.wide) plots.push(layoutPlot(widePlotSpec(s.plots.wide, `${base}-wide`)));
+  if (s.plots.pulling) plots.push(layoutPlot(pullingPlotSpec(s.plots.pulling, `${base}-pull`)));
+  if (s.plots.temperature) plots.push(layoutPlot(temperaturePlotSpec(s.plots.temperature, `${base}-temp`)));
+  const t = s.temperature;
+  return {
+    id: s.id,
+    anchor: `sample-${s.id}`,
+    ok: s.ok,
+    provenance,
+    sweeps: p.sweeps.map((w) => ({
+      file: w.file,
+      fixture: w.fixture,
+      conditions: conditions(w),
+      points: w.points !== undefined ? String(w.points) : '—',
+      span: w.startHz !== undefined && w.stopHz !== undefined ? `${formatHz(w.startHz, 7)} – ${formatHz(w.stopHz, 7)}` : '—',
+    })),
+    compensation: comp ? [comp.open && `open ${comp.open}`, comp.short && `short ${comp.short}`, comp.load && `load ${comp.load} (${formatQty(comp.loadResistanceOhm, 'Ω', 4)})`].filter(Boolean).join(', ') + (comp.fixture ? ` in a ${comp.fixture} fixture` : '') : undefined,
+    modeHeaders: ['Mode', 'fs', 'fp', 'R1', 'L1', 'C1', 'Q', 'M', 'r = C0/C1', 'fr', 'Rr', 'Strength'],
+    modeRows: s.modes.map(modeRow),
+    c0: s.c0F !== undefined ? formatWithUncertainty(s.c0F, s.modes[0]?.uncertainty.c0F, 'F') : '—',
+    fit: s.fit ? `${s.fit.converged ? 'converged' : 'did not converge'} after ${s.fit.iterations} iterations on ${s.fit.points} points; rms relative residual ${formatNumber(s.fit.rmsResidual, 2)}${s.fit.reason ? ` (${s.fit.reason})` : ''}` : undefined,
+    crossChecks: [
+      ...(s.c0CrossCheck ? [{ mode: 'shunt capacitance', checks: [crossCheckView(s.c0CrossCheck)] }] : []),
+      ...s.modes.filter((m) => m.crossCheck.length).map((m) => ({ mode: `${modeLabel(m)} at ${formatHz(m.fsHz, 8)}`, checks: m.crossCheck.map(crossCheckView) })),
+    ],
+    warnings: s.warnings,
+    diagnostics: s.diagnostics.map((d) => ({ severity: d.severity, text: diagnosticText(d) })),
+    drive: s.drive
+      ? {
+          rows: s.drive.points.map((d) => [formatQty(d.driveW, 'W', 3), formatQty(d.r1Ohm, 'Ω', 4), formatHz(d.fsHz, 10), d.sweep]),
+          summary: `resistance ratio max/min ${formatNumber(s.drive.resistanceRatio, 4)}; frequency shift from lowest to highest drive ${formatPpm(s.drive.frequencyShiftPpm, 3)}`,
+        }
+      : undefined,
+    otherConditions: s.otherConditions.map((o) => [o.sweep, conditions(o), formatHz(o.fsHz, 10), formatQty(o.r1Ohm, 'Ω', 4)]),
+    temperatureSummary: t
+      ? `${t.form} fit about ${t.t0C} °C, rms residual ${formatNumber(t.rmsResidualPpm, 2)} ppm; turnover ${t.turnoverC.length ? t.turnoverC.map((x) => `${x.toFixed(1)} °C`).join(', ') : 'none in range'}; span ${t.spanPpm.toFixed(2)} ppm peak-to-peak over ${t.spanRangeC.min} to ${t.spanRangeC.max} °C`
+      : undefined,
+    plots,
+  };
+}
+
+function pairRows(p: CapacitorPair): Row[] {
+  return [
+    { label: 'Capacitors (input / output pin)', value: `${formatQty(p.inputCapF, 'F', 3)} / ${formatQty(p.outputCapF, 'F', 3)}` },
+    { label: 'Pin totals Ca / Cb', value: `${formatQty(p.caF, 'F', 3)} / ${formatQty(p.cbF, 'F', 3)}` },
+    { label: 'Load capacitance', value: formatQty(p.clF, 'F', 4) },
+    { label: 'Frequency', value: formatHz(p.freqHz, 10) },
+    { label: 'Offset from target', value: formatPpm(p.offsetPpm, 3) },
+    { label: 'Offset band (tolerances)', value: `${formatPpm(p.bandPpm.min, 2)} … ${formatPpm(p.bandPpm.max, 2)}` },
+    { label: 'Gain margin gm/gm,crit', value: formatNumber(p.gainMargin, 3) + (p.gainMarginDatasheet !== undefined ? ` (${formatNumber(p.gainMarginDatasheet, 3)} at datasheet ESR)` : '') },
+    { label: 'Negative resistance', value: `${formatQty(p.negativeResistanceOhm, 'Ω', 4)} (RL ${formatQty(p.rlOhm, 'Ω', 4)})` },
+    { label: 'Estimated drive', value: formatQty(p.driveW, 'W', 3) },
+  ];
+}
+
+function pierceView(a: PartData['pierce'][number]): PierceView {
+  const target = a.target ? `${formatHz(a.target.targetHz, 10)} (${a.target.targetBasis}); ideal load ${formatQty(a.target.idealLoadF, 'F', 4)}` : undefined;
+  if (!a.ok) return { circuit: a.circuit, ok: false, reason: a.reason, target, pairs: [], checks: [], assumptions: a.assumptions };
+  const names = { frequency: 'Frequency', gainMargin: 'Gain margin', negativeResistance: 'Negative resistance', drive: 'Drive level' } as const;
+  return {
+    circuit: a.circuit,
+    ok: true,
+    target,
+    pairs: [
+      { title: `Equal pair (ideal ${formatQty(a.idealEqualCapF, 'F', 3)} each)`, rows: pairRows(a.equal) },
+      { title: 'Closest pair', rows: pairRows(a.best) },
+    ],
+    checks: (Object.keys(names) as Array<keyof typeof names>).map((k) => ({ label: names[k], verdict: a.best.checks[k].verdict, reason: a.best.checks[k].reason })),
+    assumptions: a.assumptions,
+  };
+}
+
+const LOT_LABEL: Record<string, [string, string]> = {
+  fsHz: ['fs', 'Hz'], r1Ohm: ['R1', 'Ω'], c1F: ['C1', 'F'], l1H: ['L1', 'H'], c0F: ['C0', 'F'], q: ['Q', ''], loadFreqHz: ['f at datasheet load', 'Hz'],
+};
+
+/** Build the part page's view model; `base` is the site base path ending in '/'. */
+export function makePartView(d: PartData, base: string): PartView {
+  const s = d.summary;
+  const ds = d.datasheet;
+  const sub = [KIND_LABEL[d.kind] ?? d.kind, d.package && `package ${d.package}`, d.supplier && `from ${d.supplier}`, d.supplierPart && `(${d.supplierPart})`].filter(Boolean).join(' · ');
+  return {
+    id: d.id,
+    title: d.title,
+    subtitle: sub,
+    synthetic: d.synthetic,
+    notesHtml: d.notes ? renderMarkdown(d.notes) : undefined,
+    state: STATE_LABEL[s.state],
+    stateClass: s.state,
+    summary: [
+      { label: 'Series resonance fs', value: formatHz(s.fsHz), si: s.fsHz },
+      { label: 'Parallel resonance fp', value: formatHz(s.fpHz), si: s.fpHz },
+      { label: 'Motional resistance R1', value: formatQty(s.r1Ohm, 'Ω', DISPLAY_DIGITS.r1Ohm), si: s.r1Ohm },
+      { label: 'Motional inductance L1', value: formatQty(s.l1H, 'H', DISPLAY_DIGITS.l1H), si: s.l1H },
+      { label: 'Motional capacitance C1', value: formatQty(s.c1F, 'F', DISPLAY_DIGITS.c1F), si: s.c1F },
+      { label: 'Shunt capacitance C0', value: formatQty(s.c0F, 'F', DISPLAY_DIGITS.c0F), si: s.c0F },
+      { label: 'Quality factor Q', value: formatNumber(s.q, DISPLAY_DIGITS.q), si: s.q },
+      { label: 'Mode', value: s.overtone === undefined ? '—' : s.overtone === 1 ? 'fundamental' : `overtone ${s.overtone}` },
+      { label: 'CL for the nominal frequency', value: formatQty(s.clForNominalF, 'F', DISPLAY_DIGITS.clF), si: s.clForNominalF, note: ds?.frequencyHz === undefined ? 'no datasheet frequency' : s.clForNominalF === undefined ? 'not reachable with a positive load' : undefined },
+    ],
+    datasheet: ds
+      ? [
+          ds.frequencyHz !== undefined && { label: 'Nominal frequency', value: formatHz(ds.frequencyHz, 9) },
+          ds.tolerancePpm !== undefined && { label: 'Tolerance', value: `±${ds.tolerancePpm} ppm` },
+          ds.stabilityPpm !== undefined && { label: 'Stability', value: `±${ds.stabilityPpm} ppm` },
+          ds.loadCapacitanceF !== undefined && { label: 'Load capacitance', value: ds.loadCapacitanceF === 'series' ? 'series resonance' : formatQty(ds.loadCapacitanceF, 'F', 3) },
+          ds.esrMaxOhm !== undefined && { label: 'ESR at most', value: formatQty(ds.esrMaxOhm, 'Ω', 3) },
+          ds.c0MaxF !== undefined && { label: 'C0 at most', value: formatQty(ds.c0MaxF, 'F', 3) },
+          ds.driveMaxW !== undefined && { label: 'Drive at most', value: formatQty(ds.driveMaxW, 'W', 3) },
+          ds.overtone !== undefined && { label: 'Overtone', value: String(ds.overtone) },
+          ds.operatingRangeC !== undefined && { label: 'Operating range', value: `${ds.operatingRangeC.min} to ${ds.operatingRangeC.max} °C` },
+        ].filter((r): r is Row => !!r)
+      : [],
+    compliance: d.compliance.map((c) => ({
+      sample: c.sample,
+      basis: c.frequencyBasis,
+      rule: c.mainModeRule,
+      items: c.items.map((i) => ({ label: { frequency: 'Frequency', esr: 'ESR', c0: 'C0', overtone: 'Overtone' }[i.check], value: i.reason, state: i.verdict })),
+    })),
+    samples: d.samples.map((s, i) => sampleView(s, d.id, i)),
+    lotStats: d.lotStats
+      ? {
+          n: d.lotStats.n,
+          rule: d.lotStats.outlierRule,
+          notes: d.lotStats.notes,
+          rows: d.lotStats.parameters.map((p) => {
+            const [name, unit] = LOT_LABEL[p.parameter] ?? [p.parameter, ''];
+            const f = (v: number | undefined) => (unit === '' ? formatNumber(v, 5) : formatQty(v, unit, unit === 'Hz' ? 10 : 5));
+            return [name, String(p.n), f(p.mean), p.std !== undefined ? (unit === '' ? formatNumber(p.std, 2) : formatQty(p.std, unit, 2)) : '—', f(p.min), f(p.max), f(p.median), p.outliers.length ? p.outliers.map((o) => o.sample).join(', ') : p.note ? 'no test' : 'none'];
+          }),
+        }
+      : undefined,
+    pierce: d.pierce.map(pierceView),
+    cautions: [...PART_CAUTIONS],
+    downloads: d.downloads.map((x) => ({ href: `${base}downloads/${encodeURIComponent(d.id)}/${x.name.split('/').map(encodeURIComponent).join('/')}`, label: x.label, name: x.name, size: formatBytes(x.bytes) })),
+    recordWarnings: d.recordWarnings,
+  };
+}
