@@ -10,12 +10,17 @@
 // integration below copies them into the output as data/index.json, data/compare/ and
 // downloads/ (byte for byte), and serves them from the data folder in `astro dev`.
 import { defineConfig } from 'astro/config';
-import { cpSync, createReadStream, existsSync, mkdirSync, rmSync, statSync } from 'node:fs';
+import { cpSync, createReadStream, existsSync, mkdirSync, renameSync, rmSync, statSync } from 'node:fs';
 import { join, normalize, resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const base = process.env.MOTIONAL_BASE || '/';
-const outDir = process.env.MOTIONAL_SITE_OUT || 'dist';
+const siteOut = resolve(process.env.MOTIONAL_SITE_OUT || 'dist');
+// Astro puts a static build's server chunks in ./.astro/ when outDir lies outside the working
+// directory, so two builds at once (tests, parallel builds) would overwrite each other's files.
+// Build inside the project instead, in a folder of this process, and move the result at the end.
+const insideCwd = siteOut.startsWith(process.cwd() + sep);
+const outDir = insideCwd ? siteOut : resolve('.motional', `site-build-${process.pid}`);
 const dataDir = resolve(process.env.MOTIONAL_DATA || '.motional/catalogue');
 
 /** Site path prefix → folder or file in the data folder. */
@@ -24,6 +29,18 @@ const COPIES = [
   ['data/compare', 'compare'],
   ['downloads', 'downloads'],
 ];
+
+/** Move a built folder to its destination (rename, or copy across file systems). */
+function moveFolder(from, to) {
+  rmSync(to, { recursive: true, force: true });
+  mkdirSync(join(to, '..'), { recursive: true });
+  try {
+    renameSync(from, to);
+  } catch {
+    cpSync(from, to, { recursive: true });
+    rmSync(from, { recursive: true, force: true });
+  }
+}
 
 function catalogueData() {
   return {
@@ -40,6 +57,7 @@ function catalogueData() {
           mkdirSync(join(dest, '..'), { recursive: true });
           cpSync(src, dest, { recursive: true });
         }
+        if (resolve(out) !== siteOut) moveFolder(resolve(out), siteOut);
       },
       'astro:server:setup': ({ server }) => {
         const prefix = base.endsWith('/') ? base : `${base}/`;

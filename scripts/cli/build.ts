@@ -4,6 +4,7 @@
  * into DIR, replacing it atomically. Problems go to stderr as `FILE:LINE: message`, the summary
  * to stdout. Exit 0 built, 1 any invalid record or a failed build (DIR untouched), 2 usage.
  */
+import { writeFile } from 'node:fs/promises';
 import { buildCatalogue, formatIssues, formatSummary, type BuildCatalogueOptions } from '../../src/pipeline/build-catalogue.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
 
@@ -18,6 +19,8 @@ The output folder is replaced only when everything succeeded.
   --jobs N        worker threads for extraction (default: one per core; 1 = no threads)
   --no-cache      extract every record again instead of reusing earlier results
   --keep-data DIR also keep the emitted catalogue data (JSON, downloads) in DIR
+  --cache-dir DIR extraction cache folder (default: .motional/cache)
+  --summary FILE  also write the build summary as JSON to FILE
   --data-only     emit the catalogue data into the output folder, without the site
   --quiet         no progress display
   -h, --help      show this help
@@ -26,9 +29,10 @@ exit status: 0 built, 1 any invalid record or failed build (output left as it wa
 `;
 
 /** Parsed options, or a usage message. */
-export function parseBuildArgs(args: string[]): { options: BuildCatalogueOptions; quiet: boolean } | { usage: string } | { help: true } {
+export function parseBuildArgs(args: string[]): { options: BuildCatalogueOptions; quiet: boolean; summaryFile?: string } | { usage: string } | { help: true } {
   const options: BuildCatalogueOptions = {};
   let quiet = false;
+  let summaryFile: string | undefined;
   for (let i = 0; i < args.length; i++) {
     const arg = args[i];
     const [flag, inline] = arg.startsWith('--') && arg.includes('=') ? [arg.slice(0, arg.indexOf('=')), arg.slice(arg.indexOf('=') + 1)] : [arg, undefined];
@@ -41,7 +45,9 @@ export function parseBuildArgs(args: string[]): { options: BuildCatalogueOptions
       case '--out':
       case '--base':
       case '--jobs':
-      case '--keep-data': {
+      case '--keep-data':
+      case '--cache-dir':
+      case '--summary': {
         const v = value();
         if (v === undefined || v === '') return { usage: `${flag} needs a value` };
         if (flag === '--content') options.contentDir = v;
@@ -50,6 +56,8 @@ export function parseBuildArgs(args: string[]): { options: BuildCatalogueOptions
           if (!v.startsWith('/') || /[?#\\]/.test(v)) return { usage: `--base expects a path starting with '/', e.g. /tools/crystals/, got "${v}"` };
           options.base = v;
         } else if (flag === '--keep-data') options.keepDataDir = v;
+        else if (flag === '--cache-dir') options.cacheDir = v;
+        else if (flag === '--summary') summaryFile = v;
         else {
           const n = Number(v);
           if (!Number.isInteger(n) || n < 1 || n > 256) return { usage: `--jobs expects a whole number from 1 to 256, got "${v}"` };
@@ -70,7 +78,7 @@ export function parseBuildArgs(args: string[]): { options: BuildCatalogueOptions
         return { usage: arg.startsWith('-') ? `unknown option "${arg}"` : `unexpected argument "${arg}"` };
     }
   }
-  return { options, quiet };
+  return { options, quiet, summaryFile };
 }
 
 /** Run `build` with the arguments after the command name. */
@@ -93,6 +101,7 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
     const summary = await buildCatalogue({ ...parsed.options, progress, log: (t) => io.err(t), signal: controller.signal });
     io.err(formatIssues(summary.issues));
     io.out(formatSummary(summary));
+    if (parsed.summaryFile) await writeFile(parsed.summaryFile, `${JSON.stringify({ ...summary, issues: summary.issues.length }, null, 2)}\n`);
     return summary.exitCode === 0 ? EXIT_OK : EXIT_BAD_INPUT;
   } finally {
     process.off('SIGINT', stop);

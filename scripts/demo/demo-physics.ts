@@ -85,6 +85,18 @@ export function narrowGrid(centerHz: number, bwHz: number, opts: { halfWidthBw?:
 }
 
 /**
+ * A sweep from `startHz` to `stopHz` (ends rounded outward to a nice step) with the smallest
+ * usual point count giving at least `perBw` points per bandwidth.
+ */
+export function spanGrid(startHz: number, stopHz: number, bwHz: number, perBw = 16): FreqGridSpec {
+  const step = 10 ** Math.floor(Math.log10((stopHz - startHz) / 20));
+  const lo = Math.floor(startHz / step) * step;
+  const hi = Math.ceil(stopHz / step) * step;
+  const points = POINT_CHOICES.find((p) => ((p - 1) * bwHz) / (hi - lo) >= perBw) ?? POINT_CHOICES[POINT_CHOICES.length - 1];
+  return { kind: 'linear', startHz: lo, stopHz: hi, points };
+}
+
+/**
  * A wide sweep for C0 and the anti-resonance: from `below`·(fp − fs) under fs to `above`·(fp − fs)
  * over fp, ends rounded outward to nice steps.
  */

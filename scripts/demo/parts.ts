@@ -17,7 +17,7 @@
 import type { BvdModel, MotionalBranch } from '../../src/lib/models/bvd.ts';
 import type { SynthFileFormat } from '../../src/lib/synth/synth-file.ts';
 import type { TouchstoneFormat, TouchstoneFreqUnit } from '../../src/lib/io/touchstone.ts';
-import { antiResonanceHz, atCutOffset, bandwidthHz, fsForNominal, loadFrequencyHz, narrowGrid, wideGrid } from './demo-physics.ts';
+import { antiResonanceHz, atCutOffset, bandwidthHz, fsForNominal, loadFrequencyHz, narrowGrid, spanGrid, wideGrid } from './demo-physics.ts';
 import type { DemoPart, DemoSample, DemoSweep } from './demo-types.ts';
 
 export type { DemoPart, DemoSample, DemoSweep, DemoMode } from './demo-types.ts';
@@ -49,11 +49,6 @@ function shifted(model: BvdModel, k: number, ppm: number, r1Ohm?: number): BvdMo
 /** Narrow sweep around branch k of a model (±6 bandwidths, ≥ 16 points per bandwidth unless told). */
 function narrowAround(model: BvdModel, k = 0, opts: { halfWidthBw?: number; perBw?: number } = {}) {
   return narrowGrid(model.branches[k].fsHz, bandwidthHz(model.branches[k]), opts);
-}
-
-/** Narrow sweep around the anti-resonance above branch k. */
-function narrowAroundFp(model: BvdModel, k = 0) {
-  return narrowGrid(antiResonanceHz(model, k), bandwidthHz(model.branches[k]));
 }
 
 const MAIN = [{ branch: 0, overtone: 1, spurious: false }];
@@ -200,19 +195,19 @@ const parts: DemoPart[] = [];
     package: '3225',
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX32-12M-08',
-    notes: 'Sensor-board clock. Measured in a spring-contact SMD socket whose stray capacitance (about 0.7 pF) and series inductance would otherwise add to C0 and shift fs; the open and short sweeps of the empty and shorted socket remove them.',
+    notes: 'Sensor-board clock. Measured in a spring-contact SMD socket whose stray capacitance (about 0.45 pF) and series inductance would otherwise add to C0 and shift fs; the open and short sweeps of the empty and shorted socket remove them. Sweeps averaged 16 times: subtracting the socket capacitance makes the anti-resonance region sensitive to noise.',
     datasheet: { frequency: '12 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '60 ohm', c0Max: '3 pF', driveMax: '100 uW', operatingRange: '-40 to 85 C' },
-    scenario: { shows: 'open/short fixture compensation (socket residuals Rs = 0.35 Ω, Ls = 4.5 nH, Cp = 0.7 pF)' },
+    scenario: { shows: 'open/short fixture compensation (socket residuals Rs = 0.35 Ω, Ls = 4.5 nH, Cp = 0.45 pF)' },
     samples: [{
       id: 'A1', measured: '2026-03-02', by: 'TK', instrument: INSTRUMENT.socket, model, modes: MAIN,
-      parasitics: { rsOhm: 0.35, lsH: 4.5e-9, cpF: 0.7 * pF },
+      parasitics: { rsOhm: 0.35, lsH: 4.5e-9, cpF: 0.45 * pF },
       compensation: {
-        fixture: 'series-thru', format: ts1('DB', 'Hz'), noiseDb: -80, open: 'socket-open.s2p', short: 'socket-short.s2p',
+        fixture: 'series-thru', format: ts1('DB', 'Hz'), noiseDb: -85, open: 'socket-open.s2p', short: 'socket-short.s2p',
         grid: { kind: 'linear', startHz: span[0], stopHz: span[1], points: 401 },
       },
       sweeps: [
-        { file: 'a1-narrow.s2p', fixture: 'series-thru', format: ts1('DB', 'Hz'), grid: narrowAround(model), noiseDb: -70, driveW: 10 * uW },
-        { file: 'a1-wide.s2p', fixture: 'series-thru', format: ts1('DB', 'Hz'), grid: wide, noiseDb: -70, driveW: 10 * uW },
+        { file: 'a1-narrow.s2p', fixture: 'series-thru', format: ts1('DB', 'Hz'), grid: narrowAround(model), noiseDb: -80, driveW: 10 * uW },
+        { file: 'a1-wide.s2p', fixture: 'series-thru', format: ts1('DB', 'Hz'), grid: wide, noiseDb: -80, driveW: 10 * uW },
       ],
     }],
   });
@@ -346,7 +341,8 @@ const parts: DemoPart[] = [];
     file: `a1-${connection === 'parallel' ? 'par' : 'ser'}-${clF / pF}pf.s2p`,
     fixture: 'series-thru',
     format: ts1('RI', 'Hz'),
-    grid: narrowGrid(loadFrequencyHz(b, model.c0F, clF), bw),
+    // From fs to past fL: the part's own resonance and the load (anti-)resonance in one sweep.
+    grid: spanGrid(b.fsHz - 6 * bw, loadFrequencyHz(b, model.c0F, clF) + 6 * bw, bw),
     noiseDb: -70,
     driveW: 10 * uW,
     added: { capacitanceF: clF, connection },
@@ -616,5 +612,3 @@ export const DEMO_PARTS: readonly DemoPart[] = parts;
 export function modelOfSweep(sample: DemoSample, sweep: DemoSweep): BvdModel {
   return sweep.model ?? sample.model;
 }
-
-export { narrowAroundFp };

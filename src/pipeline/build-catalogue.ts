@@ -4,12 +4,13 @@
  * Stages (each timed for the summary):
  * 1. discover — find every part.yaml under the content folder; read the oscillator circuits.
  * 2. records  — per record, in worker threads: fingerprint, cache lookup, else load + validate
- *               + extract + page data. Once any record is invalid the remaining ones are only
- *               validated, so every problem of every record is still listed.
- *    Any error stops the build here, before anything is written next to the output folder.
- * 3. emit     — write the catalogue data (per-part JSON, search index, downloads) into a staging
- *               folder next to the output folder.
- * 4. site     — run the Astro build from that data into the staging folder.
+ *               + extract + page data; then the part's files are written into a staging folder
+ *               next to the output folder. Once any record is invalid the remaining ones are
+ *               only validated, so every problem of every record is still listed.
+ *               Any error stops the build here: the staging folder is removed and the output
+ *               folder was never touched.
+ * 3. emit     — write the search index over all parts.
+ * 4. site     — run the Astro build from the staged data into the staging folder.
  * 5. swap     — replace the output folder by the staged site (atomic-dir.ts).
  *
  * Accounting: parts published (pages in the built site) must equal the valid records found;
@@ -92,15 +93,22 @@ export interface BuildSummary {
   outDir: string;
 }
 
-/** Every part.yaml under `dir`: its own, else those of its sub-folders (sorted, hidden folders skipped). */
-export async function discoverRecords(dir: string, depth = 0): Promise<string[]> {
+/**
+ * Every part.yaml under `dir`: its own, else those of its sub-folders, sorted; hidden folders,
+ * node_modules, links to folders and the `exclude` folders (absolute: the build's own output)
+ * are skipped.
+ */
+export async function discoverRecords(dir: string, exclude: ReadonlySet<string> = new Set(), depth = 0): Promise<string[]> {
   const own = join(dir, 'part.yaml');
   if ((await stat(own).catch(() => undefined))?.isFile()) return [own];
   if (depth >= MAX_SEARCH_DEPTH) return [];
   const entries = await readdir(dir, { withFileTypes: true }).catch(() => []);
-  const names = entries.filter((e) => e.isDirectory() && !e.name.startsWith('.') && e.name !== 'node_modules').map((e) => e.name).sort();
+  const names = entries
+    .filter((e) => e.isDirectory() && !e.name.startsWith('.') && e.name !== 'node_modules' && !exclude.has(resolve(dir, e.name)))
+    .map((e) => e.name)
+    .sort();
   const out: string[] = [];
-  for (const name of names) out.push(...(await discoverRecords(join(dir, name), depth + 1)));
+  for (const name of names) out.push(...(await discoverRecords(join(dir, name), exclude, depth + 1)));
   return out;
 }
 
@@ -142,7 +150,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       summary.issues.push({ severity: 'error', file: contentDir, message: 'content folder not found', code: 'missing' });
       throw new BuildFailure('no content');
     }
-    const records = await discoverRecords(contentDir);
+    const exclude = new Set([outDir, ...(options.keepDataDir ? [resolve(options.keepDataDir)] : [])]);
+    const records = await discoverRecords(contentDir, exclude);
     summary.recordsFound = records.length;
     if (records.length === 0) {
       summary.issues.push({ severity: 'error', file: contentDir, message: 'no part.yaml in this folder or its subfolders', code: 'no-parts' });

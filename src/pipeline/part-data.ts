@@ -210,8 +210,9 @@ function sampleData(sample: Sample, res: SampleResult | undefined, sweeps: Loade
     otherConditions: res.otherConditions,
     plots: {
       modes: modePlots(res, sweeps, sample, main?.index, detailed),
-      wide: main ? widePlot(res, sweeps, main.mode) : undefined,
-      pulling: main ? pullingPlot(res, main.mode, ds, part) : undefined,
+      // Wide sweep and pulling curve for the detailed sample only: others look the same (page size).
+      wide: main && detailed ? widePlot(res, sweeps, main.mode) : undefined,
+      pulling: main && detailed ? pullingPlot(res, main.mode, ds, part) : undefined,
       temperature: res.temperature ? temperaturePlot(res) : undefined,
     },
   };

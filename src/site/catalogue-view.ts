@@ -76,7 +76,8 @@ export function makeCatalogueView(entries: IndexEntry[], base: string): Catalogu
         xName: 'Series resonance fs', xUnit: 'Hz', xScale: 'log',
         panels: [{ yName: 'R1', yUnit: 'Ω', yScale: 'log', series: [] }],
         links: plotted.map((e) => ({ x: e.fsHz!, y: e.r1Ohm!, href: partHref(base, e.id), label: `${e.id}: ${formatHz(e.fsHz, 7)}, R1 ${formatQty(e.r1Ohm, 'Ω', 3)}`, group: ['quartz-at', 'quartz-tuning-fork', 'ceramic', 'saw', 'other'].indexOf(e.kind), id: e.id })),
-        height: 340,
+        groupLabels: ['quartz AT-cut', 'tuning fork', 'ceramic', 'SAW', 'other'],
+        height: 360,
       })
     : undefined;
   return { rows, kinds, packages, overtones, states, overview, count: entries.length };

@@ -7,7 +7,7 @@
 import type { Curve } from './types.ts';
 
 /** Default point budget per curve. */
-export const MAX_CURVE_POINTS = 400;
+export const MAX_CURVE_POINTS = 320;
 
 /**
  * Indices to keep from `y` (length n): first, last, per-bucket min and max, and `keep`.

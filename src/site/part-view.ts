@@ -73,7 +73,8 @@ export interface PartView {
   stateClass: string;
   summary: Row[];
   datasheet: Row[];
-  compliance: Array<{ sample: string; basis?: string; rule: string; items: Row[] }>;
+  compliance: Array<{ sample: string; basis?: string; rule: string; items: Row[]; cells: Array<{ text: string; state: string; title: string }> }>;
+  complianceHeaders: string[];
   samples: SampleView[];
   lotStats?: { n: number; rule: string; rows: string[][]; notes: string[] };
   pierce: PierceView[];
@@ -254,6 +255,8 @@ function pierceView(a: PartData['pierce'][number]): PierceView {
   };
 }
 
+const COMPLIANCE_LABEL = { frequency: 'Frequency', esr: 'ESR', c0: 'C0', overtone: 'Overtone' } as const;
+
 const LOT_LABEL: Record<string, [string, string]> = {
   fsHz: ['fs', 'Hz'], r1Ohm: ['R1', 'Ω'], c1F: ['C1', 'F'], l1H: ['L1', 'H'], c0F: ['C0', 'F'], q: ['Q', ''], loadFreqHz: ['f at datasheet load', 'Hz'],
 };
@@ -299,8 +302,15 @@ export function makePartView(d: PartData, base: string): PartView {
       sample: c.sample,
       basis: c.frequencyBasis,
       rule: c.mainModeRule,
-      items: c.items.map((i) => ({ label: { frequency: 'Frequency', esr: 'ESR', c0: 'C0', overtone: 'Overtone' }[i.check], value: i.reason, state: i.verdict })),
+      items: c.items.map((i) => ({ label: COMPLIANCE_LABEL[i.check], value: i.reason, state: i.verdict })),
+      cells: (['frequency', 'esr', 'c0', 'overtone'] as const).map((k) => {
+        const i = c.items.find((x) => x.check === k);
+        if (!i) return { text: '—', state: 'unknown', title: '' };
+        const v = i.value === undefined ? '' : k === 'frequency' ? formatPpm(i.value, 2) : k === 'esr' ? formatQty(i.value, 'Ω', 3) : k === 'c0' ? formatQty(i.value, 'F', 3) : String(i.value);
+        return { text: v, state: i.verdict, title: i.reason };
+      }),
     })),
+    complianceHeaders: ['Frequency at datasheet load', 'ESR', 'C0', 'Overtone'],
     samples: d.samples.map((s, i) => sampleView(s, d.id, i)),
     lotStats: d.lotStats
       ? {

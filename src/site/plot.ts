@@ -54,6 +54,8 @@ export interface PlotSpec {
   markers?: Array<{ x: number; label: string }>;
   /** Linked points (drawn in the first panel; overview chart). */
   links?: PointLinkSpec[];
+  /** Legend names of the link groups (index = group). */
+  groupLabels?: string[];
   width?: number;
   height?: number;
 }
@@ -99,7 +101,7 @@ export interface PlotLayout {
   panels: PanelLayout[];
   markers: Array<{ x: number; label: string; top: number; bottom: number }>;
   links: Array<{ cx: number; cy: number; href: string; label: string; group: number; id?: string }>;
-  legend: Array<{ label: string; style: SeriesStyle; x: number }>;
+  legend: Array<{ label: string; style: SeriesStyle; x: number; group?: number }>;
 }
 
 const MARGIN = { left: 70, right: 18, top: 30, bottom: 44, gap: 14 };
@@ -267,9 +269,15 @@ export function layoutPlot(spec: PlotSpec): PlotLayout {
       if (seen.has(key)) continue;
       seen.add(key);
       legend.push({ label: s.label, style: s.style, x: lx });
-      lx += 34 + s.label.length * 6.6;
+      lx += 44 + s.label.length * 7.4;
     }
   }
+  const usedGroups = new Set(links.map((l) => l.group));
+  (spec.groupLabels ?? []).forEach((label, group) => {
+    if (!usedGroups.has(group)) return;
+    legend.push({ label, style: 'points', x: lx, group });
+    lx += 30 + label.length * 7.4;
+  });
   return {
     id: spec.id,
     title: spec.title,

@@ -10,7 +10,7 @@
  * Input sweeps are of the part alone (added capacitors already removed, see part-alone.ts);
  * a remaining fixture stray capacitance cannot be told from C0 here (FIELD.md §2f).
  */
-import { linearLeastSquares } from './small-linalg.ts';
+import { invertSmall } from './small-linalg.ts';
 
 /** A mode as known before C0: frequency, quality, and (if known) motional capacitance. */
 export interface C0ModeHint {
@@ -101,22 +101,47 @@ export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options:
   };
   // Noise on Ceff is proportional to |Y|/ω; cap the weight where |Y| → 0 (anti-resonance).
   const scale = ceff.reduce((a, b) => a + Math.abs(b), 0) / ceff.length;
-  const rows: number[][] = [];
-  const y: number[] = [];
-  const wts: number[] = [];
+  // Normal equations accumulated directly (thousands of points, a handful of unknowns).
+  const fitIdx = modes.map((_, k) => k).filter((k) => fitted[k]);
+  const p = 1 + fitIdx.length;
+  const ata = Array.from({ length: p }, () => new Array<number>(p).fill(0));
+  const aty = new Array<number>(p).fill(0);
+  const row = new Array<number>(p).fill(0);
+  const yv = new Float64Array(fs.length);
+  const wv = new Float64Array(fs.length);
+  const rowsFlat = new Float64Array(fs.length * p);
   for (let i = 0; i < fs.length; i++) {
-    const row = [1];
+    row[0] = 1;
     let held = 0;
-    modes.forEach((m, k) => {
-      if (fitted[k]) row.push(term(fs[i], m));
-      else held += (m.c1F ?? 0) * term(fs[i], m);
-    });
-    rows.push(row);
-    y.push(ceff[i] - held);
-    wts.push(1 / (yOverW[i] + 0.1 * scale) ** 2);
+    let c = 1;
+    for (let k = 0; k < modes.length; k++) {
+      const t = term(fs[i], modes[k]);
+      if (fitted[k]) row[c++] = t;
+      else held += (modes[k].c1F ?? 0) * t;
+    }
+    const y = ceff[i] - held;
+    const w = 1 / (yOverW[i] + 0.1 * scale) ** 2;
+    yv[i] = y;
+    wv[i] = w;
+    for (let a = 0; a < p; a++) {
+      rowsFlat[i * p + a] = row[a];
+      aty[a] += w * row[a] * y;
+      for (let b = a; b < p; b++) ata[a][b] += w * row[a] * row[b];
+    }
   }
-  const ls = linearLeastSquares(rows, y, wts);
-  if (!ls) return fail('capacitive-region fit is singular (mode terms cannot be separated from C0)', fs.length);
+  for (let a = 0; a < p; a++) for (let b = 0; b < a; b++) ata[a][b] = ata[b][a];
+  const inv = invertSmall(ata);
+  if (!inv) return fail('capacitive-region fit is singular (mode terms cannot be separated from C0)', fs.length);
+  const beta = inv.map((r) => r.reduce((s, v, j) => s + v * aty[j], 0));
+  let ss = 0;
+  for (let i = 0; i < fs.length; i++) {
+    let fit = 0;
+    for (let a = 0; a < p; a++) fit += rowsFlat[i * p + a] * beta[a];
+    ss += wv[i] * (yv[i] - fit) ** 2;
+  }
+  const dof = fs.length - p;
+  const s2 = dof > 0 ? ss / dof : 1;
+  const ls = { beta, covariance: inv.map((r) => r.map((v) => v * s2)) };
   const c0F = ls.beta[0];
   let col = 1;
   const branchCF = modes.map((m, k) => (fitted[k] ? ls.beta[col++] : (m.c1F ?? 0)));

@@ -65,23 +65,25 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
   const m = hi - lo + 1;
   if (m < 3) return FAIL('fewer than 3 points around the conductance peak', m);
   const f0 = freqHz[peakIndex];
-  const x: number[] = []; // f − f0, Hz
-  const h: number[] = [];
-  const w: number[] = [];
+  const x = new Float64Array(m); // f − f0, Hz
+  const h = new Float64Array(m);
+  const w = new Float64Array(m);
+  let count = 0;
   for (let i = lo; i <= hi; i++) {
     if (!(gS[i] > 0)) continue;
-    x.push(freqHz[i] - f0);
-    h.push(1 / gS[i]);
+    x[count] = freqHz[i] - f0;
+    h[count] = 1 / gS[i];
     const y = Math.max(yAbsS[i], gS[i]);
-    w.push((gS[i] ** 4) / (y * y));
+    w[count] = (gS[i] ** 4) / (y * y);
+    count++;
   }
-  if (x.length < 3) return FAIL('fewer than 3 points with positive conductance around the peak', x.length);
+  if (count < 3) return FAIL('fewer than 3 points with positive conductance around the peak', count);
 
   // Start: weighted parabola in (f − f0), scaled by the span for conditioning.
-  const span = Math.max(Math.abs(x[0]), Math.abs(x[x.length - 1]), 1e-300);
+  const span = Math.max(Math.abs(x[0]), Math.abs(x[count - 1]), 1e-300);
   const ata = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
   const aty = [0, 0, 0];
-  for (let i = 0; i < x.length; i++) {
+  for (let i = 0; i < count; i++) {
     const u = x[i] / span;
     const row = [1, u, u * u];
     for (let a = 0; a < 3; a++) {
@@ -90,82 +92,88 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
     }
   }
   const inv0 = invertSmall(ata);
-  if (!inv0) return FAIL('conductance peak too poorly sampled to fit', x.length);
+  if (!inv0) return FAIL('conductance peak too poorly sampled to fit', count);
   const [pa, pb, pc] = inv0.map((r) => r[0] * aty[0] + r[1] * aty[1] + r[2] * aty[2]);
-  if (!(pc > 0)) return FAIL('conductance does not peak (no curvature) at the found maximum', x.length);
+  if (!(pc > 0)) return FAIL('conductance does not peak (no curvature) at the found maximum', count);
   let delta = (-pb / (2 * pc)) * span; // fs − f0
   let r1 = pa - (pb * pb) / (4 * pc);
   let k = pc / (4 * span * span);
-  if (!(r1 > 0)) r1 = h.reduce((a, b) => Math.min(a, b), Infinity);
+  if (!(r1 > 0)) { r1 = Infinity; for (let i = 0; i < count; i++) r1 = Math.min(r1, h[i]); }
 
-  const evaluate = (d0: number, rr: number, kk: number) => {
+  // Weighted SSE and (optionally) the normal equations JᵀWJ, JᵀWr at (delta, R1, K);
+  // parameter order R1, K, fs.
+  const normal = { a: [[0, 0, 0], [0, 0, 0], [0, 0, 0]], g: [0, 0, 0] };
+  const evaluate = (d0: number, rr: number, kk: number, withNormal: boolean): number => {
     const fs = f0 + d0;
     let sse = 0;
-    const jac: number[][] = [];
-    const res: number[] = [];
-    for (let i = 0; i < x.length; i++) {
+    if (withNormal) for (let p = 0; p < 3; p++) { normal.g[p] = 0; for (let q = 0; q < 3; q++) normal.a[p][q] = 0; }
+    for (let i = 0; i < count; i++) {
       const d = x[i] - d0; // f − fs
       const f = fs + d;
       const v = (d * (2 * fs + d)) / f;
-      const model = rr + kk * v * v;
-      const r = h[i] - model;
-      res.push(r);
-      sse += w[i] * r * r;
-      jac.push([1, v * v, 2 * kk * v * (-2 * fs / f)]);
-    }
-    return { sse, jac, res };
-  };
-
-  let cur = evaluate(delta, r1, k);
-  let lambda = 1e-6;
-  for (let iter = 0; iter < 50; iter++) {
-    const a = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
-    const g = [0, 0, 0];
-    for (let i = 0; i < x.length; i++) {
-      const J = cur.jac[i];
+      const r = h[i] - (rr + kk * v * v);
+      const wi = w[i];
+      sse += wi * r * r;
+      if (!withNormal) continue;
+      const j0 = 1;
+      const j1 = v * v;
+      const j2 = (-4 * kk * v * fs) / f;
+      const J = [j0, j1, j2];
       for (let p = 0; p < 3; p++) {
-        g[p] += w[i] * J[p] * cur.res[i];
-        for (let q = 0; q < 3; q++) a[p][q] += w[i] * J[p] * J[q];
+        normal.g[p] += wi * J[p] * r;
+        for (let q = p; q < 3; q++) normal.a[p][q] += wi * J[p] * J[q];
       }
     }
-    let improved = false;
+    if (withNormal) for (let p = 0; p < 3; p++) for (let q = 0; q < p; q++) normal.a[p][q] = normal.a[q][p];
+    return sse;
+  };
+
+  let sse = evaluate(delta, r1, k, true);
+  let lambda = 1e-6;
+  for (let iter = 0; iter < 30; iter++) {
+    let accepted = false;
+    let gain = 0;
     for (let tries = 0; tries < 12; tries++) {
-      const damped = a.map((row, i) => row.map((v, j) => (i === j ? v * (1 + lambda) : v)));
+      const damped = normal.a.map((row, i) => row.map((v, j) => (i === j ? v * (1 + lambda) : v)));
       const inv = invertSmall(damped);
       if (!inv) break;
+      const g = normal.g;
       const step = inv.map((row) => row[0] * g[0] + row[1] * g[1] + row[2] * g[2]);
-      const next = evaluate(delta + step[2], r1 + step[0], k + step[1]);
-      if (next.sse <= cur.sse && r1 + step[0] > 0 && k + step[1] > 0) {
-        const gain = cur.sse - next.sse;
-        delta += step[2]; r1 += step[0]; k += step[1];
-        cur = next;
-        lambda = Math.max(lambda / 10, 1e-12);
-        improved = gain > 1e-15 * next.sse && next.sse > 0;
-        break;
+      const nr = r1 + step[0];
+      const nk = k + step[1];
+      const nd = delta + step[2];
+      if (nr > 0 && nk > 0) {
+        const next = evaluate(nd, nr, nk, false);
+        if (next <= sse) {
+          gain = sse - next;
+          delta = nd; r1 = nr; k = nk; sse = next;
+          lambda = Math.max(lambda / 10, 1e-12);
+          accepted = true;
+          break;
+        }
       }
       lambda *= 10;
     }
-    if (!improved) break;
+    if (!accepted) break;
+    sse = evaluate(delta, r1, k, true);
+    if (!(gain > 1e-10 * sse) || sse === 0) break;
   }
-
+  const cur = { sse };
+  const xLen = count;
   const fsHz = f0 + delta;
   const l1H = Math.sqrt(k * r1) / (2 * Math.PI);
   const ws = 2 * Math.PI * fsHz;
   const c1F = 1 / (ws * ws * l1H);
   const q = (ws * l1H) / r1;
   const bandwidthHz = fsHz / q;
-  if (![fsHz, r1, l1H, c1F, q].every((v) => Number.isFinite(v) && v > 0)) return FAIL('conductance-peak fit gave non-physical values', x.length);
-  if (Math.abs(delta) > 2 * span + bandwidthHz) return FAIL('conductance-peak vertex lies outside the fitted points', x.length);
+  if (![fsHz, r1, l1H, c1F, q].every((v) => Number.isFinite(v) && v > 0)) return FAIL('conductance-peak fit gave non-physical values', xLen);
+  if (Math.abs(delta) > 2 * span + bandwidthHz) return FAIL('conductance-peak vertex lies outside the fitted points', xLen);
 
   let uncertainty: ConductancePeakResult['uncertainty'];
-  const dof = x.length - 3;
+  const dof = xLen - 3;
   if (dof > 0) {
-    const a = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
-    for (let i = 0; i < x.length; i++) {
-      const J = cur.jac[i];
-      for (let p = 0; p < 3; p++) for (let q2 = 0; q2 < 3; q2++) a[p][q2] += w[i] * J[p] * J[q2];
-    }
-    const inv = invertSmall(a);
+    evaluate(delta, r1, k, true);
+    const inv = invertSmall(normal.a);
     if (inv) {
       const s2 = cur.sse / dof;
       const cov = inv.map((row) => row.map((v) => v * s2)); // order R, K, fs
@@ -182,5 +190,5 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
       };
     }
   }
-  return { ok: true, reason: 'ok', fsHz, r1Ohm: r1, l1H, c1F, q, bandwidthHz, uncertainty, points: x.length, rmsRelative: Math.sqrt(cur.sse / x.length) };
+  return { ok: true, reason: 'ok', fsHz, r1Ohm: r1, l1H, c1F, q, bandwidthHz, uncertainty, points: xLen, rmsRelative: Math.sqrt(cur.sse / xLen) };
 }

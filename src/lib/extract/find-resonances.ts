@@ -65,9 +65,9 @@ export interface FindResonancesOptions {
 /** Noise floor assumed for perfect (synthetic, noiseless) data: −140 dB. */
 const NOISE_FLOOR = 1e-7;
 
-function median(values: number[]): number {
+function median(values: Float64Array): number {
   if (values.length === 0) return 0;
-  const s = [...values].sort((a, b) => a - b);
+  const s = values.slice().sort();
   const m = s.length >> 1;
   return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
 }
@@ -76,11 +76,11 @@ function median(values: number[]): number {
 function estimateNoise(g: Float64Array, b: Float64Array, yAbs: Float64Array): number {
   const n = g.length;
   if (n < 5) return NOISE_FLOOR;
-  const e: number[] = [];
+  const e = new Float64Array(n - 2);
   for (let i = 1; i < n - 1; i++) {
     const d2g = g[i + 1] - 2 * g[i] + g[i - 1];
     const d2b = b[i + 1] - 2 * b[i] + b[i - 1];
-    e.push(Math.min(Math.abs(d2g), Math.abs(d2b)) / yAbs[i]);
+    e[i - 1] = Math.min(Math.abs(d2g), Math.abs(d2b)) / yAbs[i];
   }
   // The smaller of two second differences is dominated by noise rather than curvature; for two
   // independent normal values of spread s its median is 0.3755·s, and s = √6·σ.

@@ -51,7 +51,11 @@ export interface FitBvdOptions {
   maxIterations?: number;
 }
 
-/** Fit outcome: summary, model, standard uncertainties. */
+/**
+ * Fit outcome: summary, model, standard uncertainties. On failure (converged = false) the model is
+ * the initial one, `rmsResidual` is that of the initial model (0 when it cannot be evaluated),
+ * uncertainties are 0 and `iterations` / `stop` describe the failed attempt.
+ */
 export interface FitBvdResult extends FitSummary {
   /** Best model (the initial model when the fit failed, with converged = false). */
   model: BvdModel;
@@ -242,7 +246,7 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
   const m = problem.residualCount;
   const np = points.freqHz.length;
   if (n === 0) return fail('no free parameters', { points: np }, o);
-  if (m <= n) return fail(`${np} points for ${n} parameters: need more points than parameters/2`, { points: np }, o);
+  if (m <= n) return fail(`${np} points (${m} residuals) for ${n} parameters: need more residuals than parameters`, { points: np }, o);
 
   const lm = levenbergMarquardt(problem, problem.x0, { maxIterations: o.maxIterations });
   const rmsFinal = problem.relativeRms(lm.x);
@@ -252,12 +256,15 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     points: np,
     stop: lm.stop,
   };
-  if (!lm.converged || lm.inverseNormal === null) return fail(lm.reason, summary, o);
+  // A failure returns the initial model, so its summary carries the initial model's RMS.
+  const rmsStart = problem.relativeRms(problem.x0);
+  const failed = { ...summary, rmsResidual: Number.isFinite(rmsStart) ? rmsStart : 0 };
+  if (!lm.converged || lm.inverseNormal === null) return fail(lm.reason, failed, o);
 
   const model = problem.toModel(lm.x);
   const map = problem.map;
   if (!(rmsFinal <= MAX_RMS_RESIDUAL)) {
-    return fail(`model does not describe the data: rms relative residual ${rmsFinal.toPrecision(3)} (limit ${MAX_RMS_RESIDUAL})`, summary, o);
+    return fail(`model does not describe the data: rms relative residual ${rmsFinal.toPrecision(3)} (limit ${MAX_RMS_RESIDUAL})`, failed, o);
   }
 
   // Covariance of the parameters and propagation to reported quantities.
@@ -274,12 +281,12 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
   for (const e of map.branches) {
     const br = model.branches[e.branch];
     const name = `branches[${e.branch}]`;
-    if (![br.fsHz, br.r1Ohm, br.c1F].every(isPositive)) return fail(`${name}: fitted values not finite and positive`, summary, o);
-    if (br.fsHz < fLo || br.fsHz > fHi) return fail(`${name}: fitted fs ${br.fsHz.toPrecision(10)} Hz outside the measured span ${fLo}…${fHi} Hz`, summary, o);
+    if (![br.fsHz, br.r1Ohm, br.c1F].every(isPositive)) return fail(`${name}: fitted values not finite and positive`, failed, o);
+    if (br.fsHz < fLo || br.fsHz > fHi) return fail(`${name}: fitted fs ${br.fsHz.toPrecision(10)} Hz outside the measured span ${fLo}…${fHi} Hz`, failed, o);
     const factorR = Math.exp(Math.abs(lm.x[e.lnR1] - x0[e.lnR1]));
     const factorC = Math.exp(Math.abs(lm.x[e.lnC1] - x0[e.lnC1]));
     if (factorR > RESULT_FACTOR_LIMIT || factorC > RESULT_FACTOR_LIMIT) {
-      return fail(`${name}: r1 or c1 moved by a factor ${Math.max(factorR, factorC).toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT}): the data do not determine it`, summary, o);
+      return fail(`${name}: r1 or c1 moved by a factor ${Math.max(factorR, factorC).toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT}): the data do not determine it`, failed, o);
     }
     const dFs = e.fs0Hz * 1e-6; // ∂fs/∂p
     const vP = cov(e.fsOffset, e.fsOffset);
@@ -295,7 +302,7 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     const relR = Math.sqrt(Math.max(vR, 0));
     const relC = Math.sqrt(Math.max(vC, 0));
     if (!(relR <= MAX_RELATIVE_UNCERTAINTY) || !(relC <= MAX_RELATIVE_UNCERTAINTY)) {
-      return fail(`${name}: not determined by the data (relative uncertainty r1 ${(100 * relR).toPrecision(3)} %, c1 ${(100 * relC).toPrecision(3)} %)`, summary, o);
+      return fail(`${name}: not determined by the data (relative uncertainty r1 ${(100 * relR).toPrecision(3)} %, c1 ${(100 * relC).toPrecision(3)} %)`, failed, o);
     }
     const l1H = 1 / ((2 * Math.PI * br.fsHz) ** 2 * br.c1F);
     const q = 1 / (2 * Math.PI * br.fsHz * br.r1Ohm * br.c1F);
@@ -308,25 +315,25 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     };
   }
   if (map.c0 >= 0) {
-    if (!isPositive(model.c0F)) return fail('fitted c0 not finite and positive', summary, o);
+    if (!isPositive(model.c0F)) return fail('fitted c0 not finite and positive', failed, o);
     const factor = Math.exp(Math.abs(lm.x[map.c0] - x0[map.c0]));
-    if (factor > RESULT_FACTOR_LIMIT) return fail(`c0 moved by a factor ${factor.toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT})`, summary, o);
+    if (factor > RESULT_FACTOR_LIMIT) return fail(`c0 moved by a factor ${factor.toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT})`, failed, o);
     const rel = Math.sqrt(Math.max(cov(map.c0, map.c0), 0));
-    if (!(rel <= MAX_RELATIVE_UNCERTAINTY)) return fail(`c0 not determined by the data (relative uncertainty ${(100 * rel).toPrecision(3)} %)`, summary, o);
+    if (!(rel <= MAX_RELATIVE_UNCERTAINTY)) return fail(`c0 not determined by the data (relative uncertainty ${(100 * rel).toPrecision(3)} %)`, failed, o);
     u.c0F = model.c0F * rel;
   }
   if (map.rs >= 0) {
     const rs = model.rsOhm ?? 0;
     const ur = Math.sqrt(Math.max(cov(map.rs, map.rs), 0));
-    if (!Number.isFinite(rs)) return fail('fitted rs not finite', summary, o);
-    if (rs < -NEGATIVE_PARASITIC_SIGMAS * ur) return fail(`fitted rs ${rs.toPrecision(3)} Ω is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ur.toPrecision(2)} Ω)`, summary, o);
+    if (!Number.isFinite(rs)) return fail('fitted rs not finite', failed, o);
+    if (rs < -NEGATIVE_PARASITIC_SIGMAS * ur) return fail(`fitted rs ${rs.toPrecision(3)} Ω is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ur.toPrecision(2)} Ω)`, failed, o);
     u.rsOhm = ur;
   }
   if (map.ls >= 0) {
     const ls = model.lsH ?? 0;
     const ul = Math.sqrt(Math.max(cov(map.ls, map.ls), 0)) * 1e-9;
-    if (!Number.isFinite(ls)) return fail('fitted ls not finite', summary, o);
-    if (ls < -NEGATIVE_PARASITIC_SIGMAS * ul) return fail(`fitted ls ${ls.toPrecision(3)} H is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ul.toPrecision(2)} H)`, summary, o);
+    if (!Number.isFinite(ls)) return fail('fitted ls not finite', failed, o);
+    if (ls < -NEGATIVE_PARASITIC_SIGMAS * ul) return fail(`fitted ls ${ls.toPrecision(3)} H is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ul.toPrecision(2)} H)`, failed, o);
     u.lsH = ul;
   }
 

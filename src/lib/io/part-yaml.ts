@@ -157,7 +157,8 @@ function checkText(text: string, file: string, maxLineChars: number, maxDepth: n
       continue;
     }
     if (c === 0 || (c < 32 && c !== 9 && c !== 13) || c === 0xfffd) {
-      return [errorAt(file, line, `binary data (character U+${c.toString(16).padStart(4, '0')}), expected a YAML text file`, { code: 'binary', col: i - lineStart + 1 })];
+      const what = c === 0xfffd ? 'bytes that are not UTF-8 (decoded as U+FFFD), expected a UTF-8 text file' : `binary data (character U+${c.toString(16).padStart(4, '0')}), expected a YAML text file`;
+      return [errorAt(file, line, what, { code: 'binary', col: i - lineStart + 1 })];
     }
     if (comment) continue;
     const ch = text[i];

@@ -104,6 +104,11 @@ class TouchstoneReader {
   private freqHz: Float64Array = new Float64Array(0);
   private re: Float64Array[] = [];
   private im: Float64Array[] = [];
+  /** Output array per column pair of a row (aliases of re/im entries). */
+  private outRe: Float64Array[] = [];
+  private outIm: Float64Array[] = [];
+  private dupPair = -1;
+  private dupTarget = -1;
 
   // point being assembled over continuation lines
   private pending: Float64Array = new Float64Array(LINE_VALUES_CAP);
@@ -429,6 +434,15 @@ class TouchstoneReader {
     this.freqHz = new Float64Array(this.cap);
     this.re = Array.from({ length: entries }, () => new Float64Array(this.cap));
     this.im = Array.from({ length: entries }, () => new Float64Array(this.cap));
+    this.bindTargets();
+  }
+
+  /** Point the per-column-pair output arrays at the matrix entries (after allocation or growth). */
+  private bindTargets(): void {
+    this.outRe = this.pairTargets.map((t) => this.re[t[0]]);
+    this.outIm = this.pairTargets.map((t) => this.im[t[0]]);
+    this.dupPair = this.pairTargets.findIndex((t) => t.length > 1);
+    this.dupTarget = this.dupPair >= 0 ? this.pairTargets[this.dupPair][1] : -1;
   }
 
   private dataLine(p: number, le: number, lineNo: number): void {
@@ -535,28 +549,30 @@ class TouchstoneReader {
     }
     if (i >= this.cap) this.grow();
     this.freqHz[i] = f;
-    const format = this.options.format;
     const scale = this.scaleRe;
-    const targets = this.pairTargets;
-    for (let k = 0; k < targets.length; k++) {
-      const a = vals[1 + 2 * k];
-      const b = vals[2 + 2 * k];
-      let x: number;
-      let y: number;
-      if (format === 'RI') {
-        x = a;
-        y = b;
-      } else {
-        const mag = format === 'MA' ? a : Math.pow(10, a / 20);
-        const [c, s] = cosSinDeg(b);
-        x = mag * c;
-        y = mag * s;
+    const outRe = this.outRe;
+    const outIm = this.outIm;
+    const pairs = outRe.length;
+    if (this.options.format === 'RI') {
+      for (let k = 0; k < pairs; k++) {
+        outRe[k][i] = vals[1 + 2 * k] * scale;
+        outIm[k][i] = vals[2 + 2 * k] * scale;
       }
-      const tk = targets[k];
-      for (let t = 0; t < tk.length; t++) {
-        this.re[tk[t]][i] = x * scale;
-        this.im[tk[t]][i] = y * scale;
+    } else {
+      const db = this.options.format === 'DB';
+      for (let k = 0; k < pairs; k++) {
+        const a = vals[1 + 2 * k];
+        const mag = (db ? Math.pow(10, a / 20) : a) * scale;
+        const cs = cosSinDeg(vals[2 + 2 * k]);
+        outRe[k][i] = mag * cs[0];
+        outIm[k][i] = mag * cs[1];
       }
+    }
+    // Lower/Upper matrices: the off-diagonal pair fills both N12 and N21
+    const dup = this.dupPair;
+    if (dup >= 0) {
+      this.re[this.dupTarget][i] = outRe[dup][i];
+      this.im[this.dupTarget][i] = outIm[dup][i];
     }
     this.count = i + 1;
   }
@@ -572,6 +588,7 @@ class TouchstoneReader {
     this.re = this.re.map(grow);
     this.im = this.im.map(grow);
     this.cap = cap;
+    this.bindTargets();
   }
 
   private badToken(lineNo: number): void {

@@ -13,7 +13,7 @@
  */
 import { inductanceOf, qualityOf, type BvdModel } from './bvd.ts';
 import type { SampleResult } from '../extract/types.ts';
-import { mainMode, type MainModeHints } from '../osc/main-mode.ts';
+import { mainMode, type MainModeHints, type ModeLike } from '../osc/main-mode.ts';
 import { sampleModel } from '../osc/sample-model.ts';
 import { median } from '../osc/lot-stats.ts';
 
@@ -136,7 +136,9 @@ export function formatNetlist(model: BvdModel, info: NetlistInfo, options: Forma
   const how = [info.method ? `extracted by ${info.method}` : 'extracted from measured sweeps'];
   if (info.fitResidual !== undefined && Number.isFinite(info.fitResidual)) how.push(`rms relative fit residual ${g(info.fitResidual, 3)}`);
   lines.push(c(how.join(', ')));
-  lines.push(c('MEASURED DATA of one sample at one drive level, temperature and fixture: not a specification,'));
+  lines.push(c(info.lotMedianOf
+    ? `DERIVED FROM MEASURED DATA of ${info.lotMedianOf} samples, each at one drive level, temperature and fixture: not a specification,`
+    : 'MEASURED DATA of one sample at one drive level, temperature and fixture: not a specification,'));
   lines.push(c('  not a substitute for the maker\'s data or qualification of the part.'));
   lines.push(c('narrow-band linear model: valid only near each listed mode'
     + (info.validSpanHz ? ` within the measured span ${g(info.validSpanHz.min)} Hz to ${g(info.validSpanHz.max)} Hz` : '') + ';'));
@@ -206,7 +208,7 @@ export interface ModelWithLabels {
  * datasheet overtone's mode (nearest the datasheet frequency first), else the strongest
  * non-spurious mode (see osc/main-mode.ts).
  */
-export function modelFromResult(sample: Pick<SampleResult, 'c0F' | 'modes'>, options: ModelFromResultOptions = {}): ModelWithLabels {
+export function modelFromResult(sample: { c0F: number; modes: Array<ModeLike & { c1F: number }> }, options: ModelFromResultOptions = {}): ModelWithLabels {
   const main = mainMode(sample.modes, options.hints);
   const full = sampleModel(sample);
   let keep = sample.modes.map((_, i) => i);

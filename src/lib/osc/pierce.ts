@@ -11,7 +11,8 @@
  * minimise |offset| of the extracted sample's lossless load resonance fL (main branch, §4.1)
  * from that target. R1 raises fL by about fs/(2QM) — 0.08 ppm for a 16 MHz AT part — which the
  * advice neglects. Equal pair: floor and ceiling of the ideal equal value; best pair: every
- * ordered pair within {@link PAIR_STEPS} preferred values of the ideal, which may be equal.
+ * ordered pair within {@link PAIR_STEPS} preferred values of the ideal and at most
+ * {@link MAX_PAIR_RATIO} apart, which may be equal.
  * Band: worst-case corners of capacitor tolerance, each pin's board stray ± its uncertainty and
  * the pin-to-pin stray ± its uncertainty (CL is monotonic in each, so corners bound it).
  */
@@ -25,6 +26,11 @@ import { loadCapacitanceForHz, loadFrequencyHz } from './load.ts';
 
 /** How many preferred values below the floor and above the ceiling the pair search visits. */
 export const PAIR_STEPS = 2;
+/**
+ * Largest ratio between the two capacitors of a pair the search accepts (project choice: it
+ * keeps pairs near-symmetric, since unequal capacitors raise gm,crit by (Ca + Cb)²/(4CaCb)).
+ */
+export const MAX_PAIR_RATIO = 2;
 
 export type AdviceVerdict = 'pass' | 'warn';
 
@@ -258,7 +264,7 @@ export function advisePierce(input: PierceAdviceInput): PierceAdvice {
   const dsLoad = typeof datasheet?.loadCapacitance === 'number' ? datasheet.loadCapacitance : undefined;
   const givenLoad = input.targetLoadF ?? dsLoad;
   let targetHz: number;
-  let targetBasis: PierceAdvice['targetBasis'];
+  let targetBasis: PierceTarget['targetBasis'];
   let idealLoadF: number;
   if (datasheet?.frequency !== undefined) {
     targetHz = datasheet.frequency;
@@ -308,6 +314,7 @@ export function advisePierce(input: PierceAdviceInput): PierceAdvice {
   let best: CapacitorPair | undefined;
   const values = preferredRange(idealEqualCapF, circuit.series, PAIR_STEPS, PAIR_STEPS);
   for (const x of values) for (const y of values) {
+    if (Math.max(x / y, y / x) > MAX_PAIR_RATIO * (1 + 1e-9)) continue;
     const p = evaluate(x, y);
     if (better(p, best)) best = p;
   }

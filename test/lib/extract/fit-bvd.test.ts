@@ -501,6 +501,7 @@ describe('fitBvd failures are results', () => {
     const start = perturb(X1, 5, 1.1, 0.9, 1.02);
     const fit = fitBvd([sweep], start);
     expectCleanFailure(fit, start);
+    expect(fit.reason).toMatch(/^branches\[0\]: /);
   });
 
   it('reports running out of iterations', () => {
@@ -525,7 +526,7 @@ describe('fitBvd failures are results', () => {
       [[good], { ...X1, c0F: NaN }, {}, 'initial c0F NaN: expected a positive number'],
       [[good], X1, { freeBranches: [3] }, 'free branch 3: expected an index 0…0'],
       [[good], X1, { freeBranches: [], fitC0: false }, 'no free parameters'],
-      [[{ ...good, freqHz: f.subarray(0, 2), zRe: good.zRe.subarray(0, 2), zIm: good.zIm.subarray(0, 2) }], X1, {}, '2 points for 4 parameters'],
+      [[{ ...good, freqHz: f.subarray(0, 2), zRe: good.zRe.subarray(0, 2), zIm: good.zIm.subarray(0, 2) }], X1, {}, '2 points (4 residuals) for 4 parameters: need more residuals than parameters'],
     ];
     for (const [sweeps, start, options, reason] of cases) {
       const fit = fitBvd(sweeps, start, options);

@@ -91,6 +91,12 @@ describe('parsePartYaml: valid records', () => {
     expect(r.part?.samples[0].id).toBe('007');
   });
 
+  it('accepts a YAML timestamp for the measurement date', () => {
+    const r = parsePartYaml(MINIMAL.replace('  - id: A1\n', '  - id: A1\n    measured: !!timestamp 2026-05-02\n'), FILE);
+    expect(r.issues).toEqual([]);
+    expect(r.part?.samples[0].measured).toBe('2026-05-02');
+  });
+
   it('accepts a byte-order mark and CRLF line ends', () => {
     const r = parsePartYaml(`\ufeff${MINIMAL.replace(/\n/g, '\r\n')}`, FILE);
     expect(r.issues).toEqual([]);
@@ -265,6 +271,11 @@ describe('parsePartYaml: hostile and degenerate files', () => {
     const issue = only(`${MINIMAL}notes: a\u0000b\n`);
     expect(issue).toMatchObject({ line: 9, col: 9, code: 'binary' });
     expect(issue.message).toBe('binary data (character U+0000), expected a YAML text file');
+  });
+
+  it('refuses text that is not UTF-8', () => {
+    const issue = only(`${MINIMAL}notes: caf\ufffd\n`);
+    expect(issue).toMatchObject({ line: 9, code: 'binary', message: 'bytes that are not UTF-8 (decoded as U+FFFD), expected a UTF-8 text file' });
   });
 
   it('refuses an empty file and a file of comments only', () => {

@@ -34,11 +34,11 @@ describe('formatNetlist', () => {
     ]);
   });
 
-  it('writes values that read back to the model within 1e-15 relative', () => {
+  it('writes values that read back to the model within 1e-14 relative', () => {
     const text = formatNetlist(OT3, { partId: 'OT3' });
     OT3.branches.forEach((b, i) => {
       const n = i + 1;
-      expect(Number(new RegExp(`^L${n} \\S+ \\S+ (\\S+)$`, 'm').exec(text)![1]) / inductanceOf(b) - 1).toBeLessThan(1e-14);
+      expect(Math.abs(Number(new RegExp(`^L${n} \\S+ \\S+ (\\S+)$`, 'm').exec(text)![1]) / inductanceOf(b) - 1)).toBeLessThan(1e-14);
       expect(Number(new RegExp(`^C${n} \\S+ \\S+ (\\S+)$`, 'm').exec(text)![1])).toBe(b.c1F);
     });
     for (const line of text.split('\n').filter((l) => /^[RLC]\d/.test(l))) expect(line).toMatch(ELEMENT);
@@ -146,7 +146,7 @@ describe('medianModel', () => {
     const med = medianModel(samples, { overtone: 3 });
     expect(med.n).toBe(3);
     expect(med.model.c0F).toBe(OT3.c0F);
-    expect(med.model.branches).toEqual(OT3.branches.map((b) => ({ fsHz: b.fsHz * (1 + 0 * 1e-6), r1Ohm: b.r1Ohm, c1F: b.c1F })));
+    expect(med.model.branches).toEqual(OT3.branches);
     expect(med.labels.map((l) => [l.overtone, l.spurious, l.main])).toEqual([[1, false, false], [3, false, true], [3, true, false]]);
     expect(med.counts).toEqual([3, 3, 3]);
   });
