@@ -21,10 +21,10 @@ interface CommandEntry {
 /** Every command; add a line here and a file in scripts/cli/ for a new one. */
 export const COMMANDS: Record<string, CommandEntry> = {
   check: { synopsis: 'check PATH...', summary: 'validate part records and the sweep files they name', load: () => import('./cli/check.ts') },
-  extract: { synopsis: 'extract PART --json', summary: 'extract the motional parameters of one part', load: () => import('./cli/extract.ts') },
-  netlist: { synopsis: 'netlist PART [--sample ID]', summary: 'print a SPICE subcircuit of a part', load: () => import('./cli/netlist.ts') },
+  extract: { synopsis: 'extract PART [--json]', summary: 'extract the motional parameters of one part', load: () => import('./cli/extract.ts') },
+  netlist: { synopsis: 'netlist PART [options]', summary: 'print a SPICE subcircuit of a part (first sample unless --sample)', load: () => import('./cli/netlist.ts') },
   build: { synopsis: 'build [--content DIR] [--out DIR]', summary: 'validate, extract and build the catalogue site', load: () => import('./cli/build.ts') },
-  advise: { synopsis: 'advise PART', summary: 'suggest load capacitors for a part', load: () => import('./cli/advise.ts') },
+  advise: { synopsis: 'advise PART [options]', summary: 'load-capacitor and start-up advice for a part', load: () => import('./cli/advise.ts') },
 };
 
 export function usage(): string {

@@ -59,6 +59,7 @@ circuit (default: every circuit in ${DEFAULT_CIRCUITS} suited to the part's freq
   --max-drive P               the circuit's own drive budget, e.g. 100uW
   --tolerance T               load capacitor tolerance (default 5%)
   --series E6|E12|E24         preferred-value series (default E12)
+  (a value starting with '-' needs the --flag=VALUE form, e.g. --pin-out=-1pF)
 output:
   --json                      the advice as JSON
   -h, --help                  this text
@@ -173,20 +174,32 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
     }
   }
   if (given.length) {
-    const base: Record<string, unknown> = circuits.length === 1 && v.circuit !== undefined
-      ? { ...circuits[0] }
-      : { name: 'command-line', capacitorTolerance: '5 %', series: 'E12' };
-    for (const k of given) base[CIRCUIT_FLAGS[k]] = flags[k];
-    const checked = OscillatorCircuitSchema.safeParse(base);
-    if (!checked.success) {
-      const byField = Object.fromEntries(Object.entries(CIRCUIT_FLAGS).map(([flag, field]) => [field, flag]));
-      const lines = checked.error.issues.map((i) => {
-        const field = String(i.path[0]);
-        return base[field] === undefined ? `--${byField[field] ?? field}: missing (needed without --circuit)` : `--${byField[field] ?? field}: ${i.message}`;
-      });
-      return usageError(lines.join('\n'));
+    const byField = Object.fromEntries(Object.entries(CIRCUIT_FLAGS).map(([flag, field]) => [field, flag]));
+    if (v.circuit !== undefined) {
+      // Replace single values of the named circuit, each checked by its own field schema.
+      const circuit: Record<string, unknown> = { ...circuits[0] };
+      const problems: string[] = [];
+      for (const k of given) {
+        const field = CIRCUIT_FLAGS[k];
+        const one = OscillatorCircuitSchema.shape[field].safeParse(flags[k]);
+        if (one.success) circuit[field] = one.data;
+        else problems.push(`--${k}: ${one.error.issues[0].message}`);
+      }
+      if (problems.length) return usageError(problems.join('\n'));
+      circuits = [circuit as OscillatorCircuit];
+    } else {
+      const base: Record<string, unknown> = { name: 'command-line', capacitorTolerance: '5 %', series: 'E12' };
+      for (const k of given) base[CIRCUIT_FLAGS[k]] = flags[k];
+      const checked = OscillatorCircuitSchema.safeParse(base);
+      if (!checked.success) {
+        const lines = checked.error.issues.map((i) => {
+          const field = String(i.path[0]);
+          return base[field] === undefined ? `--${byField[field] ?? field}: missing (needed without --circuit)` : `--${byField[field] ?? field}: ${i.message}`;
+        });
+        return usageError(lines.join('\n'));
+      }
+      circuits = [checked.data];
     }
-    circuits = [checked.data];
   }
 
   const chosen = await loadChosenModel(positionals[0], { sampleId: v.sample, lotMedian: v['lot-median'] }, io);

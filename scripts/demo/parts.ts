@@ -122,7 +122,7 @@ const parts: DemoPart[] = [];
     supplier: 'Brimwell Quartzworks',
     supplierPart: 'BQW-4U-4M000-B',
     notes: 'Clock of the legacy depth-sounder interface. Narrow sweep on the reflection bridge, wide sweep in the series-through fixture.',
-    datasheet: { frequency: '4 MHz', tolerance: '30 ppm', stability: '30 ppm', loadCapacitance: '20 pF', esrMax: '150 ohm', c0Max: '7 pF', driveMax: '1 mW', operatingRange: '-20 to 70 C' },
+    datasheet: { frequency: '4 MHz', tolerance: '30 ppm', stability: '30 ppm', loadCapacitance: '20 pF', esrMax: '150 ohm', c0Max: '7 pF', driveMax: '1 mW', overtone: 1, operatingRange: '-20 to 70 C' },
     scenario: { shows: 'a 1-port reflection sweep (Touchstone 1, magnitude/angle, kHz) next to a 2-port wide sweep' },
     samples: [{
       id: 'A1', measured: '2026-01-20', by: 'MO', instrument: INSTRUMENT.network, model, modes: MAIN,
@@ -145,7 +145,7 @@ const parts: DemoPart[] = [];
     supplier: 'Brimwell Quartzworks',
     supplierPart: 'BQW-4S-8M000-A',
     notes: 'Main clock of the sonar front end.',
-    datasheet: { frequency: '8 MHz', tolerance: '30 ppm', stability: '30 ppm', loadCapacitance: '18 pF', esrMax: '80 ohm', c0Max: '7 pF', driveMax: '500 uW', operatingRange: '-20 to 70 C' },
+    datasheet: { frequency: '8 MHz', tolerance: '30 ppm', stability: '30 ppm', loadCapacitance: '18 pF', esrMax: '80 ohm', c0Max: '7 pF', driveMax: '500 uW', overtone: 1, operatingRange: '-20 to 70 C' },
     scenario: { shows: 'a plain series-through measurement, Touchstone 1 real/imaginary in MHz' },
     samples: [{
       id: 'A1', measured: '2026-01-21', by: 'MO', instrument: INSTRUMENT.network, temperatureC: 23, model, modes: MAIN,
@@ -169,7 +169,7 @@ const parts: DemoPart[] = [];
     supplier: 'Brimwell Quartzworks',
     supplierPart: 'BQW-4S-10M00-A',
     notes: 'Reference for the modem PLL. An unwanted mode about 52 kHz above the main resonance shows in every sample of this batch; a narrow sweep was taken around it as well.',
-    datasheet: { frequency: '10 MHz', tolerance: '30 ppm', stability: '30 ppm', loadCapacitance: '18 pF', esrMax: '60 ohm', c0Max: '7 pF', driveMax: '500 uW', operatingRange: '-20 to 70 C' },
+    datasheet: { frequency: '10 MHz', tolerance: '30 ppm', stability: '30 ppm', loadCapacitance: '18 pF', esrMax: '60 ohm', c0Max: '7 pF', driveMax: '500 uW', overtone: 1, operatingRange: '-20 to 70 C' },
     scenario: { shows: 'a spurious (unwanted) mode next to the main mode, Touchstone 1 magnitude/angle in kHz' },
     samples: [{
       id: 'A1', measured: '2026-01-22', by: 'MO', instrument: INSTRUMENT.network, model,
@@ -196,7 +196,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX32-12M-08',
     notes: 'Sensor-board clock. Measured in a spring-contact SMD socket whose stray capacitance (about 0.45 pF) and series inductance would otherwise add to C0 and shift fs; the open and short sweeps of the empty and shorted socket remove them. Sweeps averaged 16 times: subtracting the socket capacitance makes the anti-resonance region sensitive to noise.',
-    datasheet: { frequency: '12 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '60 ohm', c0Max: '3 pF', driveMax: '100 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '12 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '60 ohm', c0Max: '3 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'open/short fixture compensation (socket residuals Rs = 0.35 Ω, Ls = 4.5 nH, Cp = 0.45 pF)' },
     samples: [{
       id: 'A1', measured: '2026-03-02', by: 'TK', instrument: INSTRUMENT.socket, model, modes: MAIN,
@@ -243,7 +243,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX32-16M-10E',
     notes: 'Radio-modem reference. Three samples from each of two delivery lots; sample B2 is an outlier with about twice the motional resistance of its lot mates (still inside the datasheet limit).',
-    datasheet: { frequency: '16 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '10 pF', esrMax: '60 ohm', c0Max: '3 pF', driveMax: '100 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '16 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '10 pF', esrMax: '60 ohm', c0Max: '3 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'several samples from two lots with one outlier; reflection S11 and Z-parameter Touchstone files' },
     samples,
   });
@@ -269,7 +269,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX25-16M-08T',
     notes: 'Candidate for the buoy transmitter, which sees −40 °C on deck in winter. Narrow sweeps at seven chamber temperatures, a wide sweep at 25 °C.',
-    datasheet: { frequency: '16 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '80 ohm', c0Max: '2.5 pF', driveMax: '100 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '16 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '80 ohm', c0Max: '2.5 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'frequency against temperature (AT-cut cubic), Touchstone 2 files', temperatureCoefficients: coeffs },
     samples: [{ id: 'A1', measured: '2026-03-16', by: 'AJ', instrument: INSTRUMENT.chamber, temperatureC: 25, model, modes: MAIN, sweeps }],
   });
@@ -299,7 +299,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX25-20M-08',
     notes: 'Microcontroller clock of the wave-height sensor. Swept at five drive levels from 0.5 µW to 100 µW: the motional resistance is about 16 % higher at the lowest level (a mild drive-level dependence), and the frequency rises slightly with drive.',
-    datasheet: { frequency: '20 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '60 ohm', c0Max: '2.5 pF', driveMax: '100 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '20 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '60 ohm', c0Max: '2.5 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'drive-level dependence (R1 against drive), shunt-through in dB/angle and GHz', driveLevels: levels },
     samples: [{ id: 'A1', measured: '2026-03-18', by: 'AJ', instrument: INSTRUMENT.network, model, modes: MAIN, sweeps }],
   });
@@ -326,7 +326,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX20-24M-08',
     notes: 'Proposed for the smaller sensor board. Both samples measure a few per cent above the 60 ohm ESR limit of the datasheet: borderline, raised with the supplier before approval.',
-    datasheet: { frequency: '24 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '60 ohm', c0Max: '2 pF', driveMax: '100 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '24 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '60 ohm', c0Max: '2 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'a borderline part that fails its datasheet ESR', fails: ['esrMax'] },
     samples,
   });
@@ -355,7 +355,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX32-25M-12',
     notes: 'Ethernet PHY clock of the shore station. Besides the plain sweeps, four sweeps with a known C0G capacitor (8 pF and 12 pF) across the crystal and in series with it, to read C1 and C0 from the load shift.',
-    datasheet: { frequency: '25 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '12 pF', esrMax: '50 ohm', c0Max: '3 pF', driveMax: '200 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '25 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '12 pF', esrMax: '50 ohm', c0Max: '3 pF', driveMax: '200 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'load-capacitance shift with added capacitors, parallel and series' },
     samples: [{
       id: 'A1', measured: '2026-04-14', by: 'MO', instrument: INSTRUMENT.network, model, modes: MAIN,
@@ -382,7 +382,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX20-26M-07',
     notes: 'Clock of the satellite-modem module. Exported from the impedance analyser as tab-separated |Z| and phase.',
-    datasheet: { frequency: '26 MHz', tolerance: '10 ppm', stability: '15 ppm', loadCapacitance: '7 pF', esrMax: '60 ohm', c0Max: '2 pF', driveMax: '100 uW', operatingRange: '-30 to 85 C' },
+    datasheet: { frequency: '26 MHz', tolerance: '10 ppm', stability: '15 ppm', loadCapacitance: '7 pF', esrMax: '60 ohm', c0Max: '2 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-30 to 85 C' },
     scenario: { shows: 'a tab-separated |Z|/phase export' },
     samples: [{
       id: 'A1', measured: '2026-04-21', by: 'TK', instrument: INSTRUMENT.impedance, model, modes: MAIN,
@@ -405,7 +405,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX32-27M-10',
     notes: 'Short-range telemetry link. The narrow sweep was saved as a 2-port file with the crystal on port 1 only; the wide sweep as admittance (Y) parameters.',
-    datasheet: { frequency: '27 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '10 pF', esrMax: '40 ohm', c0Max: '3 pF', driveMax: '200 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '27 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '10 pF', esrMax: '40 ohm', c0Max: '3 pF', driveMax: '200 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'a reflection measurement stored in a 2-port file, and a Y-parameter Touchstone file' },
     samples: [{
       id: 'A1', measured: '2026-04-22', by: 'MO', instrument: INSTRUMENT.network, model, modes: MAIN,
@@ -430,7 +430,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX20-40M-08',
     notes: 'Data-logger FPGA clock. To check for a strong third overtone the sweep went up to 121 MHz, beyond the 100 MHz the old analyser is specified for: the overtone data are shown but flagged, not trusted. Semicolon-separated export.',
-    datasheet: { frequency: '40 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '50 ohm', c0Max: '2 pF', driveMax: '100 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '40 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '50 ohm', c0Max: '2 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'a sweep above the instrument range (instrumentMaxFrequency), semicolon-separated CSV' },
     samples: [{
       id: 'A1', measured: '2026-05-05', by: 'RN', instrument: INSTRUMENT.old, instrumentMaxFrequencyHz: 100e6, model,
@@ -576,7 +576,7 @@ const parts: DemoPart[] = [];
     supplier: 'Brimwell Quartzworks',
     supplierPart: 'BQW-4S-14M74-A',
     notes: 'Baud-rate clock of the serial multiplexer (divides exactly to the usual UART rates). Two samples, Touchstone 2 one-port files.',
-    datasheet: { frequency: '14.7456 MHz', tolerance: '30 ppm', stability: '30 ppm', loadCapacitance: '20 pF', esrMax: '40 ohm', c0Max: '7 pF', driveMax: '500 uW', operatingRange: '-20 to 70 C' },
+    datasheet: { frequency: '14.7456 MHz', tolerance: '30 ppm', stability: '30 ppm', loadCapacitance: '20 pF', esrMax: '40 ohm', c0Max: '7 pF', driveMax: '500 uW', overtone: 1, operatingRange: '-20 to 70 C' },
     scenario: { shows: 'Touchstone 2 one-port reflection (S) and impedance (Z) files' },
     samples,
   });
@@ -593,7 +593,7 @@ const parts: DemoPart[] = [];
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX25-32M-10',
     notes: 'Clock of the LoRa-class radio on the drifter buoys.',
-    datasheet: { frequency: '32 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '10 pF', esrMax: '50 ohm', c0Max: '2 pF', driveMax: '100 uW', operatingRange: '-40 to 85 C' },
+    datasheet: { frequency: '32 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '10 pF', esrMax: '50 ohm', c0Max: '2 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'shunt-through narrow sweep plus a tab-separated R/X wide sweep' },
     samples: [{
       id: 'A1', measured: '2026-05-26', by: 'TK', instrument: INSTRUMENT.network, model, modes: MAIN,

@@ -3,10 +3,11 @@
  *
  * Stages (each timed for the summary):
  * 1. discover — find every part.yaml under the content folder; read the oscillator circuits.
- * 2. records  — per record, in worker threads: fingerprint, cache lookup, else load + validate
- *               + extract + page data; then the part's files are written into a staging folder
- *               next to the output folder. Once any record is invalid the remaining ones are
- *               only validated, so every problem of every record is still listed.
+ * 2. records  — per record: fingerprint and cache lookup (main thread; a hit hard-links the
+ *               part's stored files into a staging folder next to the output folder); the
+ *               others in worker threads: load + validate + extract + page data + files.
+ *               Once any record is invalid the remaining ones are only validated, so every
+ *               problem of every record is still listed.
  *               Any error stops the build here: the staging folder is removed and the output
  *               folder was never touched.
  * 3. emit     — write the search index over all parts.
@@ -23,8 +24,8 @@ import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { formatIssue, type Issue } from '../lib/issues.ts';
 import { parseOscillatorsYaml } from '../lib/osc/oscillators-yaml.ts';
-import { cleanStale, createStaging, discardStaging, swapInto, type StagingDir } from './atomic-dir.ts';
-import { createBuildTaskRunner, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
+import { cleanStale, createStaging, discardStaging, isProcessAlive, swapInto, type StagingDir } from './atomic-dir.ts';
+import { createBuildTaskRunner, createRecordLookup, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
 import { pruneCache, sha256 } from './cache.ts';
 import type { IndexEntry } from '../site/types.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
@@ -33,6 +34,17 @@ import { normalizeBase } from './static-server.ts';
 
 /** The project root: where astro.config.mjs and node_modules are. */
 export const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
+
+/** Working folders of Astro builds, one per build process (see runAstro). */
+const ASTRO_RUNS = join(PROJECT_ROOT, '.motional', 'astro-run');
+
+/** Remove Astro working folders of build processes that are gone. */
+async function cleanAstroRuns(): Promise<void> {
+  for (const name of await readdir(ASTRO_RUNS).catch(() => [] as string[])) {
+    const pid = Number(name);
+    if (Number.isInteger(pid) && pid !== process.pid && !isProcessAlive(pid)) await rm(join(ASTRO_RUNS, name), { recursive: true, force: true });
+  }
+}
 
 /** How deep folders of part folders are searched (as `check` does). */
 export const MAX_SEARCH_DEPTH = 8;
@@ -82,7 +94,10 @@ export interface BuildSummary {
   /** Error issues. */
   errors: number;
   cache: { enabled: boolean; hits: number; misses: number };
+  /** Worker threads requested. */
   jobs: number;
+  /** Worker threads started (0: everything ran in the main thread). */
+  threads: number;
   /** Wall time per stage and in all, ms. */
   stageMs: Partial<Record<BuildStage, number>> & { total: number };
   /** Thread time summed over records, ms: fingerprint + cache, load + validate, extract, page data, writing. */
@@ -126,7 +141,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   const progressStream = options.progress === false ? undefined : (options.progress ?? process.stderr);
   const summary: BuildSummary = {
     exitCode: 1, recordsFound: 0, recordsValid: 0, recordsInvalid: 0, partsPublished: 0, samples: 0, modes: 0,
-    warnings: 0, errors: 0, cache: { enabled: useCache, hits: 0, misses: 0 }, jobs, stageMs: { total: 0 },
+    warnings: 0, errors: 0, cache: { enabled: useCache, hits: 0, misses: 0 }, jobs, threads: 0, stageMs: { total: 0 },
     recordMs: { hash: 0, load: 0, extract: 0, data: 0, emit: 0 }, peakRssBytes: { build: 0, site: 0 }, issues: [], outDir,
   };
   let stageStart = t0;
@@ -145,12 +160,14 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
 
   try {
     await cleanStale(outDir);
+    await cleanAstroRuns();
     stage('discover');
     if (!(await stat(contentDir).catch(() => undefined))?.isDirectory()) {
       summary.issues.push({ severity: 'error', file: contentDir, message: 'content folder not found', code: 'missing' });
       throw new BuildFailure('no content');
     }
-    const exclude = new Set([outDir, ...(options.keepDataDir ? [resolve(options.keepDataDir)] : [])]);
+    const cacheDir = useCache ? resolve(options.cacheDir ?? join(PROJECT_ROOT, '.motional', 'cache')) : undefined;
+    const exclude = new Set([outDir, ...[options.keepDataDir, cacheDir].filter((d): d is string => !!d).map((d) => resolve(d))]);
     const records = await discoverRecords(contentDir, exclude);
     summary.recordsFound = records.length;
     if (records.length === 0) {
@@ -168,7 +185,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     await mkdir(dataDir, { recursive: true });
     await mkdir(scratchDir, { recursive: true });
     const context: BuildTaskContext = {
-      cacheDir: useCache ? resolve(options.cacheDir ?? join(PROJECT_ROOT, '.motional', 'cache')) : undefined,
+      cacheDir,
       // a bad circuits file fails the build; the records are still validated to list their problems
       oscillators: oscillatorsBad ? undefined : oscillators,
       basePath,
@@ -177,7 +194,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     };
 
     stage('records');
-    const results = await runRecords(records, context, jobs, oscillatorsBad, progressStream, options.signal);
+    const { results, threads } = await runRecords(records, context, jobs, oscillatorsBad, progressStream, options.signal);
+    summary.threads = threads;
     for (const r of results) {
       summary.recordMs.hash += r.ms.hash;
       summary.recordMs.load += r.ms.load;
@@ -264,7 +282,15 @@ async function readOscillators(contentDir: string, issues: Issue[]): Promise<Bui
   return { file, text, hash: sha256(text) };
 }
 
-/** Run every record through the workers (or the main thread), in order, at most a few in flight. */
+/** Below this many records to extract, no threads are started (their start-up costs more). */
+const MIN_RECORDS_FOR_THREADS = 4;
+/** Cache lookups (hash + link) running at once in the main thread. */
+const LOOKUP_CONCURRENCY = 8;
+
+/**
+ * Every record, in two passes: cache lookups in the main thread (hits are finished there),
+ * then the rest through the worker threads (or the main thread), a few tasks per thread in flight.
+ */
 async function runRecords(
   records: string[],
   context: BuildTaskContext,
@@ -272,45 +298,65 @@ async function runRecords(
   validateOnly: boolean,
   progressStream: ProgressStream | undefined,
   signal: AbortSignal | undefined,
-): Promise<BuildTaskResult[]> {
+): Promise<{ results: BuildTaskResult[]; threads: number }> {
   const progress = createProgress({ label: 'records', total: records.length, stream: progressStream, silent: !progressStream });
   const results = new Array<BuildTaskResult>(records.length);
   let failed = validateOnly;
-  let next = 0;
   let hits = 0;
+  const note = () => (hits > 0 ? `${hits} cached` : undefined);
+
+  const todo: BuildTask[] = [];
+  const lookup = createRecordLookup(context);
+  let nextLookup = 0;
+  const lookupLane = async () => {
+    while (nextLookup < records.length) {
+      if (signal?.aborted) throw new BuildFailure('build stopped');
+      const index = nextLookup++;
+      const outcome = await lookup.lookup(index, records[index]);
+      if ('done' in outcome) {
+        results[index] = outcome.done;
+        hits++;
+        progress.tick(1, note());
+      } else {
+        todo.push(outcome.task);
+      }
+    }
+  };
+  await Promise.all(Array.from({ length: Math.min(records.length, LOOKUP_CONCURRENCY) }, lookupLane));
+  todo.sort((a, b) => a.index - b.index);
+
   let run: (task: BuildTask) => Promise<BuildTaskResult>;
   let close = async () => {};
-  if (jobs === 1) {
-    const runner = createBuildTaskRunner(context);
-    run = (task) => runner.run(task);
-  } else {
-    const pool = createWorkerPool<BuildTask, BuildTaskResult>({
-      moduleUrl: new URL('./build-worker.ts', import.meta.url),
-      size: Math.min(jobs, records.length),
-      workerData: context,
-    });
+  const threads = jobs > 1 && todo.length >= MIN_RECORDS_FOR_THREADS ? Math.min(jobs, todo.length) : 0;
+  if (threads > 0) {
+    const pool = createWorkerPool<BuildTask, BuildTaskResult>({ moduleUrl: new URL('./build-worker.ts', import.meta.url), size: threads, workerData: context });
     run = (task) => pool.run(task);
     close = () => pool.close();
+  } else if (todo.length > 0) {
+    const runner = await createBuildTaskRunner(context);
+    run = (task) => runner.run(task);
+  } else {
+    run = () => Promise.reject(new Error('no task'));
   }
+  let next = 0;
   const lane = async () => {
-    while (next < records.length) {
+    while (next < todo.length) {
       if (signal?.aborted) throw new BuildFailure('build stopped');
-      const index = next++;
-      const result = await run({ index, yamlFile: records[index], validateOnly: failed });
+      const task = todo[next++];
+      const result = await run({ ...task, validateOnly: failed });
       if (!result.valid) failed = true;
-      if (result.cached) hits++;
-      results[index] = result;
-      progress.tick(1, hits > 0 ? `${hits} cached` : undefined);
+      results[task.index] = result;
+      progress.tick(1, note());
     }
   };
   try {
     // two tasks per thread keep every thread busy while results travel back
-    await Promise.all(Array.from({ length: Math.min(records.length, jobs * 2) }, lane));
+    await Promise.all(Array.from({ length: Math.min(todo.length, Math.max(1, threads) * 2) }, lane));
   } finally {
     await close();
   }
-  progress.done(`${hits} cached, ${records.length - hits} processed${failed ? ', invalid records found' : ''}`);
-  return results;
+  progress.done(`${hits} cached, ${todo.length} processed${failed ? ', invalid records found' : ''}`);
+  return { results, threads };
 }
 
 /**
@@ -358,8 +404,16 @@ const ORPHAN_GUARD = `data:text/javascript,${encodeURIComponent(
 async function runAstro(run: AstroRun): Promise<number> {
   const astro = join(PROJECT_ROOT, 'node_modules', 'astro', 'astro.js');
   const progress = createProgress({ label: 'site', total: run.pages, stream: run.progress, silent: !run.progress });
-  const child = spawn(process.execPath, ['--import', ORPHAN_GUARD, astro, 'build'], {
-    cwd: PROJECT_ROOT,
+  // Astro writes its intermediate server chunks to `<cwd>/.astro/` when the output folder is
+  // not under the working directory. With the project root as working directory every build
+  // would share that folder, and concurrent builds overwrite each other's pages. So each build
+  // runs in a working folder of its own inside the project (the chunks must still find
+  // node_modules), with --root naming the project.
+  const cwd = join(ASTRO_RUNS, String(process.pid));
+  await rm(cwd, { recursive: true, force: true });
+  await mkdir(cwd, { recursive: true });
+  const child = spawn(process.execPath, ['--import', ORPHAN_GUARD, astro, 'build', '--root', PROJECT_ROOT], {
+    cwd,
     env: {
       ...process.env,
       MOTIONAL_DATA: run.dataDir,
@@ -403,6 +457,7 @@ async function runAstro(run: AstroRun): Promise<number> {
     child.on('close', (c, sig) => done(c ?? sig ?? 'unknown'));
   });
   clearInterval(timer);
+  await rm(cwd, { recursive: true, force: true });
   if (code !== 0) {
     progress.done('failed');
     run.log(`${output.join('').trimEnd()}\n`);
@@ -442,7 +497,7 @@ export function formatSummary(s: BuildSummary): string {
     `records found: ${s.recordsFound} (${s.recordsValid} valid, ${s.recordsInvalid} invalid)`,
     `parts published: ${s.partsPublished}`,
     `samples: ${s.samples}, modes: ${s.modes}, warnings: ${s.warnings}, errors: ${s.errors}`,
-    `cache: ${s.cache.enabled ? `${s.cache.hits} hits, ${s.cache.misses} misses` : 'off'}; threads: ${s.jobs}`,
+    `cache: ${s.cache.enabled ? `${s.cache.hits} hits, ${s.cache.misses} misses` : 'off'}; worker threads: ${s.threads}`,
     `time: ${stages}; total ${sec(s.stageMs.total)}`,
     `record work (thread time): fingerprint ${sec(s.recordMs.hash)}, load ${sec(s.recordMs.load)}, extract ${sec(s.recordMs.extract)}, page data ${sec(s.recordMs.data)}, write ${sec(s.recordMs.emit)}`,
     `peak memory: build ${mb(s.peakRssBytes.build)}${s.peakRssBytes.site ? `, site ${mb(s.peakRssBytes.site)}` : ''}`,

@@ -1,25 +1,22 @@
 /**
- * The per-part work of a catalogue build, the same whether it runs in a worker thread or in
- * the main thread (`--jobs 1`): fingerprint the part folder; answer from the cache when the
- * fingerprint is known, else load and validate the record, extract, and make the page data and
- * downloads (storing them in the cache); then write the part's files into the build's data
- * folder. Only a small index entry travels back, so memory stays flat however many parts there are.
+ * The per-part work of a catalogue build.
  *
- * Raw record files (downloads named `raw/…`) are not copied into the cache: the fingerprint
- * covers their bytes, so they are read again from the part folder when written.
+ * {@link lookupRecord} (main thread, cheap): fingerprint the part folder and, when the cache
+ * knows the fingerprint, hard-link the part's stored catalogue files into the build's data
+ * folder. No extraction code is even loaded for that.
+ *
+ * {@link createBuildTaskRunner} (worker threads, or the main thread with `--jobs 1`): for the
+ * others, load and validate the record, extract, make the page data and downloads, write the
+ * part's files with emit.ts's writer, store them in the cache, and put them into the data
+ * folder. Only a small index row travels back, so memory stays flat however many parts.
  */
-import { readFile, readdir, mkdir, rename, rm } from 'node:fs/promises';
+import { copyFile, link, mkdir, readdir, rename, rm } from 'node:fs/promises';
 import { dirname, join, relative, sep } from 'node:path';
 import type { Issue } from '../lib/issues.ts';
-import { extractPart } from '../lib/extract/extract-part.ts';
 import { EXTRACTOR_VERSION } from '../lib/extract/version.ts';
-import { parseOscillatorsYaml } from '../lib/osc/oscillators-yaml.ts';
 import type { OscillatorCircuit } from '../lib/schema/oscillators.ts';
-import { PART_DATA_VERSION, type IndexEntry, type PartData } from '../site/types.ts';
+import { PART_DATA_VERSION, type IndexEntry } from '../site/types.ts';
 import { cacheKey, hashPartFolder, openCache, type BuildCache } from './cache.ts';
-import { makeDownloads, writeCatalogueData, type EmitPart } from './emit.ts';
-import { loadPart } from './load-part.ts';
-import { makeIndexEntry, makePartData } from './part-data.ts';
 
 /** Settings shared by every task of one build (sent once to each thread). */
 export interface BuildTaskContext {
@@ -43,21 +40,8 @@ export interface BuildTask {
   yamlFile: string;
   /** Only validate (another record already failed: nothing will be published). */
   validateOnly: boolean;
-}
-
-/** A download as cached: its text, or the record file it is read from (`raw/…`). */
-export interface CachedDownload {
-  name: string;
-  label?: string;
-  content?: string;
-  /** Path relative to the part folder, for raw record files. */
-  raw?: string;
-}
-
-/** What the cache keeps per part. */
-export interface PartEntry {
-  data: PartData;
-  downloads: CachedDownload[];
+  /** Cache key from {@link lookupRecord}, when the cache is on. */
+  key?: string;
 }
 
 /** Counts of a valid part, for the build summary. */
@@ -66,6 +50,15 @@ export interface PartStats {
   modes: number;
   /** Extraction warnings over the samples (record warnings are in `issues`). */
   warnings: number;
+}
+
+/** Time spent per step, ms. */
+export interface TaskTimes {
+  hash: number;
+  load: number;
+  extract: number;
+  data: number;
+  emit: number;
 }
 
 export interface BuildTaskResult {
@@ -82,18 +75,76 @@ export interface BuildTaskResult {
   /** Answered from the cache. */
   cached: boolean;
   stats?: PartStats;
-  /** Search-index row of the part, once its files are written. */
+  /** Search-index row of the part, once its files are in the data folder. */
   indexEntry?: IndexEntry;
-  /** Time spent per step, ms. */
-  ms: { hash: number; load: number; extract: number; data: number; emit: number };
+  ms: TaskTimes;
 }
 
-/** Header line of a cache entry: what is needed without parsing the body. */
+/** The header of a cache entry; the entry's folder holds the part's catalogue files. */
 interface CacheHeader {
   id: string;
   idLine?: number;
+  /** Issues with files named relative to the part folder ({@link FOLDER_MARK}). */
   issues: Issue[];
   stats: PartStats;
+  indexEntry: IndexEntry;
+  /** Files of the entry folder, relative, '/'-separated. */
+  files: string[];
+}
+
+/** Cache access of one thread: the handle and the key function. */
+interface CacheAccess {
+  cache: BuildCache;
+  keyOf(folderHash: string): string;
+}
+
+function cacheAccess(context: BuildTaskContext): CacheAccess | undefined {
+  if (!context.cacheDir) return undefined;
+  const options = `partData=${PART_DATA_VERSION};base=${context.basePath}`;
+  return {
+    cache: openCache(context.cacheDir),
+    keyOf: (folderHash) => cacheKey({ folderHash, extractorVersion: EXTRACTOR_VERSION, oscillatorsHash: context.oscillators?.hash ?? '', options }),
+  };
+}
+
+const noTimes = (): TaskTimes => ({ hash: 0, load: 0, extract: 0, data: 0, emit: 0 });
+
+/** Outcome of {@link lookupRecord}: a finished result (cache hit), or the task to run. */
+export type LookupOutcome = { done: BuildTaskResult } | { task: BuildTask };
+
+/** Per-build state of the main-thread lookups. */
+export interface RecordLookup {
+  lookup(index: number, yamlFile: string): Promise<LookupOutcome>;
+}
+
+/** Prepare cache lookups for a build (main thread). */
+export function createRecordLookup(context: BuildTaskContext): RecordLookup {
+  const access = cacheAccess(context);
+  const dirs = new Set<string>();
+  return {
+    async lookup(index, yamlFile) {
+      const task: BuildTask = { index, yamlFile, validateOnly: false };
+      if (!access) return { task };
+      const t0 = performance.now();
+      const folder = dirname(yamlFile);
+      const fingerprint = await hashPartFolder(folder).catch(() => undefined);
+      if (!fingerprint) return { task };
+      const key = access.keyOf(fingerprint.hash);
+      const text = await access.cache.get(key);
+      const header = text === undefined ? undefined : parseHeader(text);
+      const t1 = performance.now();
+      if (header && (await linkFiles(access.cache.filesOf(key), header.files, context.dataDir, dirs))) {
+        const ms = { ...noTimes(), hash: t1 - t0, emit: performance.now() - t1 };
+        return {
+          done: {
+            index, yamlFile, id: header.id, idLine: header.idLine, issues: relocate(header.issues, folder),
+            valid: true, cached: true, stats: header.stats, indexEntry: header.indexEntry, ms,
+          },
+        };
+      }
+      return { task: { ...task, key } };
+    },
+  };
 }
 
 /** Runs the tasks of one build in one thread. */
@@ -102,133 +153,127 @@ export interface BuildTaskRunner {
 }
 
 /**
- * Prepare a runner for a build's tasks.
+ * Prepare a runner for a build's tasks (loads the extraction code).
  * @throws Error when the oscillator circuits file has errors (the caller validates it first)
  */
-export function createBuildTaskRunner(context: BuildTaskContext): BuildTaskRunner {
+export async function createBuildTaskRunner(context: BuildTaskContext): Promise<BuildTaskRunner> {
+  const [{ parseOscillatorsYaml }, { loadPart }, { extractPart }, { makePartData, makeIndexEntry }, { makeDownloads, writeCatalogueData }] =
+    await Promise.all([
+      import('../lib/osc/oscillators-yaml.ts'),
+      import('./load-part.ts'),
+      import('../lib/extract/extract-part.ts'),
+      import('./part-data.ts'),
+      import('./emit.ts'),
+    ]);
   let circuits: OscillatorCircuit[] = [];
   if (context.oscillators) {
     const parsed = parseOscillatorsYaml(context.oscillators.text, context.oscillators.file);
     if (parsed.issues.some((i) => i.severity === 'error')) throw new Error(`${context.oscillators.file} has errors`);
     circuits = parsed.circuits;
   }
-  const cache: BuildCache | undefined = context.cacheDir ? openCache(context.cacheDir) : undefined;
-  const options = `partData=${PART_DATA_VERSION};base=${context.basePath}`;
-  const keyOf = (folderHash: string) =>
-    cacheKey({ folderHash, extractorVersion: EXTRACTOR_VERSION, oscillatorsHash: context.oscillators?.hash ?? '', options });
-  return { run: (task) => runTask(task, context, circuits, cache, keyOf) };
+  const access = cacheAccess(context);
+  const dirs = new Set<string>();
+
+  const run = async (task: BuildTask): Promise<BuildTaskResult> => {
+    const ms = noTimes();
+    const base = { index: task.index, yamlFile: task.yamlFile, ms };
+    const folder = dirname(task.yamlFile);
+    let t = performance.now();
+    const lap = (key: keyof TaskTimes) => {
+      const now = performance.now();
+      ms[key] += now - t;
+      t = now;
+    };
+
+    const loaded = await loadPart(task.yamlFile);
+    lap('load');
+    const idLine = loaded.id !== undefined ? loaded.locate(['id']).line : undefined;
+    const valid = loaded.part !== undefined && !loaded.issues.some((i) => i.severity === 'error');
+    if (!valid || task.validateOnly || !loaded.part) {
+      return { ...base, id: loaded.id, idLine, issues: loaded.issues, valid, cached: false };
+    }
+
+    const result = extractPart(loaded.part, loaded.sweeps);
+    lap('extract');
+    const downloads = makeDownloads(loaded, result);
+    const data = makePartData(loaded, result, circuits, { basePath: context.basePath, downloads });
+    const indexEntry = makeIndexEntry(data);
+    const stats: PartStats = {
+      samples: result.samples.length,
+      modes: result.samples.reduce((n, s) => n + s.modes.length, 0),
+      warnings: result.samples.reduce((n, s) => n + s.warnings.length, 0),
+    };
+    lap('data');
+
+    // The part's files, written by the catalogue writer into a folder of their own; its
+    // one-part index is dropped (the build writes the whole index once).
+    const scratch = join(context.scratchDir, String(task.index));
+    await writeCatalogueData(scratch, [{ data, downloads }]);
+    await rm(join(scratch, 'index.json'), { force: true });
+    const files = await listFiles(scratch);
+    if (access && task.key) {
+      const header: CacheHeader = { id: loaded.part.id, idLine, issues: portable(loaded.issues, folder), stats, indexEntry, files };
+      await access.cache.put(task.key, JSON.stringify(header), scratch);
+      if (!(await linkFiles(access.cache.filesOf(task.key), files, context.dataDir, dirs))) {
+        throw new Error(`cache entry ${task.key} lost its files while the build ran`);
+      }
+    } else {
+      await linkFiles(scratch, files, context.dataDir, dirs, true);
+      await rm(scratch, { recursive: true, force: true });
+    }
+    lap('emit');
+    return { ...base, id: loaded.part.id, idLine, issues: loaded.issues, valid: true, cached: false, stats, indexEntry };
+  };
+  return { run };
 }
 
-async function runTask(
-  task: BuildTask,
-  context: BuildTaskContext,
-  circuits: OscillatorCircuit[],
-  cache: BuildCache | undefined,
-  keyOf: (folderHash: string) => string,
-): Promise<BuildTaskResult> {
-  const ms = { hash: 0, load: 0, extract: 0, data: 0, emit: 0 };
-  const base = { index: task.index, yamlFile: task.yamlFile, ms };
-  const folder = dirname(task.yamlFile);
-  let t = performance.now();
-  const lap = (key: keyof typeof ms) => {
-    const now = performance.now();
-    ms[key] += now - t;
-    t = now;
-  };
-
-  let key: string | undefined;
-  if (cache) {
-    const fingerprint = await hashPartFolder(folder).catch(() => undefined);
-    if (fingerprint) {
-      key = keyOf(fingerprint.hash);
-      const text = await cache.get(key);
-      const hit = text === undefined ? undefined : splitEntry(text);
-      lap('hash');
-      if (hit) {
-        const result: BuildTaskResult = {
-          ...base, id: hit.header.id, idLine: hit.header.idLine, issues: relocate(hit.header.issues, folder),
-          valid: true, cached: true, stats: hit.header.stats,
-        };
-        if (!task.validateOnly) {
-          result.indexEntry = await emitEntry(JSON.parse(hit.body) as PartEntry, folder, task.index, context);
-          lap('emit');
-        }
-        return result;
-      }
+/** Every file under a folder, relative, '/'-separated, sorted. */
+async function listFiles(root: string): Promise<string[]> {
+  const out: string[] = [];
+  const walk = async (dir: string, rel: string) => {
+    for (const e of (await readdir(dir, { withFileTypes: true })).sort((a, b) => (a.name < b.name ? -1 : 1))) {
+      const r = rel ? `${rel}/${e.name}` : e.name;
+      if (e.isDirectory()) await walk(join(dir, e.name), r);
+      else out.push(r);
     }
-  }
-  lap('hash');
-
-  const loaded = await loadPart(task.yamlFile);
-  lap('load');
-  const idLine = loaded.id !== undefined ? loaded.locate(['id']).line : undefined;
-  const valid = loaded.part !== undefined && !loaded.issues.some((i) => i.severity === 'error');
-  if (!valid || task.validateOnly || !loaded.part) {
-    return { ...base, id: loaded.id, idLine, issues: loaded.issues, valid, cached: false };
-  }
-
-  const result = extractPart(loaded.part, loaded.sweeps);
-  lap('extract');
-  const downloads = makeDownloads(loaded, result);
-  const data = makePartData(loaded, result, circuits, { basePath: context.basePath, downloads });
-  const rawPrefix = 'raw/';
-  const entry: PartEntry = {
-    data,
-    downloads: downloads.map((d) => (d.name.startsWith(rawPrefix) ? { name: d.name, label: d.label, raw: d.name.slice(rawPrefix.length) } : d)),
   };
-  const stats: PartStats = {
-    samples: result.samples.length,
-    modes: result.samples.reduce((n, s) => n + s.modes.length, 0),
-    warnings: result.samples.reduce((n, s) => n + s.warnings.length, 0),
-  };
-  lap('data');
-  if (cache && key) {
-    const header: CacheHeader = { id: loaded.part.id, idLine, issues: portable(loaded.issues, folder), stats };
-    await cache.put(key, `${JSON.stringify(header)}\n${JSON.stringify(entry)}`);
-  }
-  const indexEntry = await emitEntry(entry, folder, task.index, context);
-  lap('emit');
-  return { ...base, id: loaded.part.id, idLine, issues: loaded.issues, valid: true, cached: false, stats, indexEntry };
+  await walk(root, '');
+  return out;
 }
 
 /**
- * Write one part's files with the catalogue writer (emit.ts) into a scratch folder of its own,
- * then move them into the data folder; the scratch index is dropped (the caller writes the
- * whole index once).
+ * Put `files` from `from` into the same places under `to`: hard links (a copy across file
+ * systems), or renames when `move` is set. An existing target is left alone (two records with
+ * one id: the build fails on the duplicate anyway).
+ * @returns false when a source file is missing
  */
-async function emitEntry(entry: PartEntry, folder: string, index: number, context: BuildTaskContext): Promise<IndexEntry> {
-  const downloads: EmitPart['downloads'] = [];
-  for (const d of entry.downloads) {
-    const content = d.raw !== undefined ? await readFile(join(folder, ...d.raw.split('/')), 'utf8') : (d.content ?? '');
-    downloads.push({ name: d.name, label: d.label, content });
-  }
-  const scratch = join(context.scratchDir, String(index));
-  await writeCatalogueData(scratch, [{ data: entry.data, downloads }]);
-  await moveTree(scratch, context.dataDir, new Set(['index.json']));
-  await rm(scratch, { recursive: true, force: true });
-  return makeIndexEntry(entry.data);
-}
-
-/** Move every file under `from` to the same relative place under `to`, except top-level `skip` names. */
-async function moveTree(from: string, to: string, skip: Set<string>, top = true): Promise<void> {
-  for (const e of await readdir(from, { withFileTypes: true })) {
-    if (top && skip.has(e.name)) continue;
-    const src = join(from, e.name);
-    const dest = join(to, e.name);
-    if (e.isDirectory()) {
-      await mkdir(dest, { recursive: true });
-      await moveTree(src, dest, skip, false);
-    } else {
-      await rename(src, dest);
+async function linkFiles(from: string, files: string[], to: string, dirs: Set<string>, move = false): Promise<boolean> {
+  for (const rel of files) {
+    const parts = rel.split('/');
+    const src = join(from, ...parts);
+    const dest = join(to, ...parts);
+    const dir = dirname(dest);
+    if (!dirs.has(dir)) {
+      await mkdir(dir, { recursive: true });
+      dirs.add(dir);
+    }
+    try {
+      await (move ? rename(src, dest) : link(src, dest));
+    } catch (err) {
+      const code = (err as NodeJS.ErrnoException).code;
+      if (code === 'EEXIST') continue;
+      if (code === 'ENOENT') return false;
+      if (code === 'EXDEV' || code === 'EPERM' || code === 'EMLINK') await copyFile(src, dest);
+      else throw err;
     }
   }
+  return true;
 }
 
-function splitEntry(text: string): { header: CacheHeader; body: string } | undefined {
-  const nl = text.indexOf('\n');
-  if (nl < 0) return undefined;
+function parseHeader(text: string): CacheHeader | undefined {
   try {
-    return { header: JSON.parse(text.slice(0, nl)) as CacheHeader, body: text.slice(nl + 1) };
+    const h = JSON.parse(text) as CacheHeader;
+    return Array.isArray(h.files) && h.indexEntry && typeof h.id === 'string' ? h : undefined;
   } catch {
     return undefined;
   }

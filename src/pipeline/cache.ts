@@ -1,5 +1,6 @@
 /**
- * Extraction cache: one JSON file per part result, keyed by a sha256 over everything the
+ * Extraction cache: per part, a small JSON header (id, issues, counts, index row, file list)
+ * and a folder with the part's emitted catalogue files, keyed by a sha256 over everything the
  * result depends on:
  * - every file in the part folder and its sub-folders (names, link targets and bytes): this
  *   covers the record, each sweep it names and its compensation files, wherever they sit;
@@ -7,12 +8,14 @@
  * - the oscillator circuits file;
  * - build options that reach the result (the site base path).
  *
- * Entries are written atomically (temporary file, then rename), so parallel threads and
- * concurrent builds can share the folder. Only results of valid records are stored.
+ * Layout: `<dir>/<first two hex digits>/<key>.json` and `<key>.d/`. Entries are written
+ * atomically (temporary names, then rename; the header last), so parallel threads and
+ * concurrent builds can share the folder. Files in an entry are never changed once written,
+ * so builds may hard-link them. Only results of valid records are stored.
  */
 import { createHash } from 'node:crypto';
-import { mkdir, readFile, readdir, readlink, rename, rm, stat, utimes, writeFile, lstat } from 'node:fs/promises';
-import { join } from 'node:path';
+import { cp, lstat, mkdir, readFile, readdir, readlink, rename, rm, stat, utimes, writeFile } from 'node:fs/promises';
+import { dirname, join } from 'node:path';
 import { threadId } from 'node:worker_threads';
 
 /** Fingerprint of a part folder. */
@@ -80,23 +83,37 @@ export function cacheKey(inputs: CacheKeyInputs): string {
   return sha256(['motional-cache-1', inputs.folderHash, inputs.extractorVersion, inputs.oscillatorsHash, inputs.options].join('\0'));
 }
 
-/** A folder of cache entries. */
+/** A folder of cache entries: a header text per key, optionally with a folder of files. */
 export interface BuildCache {
   readonly dir: string;
   /** The stored text for a key, or undefined. Marks the entry as used (mtime). */
   get(key: string): Promise<string | undefined>;
-  /** Store a text under a key (atomic). */
-  put(key: string, text: string): Promise<void>;
+  /**
+   * Store a text under a key (atomic). With `filesDir`, that folder is moved into the entry
+   * first (renamed, or copied across file systems), and {@link BuildCache.filesOf} names it.
+   */
+  put(key: string, text: string, filesDir?: string): Promise<void>;
+  /** The folder of files stored with an entry. */
+  filesOf(key: string): string;
 }
 
 function entryPath(dir: string, key: string): string {
   return join(dir, key.slice(0, 2), `${key}.json`);
 }
 
+function filesPath(dir: string, key: string): string {
+  return join(dir, key.slice(0, 2), `${key}.d`);
+}
+
+function tmpSuffix(): string {
+  return `.${process.pid}-${threadId}.tmp`;
+}
+
 /** Open (create lazily) a cache folder. */
 export function openCache(dir: string): BuildCache {
   return {
     dir,
+    filesOf: (key) => filesPath(dir, key),
     async get(key) {
       const path = entryPath(dir, key);
       try {
@@ -108,10 +125,23 @@ export function openCache(dir: string): BuildCache {
         return undefined;
       }
     },
-    async put(key, text) {
+    async put(key, text, filesDir) {
       const path = entryPath(dir, key);
-      await mkdir(join(dir, key.slice(0, 2)), { recursive: true });
-      const tmp = `${path}.${process.pid}-${threadId}.tmp`;
+      await mkdir(dirname(path), { recursive: true });
+      if (filesDir !== undefined) {
+        const target = filesPath(dir, key);
+        const tmp = `${target}${tmpSuffix()}`;
+        await rename(filesDir, tmp).catch(async (err: NodeJS.ErrnoException) => {
+          if (err.code !== 'EXDEV') throw err;
+          await cp(filesDir, tmp, { recursive: true });
+          await rm(filesDir, { recursive: true, force: true });
+        });
+        // a folder left by an entry whose header is gone is replaced; a concurrent writer's
+        // identical folder is kept
+        if (!(await stat(path).catch(() => undefined))) await rm(target, { recursive: true, force: true });
+        await rename(tmp, target).catch(async () => rm(tmp, { recursive: true, force: true }));
+      }
+      const tmp = `${path}${tmpSuffix()}`;
       await writeFile(tmp, text);
       await rename(tmp, path);
     },
@@ -121,9 +151,12 @@ export function openCache(dir: string): BuildCache {
 /** Cache entries unused for this long are removed by {@link pruneCache}. */
 export const CACHE_MAX_AGE_DAYS = 30;
 
+/** Temporary files and orphaned file folders older than this are removed, ms. */
+const STRAY_AGE_MS = 3_600_000;
+
 /**
  * Remove entries not used for {@link CACHE_MAX_AGE_DAYS} days, and stray temporary files.
- * @returns number of files removed
+ * @returns number of entries and stray items removed
  */
 export async function pruneCache(dir: string, nowMs = Date.now()): Promise<number> {
   let removed = 0;
@@ -136,13 +169,19 @@ export async function pruneCache(dir: string, nowMs = Date.now()): Promise<numbe
   const limit = nowMs - CACHE_MAX_AGE_DAYS * 86_400_000;
   for (const bucket of buckets) {
     const names = await readdir(join(dir, bucket)).catch(() => [] as string[]);
+    const headers = new Set(names.filter((n) => n.endsWith('.json')));
     for (const name of names) {
       const path = join(dir, bucket, name);
       const st = await stat(path).catch(() => undefined);
       if (!st) continue;
-      const stale = name.endsWith('.tmp') ? st.mtimeMs < nowMs - 3_600_000 : st.mtimeMs < limit;
+      let stale: boolean;
+      if (name.endsWith('.tmp')) stale = st.mtimeMs < nowMs - STRAY_AGE_MS;
+      else if (name.endsWith('.json')) stale = st.mtimeMs < limit;
+      else if (name.endsWith('.d')) stale = !headers.has(`${name.slice(0, -2)}.json`) && st.mtimeMs < nowMs - STRAY_AGE_MS;
+      else continue;
       if (stale) {
-        await rm(path, { force: true });
+        await rm(path, { recursive: true, force: true });
+        if (name.endsWith('.json')) await rm(join(dir, bucket, `${name.slice(0, -5)}.d`), { recursive: true, force: true });
         removed++;
       }
     }

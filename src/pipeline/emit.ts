@@ -36,21 +36,24 @@ export interface EmitPart {
   downloads: Array<{ name: string; label?: string; content: string | Uint8Array }>;
 }
 
-/** Header facts of a sample's netlist and model files. */
+/** How a sample's parameters were obtained, as the netlist header says it (same text as `netlist`). */
+export function methodOf(s: SampleResult): string {
+  return s.fit.converged
+    ? `complex least squares over the sample's sweeps (${s.fit.points} points, ${s.fit.iterations} iterations)`
+    : `closed-form and peak methods (least-squares fit not used: ${s.fit.reason})`;
+}
+
+/**
+ * Header facts of a sample's netlist and model files — the same facts `motional netlist`
+ * passes, so the downloaded netlist is byte-identical to what the command prints.
+ */
 export function netlistInfoOf(part: Part, sample: SampleResult, labels: NetlistInfo['labels']): NetlistInfo {
-  const rec = part.samples.find((s) => s.id === sample.sample);
+  const record = part.samples.find((s) => s.id === sample.sample);
   return {
-    partId: part.id,
-    title: part.title,
-    kind: part.kind,
-    sample: sample.sample,
-    temperatureC: sample.temperatureC,
-    driveW: sample.driveW,
-    date: rec?.measured,
-    method: sample.fit?.converged ? 'complex least squares on the measured impedance' : undefined,
-    fitResidual: sample.fit?.rmsResidual,
-    validSpanHz: sample.spanHz,
-    labels,
+    partId: part.id, title: part.title, kind: part.kind, sample: sample.sample, labels,
+    temperatureC: sample.temperatureC, driveW: sample.driveW, date: record?.measured,
+    method: methodOf(sample), fitResidual: sample.fit.converged ? sample.fit.rmsResidual : undefined,
+    validSpanHz: sample.spanHz.max > sample.spanHz.min ? sample.spanHz : undefined,
   };
 }
 
@@ -64,9 +67,12 @@ export function sampleNetlist(part: Part, sample: SampleResult, options: { mainM
   return formatNetlist(model, netlistInfoOf(part, sample, labels), { mainModeOnly: options.mainModeOnly });
 }
 
-/** The sample the downloads describe by default: the first one with modes (else the first). */
+/**
+ * The sample the downloads describe by default: the first sample, as `netlist` and `advise`
+ * take it; when it has no modes, the first one that has.
+ */
 export function defaultSample(result: PartResult): SampleResult | undefined {
-  return result.samples.find((s) => s.modes.length > 0) ?? result.samples[0];
+  return result.samples[0]?.modes.length ? result.samples[0] : (result.samples.find((s) => s.modes.length > 0) ?? result.samples[0]);
 }
 
 function safeName(text: string): string {

@@ -26,8 +26,9 @@ const BASE = '/cat/';
 const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
 const haveChromium = requireTool('chromium');
 
-/** The real pipeline can build the demo content. */
+/** The real pipeline can build the demo content (env MOTIONAL_SITE_TEST_FIXTURE=1 forces the fixture site). */
 function realBuildPossible(): boolean {
+  if (process.env.MOTIONAL_SITE_TEST_FIXTURE === '1') return false;
   const parts = join(ROOT, 'content', 'parts');
   return existsSync(join(ROOT, 'src', 'lib', 'extract', 'extract-part.ts'))
     && existsSync(parts) && readdirSync(parts).some((d) => existsSync(join(parts, d, 'part.yaml')));

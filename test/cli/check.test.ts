@@ -176,10 +176,4 @@ describe('motional check as a real process', () => {
     expect(r.status).toBe(1);
     expect(r.stderr).toContain(`${BAD}/wrong-unit/part.yaml:5: datasheet.esrMax: expected a resistance`);
   });
-
-  it('exits 2 for an unknown command', () => {
-    const r = runProcess(['frobnicate']);
-    expect(r.code).toBe(2);
-    expect(r.err).toMatch(/unknown command "frobnicate"/);
-  });
 });

@@ -4,11 +4,11 @@
  * type and file format the tool reads (issue "Demo catalogue", item 1).
  */
 import { describe, expect, it } from 'vitest';
-import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DEMO_PARTS } from '../../scripts/demo/parts.ts';
+import { writeDemo } from '../../scripts/demo/write-demo.ts';
 import { loadFrequencyHz } from '../../scripts/demo/demo-physics.ts';
 import { parseQuantity } from '../../src/lib/units/si.ts';
 
@@ -18,7 +18,7 @@ describe('demo catalogue content', () => {
   it('regenerating from the table gives the committed files byte for byte', () => {
     const dir = mkdtempSync(join(tmpdir(), 'demo-'));
     try {
-      execFileSync(join(process.cwd(), 'node_modules/.bin/tsx'), ['scripts/make-demo.ts', '--out', dir], { encoding: 'utf8' });
+      writeDemo(dir);
       for (const part of DEMO_PARTS) {
         const files = readdirSync(join(dir, part.id)).sort();
         expect(readdirSync(join(CONTENT, part.id)).sort(), part.id).toEqual(files);

@@ -67,6 +67,22 @@ describe('build cache', () => {
     }
   });
 
+  it('moves a folder of files into an entry', async () => {
+    const cache = openCache(join(tmp, 'cache'));
+    const key = cacheKey({ folderHash: 'g', extractorVersion: '1', oscillatorsHash: '', options: '' });
+    const files = join(tmp, 'files');
+    await mkdir(join(files, 'parts'), { recursive: true });
+    await writeFile(join(files, 'parts', 'X.json'), '{}');
+    await cache.put(key, 'header', files);
+    expect(await readdir(join(cache.filesOf(key), 'parts'))).toEqual(['X.json']);
+    expect(await readdir(tmp)).not.toContain('files');
+    expect(await cache.get(key)).toBe('header');
+    const old = new Date(Date.now() - 40 * 86_400_000);
+    await utimes(join(tmp, 'cache', key.slice(0, 2), `${key}.json`), old, old);
+    expect(await pruneCache(join(tmp, 'cache'))).toBe(1);
+    expect(await readdir(join(tmp, 'cache', key.slice(0, 2)))).toEqual([]);
+  });
+
   it('stores and returns entries, and prunes old ones', async () => {
     const cache = openCache(join(tmp, 'cache'));
     const key = cacheKey({ folderHash: 'f', extractorVersion: '1', oscillatorsHash: '', options: '' });

@@ -15,7 +15,8 @@ import { buildCatalogue, type BuildCatalogueOptions } from '../../src/pipeline/b
 import { syntheticPartId, writeSyntheticCatalogue } from '../../scripts/bench/lib/synthetic-catalogue.ts';
 
 let tmp: string;
-const PARTS = 3;
+// four parts: fewer records to extract than that run in the main thread (MIN_RECORDS_FOR_THREADS)
+const PARTS = 4;
 const SMALL = { points: 121, samples: 1 };
 
 beforeAll(async () => {
@@ -137,6 +138,7 @@ describe('buildCatalogue', () => {
       const a = await buildCatalogue(options({ contentDir: content, outDir: serial, cache: false, jobs: 1 }));
       const b = await buildCatalogue(options({ contentDir: content, outDir: parallel, cache: false, jobs: 2 }));
       expect([a.exitCode, b.exitCode]).toEqual([0, 0]);
+      expect([a.threads, b.threads]).toEqual([0, 2]);
       const sa = await snapshot(serial);
       const sb = await snapshot(parallel);
       expect([...sb.keys()].sort()).toEqual([...sa.keys()].sort());

@@ -91,7 +91,7 @@ describe('loadPart: reading sweeps', () => {
     expect(Array.from(b.sweeps[0].impedance!.zRe)).toEqual(Array.from(a.sweeps[0].impedance!.zRe));
   });
 
-  it('applies open/short compensation (FIELD.md §3.1 check: 16 MHz, Rs 0.5 Ω, Ls 5 nH, Cp 1 pF, DUT 20 Ω)', async () => {
+  it('applies open/short and open/short/load compensation (FIELD.md §3.1 check: 16 MHz, Rs 0.5 Ω, Ls 5 nH, Cp 1 pF, DUT 20 Ω)', async () => {
     const w = (f: number) => 2 * Math.PI * f;
     const zs = (f: number): C => [0.5, w(f) * 5e-9];
     const withFixture = (zdut: C) => (f: number): C => {
@@ -119,6 +119,21 @@ describe('loadPart: reading sweeps', () => {
       expect(z.zRe[i]).toBeCloseTo(20, 9);
       expect(z.zIm[i]).toBeCloseTo(0, 9);
     }
+
+    // FIELD.md §3.1: open/short/load with a 50 Ω load → 20.000000 Ω. The OSL formula is
+    // linear in the stated load value, so stating 100 Ω for the 50 Ω standard must give 40 Ω:
+    // that shows the load sweep and loadResistance are used, not only open and short.
+    const osl = makePart('compensated-osl', {
+      'part.yaml': record('    compensation:\n      open: open.csv\n      short: short.csv\n      load: load.csv\n      loadResistance: 100 ohm\n    sweeps:\n      - file: dut.csv\n        fixture: impedance\n'),
+      'dut.csv': csvZ(withFixture([20, 0]), freqs),
+      'open.csv': csvZ(open, freqs),
+      'short.csv': csvZ(zs, freqs),
+      'load.csv': csvZ(withFixture([50, 0]), freqs),
+    });
+    const loadedOsl = await loadPart(osl);
+    expect(loadedOsl.issues).toEqual([]);
+    expect(loadedOsl.sweeps[0].impedance!.zRe[1]).toBeCloseTo(40, 9);
+    expect(loadedOsl.sweeps[0].impedance!.zIm[1]).toBeCloseTo(0, 9);
   });
 
   it('reads compensation files with the compensation fixture, once for several sweeps', async () => {

@@ -6,7 +6,9 @@
  * a mode are biased, so the mode terms are kept: each Ck is fitted when the kept points lie
  * on both sides of its mode (the terms are then well separated from the constant), else it is
  * held at the given estimate. Points closer to a mode than `exclusion`/Q (relative) are dropped:
- * there |X| < 2·exclusion·R1; beyond, the mode term is corrected for R1 when it is known.
+ * there |X| < 2·exclusion·R1. Beyond, the mode term is corrected for R1 when it is known
+ * (Im Yk/ω = Ck/(1 − (f/fk)²)·X²/(X² + R1²), exact for the branch), and the weights follow the
+ * noise, which grows with |Y| toward the resonance, so C0 rests on the capacitive points.
  * Input sweeps are of the part alone (added capacitors already removed, see part-alone.ts);
  * a remaining fixture stray capacitance cannot be told from C0 here (FIELD.md §2f).
  */
@@ -50,7 +52,7 @@ export interface C0Estimate {
 
 /** Options of {@link estimateC0}. */
 export interface C0EstimateOptions {
-  /** Keep points with |f/fk − 1| ≥ exclusion/Qk for every mode. Default 50. */
+  /** Keep points with |f/fk − 1| ≥ exclusion/Qk for every mode (|X| ≥ 2·exclusion·R1). Default 10. */
   exclusion?: number;
   /** Minimum number of usable points. Default 5. */
   minPoints?: number;
@@ -58,7 +60,7 @@ export interface C0EstimateOptions {
 
 /** Estimate C0 from the capacitive region of the given sweeps. */
 export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options: C0EstimateOptions = {}): C0Estimate {
-  const exclusion = options.exclusion ?? 50;
+  const exclusion = options.exclusion ?? 10;
   const minPoints = options.minPoints ?? 5;
   const fail = (reason: string, points = 0): C0Estimate => ({ ok: false, reason, c0F: 0, uncertaintyF: 0, points, branchCF: [], fitted: [], sweeps: [] });
   const fs: number[] = [];

@@ -167,7 +167,9 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
   const q = (ws * l1H) / r1;
   const bandwidthHz = fsHz / q;
   if (![fsHz, r1, l1H, c1F, q].every((v) => Number.isFinite(v) && v > 0)) return FAIL('conductance-peak fit gave non-physical values', xLen);
-  if (Math.abs(delta) > 2 * span + bandwidthHz) return FAIL('conductance-peak vertex lies outside the fitted points', xLen);
+  // The vertex must be at the sampled peak (within a bandwidth or two steps), not elsewhere.
+  const stepHz = Math.max(Math.abs(x[Math.min(xLen - 1, peakIndex - lo + 1)] - x[Math.max(0, peakIndex - lo - 1)]) / 2, 0);
+  if (Math.abs(delta) > Math.max(bandwidthHz, 2 * stepHz)) return FAIL('conductance-peak vertex lies away from the sampled peak', xLen);
 
   let uncertainty: ConductancePeakResult['uncertainty'];
   const dof = xLen - 3;

@@ -60,6 +60,11 @@ export interface FindResonancesOptions {
   prominenceSigmas?: number;
   /** …and at least this fraction of |Y| at the peak (rejects fixture ripple). Default 3e-3. */
   minRelativeProminence?: number;
+  /**
+   * Flag a peak whose shape does not fit one mode as unresolved. Default true; off for sweeps
+   * whose noise is not proportional to the part's |Y| (a series capacitor removed from Z).
+   */
+  shapeCheck?: boolean;
 }
 
 /** Noise floor assumed for perfect (synthetic, noiseless) data: −140 dB. */
@@ -100,7 +105,10 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
   const noise = estimateNoise(g, b, yAbs);
   const sigmas = options.prominenceSigmas ?? 8;
   const minRel = options.minRelativeProminence ?? 3e-3;
-  const threshold = (i: number) => Math.max(sigmas * noise, minRel) * yAbs[i];
+  // Threshold relative to |Y|, but never below a tenth of the sweep's median |Y|: near an
+  // anti-resonance |Y| collapses and a tiny absolute error (fixture compensation) would pass.
+  const yFloor = 0.1 * median(yAbs);
+  const threshold = (i: number) => Math.max(sigmas * noise, minRel) * Math.max(yAbs[i], yFloor);
 
   // Candidate maxima with enough prominence on both sides (a side reaching the sweep end counts).
   const peaks: number[] = [];
@@ -172,7 +180,7 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     const fHigh = fsHz + bandwidthHz / 2;
     const atEdge = atBoundary || i <= 1 || i >= n - 2 || fLow < f[0] || fHigh > f[n - 1];
     // Peak shape: a lone mode fits the conductance model to the noise; two close modes do not.
-    const misfit = fit.ok && ppbw >= 4 && fit.rmsRelative > Math.max(20 * noise, 2e-3);
+    const misfit = (options.shapeCheck ?? true) && fit.ok && ppbw >= 4 && fit.rmsRelative > Math.max(20 * noise, 2e-3);
     const res: Resonance = {
       peakIndex: i, fsHz, r1Ohm, bandwidthHz, stepHz: step, pointsPerBandwidth: ppbw,
       atEdge, atBoundary, unresolved: merged[k].unresolved || misfit, conductance: fit,

@@ -142,8 +142,9 @@ function resolveOptions(model: BvdModel, options: FitBvdOptions): ResolvedOption
 function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions): BvdFitPoints | string {
   if (!Array.isArray(sweeps) || sweeps.length === 0) return 'no sweeps to fit';
   const centres = o.freeBranches.map((k) => model.branches[k].fsHz);
+  const all = !Number.isFinite(o.windowHz);
   const inWindow = (f: number): boolean => {
-    if (!Number.isFinite(o.windowHz)) return true;
+    if (all) return true;
     for (const c of centres) if (Math.abs(f - c) <= o.windowHz) return true;
     return false;
   };
@@ -182,12 +183,14 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
   for (const s of sweeps) {
     const cPar = s.addedCapacitanceF !== undefined && s.addedConnection === 'parallel' ? s.addedCapacitanceF : 0;
     const cSer = s.addedCapacitanceF !== undefined && s.addedConnection === 'series' ? s.addedCapacitanceF : 0;
-    for (let i = 0; i < s.freqHz.length; i++) {
-      if (!inWindow(s.freqHz[i])) continue;
-      p.freqHz[j] = s.freqHz[i];
-      p.zRe[j] = s.zRe[i];
-      p.zIm[j] = s.zIm[i];
-      p.weight[j] = s.weight ?? 1;
+    const weight = s.weight ?? 1;
+    const { freqHz, zRe, zIm } = s;
+    for (let i = 0; i < freqHz.length; i++) {
+      if (!inWindow(freqHz[i])) continue;
+      p.freqHz[j] = freqHz[i];
+      p.zRe[j] = zRe[i];
+      p.zIm[j] = zIm[i];
+      p.weight[j] = weight;
       p.parallelCapF[j] = cPar;
       p.seriesCapF[j] = cSer;
       j++;
@@ -257,36 +260,34 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     stop: lm.stop,
   };
   // A failure returns the initial model, so its summary carries the initial model's RMS.
-  const rmsStart = problem.relativeRms(problem.x0);
-  const failed = { ...summary, rmsResidual: Number.isFinite(rmsStart) ? rmsStart : 0 };
-  if (!lm.converged || lm.inverseNormal === null) return fail(lm.reason, failed, o);
+  const failed = (): typeof summary => {
+    const rmsStart = problem.relativeRms(problem.x0);
+    return { ...summary, rmsResidual: Number.isFinite(rmsStart) ? rmsStart : 0 };
+  };
+  if (!lm.converged || lm.inverseNormal === null) return fail(lm.reason, failed(), o);
 
   const model = problem.toModel(lm.x);
   const map = problem.map;
   if (!(rmsFinal <= MAX_RMS_RESIDUAL)) {
-    return fail(`model does not describe the data: rms relative residual ${rmsFinal.toPrecision(3)} (limit ${MAX_RMS_RESIDUAL})`, failed, o);
+    return fail(`model does not describe the data: rms relative residual ${rmsFinal.toPrecision(3)} (limit ${MAX_RMS_RESIDUAL})`, failed(), o);
   }
 
   // Covariance of the parameters and propagation to reported quantities.
   const s2 = lm.ssr / (m - n);
   const cov = (p: number, q: number): number => lm.inverseNormal![p * n + q] * s2;
   const u = zeroUncertainty(model, o);
-  let fLo = Infinity;
-  let fHi = -Infinity;
-  for (const f of points.freqHz) {
-    fLo = Math.min(fLo, f);
-    fHi = Math.max(fHi, f);
-  }
+  const fLo = problem.spanHz.min;
+  const fHi = problem.spanHz.max;
   const x0 = problem.x0;
   for (const e of map.branches) {
     const br = model.branches[e.branch];
     const name = `branches[${e.branch}]`;
-    if (![br.fsHz, br.r1Ohm, br.c1F].every(isPositive)) return fail(`${name}: fitted values not finite and positive`, failed, o);
-    if (br.fsHz < fLo || br.fsHz > fHi) return fail(`${name}: fitted fs ${br.fsHz.toPrecision(10)} Hz outside the measured span ${fLo}…${fHi} Hz`, failed, o);
+    if (![br.fsHz, br.r1Ohm, br.c1F].every(isPositive)) return fail(`${name}: fitted values not finite and positive`, failed(), o);
+    if (br.fsHz < fLo || br.fsHz > fHi) return fail(`${name}: fitted fs ${br.fsHz.toPrecision(10)} Hz outside the measured span ${fLo}…${fHi} Hz`, failed(), o);
     const factorR = Math.exp(Math.abs(lm.x[e.lnR1] - x0[e.lnR1]));
     const factorC = Math.exp(Math.abs(lm.x[e.lnC1] - x0[e.lnC1]));
     if (factorR > RESULT_FACTOR_LIMIT || factorC > RESULT_FACTOR_LIMIT) {
-      return fail(`${name}: r1 or c1 moved by a factor ${Math.max(factorR, factorC).toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT}): the data do not determine it`, failed, o);
+      return fail(`${name}: r1 or c1 moved by a factor ${Math.max(factorR, factorC).toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT}): the data do not determine it`, failed(), o);
     }
     const dFs = e.fs0Hz * 1e-6; // ∂fs/∂p
     const vP = cov(e.fsOffset, e.fsOffset);
@@ -302,7 +303,7 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     const relR = Math.sqrt(Math.max(vR, 0));
     const relC = Math.sqrt(Math.max(vC, 0));
     if (!(relR <= MAX_RELATIVE_UNCERTAINTY) || !(relC <= MAX_RELATIVE_UNCERTAINTY)) {
-      return fail(`${name}: not determined by the data (relative uncertainty r1 ${(100 * relR).toPrecision(3)} %, c1 ${(100 * relC).toPrecision(3)} %)`, failed, o);
+      return fail(`${name}: not determined by the data (relative uncertainty r1 ${(100 * relR).toPrecision(3)} %, c1 ${(100 * relC).toPrecision(3)} %)`, failed(), o);
     }
     const l1H = 1 / ((2 * Math.PI * br.fsHz) ** 2 * br.c1F);
     const q = 1 / (2 * Math.PI * br.fsHz * br.r1Ohm * br.c1F);
@@ -315,25 +316,25 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     };
   }
   if (map.c0 >= 0) {
-    if (!isPositive(model.c0F)) return fail('fitted c0 not finite and positive', failed, o);
+    if (!isPositive(model.c0F)) return fail('fitted c0 not finite and positive', failed(), o);
     const factor = Math.exp(Math.abs(lm.x[map.c0] - x0[map.c0]));
-    if (factor > RESULT_FACTOR_LIMIT) return fail(`c0 moved by a factor ${factor.toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT})`, failed, o);
+    if (factor > RESULT_FACTOR_LIMIT) return fail(`c0 moved by a factor ${factor.toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT})`, failed(), o);
     const rel = Math.sqrt(Math.max(cov(map.c0, map.c0), 0));
-    if (!(rel <= MAX_RELATIVE_UNCERTAINTY)) return fail(`c0 not determined by the data (relative uncertainty ${(100 * rel).toPrecision(3)} %)`, failed, o);
+    if (!(rel <= MAX_RELATIVE_UNCERTAINTY)) return fail(`c0 not determined by the data (relative uncertainty ${(100 * rel).toPrecision(3)} %)`, failed(), o);
     u.c0F = model.c0F * rel;
   }
   if (map.rs >= 0) {
     const rs = model.rsOhm ?? 0;
     const ur = Math.sqrt(Math.max(cov(map.rs, map.rs), 0));
-    if (!Number.isFinite(rs)) return fail('fitted rs not finite', failed, o);
-    if (rs < -NEGATIVE_PARASITIC_SIGMAS * ur) return fail(`fitted rs ${rs.toPrecision(3)} Ω is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ur.toPrecision(2)} Ω)`, failed, o);
+    if (!Number.isFinite(rs)) return fail('fitted rs not finite', failed(), o);
+    if (rs < -NEGATIVE_PARASITIC_SIGMAS * ur) return fail(`fitted rs ${rs.toPrecision(3)} Ω is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ur.toPrecision(2)} Ω)`, failed(), o);
     u.rsOhm = ur;
   }
   if (map.ls >= 0) {
     const ls = model.lsH ?? 0;
     const ul = Math.sqrt(Math.max(cov(map.ls, map.ls), 0)) * 1e-9;
-    if (!Number.isFinite(ls)) return fail('fitted ls not finite', failed, o);
-    if (ls < -NEGATIVE_PARASITIC_SIGMAS * ul) return fail(`fitted ls ${ls.toPrecision(3)} H is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ul.toPrecision(2)} H)`, failed, o);
+    if (!Number.isFinite(ls)) return fail('fitted ls not finite', failed(), o);
+    if (ls < -NEGATIVE_PARASITIC_SIGMAS * ul) return fail(`fitted ls ${ls.toPrecision(3)} H is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ul.toPrecision(2)} H)`, failed(), o);
     u.lsH = ul;
   }
 

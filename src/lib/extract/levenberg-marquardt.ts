@@ -34,7 +34,7 @@ export interface LeastSquaresProblem {
   readonly parameterCount: number;
   /** Fill r (length m) at x. Return false when r cannot be evaluated (non-finite values). */
   residuals(x: Float64Array, r: Float64Array): boolean;
-  /** Fill r and the column-major Jacobian jac[j·m + i] = ∂rᵢ/∂xⱼ at x. Return false if non-finite. */
+  /** Fill r and the column-major Jacobian jac[j·m + i] = ∂rᵢ/∂xⱼ at x. Return false if r is not finite (a non-finite Jacobian is caught by the optimiser). */
   residualsAndJacobian(x: Float64Array, r: Float64Array, jac: Float64Array): boolean;
   /** Optional: a reason when x lies outside the region the model may be evaluated in, else null. */
   infeasibility?(x: Float64Array): string | null;
@@ -149,7 +149,8 @@ function sumSquares(r: Float64Array): number {
 
 /**
  * Normal equations from a column-major Jacobian: a = JᵀJ (n×n), g = Jᵀr, d = column norms.
- * Returns the index of a parameter without effect (zero or non-finite column), or −1.
+ * Returns −1 when all is well, −2 when a sum is not finite, else the index of a parameter
+ * without effect (zero column).
  */
 function normalEquations(
   jac: Float64Array,
@@ -160,20 +161,49 @@ function normalEquations(
   g: Float64Array,
   d: Float64Array,
 ): number {
+  let check = 0;
   for (let p = 0; p < n; p++) {
     const cp = p * m;
     let sg = 0;
     for (let i = 0; i < m; i++) sg += jac[cp + i] * r[i];
     g[p] = sg;
-    for (let q = 0; q <= p; q++) {
+    check += sg - sg;
+    // Four columns q at a time against column p (q ≤ p), so column p is read once per block.
+    let q = 0;
+    for (; q + 3 <= p; q += 4) {
+      const c0 = q * m;
+      const c1 = c0 + m;
+      const c2 = c1 + m;
+      const c3 = c2 + m;
+      let s0 = 0;
+      let s1 = 0;
+      let s2 = 0;
+      let s3 = 0;
+      for (let i = 0; i < m; i++) {
+        const v = jac[cp + i];
+        s0 += v * jac[c0 + i];
+        s1 += v * jac[c1 + i];
+        s2 += v * jac[c2 + i];
+        s3 += v * jac[c3 + i];
+      }
+      a[p * n + q] = a[q * n + p] = s0;
+      a[p * n + q + 1] = a[(q + 1) * n + p] = s1;
+      a[p * n + q + 2] = a[(q + 2) * n + p] = s2;
+      a[p * n + q + 3] = a[(q + 3) * n + p] = s3;
+      check += s0 - s0 + (s1 - s1) + (s2 - s2) + (s3 - s3);
+    }
+    for (; q <= p; q++) {
       const cq = q * m;
       let s = 0;
       for (let i = 0; i < m; i++) s += jac[cp + i] * jac[cq + i];
-      a[p * n + q] = s;
-      a[q * n + p] = s;
+      a[p * n + q] = a[q * n + p] = s;
+      check += s - s;
     }
+  }
+  if (check !== 0) return -2; // NaN: something was not finite
+  for (let p = 0; p < n; p++) {
     d[p] = Math.sqrt(a[p * n + p]);
-    if (!(d[p] > 0) || !Number.isFinite(d[p])) return p;
+    if (!(d[p] > 0)) return p;
   }
   return -1;
 }
@@ -230,7 +260,7 @@ export function levenbergMarquardt(
   };
 
   if (!problem.residualsAndJacobian(x, r, jac)) {
-    return result(false, 'non-finite', 'residuals or jacobian not finite at the start values');
+    return result(false, 'non-finite', 'residuals not finite at the start values');
   }
   ssr = sumSquares(r);
   if (!Number.isFinite(ssr)) return result(false, 'non-finite', 'residuals not finite at the start values');
@@ -248,6 +278,11 @@ export function levenbergMarquardt(
       break;
     }
     const dead = formNormal();
+    if (dead === -2) {
+      stop = 'non-finite';
+      reason = 'jacobian not finite';
+      break;
+    }
     if (dead >= 0) {
       stop = 'singular';
       reason = `parameter ${dead} has no effect on the residuals`;
@@ -325,6 +360,12 @@ export function levenbergMarquardt(
 
   // Covariance factor (JᵀJ)⁻¹ at the solution, through the unit-diagonal scaling.
   const dead = formNormal();
+  if (dead === -2) {
+    out.converged = false;
+    out.stop = 'non-finite';
+    out.reason = 'jacobian not finite at the solution';
+    return out;
+  }
   if (dead >= 0) {
     out.converged = false;
     out.stop = 'singular';

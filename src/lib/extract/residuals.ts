@@ -136,33 +136,35 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
   const omega = new Float64Array(np);
   const invF = new Float64Array(np);
   const w = new Float64Array(np);
-  const sqrtWeight = new Float64Array(np);
   const fixYRe = new Float64Array(np);
   const fixYIm = new Float64Array(np);
   const fixZsIm = new Float64Array(np); // ωLs (fixed) − 1/(ωCser); fixed Rs is a scalar
   const ymRe = new Float64Array(np); // Ym when Rs and Ls are fixed
   const ymIm = new Float64Array(np);
   const offset = new Float64Array(nb * np); // f − fk0 per free branch, exact
-  const isFree = new Set(free.freeBranches);
+  const isFree = initial.branches.map((_, k) => free.freeBranches.includes(k));
   const rsFixed = map.rs >= 0 ? 0 : initial.rsOhm ?? 0;
   const lsFixed = map.ls >= 0 ? 0 : initial.lsH ?? 0;
   const c0Fixed = map.c0 >= 0 ? 0 : initial.c0F;
   const rsStart = initial.rsOhm ?? 0;
   const lsStart = initial.lsH ?? 0;
+  const cpF = initial.cpF ?? 0;
+  const cPar = points.parallelCapF;
+  const cSer = points.seriesCapF;
+  const weight = points.weight;
+  const fixed = initial.branches.filter((_, k) => !isFree[k]);
   let fLo = Infinity;
   let fHi = -Infinity;
   for (let i = 0; i < np; i++) {
     const f = freq[i];
-    fLo = Math.min(fLo, f);
-    fHi = Math.max(fHi, f);
+    if (f < fLo) fLo = f;
+    if (f > fHi) fHi = f;
     const om = 2 * Math.PI * f;
     omega[i] = om;
     invF[i] = 1 / f;
     let gRe = 0;
-    let bIm = om * (c0Fixed + (initial.cpF ?? 0) + points.parallelCapF[i]);
-    for (let k = 0; k < initial.branches.length; k++) {
-      if (isFree.has(k)) continue;
-      const br = initial.branches[k];
+    let bIm = om * (c0Fixed + cpF + cPar[i]);
+    for (const br of fixed) {
       const x = ((f - br.fsHz) * (f + br.fsHz)) / (2 * Math.PI * f * br.fsHz * br.fsHz * br.c1F);
       const den = br.r1Ohm * br.r1Ohm + x * x;
       gRe += br.r1Ohm / den;
@@ -170,20 +172,25 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     }
     fixYRe[i] = gRe;
     fixYIm[i] = bIm;
-    const cs = points.seriesCapF[i];
+    const cs = cSer[i];
     const capX = cs > 0 ? -1 / (om * cs) : 0;
-    fixZsIm[i] = om * lsFixed + capX;
+    const zsIm = om * lsFixed + capX;
+    fixZsIm[i] = zsIm;
+    const zr = zmRe[i];
+    const zi = zmIm[i];
     // Weight from the series elements at the start values.
-    const uRe = zmRe[i] - rsStart;
-    const uIm = zmIm[i] - om * lsStart - capX;
-    sqrtWeight[i] = Math.sqrt(points.weight[i]);
-    w[i] = (sqrtWeight[i] * (uRe * uRe + uIm * uIm)) / Math.hypot(zmRe[i], zmIm[i]);
-    const vRe = zmRe[i] - rsFixed;
-    const vIm = zmIm[i] - fixZsIm[i];
+    const uRe = zr - rsStart;
+    const uIm = zi - om * lsStart - capX;
+    w[i] = (Math.sqrt(weight[i]) * (uRe * uRe + uIm * uIm)) / Math.sqrt(zr * zr + zi * zi);
+    const vRe = zr - rsFixed;
+    const vIm = zi - zsIm;
     const vd = 1 / (vRe * vRe + vIm * vIm);
     ymRe[i] = vRe * vd;
     ymIm[i] = -vIm * vd;
-    for (let b = 0; b < nb; b++) offset[b * np + i] = f - map.branches[b].fs0Hz;
+  }
+  for (let b = 0; b < nb; b++) {
+    const f0 = map.branches[b].fs0Hz;
+    for (let i = 0; i < np; i++) offset[b * np + i] = freq[i] - f0;
   }
   const span = fHi - fLo;
   const fsMin = Math.max(fLo - TRIAL_SPAN_MARGIN * span, 0);
@@ -289,13 +296,8 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
         }
       }
     }
-    if (bad !== 0) return false;
-    if (jac !== null) {
-      let s = 0;
-      for (let j = 0; j < jac.length; j++) s += jac[j] - jac[j];
-      if (s !== 0) return false;
-    }
-    return true;
+    // A non-finite Jacobian shows up in the normal equations, where the optimiser checks it.
+    return bad === 0;
   };
 
   const lnLimit = Math.log(TRIAL_FACTOR_LIMIT);

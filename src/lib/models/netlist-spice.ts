@@ -69,12 +69,14 @@ const MAX_COMMENT_CHARS = 200;
 
 /**
  * Make user text safe for a one-line comment (SPICE `*` or Touchstone `!`): line breaks and
- * control characters become spaces, common symbols are spelled in ASCII, other non-ASCII
- * characters become '?', runs of spaces collapse, and the text is cut to 200 characters.
+ * control characters become spaces, common symbols are spelled in ASCII, backslashes become '/'
+ * (no reader can take one for a line continuation), other non-ASCII characters become '?', runs
+ * of spaces collapse, and the text is cut to 200 characters.
  */
 export function sanitizeCommentText(text: string): string {
   const ascii = String(text)
-    .replace(/[µμ]/g, 'u').replace(/[Ωω]/g, 'ohm').replace(/°/g, 'deg').replace(/±/g, '+/-')
+    .replace(/[µμ]/g, 'u').replace(/[\u03a9\u2126]/g, 'ohm').replace(/ω/g, 'w').replace(/°/g, 'deg').replace(/±/g, '+/-')
+    .replace(/\\/g, '/')
     .replace(/[–—]/g, '-').replace(/…/g, '...')
     .replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ')
     .replace(/[^\x20-\x7e]/g, '?')

@@ -109,7 +109,9 @@ export const CompensationSchema = z.object({
 
 const isoDate = z.union([z.string(), z.date()]).transform((v, ctx) => {
   const text = v instanceof Date ? v.toISOString().slice(0, 10) : v;
-  if (!/^\d{4}-\d{2}-\d{2}$/.test(text) || Number.isNaN(Date.parse(text))) {
+  // Date.parse rolls 2026-02-30 over to March: require the date to survive a round trip.
+  const roundTrip = Number.isNaN(Date.parse(text)) ? '' : new Date(`${text}T00:00:00Z`).toISOString().slice(0, 10);
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(text) || roundTrip !== text) {
     ctx.addIssue({ code: 'custom', message: `expected an ISO date such as 2026-05-02, got "${text}"` });
     return z.NEVER;
   }

@@ -56,7 +56,13 @@ function writtenBranch(netlist: string): { l: number; c: number } {
 
 type Runner = (deck: string) => Promise<ImpedanceRow[]> | ImpedanceRow[];
 
-function simulationSuite(engineName: string, run: Runner): void {
+function simulationSuite(engineName: string, simulate: Runner): void {
+  // Each deck is simulated once per engine; the impedance and resonance checks share the rows.
+  const cache = new Map<string, Promise<ImpedanceRow[]>>();
+  const run = (deck: string): Promise<ImpedanceRow[]> => {
+    if (!cache.has(deck)) cache.set(deck, Promise.resolve(simulate(deck)));
+    return cache.get(deck)!;
+  };
   const full = SPICE_CASES.filter((c) => c.id !== 'odd-rounded');
   for (const c of full) {
     for (const s of c.sweeps) {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { execFileSync, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -40,11 +40,5 @@ describe('scripts/synth.ts', () => {
     const r = run(['--model', 'fs=16MHz r1=20 c1=10f']);
     expect(r.status).toBe(2);
     expect(r.stderr).toContain('--model: expected c0');
-  });
-
-  it('prints CSV on standard output for the impedance fixture', () => {
-    const text = execFileSync(TSX, ['scripts/synth.ts', '--model', 'fs=32768 r1=35k c1=3f c0=1.2p', '--fixture', 'impedance', '--format', 'csv', '--points', '5'], { encoding: 'utf8' });
-    expect(text.split('\n')[0]).toMatch(/^# synthetic sweep/);
-    expect(text).toContain('frequency (Hz),r (ohm),x (ohm)');
   });
 });
