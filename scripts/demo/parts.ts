@@ -429,7 +429,7 @@ const parts: DemoPart[] = [];
     package: '2016',
     supplier: 'Tavistrand Crystal',
     supplierPart: 'TVX20-40M-08',
-    notes: 'Data-logger FPGA clock. To check for a strong third overtone the sweep went up to 121 MHz, beyond the 100 MHz the old analyser is specified for: the overtone data are shown but flagged, not trusted. Semicolon-separated export.',
+    notes: 'Data-logger FPGA clock. To check for a strong third overtone a sweep was taken around 120 MHz, beyond the 100 MHz the old analyser is specified for: the overtone data are shown but flagged, not trusted. Semicolon-separated export.',
     datasheet: { frequency: '40 MHz', tolerance: '10 ppm', stability: '20 ppm', loadCapacitance: '8 pF', esrMax: '50 ohm', c0Max: '2 pF', driveMax: '100 uW', overtone: 1, operatingRange: '-40 to 85 C' },
     scenario: { shows: 'a sweep above the instrument range (instrumentMaxFrequency), semicolon-separated CSV' },
     samples: [{

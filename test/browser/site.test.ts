@@ -96,7 +96,7 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
   afterAll(async () => {
     await browser?.close();
     await server?.close();
-    if (work) rmSync(work, { recursive: true, force: true });
+    if (work && !process.env.MOTIONAL_KEEP_SITE) rmSync(work, { recursive: true, force: true });
   });
 
   it('every page is static HTML without inline scripts or styles, and part pages stay under 250 KB', () => {
@@ -302,6 +302,7 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
   });
 
   it('no request left 127.0.0.1 and the console stayed clean (no CSP violations)', () => {
+    if (process.env.MOTIONAL_KEEP_SITE) console.log(site, server.requests.filter((r) => r.status >= 400));
     expect(external).toEqual([]);
     expect(consoleErrors).toEqual([]);
     expect(server.requests.filter((r) => r.status >= 400)).toEqual([]);

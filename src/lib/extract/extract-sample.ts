@@ -109,7 +109,8 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
   const flagged = candidates.map((m) => trustedMax !== undefined && m.fsHz > trustedMax);
 
   // Fits.
-  const fits = fitModes(candidates, initial, split.reference, flagged, trustedMax, timing);
+  const quickOk = peaks.map((p) => p.conductance?.uncertainty !== undefined);
+  const fits = fitModes(candidates, initial, split.reference, quickOk, flagged, trustedMax, timing);
   const joint = fits.joint?.converged ? fits.joint : undefined;
   if (fits.joint && !joint) {
     diagnostics.push({ code: 'fit-failed', severity: 'warning', message: `joint fit over all sweeps failed (${fits.joint.reason}); values from the per-mode fits` });
@@ -123,11 +124,12 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
       const where = `mode near ${formatFrequency(m.fsHz, 8)}`;
       const pm = fits.perMode[k];
       if (joint && fits.jointFree.includes(k)) {
-        branches.push({ ...joint.model.branches[k] });
-        sources.push({ method: 'joint-fit', fit: joint, uncertainty: joint.uncertainty.branches[k] });
+        const j = fits.jointIndex[k];
+        branches.push({ ...joint.model.branches[j] });
+        sources.push({ method: 'joint-fit', fit: joint, uncertainty: joint.uncertainty.branches[j] });
       } else if (pm?.converged) {
         branches.push({ ...pm.model.branches[k] });
-        sources.push({ method: 'complex-fit', fit: pm, uncertainty: pm.uncertainty.branches[k] });
+        sources.push({ method: 'complex-fit', fit: pm, uncertainty: pm.uncertainty.branches[k], mapIndex: (j) => (j === k ? k : -1) });
       } else if (peaks[k].conductance?.uncertainty) {
         const c = peaks[k].conductance!;
         branches.push({ fsHz: c.fsHz, r1Ohm: c.r1Ohm, c1F: c.c1F });
@@ -141,6 +143,10 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
       }
     });
     const kept = candidates.map((_, k) => k).filter((k) => sources[k] !== undefined);
+    kept.forEach((k, kk) => {
+      const src = sources[k]!;
+      if (src.method === 'complex-fit') src.mapIndex = (j) => (j === k ? kk : -1);
+    });
 
     // C0 of the part alone.
     let c0: { value: number; uncertainty: number; method: MethodValue['method'] };

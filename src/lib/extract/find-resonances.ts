@@ -32,7 +32,10 @@ export interface Resonance {
   pointsPerBandwidth: number;
   /** The peak is not fully inside the sweep (at the first/last points, or a half-power point outside). */
   atEdge: boolean;
-  /** The sampled maximum is the first or last point: the resonance may lie outside the sweep. */
+  /**
+   * The conductance does not fall on both sides of the maximum within the sweep (it is the first
+   * or last point, or one flank runs off the sweep): the resonance may lie outside.
+   */
   atBoundary: boolean;
   /** Two modes closer than the sweep can separate (merged peaks or a peak not shaped like one mode). */
   unresolved: boolean;
@@ -112,6 +115,8 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
 
   // Candidate maxima with enough prominence on both sides (a side reaching the sweep end counts).
   const peaks: number[] = [];
+  // Peaks confirmed on one side only (the other runs off the sweep): a resonance outside.
+  const oneSided = new Set<number>();
   for (let i = 0; i < n; i++) {
     const left = i > 0 ? g[i - 1] : -Infinity;
     const right = i < n - 1 ? g[i + 1] : -Infinity;
@@ -135,18 +140,21 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
       for (let k = i + dir; k >= 0 && k < n; k += dir) if (g[k] < g[i] - thr) return true;
       return false;
     };
-    if (!drops(-1) && !drops(1)) continue;
+    const dl = drops(-1);
+    const dr = drops(1);
+    if (!dl && !dr) continue;
     peaks.push(i);
+    if (!dl || !dr) oneSided.add(i);
   }
 
   // Peaks within three samples of each other are one feature the sweep cannot separate.
-  const merged: Array<{ i: number; unresolved: boolean }> = [];
+  const merged: Array<{ i: number; unresolved: boolean; oneSided: boolean }> = [];
   for (const p of peaks) {
     const last = merged[merged.length - 1];
     if (last && p - last.i < 3) {
-      if (g[p] > g[last.i]) last.i = p;
+      if (g[p] > g[last.i]) { last.i = p; last.oneSided = oneSided.has(p); }
       last.unresolved = true;
-    } else merged.push({ i: p, unresolved: false });
+    } else merged.push({ i: p, unresolved: false, oneSided: oneSided.has(p) });
   }
 
   const resonances: Resonance[] = [];
@@ -155,7 +163,7 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     const next = k + 1 < merged.length ? merged[k + 1].i : n;
     const step = i === 0 ? f[1] - f[0] : i === n - 1 ? f[n - 1] - f[n - 2] : 0.5 * (f[i + 1] - f[i - 1]);
     const fit = fitConductancePeak(f, g, yAbs, i);
-    const atBoundary = i === 0 || i === n - 1;
+    const atBoundary = i === 0 || i === n - 1 || merged[k].oneSided;
     let fsHz = f[i];
     let r1Ohm = 1 / g[i];
     let bandwidthHz: number;

@@ -24,8 +24,10 @@ export interface ModeFits {
   /** Per-mode window fit, by mode index (undefined when not attempted). */
   perMode: Array<FitBvdResult | undefined>;
   joint?: FitBvdResult;
-  /** Modes free in the joint fit. */
+  /** Modes (indices into the mode list) free in the joint fit. */
   jointFree: number[];
+  /** Branch index of each mode in the joint model, −1 when left out. */
+  jointIndex: number[];
   /** Model the joint fit started from. */
   jointStart?: BvdModel;
 }
@@ -43,10 +45,6 @@ function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): FitSweep 
     zIm: Float64Array.from(idx, (i) => s.impedance.zIm[i]),
     ...base,
   };
-}
-
-function copy(model: BvdModel): BvdModel {
-  return { ...model, branches: model.branches.map((b) => ({ ...b })) };
 }
 
 /** Window fit of mode k on its best sweep. */
@@ -72,30 +70,35 @@ export function fitModeWindow(mode: ModeCandidate, k: number, initial: BvdModel,
 }
 
 /**
- * Per-mode window fits, then the joint fit.
+ * Per-mode window fits, then the joint fit. Modes with neither a converged window fit nor a
+ * usable quick estimate are left out of the joint model (they will be dropped), so a
+ * spurious sighting cannot distort it; `joint.model.branches` is therefore indexed through
+ * `jointIndex`.
+ * @param quickOk modes whose conductance-peak estimate can stand in for a failed fit
  * @param flagged modes above the instrument's trusted range: held fixed in the joint fit
  * @param trustedMaxHz points above this frequency are left out of the joint fit
  */
-export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: PreparedSweep[], flagged: boolean[], trustedMaxHz: number | undefined, timing?: TimingCollector): ModeFits {
+export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: PreparedSweep[], quickOk: boolean[], flagged: boolean[], trustedMaxHz: number | undefined, timing?: TimingCollector): ModeFits {
   const perMode: Array<FitBvdResult | undefined> = modes.map((mode, k) => timed(timing, 'fit-mode', () => fitModeWindow(mode, k, initial, sweeps)));
-  const start = copy(initial);
-  perMode.forEach((r, k) => {
-    if (r?.converged) start.branches[k] = { ...r.model.branches[k] };
-  });
   const converged = perMode.map((r) => r?.converged === true);
-  let free = modes.map((_, k) => k).filter((k) => converged[k] && !flagged[k]);
-  if (free.length === 0) return { perMode, jointFree: [] };
+  const included = modes.map((_, k) => k).filter((k) => converged[k] || quickOk[k]);
+  const jointIndex = modes.map((_, k) => included.indexOf(k));
+  const start: BvdModel = { ...initial, branches: included.map((k) => ({ ...(converged[k] ? perMode[k]!.model.branches[k] : initial.branches[k]) })) };
+  let free = included.filter((k) => converged[k] && !flagged[k]);
+  const none: ModeFits = { perMode, jointFree: [], jointIndex };
+  if (free.length === 0) return none;
   const data = sweeps
     .map((s) => selectPoints(s, (f) => trustedMaxHz === undefined || f <= trustedMaxHz))
     .filter((d): d is FitSweep => d !== undefined);
-  if (data.length === 0) return { perMode, jointFree: [] };
-  let joint = timed(timing, 'fit-joint', () => fitBvd(data, start, { freeBranches: free, fitC0: true }));
+  if (data.length === 0) return none;
+  const run = (ks: number[]) => timed(timing, 'fit-joint', () => fitBvd(data, start, { freeBranches: ks.map((k) => jointIndex[k]), fitC0: true }));
+  let joint = run(free);
   if (!joint.converged) {
     const mains = free.filter((k) => !modes[k].spurious);
     if (mains.length && mains.length < free.length) {
-      const retry = timed(timing, 'fit-joint', () => fitBvd(data, start, { freeBranches: mains, fitC0: true }));
+      const retry = run(mains);
       if (retry.converged) { joint = retry; free = mains; }
     }
   }
-  return { perMode, joint, jointFree: free, jointStart: start };
+  return { perMode, joint, jointFree: free, jointIndex, jointStart: start };
 }

@@ -24,16 +24,18 @@ function sensitivity(model: BvdModel, k: number, apply: (m: BvdModel, factor: nu
 /**
  * u(fp) for branch k.
  * @param names, covariance the fit's parameter names and covariance (absent: no fit covariance)
- * @param extraC0 a C0 uncertainty not in the covariance (C0 held in the fit), F
+ * @param extraC0F a C0 uncertainty not in the covariance (C0 held in the fit), F
+ * @param mapIndex branch index in the fit's names → branch index in `model`
  */
-export function fpUncertaintyOf(model: BvdModel, k: number, names: string[] | undefined, covariance: number[][] | undefined, extraC0F = 0, fallback?: { fsHz: number; c1F: number }): number {
+export function fpUncertaintyOf(model: BvdModel, k: number, names: string[] | undefined, covariance: number[][] | undefined, extraC0F = 0, fallback?: { fsHz: number; c1F: number }, mapIndex: (j: number) => number = (j) => j): number {
   const sC0 = sensitivity(model, k, (m, f) => { m.c0F *= f; }, 1e-5); // ∂fp/∂ln C0
   let variance = 0;
   if (names && covariance) {
     const g = names.map((name) => {
       const m = /^branches\[(\d+)\]\.(fsOffsetPpm|lnC1F)$/.exec(name);
       if (m) {
-        const j = Number(m[1]);
+        const j = mapIndex(Number(m[1]));
+        if (!(j >= 0 && j < model.branches.length)) return 0;
         if (m[2] === 'fsOffsetPpm') return sensitivity(model, k, (mm, f) => { mm.branches[j].fsHz *= f; }, 1e-8) * 1e-6;
         return sensitivity(model, k, (mm, f) => { mm.branches[j].c1F *= f; }, 1e-5);
       }

@@ -26,6 +26,8 @@ export interface ModeSource {
   /** The fit, for its covariance (absent for the conductance peak). */
   fit?: FitBvdResult;
   uncertainty: BranchUncertainty;
+  /** Branch index in the fit's parameter names → index in the reported model (default same). */
+  mapIndex?: (j: number) => number;
 }
 
 /** Everything known about one mode when it is reported. */
@@ -76,7 +78,7 @@ export function reportMode(input: ModeReportInput): ModeResult {
   const u = source.uncertainty;
   const fpHz = parallelResonanceOf(model, k) ?? br.fsHz * Math.sqrt(1 + br.c1F / model.c0F);
   const uFp = Math.hypot(
-    fpUncertaintyOf(model, k, source.fit?.parameterNames, source.fit?.covariance, c0.heldInFit ? c0.uncertainty : 0, source.fit ? undefined : { fsHz: u.fsHz, c1F: u.c1F }),
+    fpUncertaintyOf(model, k, source.fit?.parameterNames, source.fit?.covariance, c0.heldInFit ? c0.uncertainty : 0, source.fit ? undefined : { fsHz: u.fsHz, c1F: u.c1F }, source.mapIndex),
     uRes,
   );
   const r = model.c0F / br.c1F;
