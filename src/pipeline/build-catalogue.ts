@@ -391,6 +391,20 @@ interface AstroRun {
   signal: AbortSignal | undefined;
 }
 
+/**
+ * Names Vite and Astro read into `import.meta.env` (and NODE_ENV, which switches Vite's mode):
+ * inherited values (a test runner sets BASE_URL=/ and MODE=test, CI systems set BASE_URL too)
+ * would override the site's base path and build mode, so the Astro build never sees them.
+ */
+export const ASTRO_ENV_DROPPED = ['BASE_URL', 'MODE', 'DEV', 'PROD', 'SSR', 'SITE', 'ASSETS_PREFIX', 'NODE_ENV'] as const;
+
+/** The environment of the Astro build: this process's, without {@link ASTRO_ENV_DROPPED}. */
+export function astroEnv(env: NodeJS.ProcessEnv): NodeJS.ProcessEnv {
+  const out = { ...env };
+  for (const name of ASTRO_ENV_DROPPED) delete out[name];
+  return out;
+}
+
 // Ends the Astro process when the build process dies without cleaning up (kill -9): its
 // parent id changes, and a site half-written into a staging folder helps nobody.
 const ORPHAN_GUARD = `data:text/javascript,${encodeURIComponent(
@@ -415,7 +429,7 @@ async function runAstro(run: AstroRun): Promise<number> {
   const child = spawn(process.execPath, ['--import', ORPHAN_GUARD, astro, 'build', '--root', PROJECT_ROOT], {
     cwd,
     env: {
-      ...process.env,
+      ...astroEnv(process.env),
       MOTIONAL_DATA: run.dataDir,
       MOTIONAL_BASE: run.basePath,
       MOTIONAL_SITE_OUT: run.siteDir,

@@ -28,3 +28,14 @@ export function readIndex(): IndexEntry[] {
 export function readPart(id: string): PartData {
   return JSON.parse(readFileSync(join(dataDir(), 'parts', `${id}.json`), 'utf8')) as PartData;
 }
+
+/**
+ * The site base path ending in '/', from env MOTIONAL_BASE as astro.config.mjs reads it.
+ * (Not import.meta.env.BASE_URL: a BASE_URL variable in the environment — vitest sets one —
+ * would override it while the pages render.)
+ */
+export function siteBase(): string {
+  const b = process.env.MOTIONAL_BASE || '/';
+  const withLead = b.startsWith('/') ? b : `/${b}`;
+  return withLead.endsWith('/') ? withLead : `${withLead}/`;
+}

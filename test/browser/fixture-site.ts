@@ -9,6 +9,13 @@ import { makeDownloads, writeCatalogueData } from '../../src/pipeline/emit.ts';
 import { makePartData } from '../../src/pipeline/part-data.ts';
 import { DEMO_CIRCUIT, fixtureCatalogue, makeFixturePart } from '../site/fixture.ts';
 
+/** The environment without the variables a test runner sets for its own vite (BASE_URL, MODE, …). */
+function cleanEnv(): NodeJS.ProcessEnv {
+  const env = { ...process.env };
+  for (const k of ['BASE_URL', 'MODE', 'DEV', 'PROD', 'SSR', 'NODE_ENV', 'VITEST', 'VITEST_MODE', 'VITEST_POOL_ID', 'VITEST_WORKER_ID', 'TEST']) delete env[k];
+  return env;
+}
+
 /** Emit fixture data into `dataDir` and build the site into `siteDir`; returns the build's stderr on failure. */
 export async function buildFixtureSite(dataDir: string, siteDir: string, base = '/'): Promise<void> {
   const parts = fixtureCatalogue().map((spec) => {
@@ -20,7 +27,7 @@ export async function buildFixtureSite(dataDir: string, siteDir: string, base = 
   const root = resolve(import.meta.dirname, '..', '..');
   const run = spawnSync(process.execPath, [join(root, 'node_modules', 'astro', 'astro.js'), 'build'], {
     cwd: root,
-    env: { ...process.env, MOTIONAL_DATA: dataDir, MOTIONAL_SITE_OUT: siteDir, MOTIONAL_BASE: base, ASTRO_TELEMETRY_DISABLED: '1' },
+    env: { ...cleanEnv(), MOTIONAL_DATA: dataDir, MOTIONAL_SITE_OUT: siteDir, MOTIONAL_BASE: base, ASTRO_TELEMETRY_DISABLED: '1' },
     encoding: 'utf8',
   });
   if (run.status !== 0) throw new Error(`astro build failed:\n${run.stdout}\n${run.stderr}`);
