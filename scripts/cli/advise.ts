@@ -5,7 +5,8 @@
  * Pierce load-capacitor and start-up advice for one part and one or more oscillator circuits:
  * a named circuit of the circuits file (content/oscillators.yaml by default), that circuit with
  * some values replaced by flags, a circuit given entirely by flags, or — with neither — every
- * circuit of the file whose frequency range holds the part. Exit: 0 done, 1 bad input, 2 usage.
+ * circuit of the file whose frequency range holds the part. Exit: 0 done, 1 bad input (or a
+ * circuit for which no advice is possible, e.g. strays above the load capacitance), 2 usage.
  */
 import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';

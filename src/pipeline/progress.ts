@@ -78,7 +78,7 @@ export function createProgress(options: ProgressOptions): Progress {
     const filled = total === 0 ? BAR_WIDTH : Math.round((BAR_WIDTH * count) / total);
     const bar = '#'.repeat(filled) + '-'.repeat(BAR_WIDTH - filled);
     let line = `${options.label} [${bar}] ${count}/${total} ${pct()}%${eta()}${suffix()}`;
-    const width = stream.columns ?? 100;
+    const width = stream.columns !== undefined && stream.columns >= 20 ? stream.columns : 100;
     if (line.length > width - 1) line = line.slice(0, width - 1);
     stream.write(`\r${line}\x1b[K`);
   };
@@ -89,9 +89,10 @@ export function createProgress(options: ProgressOptions): Progress {
   return {
     tick(n = 1, newNote) {
       if (finished) return;
+      const before = count;
       count = Math.min(total, count + n);
       if (newNote !== undefined) note = newNote;
-      if (options.silent) return;
+      if (options.silent || count === before) return;
       const t = now();
       if (tty) {
         if (t - lastDraw >= TTY_INTERVAL_MS || count === total) {

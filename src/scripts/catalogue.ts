@@ -3,9 +3,9 @@
  * filters, sortable columns, result count, and the view kept in the URL (replaceState).
  * Rows are rendered at build time; this script only hides, shows and reorders them.
  */
-import Fuse from 'fuse.js';
 import { compareEntries, compileFilters, emptyFilterState, readFilterState, writeFilterState, SORT_KEYS, type FilterState, type SortKey } from '../site/filters.ts';
 import type { IndexEntry } from '../site/types.ts';
+import { createSearcher } from '../site/search.ts';
 
 const form = document.getElementById('catalogue-filters') as HTMLFormElement | null;
 const table = document.getElementById('catalogue-table') as HTMLTableElement | null;
@@ -20,43 +20,47 @@ function field(name: keyof FilterState): HTMLInputElement | HTMLSelectElement | 
 
 const TEXT_FIELDS = ['q', 'f', 'esr', 'cl', 'kind', 'pkg', 'ot', 'state'] as const;
 
+/** Rows listed at a time. */
+const PAGE_ROWS = 100;
+
 async function start(): Promise<void> {
   if (!form || !table) return;
   document.documentElement.classList.add('js');
   const response = await fetch(`${base()}data/index.json`);
   const entries = (await response.json()) as IndexEntry[];
-  const byId = new Map(entries.map((e) => [e.id, e]));
   const tbody = table.tBodies[0];
   const rows = new Map<string, HTMLTableRowElement>();
   for (const tr of Array.from(tbody.rows)) rows.set(tr.dataset.id ?? '', tr);
   const points = new Map<string, Element>();
   document.querySelectorAll('.point-link[data-id]').forEach((a) => points.set(a.getAttribute('data-id') ?? '', a));
-  const fuse = new Fuse(entries, {
-    keys: [
-      { name: 'id', weight: 3 },
-      { name: 'title', weight: 2 },
-      { name: 'supplierPart', weight: 2 },
-      { name: 'supplier', weight: 1 },
-      { name: 'package', weight: 1 },
-      { name: 'kind', weight: 1 },
-      { name: 'notes', weight: 0.5 },
-    ],
-    threshold: 0.34,
-    ignoreLocation: true,
-    minMatchCharLength: 1,
-  });
+  const searcher = createSearcher(entries);
 
   let state: FilterState = readFilterState(new URLSearchParams(location.search));
   for (const k of TEXT_FIELDS) {
     const el = field(k);
     if (el) el.value = state[k];
   }
-  let lastOrder = '';
-
   const count = document.getElementById('result-count');
   const empty = document.getElementById('no-results');
+  const more = document.getElementById('show-more') as HTMLButtonElement | null;
+  // Only the first rows of a result are in the table (a 3,000-row table re-laid out on every
+  // keystroke is slow); "show more" adds the next page. The static page keeps every row for
+  // readers without JavaScript.
+  let limit = PAGE_ROWS;
+  let shownPoints = new Set(points.keys());
+  let chartTimer: ReturnType<typeof setTimeout> | undefined;
 
-  function apply(): void {
+  function updateChart(show: Set<string>): void {
+    for (const [id, a] of points) {
+      const was = shownPoints.has(id);
+      const now = show.has(id);
+      if (was !== now) a.classList.toggle('is-out', !now);
+    }
+    shownPoints = show;
+  }
+
+  function apply(resetLimit = true): void {
+    if (resetLimit) limit = PAGE_ROWS;
     const { test, errors } = compileFilters(state);
     for (const k of ['f', 'esr', 'cl'] as const) {
       const el = field(k);
@@ -64,25 +68,17 @@ async function start(): Promise<void> {
       if (el) el.setAttribute('aria-invalid', errors[k] ? 'true' : 'false');
       if (err) err.textContent = errors[k] ?? '';
     }
-    const q = state.q.trim();
-    const matched = q ? new Set(fuse.search(q).map((r) => r.item.id)) : undefined;
+    const matched = searcher.search(state.q);
     const visible = entries.filter((e) => (!matched || matched.has(e.id)) && test(e));
-    const show = new Set(visible.map((e) => e.id));
-    const sorted = [...entries].sort((a, b) => compareEntries(a, b, state.sort, state.dir));
-    const order = sorted.map((e) => e.id).join('\n');
-    if (order !== lastOrder) {
-      const frag = document.createDocumentFragment();
-      for (const e of sorted) {
-        const tr = rows.get(e.id);
-        if (tr) frag.appendChild(tr);
-      }
-      tbody.appendChild(frag);
-      lastOrder = order;
-    }
-    for (const [id, tr] of rows) tr.hidden = !show.has(id);
-    for (const [id, a] of points) a.classList.toggle('is-out', !show.has(id));
-    if (count) count.textContent = `${visible.length} of ${entries.length} part${entries.length === 1 ? '' : 's'}`;
+    visible.sort((a, b) => compareEntries(a, b, state.sort, state.dir));
+    const page = visible.slice(0, limit).map((e) => rows.get(e.id)).filter((r): r is HTMLTableRowElement => !!r);
+    tbody.replaceChildren(...page);
+    if (count) count.textContent = `${visible.length} of ${entries.length} part${entries.length === 1 ? '' : 's'}${visible.length > limit ? ` (first ${limit} listed)` : ''}`;
     if (empty) empty.hidden = visible.length > 0;
+    if (more) {
+      more.hidden = visible.length <= limit;
+      more.textContent = `Show ${Math.min(PAGE_ROWS, visible.length - limit)} more`;
+    }
     table!.querySelectorAll('th[data-key]').forEach((th) => {
       const key = th.getAttribute('data-key');
       if (key === state.sort) th.setAttribute('aria-sort', state.dir === 'asc' ? 'ascending' : 'descending');
@@ -90,7 +86,16 @@ async function start(): Promise<void> {
     });
     const params = writeFilterState(state).toString();
     history.replaceState(null, '', params ? `${location.pathname}?${params}` : location.pathname);
+    // The overview chart follows a moment later, off the keystroke's critical path.
+    clearTimeout(chartTimer);
+    const show = new Set(visible.map((e) => e.id));
+    chartTimer = setTimeout(() => updateChart(show), 60);
   }
+
+  more?.addEventListener('click', () => {
+    limit += PAGE_ROWS;
+    apply(false);
+  });
 
   form.addEventListener('input', (ev) => {
     const el = ev.target as HTMLInputElement | HTMLSelectElement;
@@ -117,10 +122,9 @@ async function start(): Promise<void> {
       if (!(SORT_KEYS as readonly string[]).includes(key)) return;
       state.dir = state.sort === key && state.dir === 'asc' ? 'desc' : 'asc';
       state.sort = key;
-      apply();
+      apply(false);
     });
   });
-  void byId;
   apply();
   document.body.dataset.ready = 'true';
 }

@@ -37,7 +37,7 @@ export function modePlotSpec(p: ModePlot, id: string): PlotSpec {
     },
     {
       yName: 'Residual', yUnit: '%', yScale: 'linear', weight: 0.55, yDomain: [0, Math.max(resMax * 1.1, 0.1)],
-      series: [{ label: 'residual |Zmeas − Zmodel|/|Zmodel|', style: 'residual', curve: p.residualPct }],
+      series: [{ label: '|Zmeas − Zmodel|/|Zmodel|', style: 'residual', curve: p.residualPct }],
     },
   ];
   return {

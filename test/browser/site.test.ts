@@ -208,6 +208,7 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     expect(await page.locator('figure.plot desc').first().textContent()).toMatch(/fs/);
     // Hover read-out.
     const svg = plots.first();
+    await svg.scrollIntoViewIfNeeded();
     const box = (await svg.boundingBox())!;
     await page.mouse.move(box.x + box.width / 2, box.y + box.height / 3);
     expect(await page.locator('figure.plot output.readout').first().textContent()).toMatch(/Frequency .*Hz/);

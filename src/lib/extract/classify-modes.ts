@@ -189,7 +189,7 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
 
   if (options.datasheetFrequencyHz && options.datasheetFrequencyHz > 0) {
     const want = options.datasheetOvertone ?? 1;
-    const main = sorted.find((m) => !m.spurious && m.overtone === want);
+    const main = sorted.find((m) => !m.spurious && Math.abs(m.fsHz / options.datasheetFrequencyHz! - 1) < tol);
     if (!main) {
       diagnostics.push({ code: 'other', severity: 'warning', message: `no main mode found near the datasheet frequency ${formatFrequency(options.datasheetFrequencyHz, 7)} (overtone ${want}); check the sweep spans` });
     }

@@ -38,6 +38,16 @@ function ceffAt(model: BvdModel, k: number, d: number): number {
   return c;
 }
 
+/**
+ * Lossless effective capacitance of the part alone, Ceff(f) = Im Y/ω = C0 + Σk Ck/(1 − (f/fk)²), F
+ * (FIELD.md §2a); near a mode it is biased, at low frequency it tends to C0 + ΣCk.
+ */
+export function effectiveCapacitanceOf(model: BvdModel, freqHz: number): number {
+  let c = model.c0F;
+  for (const br of model.branches) c += br.c1F / (((br.fsHz - freqHz) * (br.fsHz + freqHz)) / (br.fsHz * br.fsHz));
+  return c;
+}
+
 /** Bisection for a sign change of `fn` on [lo, hi] (fn(lo) < 0 < fn(hi)), to ~1e-15 relative of `scale`. */
 function bisect(fn: (d: number) => number, lo: number, hi: number, scale: number): number {
   for (let i = 0; i < 200 && hi - lo > 1e-15 * scale; i++) {

@@ -75,7 +75,7 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
       // edge by design, and a series capacitor taken out of Z leaves noise not proportional to |Y|.
       const r = findResonances(s.part, { shapeCheck: !(s.loaded && s.connection === 'series') });
       found.set(s.index, r.resonances);
-      diagnostics.push(...r.diagnostics.filter((d) => !(s.loaded && d.code === 'resonance-at-edge')));
+      diagnostics.push(...r.diagnostics.filter((d) => !(s.loaded && (d.code === 'resonance-at-edge' || d.code === 'no-resonance'))));
     }
   });
   const observations: Observation[] = split.reference.flatMap((s) => (found.get(s.index) ?? []).map((resonance) => ({ sweepIndex: s.index, source: s.source, resonance, loaded: s.loaded })));

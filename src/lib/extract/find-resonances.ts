@@ -231,7 +231,7 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     }
   }
 
-  if (resonances.length === 0 && n > 0) {
+  if (!resonances.some((r) => !r.atBoundary) && n > 0) {
     diagnostics.push({ code: 'no-resonance', severity: 'error', sweep: sweep.source, message: `sweep ${sweep.source}: no resonance: ${describeFlat(sweep)}` });
   }
   return { resonances, diagnostics, noiseRelative: noise };

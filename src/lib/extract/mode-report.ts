@@ -4,8 +4,10 @@
  * frequencies of the fitted model, and the cross-check of every method that applies.
  *
  * Uncertainty of fs: the fit's, combined in quadrature with the frequency-resolution term
- * step/√12 when the best sweep has fewer than 10 points per bandwidth (few points: the
- * sampling, not the noise, limits how well the peak is placed).
+ * step/√12 when the best sweep has fewer than {@link FEW_POINTS_PER_BANDWIDTH} points per
+ * bandwidth: with so few points inside the resonance its shape hardly constrains the fit, and
+ * the sampling, not the noise, limits how well the peak is placed. (Between that and 10 points
+ * the fit still places fs well; a warning asks for a finer step.)
  */
 import type { BvdModel } from '../models/bvd.ts';
 import type { CrossCheck, MethodName, MethodValue, ModeResult } from './types.ts';
@@ -16,6 +18,9 @@ import { parallelResonanceOf, zeroPhaseOf } from './closed-form.ts';
 import { fpUncertaintyOf } from './fp-uncertainty.ts';
 import { crossCheck } from './cross-check.ts';
 import { MIN_POINTS_PER_BANDWIDTH } from './diagnostics.ts';
+
+/** Points per bandwidth below which the fs uncertainty includes step/√12. */
+export const FEW_POINTS_PER_BANDWIDTH = 3;
 
 /** Standard uncertainties of a branch's quantities. */
 export interface BranchUncertainty { fsHz: number; r1Ohm: number; c1F: number; l1H: number; q: number }
@@ -74,7 +79,7 @@ export function reportMode(input: ModeReportInput): ModeResult {
   const q = 1 / (2 * Math.PI * br.fsHz * br.r1Ohm * br.c1F);
   const res = mode.best.resonance;
   const ppbw = res.pointsPerBandwidth;
-  const uRes = ppbw < MIN_POINTS_PER_BANDWIDTH ? res.stepHz / Math.sqrt(12) : 0;
+  const uRes = ppbw < FEW_POINTS_PER_BANDWIDTH ? res.stepHz / Math.sqrt(12) : 0;
   const u = source.uncertainty;
   const fpHz = parallelResonanceOf(model, k) ?? br.fsHz * Math.sqrt(1 + br.c1F / model.c0F);
   const uFp = Math.hypot(

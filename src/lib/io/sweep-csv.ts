@@ -50,7 +50,8 @@ const OHM_WORDS = new Set(['ohm', 'ohms', 'Ω', 'Ω', 'ω']);
 const OHM_PREFIX: Record<string, number> = { k: 3, K: 3, M: 6, m: -3 };
 /** Phase units: true for radians. */
 const PHASE_UNITS: Record<string, boolean> = { deg: false, degree: false, degrees: false, '°': false, rad: true, radian: true, radians: true };
-const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+// `\d+(\.\d*)?`, not `\d+\.?\d*`: the latter backtracks quadratically on a long run of digits.
+const NUMBER = /^[+-]?(\d+(?:\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 const NOT_FINITE = /^[+-]?(nan|inf|infinity)$/i;
 
 interface Column {
@@ -193,8 +194,9 @@ function readHeader(line: string, lineNo: number, source: string) {
   const cols = new Map<Role, Column>();
   names.forEach((raw, index) => {
     const text = raw.trim();
-    const m = /^(.*?)\s*(?:\(([^()]*)\)|\[([^[\]]*)\])$/.exec(text);
-    const name = (m ? m[1] : text).toLowerCase().replace(/\s+/g, ' ');
+    // No `\s*` after the lazy name (quadratic on long runs of spaces); the name is trimmed instead.
+    const m = /^(.*?)(?:\(([^()]*)\)|\[([^[\]]*)\])$/.exec(text);
+    const name = (m ? m[1].trim() : text).toLowerCase().replace(/\s+/g, ' ');
     const unit = m ? (m[2] ?? m[3]).trim() : '';
     const role = (Object.keys(ROLE_NAMES) as Role[]).find((r) => ROLE_NAMES[r].includes(name));
     if (!role) return;

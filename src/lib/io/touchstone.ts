@@ -233,7 +233,7 @@ class TouchstoneReader {
       } else if (k === 'r') {
         const v = tokens[i + 1];
         const r = v === undefined ? NaN : Number(v);
-        if (v === undefined || !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(v) || !(r > 0) || !Number.isFinite(r)) {
+        if (v === undefined || !/^[+-]?(\d+(?:\.\d*)?|\.\d+)([eE][+-]?\d+)?$/.test(v) || !(r > 0) || !Number.isFinite(r)) {
           this.issue(lineNo, `option R: expected a positive reference resistance in ohm, got ${v === undefined ? 'nothing' : quoteToken(v)}`, 'option-line');
         } else if (once('reference resistance', tok)) this.options.refOhm = r;
         i++;
@@ -376,7 +376,7 @@ class TouchstoneReader {
         this.issue(lineNo, `[Reference]: more values than ports (${this.ports}), got ${quoteToken(tok)}`, 'reference');
         return;
       }
-      if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(tok) || !(v > 0) || !Number.isFinite(v)) {
+      if (!/^[+-]?(\d+(?:\.\d*)?|\.\d+)([eE][+-]?\d+)?$/.test(tok) || !(v > 0) || !Number.isFinite(v)) {
         this.issue(lineNo, `[Reference]: expected a positive resistance in ohm, got ${quoteToken(tok)}`, 'reference');
         this.referenceWanted = 0;
         return;
@@ -568,6 +568,14 @@ class TouchstoneReader {
         outIm[k][i] = mag * cs[1];
       }
     }
+    // A finite number can still overflow on conversion (DB above ~6000 dB, v1 Z/Y denormalised
+    // by R): refuse the row rather than hand Infinity or NaN to the extraction.
+    for (let k = 0; k < pairs; k++) {
+      if (!Number.isFinite(outRe[k][i]) || !Number.isFinite(outIm[k][i])) {
+        this.issue(lineNo, `values of column pair ${k + 1} overflow to ${outRe[k][i]}, ${outIm[k][i]} after conversion (${this.describe}${this.scaleRe !== 1 ? `, times ${this.scaleRe} for normalisation` : ''}); expected magnitudes below 1e308`, 'number');
+        return;
+      }
+    }
     // Lower/Upper matrices: the off-diagonal pair fills both N12 and N21
     const dup = this.dupPair;
     if (dup >= 0) {
@@ -593,7 +601,7 @@ class TouchstoneReader {
 
   private badToken(lineNo: number): void {
     const tok = this.text.slice(this.badStart, this.badEnd);
-    if (/^[+-]?(nan|inf|infinity)$/i.test(tok) || /^[+-]?(\d+\.?\d*|\.\d+)[eE][+-]?\d+$/.test(tok)) {
+    if (/^[+-]?(nan|inf|infinity)$/i.test(tok) || /^[+-]?(\d+(?:\.\d*)?|\.\d+)[eE][+-]?\d+$/.test(tok)) {
       this.issue(lineNo, `value ${quoteToken(tok)} is not a finite number`, 'number');
     } else {
       this.issue(lineNo, `expected a number, got ${quoteToken(tok)}`, 'number');

@@ -41,7 +41,7 @@ const UNITS: UnitDef[] = [
 ];
 
 const PREFIXES: Record<string, number> = {
-  f: 1e-15, p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, μ: 1e-6, m: 1e-3,
+  a: 1e-18, f: 1e-15, p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, μ: 1e-6, m: 1e-3,
   '': 1, k: 1e3, K: 1e3, M: 1e6, MEG: 1e6, G: 1e9, T: 1e12,
 };
 
@@ -62,7 +62,9 @@ export const UNIT_HINT: Record<UnitKind, string> = {
 
 export type ParseResult = { ok: true; value: number } | { ok: false; message: string };
 
-const NUMBER = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*)$/;
+// Unambiguous digits and a tail that always matches: no backtracking, linear time on any text
+// (`\d+\.?\d*` with `(.*)$` took minutes on a few thousand digits followed by line breaks).
+const NUMBER = /^([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*([\s\S]*)$/;
 
 /** Split a unit token into prefix multiplier and unit definition, or undefined. */
 function resolveUnit(token: string): { mult: number; def: UnitDef } | undefined {
@@ -85,6 +87,11 @@ function resolveUnit(token: string): { mult: number; def: UnitDef } | undefined 
   return undefined;
 }
 
+/** Text quoted in a message, cut to 60 characters (a message never echoes a whole huge field). */
+function clip(text: string): string {
+  return text.length > 60 ? `${text.slice(0, 60)}…` : text;
+}
+
 /** Describe what was found for messages: `"8 pF" (a capacitance)`. */
 function describe(text: string, found?: UnitKind): string {
   return found ? `"${text}" (a ${found === 'ppm' ? 'ppm value' : found})` : `"${text}"`;
@@ -97,26 +104,27 @@ function describe(text: string, found?: UnitKind): string {
 export function parseQuantity(text: string, expected: UnitKind): ParseResult {
   const trimmed = String(text).trim();
   const m = NUMBER.exec(trimmed);
-  if (!m) return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ${describe(trimmed)}` };
+  if (!m) return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ${describe(clip(trimmed))}` };
   const value = Number(m[1]);
   const unitText = m[2].trim();
-  if (!Number.isFinite(value)) return { ok: false, message: `expected a finite number, got "${trimmed}"` };
+  if (!Number.isFinite(value)) return { ok: false, message: `expected a finite number, got "${clip(trimmed)}"` };
   if (unitText === '') {
     if (expected === 'ppm') return { ok: true, value };
-    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got "${trimmed}" with no unit` };
+    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got "${clip(trimmed)}" with no unit` };
   }
   // "mhz" is how MHz is often typed (Touchstone and the CSV reader take units case-insensitively);
   // "mHz" is millihertz by SI, which no resonator record means: refused rather than guessed.
   if (unitText === 'mHz' || unitText === 'mHZ') {
-    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ambiguous unit "${unitText}" in "${trimmed}" (write MHz for megahertz)` };
+    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ambiguous unit "${clip(unitText)}" in "${clip(trimmed)}" (write MHz for megahertz)` };
   }
   const unit = unitText === 'mhz' ? { mult: 1e6, def: UNITS[0] } : resolveUnit(unitText);
-  if (!unit) return { ok: false, message: `expected ${UNIT_HINT[expected]}, got unknown unit "${unitText}" in "${trimmed}"` };
+  if (!unit) return { ok: false, message: `expected ${UNIT_HINT[expected]}, got unknown unit "${clip(unitText)}" in "${clip(trimmed)}"` };
   if (unit.def.kind !== expected) {
-    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ${describe(trimmed, unit.def.kind)}` };
+    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ${describe(clip(trimmed), unit.def.kind)}` };
   }
   // Divide by the inverse for sub-unit prefixes: 100 / 1e6 is exactly 1e-4, 100 * 1e-6 is not.
-  const scaled = unit.mult < 1 ? value / Math.round(1 / unit.mult) : value * unit.mult;
+  // (the divisor as the exact power of ten: Math.round(1 / 1e-18) is 999999999999999900)
+  const scaled = unit.mult < 1 ? value / Number(`1e${Math.round(-Math.log10(unit.mult))}`) : value * unit.mult;
   return { ok: true, value: scaled };
 }
 
@@ -125,8 +133,9 @@ export type RangeResult = { ok: true; min: number; max: number } | { ok: false; 
 /** Parse a range such as `-40 to 85 C`, `-40 C to 85 C`, `-40..85 C`. */
 export function parseQuantityRange(text: string, expected: UnitKind): RangeResult {
   const trimmed = String(text).trim();
-  const m = /^(.+?)\s*(?:\bto\b|\.\.|…)\s*(.+)$/.exec(trimmed);
-  if (!m) return { ok: false, message: `expected a range such as "-40 to 85 C", got "${trimmed}"` };
+  // No `\s*` before the separator: with the lazy group it made long runs of spaces quadratic.
+  const m = /^(.+?)(?:\bto\b|\.\.|…)\s*([\s\S]+)$/.exec(trimmed);
+  if (!m) return { ok: false, message: `expected a range such as "-40 to 85 C", got "${clip(trimmed)}"` };
   const hi = parseQuantity(m[2], expected);
   if (!hi.ok) return hi;
   let lo = parseQuantity(m[1], expected);
@@ -136,7 +145,7 @@ export function parseQuantityRange(text: string, expected: UnitKind): RangeResul
     lo = parseQuantity(`${m[1].trim()} ${unit}`, expected);
   }
   if (!lo.ok) return lo;
-  if (!(lo.value < hi.value)) return { ok: false, message: `expected the lower bound first, got "${trimmed}"` };
+  if (!(lo.value < hi.value)) return { ok: false, message: `expected the lower bound first, got "${clip(trimmed)}"` };
   return { ok: true, min: lo.value, max: hi.value };
 }
 

@@ -1,0 +1,254 @@
+/**
+ * Benchmark of the whole catalogue build on synthetic catalogues (invented parts generated on
+ * the fly into a temporary folder: 3 samples × 3 sweeps each, see lib/synthetic-catalogue.ts).
+ *
+ * Per size: the cold build (empty cache) as its own process — wall time, time per part,
+ * stage times, peak memory of the build process (all its threads) and of the Astro process —
+ * then the warm rebuild after one record changed, and a bare Astro build of the same number
+ * of empty pages for comparison.
+ *
+ * Targets (2-core machine): 1,000 parts cold ≤ 180 s; warm rebuild ≤ 15 % of cold; peak
+ * memory ≤ 2 GB; cost per part flat (not growing) from 100 to 3,000 parts.
+ *
+ * Run alone: `npx tsx scripts/bench/build.ts [--sizes 100,1000] [--keep]`
+ */
+import { spawn } from 'node:child_process';
+import { mkdir, mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
+import { availableParallelism, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { PROJECT_ROOT, type BuildSummary } from '../../src/pipeline/build-catalogue.ts';
+import { syntheticPartId, writeSyntheticCatalogueParallel } from './lib/synthetic-catalogue.ts';
+
+export interface BenchBuildOptions {
+  /** Catalogue sizes in parts (default 100, 1000, 3000; quick: 30, 100). */
+  sizes?: number[];
+  /** Small sizes only. */
+  quick?: boolean;
+  /** Keep the temporary catalogues and sites (their folder is printed). */
+  keep?: boolean;
+}
+
+/** Measured numbers of one catalogue size. */
+export interface BenchBuildSize {
+  parts: number;
+  /** Seconds to generate the synthetic catalogue (not part of the build). */
+  generateSeconds: number;
+  /** Megabytes (1e6 bytes) of record and sweep files. */
+  catalogueMB: number;
+  cold: BuildRun;
+  warm: BuildRun & { pctOfCold: number };
+  /** Bare Astro build of `parts` empty pages, seconds (wall, one process). */
+  bareAstroSeconds: number;
+  /** Cold build wall time over the bare Astro build's. */
+  ratioToBareAstro: number;
+}
+
+/** One build run, seen from outside (wall time of the whole command) and from its summary. */
+export interface BuildRun {
+  /** Wall time of the `motional build` process, seconds. */
+  seconds: number;
+  /** Wall seconds per part. */
+  perPartMs: number;
+  /** Stage wall times from the summary, seconds. */
+  stages: Record<string, number>;
+  /** Thread time of extraction over all records, seconds. */
+  extractThreadSeconds: number;
+  cacheHits: number;
+  cacheMisses: number;
+  /** Peak resident memory, MB: build process (all threads), Astro process, and their sum. */
+  peakRssMB: { build: number; site: number; sum: number };
+  modes: number;
+  warnings: number;
+}
+
+export interface BenchBuildResult {
+  cores: number;
+  sizes: BenchBuildSize[];
+  /** Marginal cost per part between the smallest and largest size, ms (fixed costs removed). */
+  marginalPerPartMs?: number;
+  /** Targets and whether each was met (undefined: size not measured). */
+  targets: {
+    cold1000Under180s?: boolean;
+    warmUnder15PctOfCold: boolean;
+    peakUnder2GB: boolean;
+    perPartFlat?: boolean;
+  };
+}
+
+const MB = 1e6;
+
+function runBuild(args: string[]): Promise<{ code: number | null; seconds: number; stderr: string }> {
+  return new Promise((resolve) => {
+    const t0 = performance.now();
+    const child = spawn(process.execPath, ['--import', 'tsx', 'scripts/motional.ts', 'build', ...args], {
+      cwd: PROJECT_ROOT,
+      env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' },
+      stdio: ['ignore', 'ignore', 'pipe'],
+    });
+    let stderr = '';
+    child.stderr.on('data', (c: Buffer) => {
+      stderr += c.toString();
+      if (stderr.length > 100_000) stderr = stderr.slice(-50_000);
+    });
+    child.on('close', (code) => resolve({ code, seconds: (performance.now() - t0) / 1000, stderr }));
+  });
+}
+
+async function measuredBuild(content: string, out: string, cache: string, summaryFile: string, parts: number): Promise<BuildRun> {
+  const run = await runBuild(['--content', content, '--out', out, '--cache-dir', cache, '--summary', summaryFile, '--quiet']);
+  if (run.code !== 0) throw new Error(`build of ${parts} parts failed (exit ${run.code}):\n${run.stderr.slice(-4000)}`);
+  const s = JSON.parse(await readFile(summaryFile, 'utf8')) as BuildSummary;
+  const stages: Record<string, number> = {};
+  for (const [k, v] of Object.entries(s.stageMs)) if (typeof v === 'number') stages[k] = v / 1000;
+  return {
+    seconds: run.seconds,
+    perPartMs: (run.seconds * 1000) / parts,
+    stages,
+    extractThreadSeconds: s.recordMs.extract / 1000,
+    cacheHits: s.cache.hits,
+    cacheMisses: s.cache.misses,
+    peakRssMB: { build: s.peakRssBytes.build / MB, site: s.peakRssBytes.site / MB, sum: (s.peakRssBytes.build + s.peakRssBytes.site) / MB },
+    modes: s.modes,
+    warnings: s.warnings,
+  };
+}
+
+/**
+ * A bare Astro project of `pages` empty pages, built once; its folder sits inside the project
+ * (the build's chunks must resolve node_modules).
+ * @returns wall seconds
+ */
+async function bareAstroBuild(pages: number, keep: boolean): Promise<number> {
+  const root = join(PROJECT_ROOT, '.motional', 'bench', `bare-${pages}-${process.pid}`);
+  await rm(root, { recursive: true, force: true });
+  await mkdir(join(root, 'src', 'pages', 'p'), { recursive: true });
+  await writeFile(join(root, 'astro.config.mjs'), "export default { output: 'static', build: { format: 'directory' } };\n");
+  await writeFile(join(root, 'src', 'pages', 'index.astro'), '<html><body><h1>bare</h1></body></html>\n');
+  await writeFile(
+    join(root, 'src', 'pages', 'p', '[id].astro'),
+    `---\nexport function getStaticPaths() {\n  return Array.from({ length: ${pages} }, (_, i) => ({ params: { id: String(i) } }));\n}\nconst { id } = Astro.params;\n---\n<html><body><p>{id}</p></body></html>\n`,
+  );
+  const astro = join(PROJECT_ROOT, 'node_modules', 'astro', 'astro.js');
+  const t0 = performance.now();
+  const code = await new Promise<number | null>((resolve) => {
+    const child = spawn(process.execPath, [astro, 'build', '--root', root], {
+      cwd: root,
+      env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' },
+      stdio: 'ignore',
+    });
+    child.on('close', resolve);
+  });
+  const seconds = (performance.now() - t0) / 1000;
+  if (!keep) await rm(root, { recursive: true, force: true });
+  if (code !== 0) throw new Error(`bare Astro build of ${pages} pages failed (exit ${code})`);
+  return seconds;
+}
+
+async function folderMB(dir: string): Promise<number> {
+  const { readdir, stat } = await import('node:fs/promises');
+  let bytes = 0;
+  const walk = async (d: string) => {
+    for (const e of await readdir(d, { withFileTypes: true })) {
+      const p = join(d, e.name);
+      if (e.isDirectory()) await walk(p);
+      else bytes += (await stat(p)).size;
+    }
+  };
+  await walk(dir);
+  return bytes / MB;
+}
+
+async function benchSize(parts: number, keep: boolean, log: (t: string) => void): Promise<BenchBuildSize> {
+  const root = await mkdtemp(join(tmpdir(), `motional-bench-${parts}-`));
+  const content = join(root, 'content');
+  const out = join(root, 'site');
+  const cache = join(root, 'cache');
+  try {
+    log(`${parts} parts: generating in ${root}\n`);
+    const g0 = performance.now();
+    await writeSyntheticCatalogueParallel(content, parts, { samples: 3 });
+    const generateSeconds = (performance.now() - g0) / 1000;
+    const catalogueMB = await folderMB(content);
+    log(`${parts} parts: ${catalogueMB.toFixed(0)} MB generated in ${generateSeconds.toFixed(1)} s; cold build\n`);
+    const cold = await measuredBuild(content, out, cache, join(root, 'cold.json'), parts);
+    log(`${parts} parts: cold ${cold.seconds.toFixed(1)} s; warm rebuild after touching one record\n`);
+    const yaml = join(content, 'parts', syntheticPartId(1), 'part.yaml');
+    await writeFile(yaml, (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: synthetic crystal 1 (touched)'));
+    const warmRun = await measuredBuild(content, out, cache, join(root, 'warm.json'), parts);
+    const warm = { ...warmRun, pctOfCold: (100 * warmRun.seconds) / cold.seconds };
+    log(`${parts} parts: warm ${warm.seconds.toFixed(1)} s (${warm.cacheMisses} re-extracted); bare Astro build\n`);
+    const bareAstroSeconds = await bareAstroBuild(parts, keep);
+    return { parts, generateSeconds, catalogueMB, cold, warm, bareAstroSeconds, ratioToBareAstro: cold.seconds / bareAstroSeconds };
+  } finally {
+    if (!keep) await rm(root, { recursive: true, force: true });
+  }
+}
+
+/** Run the build benchmark over the sizes. */
+export async function benchBuild(options: BenchBuildOptions = {}): Promise<BenchBuildResult> {
+  const sizes = options.sizes ?? (options.quick ? [30, 100] : [100, 1000, 3000]);
+  const log = (t: string) => void process.stderr.write(`bench build: ${t}`);
+  const results: BenchBuildSize[] = [];
+  for (const n of sizes) results.push(await benchSize(n, options.keep ?? false, log));
+  const first = results[0];
+  const last = results[results.length - 1];
+  const marginal = results.length > 1 && last.parts > first.parts ? ((last.cold.seconds - first.cold.seconds) * 1000) / (last.parts - first.parts) : undefined;
+  const at1000 = results.find((r) => r.parts === 1000);
+  const big = results.filter((r) => r.parts >= 100);
+  return {
+    cores: availableParallelism(),
+    sizes: results,
+    marginalPerPartMs: marginal,
+    targets: {
+      cold1000Under180s: at1000 ? at1000.cold.seconds <= 180 : undefined,
+      warmUnder15PctOfCold: results.every((r) => r.parts < 100 || r.warm.pctOfCold <= 15),
+      peakUnder2GB: results.every((r) => r.cold.peakRssMB.sum <= 2000 && r.warm.peakRssMB.sum <= 2000),
+      // flat: the per-part cost at the largest size is not above the smallest size's (5 % slack)
+      perPartFlat: big.length > 1 ? big[big.length - 1].cold.perPartMs <= 1.05 * big[0].cold.perPartMs : undefined,
+    },
+  };
+}
+
+function parseSizes(argv: string[]): number[] | undefined {
+  const i = argv.findIndex((a) => a === '--sizes' || a.startsWith('--sizes='));
+  if (i < 0) return undefined;
+  const text = argv[i].includes('=') ? argv[i].slice(8) : argv[i + 1];
+  const sizes = (text ?? '').split(',').map(Number);
+  if (sizes.length === 0 || sizes.some((n) => !Number.isInteger(n) || n < 1)) throw new Error(`--sizes expects whole numbers such as 100,1000, got "${text}"`);
+  return sizes;
+}
+
+/** Plain-text table of the results. */
+export function formatBenchBuild(r: BenchBuildResult): string {
+  const rows = r.sizes.map((s) =>
+    [
+      String(s.parts).padStart(5),
+      `${s.cold.seconds.toFixed(1)} s`.padStart(9),
+      `${s.cold.perPartMs.toFixed(0)} ms`.padStart(8),
+      `${s.warm.seconds.toFixed(1)} s`.padStart(8),
+      `${s.warm.pctOfCold.toFixed(1)} %`.padStart(7),
+      `${s.cold.peakRssMB.build.toFixed(0)}+${s.cold.peakRssMB.site.toFixed(0)} MB`.padStart(13),
+      `${s.bareAstroSeconds.toFixed(1)} s`.padStart(8),
+      `${s.ratioToBareAstro.toFixed(1)}×`.padStart(6),
+    ].join('  '),
+  );
+  const head = 'parts       cold  per part      warm  warm/cold  peak (build+site)  bare Astro  ratio';
+  const stages = r.sizes.map((s) => `  ${s.parts} parts cold stages: ${Object.entries(s.cold.stages).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ')}; warm: ${Object.entries(s.warm.stages).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ')}`);
+  const t = r.targets;
+  const yes = (b: boolean | undefined) => (b === undefined ? 'not measured' : b ? 'met' : 'MISSED');
+  return [
+    `cores: ${r.cores}`,
+    head,
+    ...rows,
+    ...stages,
+    r.marginalPerPartMs !== undefined ? `marginal cost per part: ${r.marginalPerPartMs.toFixed(0)} ms` : '',
+    `targets: 1,000 cold ≤ 180 s ${yes(t.cold1000Under180s)}; warm ≤ 15 % ${yes(t.warmUnder15PctOfCold)}; peak ≤ 2 GB ${yes(t.peakUnder2GB)}; flat per part ${yes(t.perPartFlat)}`,
+  ].filter(Boolean).join('\n');
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const argv = process.argv.slice(2);
+  const result = await benchBuild({ sizes: parseSizes(argv), quick: argv.includes('--quick'), keep: argv.includes('--keep') });
+  process.stdout.write(`${formatBenchBuild(result)}\n`);
+}
