@@ -14,7 +14,7 @@
  */
 import { spawn } from 'node:child_process';
 import { mkdir, mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
-import { availableParallelism, tmpdir } from 'node:os';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { PROJECT_ROOT, type BuildSummary } from '../../src/pipeline/build-catalogue.ts';
@@ -64,6 +64,8 @@ export interface BuildRun {
 
 export interface BenchBuildResult {
   cores: number;
+  /** 1-minute load average before and after the runs (other work on the machine skews times). */
+  loadAverage: { before: number; after: number };
   sizes: BenchBuildSize[];
   /** Marginal cost per part between the smallest and largest size, ms (fixed costs removed). */
   marginalPerPartMs?: number;
@@ -100,7 +102,10 @@ async function measuredBuild(content: string, out: string, cache: string, summar
   if (run.code !== 0) throw new Error(`build of ${parts} parts failed (exit ${run.code}):\n${run.stderr.slice(-4000)}`);
   const s = JSON.parse(await readFile(summaryFile, 'utf8')) as BuildSummary;
   const stages: Record<string, number> = {};
-  for (const [k, v] of Object.entries(s.stageMs)) if (typeof v === 'number') stages[k] = v / 1000;
+  for (const k of ['discover', 'records', 'emit', 'site', 'swap', 'total'] as const) {
+    const v = s.stageMs[k];
+    if (typeof v === 'number') stages[k] = v / 1000;
+  }
   return {
     seconds: run.seconds,
     perPartMs: (run.seconds * 1000) / parts,
@@ -189,6 +194,7 @@ async function benchSize(parts: number, keep: boolean, log: (t: string) => void)
 export async function benchBuild(options: BenchBuildOptions = {}): Promise<BenchBuildResult> {
   const sizes = options.sizes ?? (options.quick ? [30, 100] : [100, 1000, 3000]);
   const log = (t: string) => void process.stderr.write(`bench build: ${t}`);
+  const loadBefore = loadavg()[0];
   const results: BenchBuildSize[] = [];
   for (const n of sizes) results.push(await benchSize(n, options.keep ?? false, log));
   const first = results[0];
@@ -198,6 +204,7 @@ export async function benchBuild(options: BenchBuildOptions = {}): Promise<Bench
   const big = results.filter((r) => r.parts >= 100);
   return {
     cores: availableParallelism(),
+    loadAverage: { before: loadBefore, after: loadavg()[0] },
     sizes: results,
     marginalPerPartMs: marginal,
     targets: {
@@ -238,7 +245,7 @@ export function formatBenchBuild(r: BenchBuildResult): string {
   const t = r.targets;
   const yes = (b: boolean | undefined) => (b === undefined ? 'not measured' : b ? 'met' : 'MISSED');
   return [
-    `cores: ${r.cores}`,
+    `cores: ${r.cores}; load average ${r.loadAverage.before.toFixed(1)} before, ${r.loadAverage.after.toFixed(1)} after`,
     head,
     ...rows,
     ...stages,
