@@ -11,8 +11,39 @@
  * leaves either the old or the new folder in place plus leftovers that {@link cleanStale}
  * removes on the next start (only those whose process is gone, so a concurrent build keeps its own).
  */
-import { mkdir, readdir, rename, rm, stat } from 'node:fs/promises';
-import { basename, dirname, join, resolve } from 'node:path';
+import { mkdir, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { basename, dirname, join, relative, resolve, isAbsolute } from 'node:path';
+
+/**
+ * File written into every output folder; a non-empty folder without it is never replaced
+ * (a mistyped `--out` must not delete someone's folder).
+ */
+export const OUTPUT_MARKER = '.motional-output';
+
+/** True when `inner` is `outer` or lies inside it (both absolute). */
+export function isInside(inner: string, outer: string): boolean {
+  const rel = relative(outer, inner);
+  return rel === '' || (!rel.startsWith('..') && !isAbsolute(rel));
+}
+
+/**
+ * Why the output folder may not be replaced, or undefined when it may: it must not contain
+ * any of `protect` (the content, the project, the working folder), and when it exists and is
+ * not empty it must carry {@link OUTPUT_MARKER}.
+ */
+export async function refuseReplace(outDir: string, protect: string[]): Promise<string | undefined> {
+  const abs = resolve(outDir);
+  const hit = protect.map((p) => resolve(p)).find((p) => isInside(p, abs));
+  if (hit) return `the output folder ${outDir} contains ${hit}; choose a folder of its own`;
+  const st = await stat(abs).catch(() => undefined);
+  if (!st) return undefined;
+  if (!st.isDirectory()) return `the output ${outDir} is not a folder`;
+  const names = await readdir(abs);
+  if (names.length > 0 && !names.includes(OUTPUT_MARKER)) {
+    return `the output folder ${outDir} is not empty and was not written by a build (no ${OUTPUT_MARKER}); remove it or choose another folder`;
+  }
+  return undefined;
+}
 
 /** Paths of one build's staging area. */
 export interface StagingDir {
@@ -82,6 +113,7 @@ export async function createStaging(outDir: string): Promise<StagingDir> {
  * the previous output and the staging root.
  */
 export async function swapInto(staging: StagingDir, builtDir: string): Promise<void> {
+  await writeFile(join(builtDir, OUTPUT_MARKER), 'written by motional build; the whole folder is replaced on the next build\n');
   const old = leftoverName(staging.outDir, OLD, process.pid);
   await rm(old, { recursive: true, force: true });
   let hadOld = false;

@@ -24,9 +24,9 @@ import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { formatIssue, type Issue } from '../lib/issues.ts';
 import { parseOscillatorsYaml } from '../lib/osc/oscillators-yaml.ts';
-import { cleanStale, createStaging, discardStaging, isProcessAlive, swapInto, type StagingDir } from './atomic-dir.ts';
+import { OUTPUT_MARKER, cleanStale, createStaging, discardStaging, isProcessAlive, refuseReplace, swapInto, type StagingDir } from './atomic-dir.ts';
 import { createBuildTaskRunner, createRecordLookup, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
-import { pruneCache, sha256 } from './cache.ts';
+import { loadFingerprintMemo, pruneCache, sha256 } from './cache.ts';
 import type { IndexEntry } from '../site/types.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
 import { createWorkerPool, defaultJobs } from './worker-pool.ts';
@@ -159,6 +159,15 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   };
 
   try {
+    const cacheDir = useCache ? resolve(options.cacheDir ?? join(PROJECT_ROOT, '.motional', 'cache')) : undefined;
+    const protect = [contentDir, PROJECT_ROOT, process.cwd(), ...(cacheDir ? [cacheDir] : [])];
+    for (const [dir, given] of [[outDir, options.outDir ?? 'dist'], ...(options.keepDataDir ? [[resolve(options.keepDataDir), options.keepDataDir]] : [])]) {
+      const refusal = await refuseReplace(dir, dir === outDir ? protect : [...protect, outDir]);
+      if (refusal) {
+        summary.issues.push({ severity: 'error', file: given, message: refusal, code: 'output' });
+        throw new BuildFailure(refusal);
+      }
+    }
     await cleanStale(outDir);
     await cleanAstroRuns();
     stage('discover');
@@ -166,7 +175,6 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       summary.issues.push({ severity: 'error', file: contentDir, message: 'content folder not found', code: 'missing' });
       throw new BuildFailure('no content');
     }
-    const cacheDir = useCache ? resolve(options.cacheDir ?? join(PROJECT_ROOT, '.motional', 'cache')) : undefined;
     const exclude = new Set([outDir, ...[options.keepDataDir, cacheDir].filter((d): d is string => !!d).map((d) => resolve(d))]);
     const records = await discoverRecords(contentDir, exclude);
     summary.recordsFound = records.length;
@@ -194,7 +202,9 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     };
 
     stage('records');
-    const { results, threads } = await runRecords(records, context, jobs, oscillatorsBad, progressStream, options.signal);
+    // fingerprints of this content folder's parts are remembered between builds
+    const memoFile = cacheDir ? join(cacheDir, 'fingerprints', `${sha256(resolve(contentDir)).slice(0, 16)}.json`) : undefined;
+    const { results, threads } = await runRecords(records, context, jobs, oscillatorsBad, progressStream, options.signal, memoFile);
     summary.threads = threads;
     for (const r of results) {
       summary.recordMs.hash += r.ms.hash;
@@ -245,6 +255,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     stage('swap');
     if (options.keepDataDir && builtDir !== dataDir) {
       const keep = resolve(options.keepDataDir);
+      await writeFile(join(dataDir, OUTPUT_MARKER), 'written by motional build (--keep-data); the whole folder is replaced on the next build\n');
       await rm(keep, { recursive: true, force: true });
       await mkdir(dirname(keep), { recursive: true });
       await rename(dataDir, keep).catch(async () => {
@@ -298,6 +309,7 @@ async function runRecords(
   validateOnly: boolean,
   progressStream: ProgressStream | undefined,
   signal: AbortSignal | undefined,
+  memoFile: string | undefined,
 ): Promise<{ results: BuildTaskResult[]; threads: number }> {
   const progress = createProgress({ label: 'records', total: records.length, stream: progressStream, silent: !progressStream });
   const results = new Array<BuildTaskResult>(records.length);
@@ -306,7 +318,8 @@ async function runRecords(
   const note = () => (hits > 0 ? `${hits} cached` : undefined);
 
   const todo: BuildTask[] = [];
-  const lookup = createRecordLookup(context);
+  const memo = memoFile ? await loadFingerprintMemo(memoFile) : undefined;
+  const lookup = createRecordLookup(context, memo);
   let nextLookup = 0;
   const lookupLane = async () => {
     while (nextLookup < records.length) {
@@ -323,6 +336,7 @@ async function runRecords(
     }
   };
   await Promise.all(Array.from({ length: Math.min(records.length, LOOKUP_CONCURRENCY) }, lookupLane));
+  await memo?.save().catch(() => undefined);
   todo.sort((a, b) => a.index - b.index);
 
   let run: (task: BuildTask) => Promise<BuildTaskResult>;

@@ -16,7 +16,7 @@ import type { Issue } from '../lib/issues.ts';
 import { EXTRACTOR_VERSION } from '../lib/extract/version.ts';
 import type { OscillatorCircuit } from '../lib/schema/oscillators.ts';
 import { PART_DATA_VERSION, type IndexEntry } from '../site/types.ts';
-import { cacheKey, hashPartFolder, openCache, type BuildCache } from './cache.ts';
+import { cacheKey, hashPartFolder, openCache, type BuildCache, type FingerprintMemo } from './cache.ts';
 
 /** Settings shared by every task of one build (sent once to each thread). */
 export interface BuildTaskContext {
@@ -117,8 +117,11 @@ export interface RecordLookup {
   lookup(index: number, yamlFile: string): Promise<LookupOutcome>;
 }
 
-/** Prepare cache lookups for a build (main thread). */
-export function createRecordLookup(context: BuildTaskContext): RecordLookup {
+/**
+ * Prepare cache lookups for a build (main thread).
+ * @param memo remembered folder fingerprints (unchanged folders are not read again)
+ */
+export function createRecordLookup(context: BuildTaskContext, memo?: FingerprintMemo): RecordLookup {
   const access = cacheAccess(context);
   const dirs = new Set<string>();
   return {
@@ -127,7 +130,7 @@ export function createRecordLookup(context: BuildTaskContext): RecordLookup {
       if (!access) return { task };
       const t0 = performance.now();
       const folder = dirname(yamlFile);
-      const fingerprint = await hashPartFolder(folder).catch(() => undefined);
+      const fingerprint = await hashPartFolder(folder, memo).catch(() => undefined);
       if (!fingerprint) return { task };
       const key = access.keyOf(fingerprint.hash);
       const text = await access.cache.get(key);

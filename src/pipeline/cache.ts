@@ -15,7 +15,7 @@
  */
 import { createHash } from 'node:crypto';
 import { cp, lstat, mkdir, readFile, readdir, readlink, rename, rm, stat, utimes, writeFile } from 'node:fs/promises';
-import { dirname, join } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { threadId } from 'node:worker_threads';
 
 /** Fingerprint of a part folder. */
@@ -28,39 +28,114 @@ export interface FolderHash {
   bytes: number;
 }
 
-/**
- * Hash every file under a part folder, in sorted order, following file links but not folder
- * links (a folder link's target path is hashed instead).
- */
-export async function hashPartFolder(folder: string): Promise<FolderHash> {
-  const h = createHash('sha256');
-  let files = 0;
-  let bytes = 0;
+/** One file (or link) found under a part folder, with the stat facts that reveal a change. */
+interface ScanEntry {
+  rel: string;
+  path: string;
+  /** Link target text for links. */
+  target?: string;
+  /** False for links that lead nowhere or to a folder (only the link text is hashed). */
+  readable: boolean;
+  size: number;
+  mtimeMs: number;
+  ctimeMs: number;
+  ino: number;
+}
+
+/** Every file and link under a folder, sorted; folder links are not followed. */
+async function scanFolder(folder: string): Promise<ScanEntry[]> {
+  const out: ScanEntry[] = [];
   const walk = async (dir: string, rel: string): Promise<void> => {
     const names = (await readdir(dir)).sort();
     for (const name of names) {
       const path = join(dir, name);
       const relPath = rel ? `${rel}/${name}` : name;
-      const link = await lstat(path);
-      if (link.isSymbolicLink()) {
-        h.update(`link\0${relPath}\0${await readlink(path)}\0`);
-        const target = await stat(path).catch(() => undefined);
-        if (!target?.isFile()) continue;
-      } else if (link.isDirectory()) {
+      const st = await lstat(path);
+      if (st.isDirectory()) {
         await walk(path, relPath);
-        continue;
-      } else if (!link.isFile()) {
-        continue;
+      } else if (st.isSymbolicLink()) {
+        const target = await readlink(path);
+        const to = await stat(path).catch(() => undefined);
+        const readable = to?.isFile() === true;
+        out.push({ rel: relPath, path, target, readable, size: to?.size ?? 0, mtimeMs: to?.mtimeMs ?? 0, ctimeMs: Math.max(st.ctimeMs, to?.ctimeMs ?? 0), ino: to?.ino ?? 0 });
+      } else if (st.isFile()) {
+        out.push({ rel: relPath, path, readable: true, size: st.size, mtimeMs: st.mtimeMs, ctimeMs: st.ctimeMs, ino: st.ino });
       }
-      const data = await readFile(path);
-      h.update(`file\0${relPath}\0${data.length}\0`);
-      h.update(data);
-      files++;
-      bytes += data.length;
     }
   };
   await walk(folder, '');
-  return { hash: h.digest('hex'), files, bytes };
+  return out;
+}
+
+/**
+ * Remembered fingerprints, so an unchanged folder is not read again: a folder whose files
+ * all have the same size, times and inode as when it was hashed keeps its hash. Files changed
+ * within {@link RACY_MS} before that hash are always read again (a coarse file-system clock
+ * could hide a second change in the same tick).
+ */
+export interface FingerprintMemo {
+  get(folder: string): (FolderHash & { signature: string; checkedAtMs: number }) | undefined;
+  set(folder: string, entry: FolderHash & { signature: string; checkedAtMs: number }): void;
+  /** Write the memo back (atomic); entries not used since it was loaded are dropped. */
+  save(): Promise<void>;
+}
+
+/** See {@link FingerprintMemo}, ms. */
+export const RACY_MS = 2000;
+
+/** Load (or start) the fingerprint memo kept in `file`. */
+export async function loadFingerprintMemo(file: string): Promise<FingerprintMemo> {
+  type Entry = FolderHash & { signature: string; checkedAtMs: number };
+  let stored: Record<string, Entry> = {};
+  try {
+    stored = JSON.parse(await readFile(file, 'utf8')) as Record<string, Entry>;
+  } catch {
+    stored = {};
+  }
+  const used = new Map<string, Entry>();
+  return {
+    get: (folder) => (Object.hasOwn(stored, folder) ? stored[folder] : undefined),
+    set: (folder, entry) => void used.set(folder, entry),
+    async save() {
+      await mkdir(dirname(file), { recursive: true });
+      const tmp = `${file}${tmpSuffix()}`;
+      await writeFile(tmp, JSON.stringify(Object.fromEntries(used)));
+      await rename(tmp, file);
+    },
+  };
+}
+
+/**
+ * Hash every file under a part folder, in sorted order, following file links but not folder
+ * links (a link's target text is hashed too).
+ * @param memo remembered fingerprints: an unchanged folder is not read again
+ */
+export async function hashPartFolder(folder: string, memo?: FingerprintMemo): Promise<FolderHash> {
+  const entries = await scanFolder(folder);
+  const signature = entries.map((e) => `${e.rel}\0${e.target ?? ''}\0${e.size}\0${e.mtimeMs}\0${e.ctimeMs}\0${e.ino}`).join('\n');
+  const newest = entries.reduce((t, e) => Math.max(t, e.mtimeMs, e.ctimeMs), 0);
+  const memoKey = resolve(folder);
+  const known = memo?.get(memoKey);
+  if (known && known.signature === signature && known.checkedAtMs - newest > RACY_MS) {
+    memo!.set(memoKey, known);
+    return { hash: known.hash, files: known.files, bytes: known.bytes };
+  }
+  const checkedAtMs = Date.now();
+  const h = createHash('sha256');
+  let files = 0;
+  let bytes = 0;
+  for (const e of entries) {
+    if (e.target !== undefined) h.update(`link\0${e.rel}\0${e.target}\0`);
+    if (!e.readable) continue;
+    const data = await readFile(e.path);
+    h.update(`file\0${e.rel}\0${data.length}\0`);
+    h.update(data);
+    files++;
+    bytes += data.length;
+  }
+  const result = { hash: h.digest('hex'), files, bytes };
+  memo?.set(memoKey, { ...result, signature, checkedAtMs });
+  return result;
 }
 
 /** sha256 of a text or bytes, hex. */

@@ -180,7 +180,8 @@ export async function writeCatalogueData(outDir: string, parts: EmitPart[]): Pro
     for (const d of p.downloads) jobs.push({ path: join(outDir, 'downloads', id, ...checkedName(d.name).split('/')), content: d.content });
     index.push(makeIndexEntry(p.data));
   }
-  index.sort((a, b) => a.id.localeCompare(b.id, 'en', { numeric: true }));
+  const collator = new Intl.Collator('en', { numeric: true });
+  index.sort((a, b) => collator.compare(a.id, b.id));
   await mkdir(outDir, { recursive: true });
   await writeAll(jobs);
   await writeFile(join(outDir, 'index.json'), JSON.stringify(index));

@@ -45,7 +45,8 @@ export function partHref(base: string, id: string): string {
 }
 
 export function makeCatalogueView(entries: IndexEntry[], base: string): CatalogueView {
-  const sorted = [...entries].sort((a, b) => a.id.localeCompare(b.id, 'en', { numeric: true }));
+  const collator = new Intl.Collator('en', { numeric: true });
+  const sorted = [...entries].sort((a, b) => collator.compare(a.id, b.id));
   const rows = sorted.map((e): CatalogueRow => ({
     id: e.id,
     href: partHref(base, e.id),
@@ -64,7 +65,7 @@ export function makeCatalogueView(entries: IndexEntry[], base: string): Catalogu
     synthetic: !!e.synthetic,
   }));
   const kinds = [...new Set(entries.map((e) => e.kind))].sort().map((k) => ({ value: k, label: KIND_LABEL[k] ?? k }));
-  const packages = [...new Set(entries.map((e) => e.package).filter((p): p is string => !!p))].sort((a, b) => a.localeCompare(b, 'en', { numeric: true }));
+  const packages = [...new Set(entries.map((e) => e.package).filter((p): p is string => !!p))].sort(collator.compare);
   const overtones = [...new Set(entries.map((e) => e.overtone).filter((o): o is number => o !== undefined))].sort((a, b) => a - b);
   const states = (['pass', 'warnings', 'fail', 'unknown'] as const).map((s) => ({ value: s, label: STATE_LABEL[s] }));
   const plotted = sorted.filter((e) => e.fsHz && e.r1Ohm);

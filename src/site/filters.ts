@@ -193,14 +193,17 @@ export function compileFilters(state: FilterState): CompiledFilters {
   return { test, errors };
 }
 
+/** One collator for every comparison (`localeCompare` with options builds one per call: slow). */
+const COLLATOR = new Intl.Collator('en', { numeric: true });
+
 /** Compare two entries by a sort key; missing values sort last in either direction. */
 export function compareEntries(a: IndexEntry, b: IndexEntry, key: SortKey, dir: 'asc' | 'desc'): number {
   const va = a[key];
   const vb = b[key];
-  if (va === undefined && vb === undefined) return a.id.localeCompare(b.id);
+  if (va === undefined && vb === undefined) return COLLATOR.compare(a.id, b.id);
   if (va === undefined) return 1;
   if (vb === undefined) return -1;
   const sign = dir === 'asc' ? 1 : -1;
-  const c = typeof va === 'number' && typeof vb === 'number' ? va - vb : String(va).localeCompare(String(vb), 'en', { numeric: true });
-  return c !== 0 ? sign * c : a.id.localeCompare(b.id, 'en', { numeric: true });
+  const c = typeof va === 'number' && typeof vb === 'number' ? va - vb : COLLATOR.compare(String(va), String(vb));
+  return c !== 0 ? sign * c : COLLATOR.compare(a.id, b.id);
 }

@@ -8,14 +8,23 @@ import type { ComplianceState } from './types.ts';
 /** Significant digits shown per quantity (the displayed digits the browser tests compare). */
 export const DISPLAY_DIGITS = { fsHz: 10, r1Ohm: 4, c1F: 5, c0F: 4, l1H: 5, q: 4, clF: 3 } as const;
 
+/**
+ * formatSi with at least enough digits for the integer part of the mantissa: 610 µΩ with two
+ * digits would print "6.1e+2 µΩ", so it gets three.
+ */
+export function si(v: number, unit: string, digits: number, fixed = false): string {
+  const t = formatSi(v, unit, digits, fixed);
+  return /e[+-]?\d/.test(t) ? formatSi(v, unit, Math.max(digits, 3), fixed) : t;
+}
+
 /** A frequency with 10 significant digits: "11.99965020 MHz" → trailing zeros trimmed. */
 export function formatHz(v: number | undefined, digits: number = DISPLAY_DIGITS.fsHz): string {
-  return v === undefined ? '—' : formatSi(v, 'Hz', digits);
+  return v === undefined ? '—' : si(v, 'Hz', digits);
 }
 
 /** Any quantity in engineering notation, or an em dash when absent. */
 export function formatQty(v: number | undefined, unit: string, digits = 4): string {
-  return v === undefined || !Number.isFinite(v) ? '—' : formatSi(v, unit, digits);
+  return v === undefined || !Number.isFinite(v) ? '—' : si(v, unit, digits);
 }
 
 /** A dimensionless number with `digits` significant digits and thin-space grouping avoided. */
@@ -38,9 +47,9 @@ export function formatPpm(v: number | undefined, decimals = 2): string {
  */
 export function formatWithUncertainty(v: number | undefined, u: number | undefined, unit: string, minDigits = 3): string {
   if (v === undefined || !Number.isFinite(v)) return '—';
-  if (u === undefined || !Number.isFinite(u) || u <= 0) return formatSi(v, unit, Math.max(minDigits, 4));
+  if (u === undefined || !Number.isFinite(u) || u <= 0) return si(v, unit, Math.max(minDigits, 4));
   const digits = Math.max(minDigits, Math.min(12, Math.floor(Math.log10(Math.abs(v))) - Math.floor(Math.log10(u)) + 2));
-  return `${formatSi(v, unit, digits, true)} ± ${formatSi(u, unit, 2)}`;
+  return `${si(v, unit, digits, true)} ± ${si(u, unit, 2)}`;
 }
 
 /** Words for the compliance states. */

@@ -37,13 +37,23 @@ export function buildLotStats(part: Part, result: PartResult): LotStatistics | u
   return withModes.length >= 2 ? lotStatistics(withModes, part.datasheet ?? {}) : undefined;
 }
 
-/** Pierce advice for each circuit, for one sample's main mode (what `advise` computes). */
+/**
+ * The circuits meant for a part: those whose frequency range holds the main mode's fs, as
+ * `advise` without `--circuit` picks them; all circuits when none is meant for it.
+ */
+export function circuitsFor(circuits: OscillatorCircuit[], fsHz: number): OscillatorCircuit[] {
+  const meant = circuits.filter((c) => !c.frequencyRange || (fsHz >= c.frequencyRange.min && fsHz <= c.frequencyRange.max));
+  return meant.length ? meant : circuits;
+}
+
+/** Pierce advice for each circuit meant for the part, for one sample's main mode (what `advise` computes). */
 export function buildPierce(sample: SampleResult, main: { index: number }, part: Part, circuits: OscillatorCircuit[]): PierceAdvice[] {
   const model = sampleModel(sample);
-  return circuits.map((circuit) => advisePierce({ partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuit }));
+  return circuitsFor(circuits, model.branches[main.index].fsHz).map((circuit) => advisePierce({ partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuit }));
 }
 
 /** Calculator inputs: the same arguments `advisePierce` gets, for the client to vary. */
 export function buildCalculator(sample: SampleResult, main: { index: number }, part: Part, circuits: OscillatorCircuit[]): CalculatorData {
-  return { partId: part.id, datasheet: part.datasheet, model: sampleModel(sample), mainBranch: main.index, circuits };
+  const model = sampleModel(sample);
+  return { partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuits: circuitsFor(circuits, model.branches[main.index].fsHz) };
 }

@@ -19,7 +19,7 @@ export type { ComplianceResult } from '../lib/osc/compliance.ts';
 export type { LotStatistics } from '../lib/osc/lot-stats.ts';
 
 /** Bump when the shape changes, so stale cached data is rebuilt. */
-export const PART_DATA_VERSION = 2;
+export const PART_DATA_VERSION = 3;
 
 /** Compliance with the datasheet, summarised. */
 export type ComplianceState = 'pass' | 'fail' | 'unknown' | 'warnings';

@@ -2,7 +2,7 @@ import { mkdir, mkdtemp, readFile, readdir, rm, writeFile } from 'node:fs/promis
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { cleanStale, createStaging, discardStaging, swapInto } from '../../src/pipeline/atomic-dir.ts';
+import { OUTPUT_MARKER, cleanStale, createStaging, discardStaging, refuseReplace, swapInto } from '../../src/pipeline/atomic-dir.ts';
 
 let tmp: string;
 beforeEach(async () => {
@@ -21,7 +21,7 @@ describe('atomic output folder', () => {
     await mkdir(join(staging.root, 'site'));
     await writeFile(join(staging.root, 'site', 'new.txt'), 'new');
     await swapInto(staging, join(staging.root, 'site'));
-    expect(await readdir(out)).toEqual(['new.txt']);
+    expect((await readdir(out)).sort()).toEqual([OUTPUT_MARKER, 'new.txt']);
     expect(await readdir(tmp)).toEqual(['dist']);
   });
 
@@ -41,6 +41,21 @@ describe('atomic output folder', () => {
     await expect(swapInto(staging, join(staging.root, 'site'))).rejects.toThrow();
     expect(await readFile(join(out, 'marker'), 'utf8')).toBe('keep');
     await discardStaging(staging);
+  });
+
+  it('refuses to replace a folder holding the content, or a non-empty folder it did not write', async () => {
+    const content = join(tmp, 'site', 'content');
+    await mkdir(content, { recursive: true });
+    expect(await refuseReplace(join(tmp, 'site'), [content])).toMatch(/contains .*content; choose a folder of its own$/);
+    expect(await refuseReplace(content, [content])).toMatch(/contains/);
+    const other = join(tmp, 'notes');
+    await mkdir(other);
+    expect(await refuseReplace(other, [])).toBeUndefined(); // empty
+    await writeFile(join(other, 'todo.txt'), 'mine');
+    expect(await refuseReplace(other, [])).toMatch(/is not empty and was not written by a build/);
+    await writeFile(join(other, OUTPUT_MARKER), '');
+    expect(await refuseReplace(other, [])).toBeUndefined();
+    expect(await refuseReplace(join(tmp, 'missing'), [content])).toBeUndefined();
   });
 
   it('removes leftovers of dead builds but not those of a live process', async () => {

@@ -2,7 +2,7 @@ import { mkdir, mkdtemp, readdir, rm, symlink, utimes, writeFile } from 'node:fs
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { cacheKey, hashPartFolder, openCache, pruneCache, sha256 } from '../../src/pipeline/cache.ts';
+import { RACY_MS, cacheKey, hashPartFolder, loadFingerprintMemo, openCache, pruneCache, sha256 } from '../../src/pipeline/cache.ts';
 
 let tmp: string;
 beforeEach(async () => {
@@ -56,6 +56,27 @@ describe('build cache', () => {
     await rm(join(part, 'l.s1p'));
     await symlink('c.s1p', join(part, 'l.s1p'));
     expect((await hashPartFolder(part)).hash).not.toBe(a.hash);
+  });
+
+  it('remembers the fingerprint of an unchanged folder and notices any change to it', async () => {
+    const part = join(tmp, 'p');
+    await makePart(part);
+    // files older than the racy window, so the remembered hash may be used
+    const old = new Date(Date.now() - 10 * RACY_MS);
+    for (const f of ['part.yaml', 'a.s1p', 'raw/open.s1p']) await utimes(join(part, f), old, old);
+    const memoFile = join(tmp, 'memo.json');
+    const memo = await loadFingerprintMemo(memoFile);
+    const first = await hashPartFolder(part, memo);
+    await memo.save();
+    const again = await loadFingerprintMemo(memoFile);
+    expect(again.get(part)?.hash).toBe(first.hash);
+    expect((await hashPartFolder(part, again)).hash).toBe(first.hash);
+    // a same-size edit with the old time kept still changes ctime and is read again
+    await writeFile(join(part, 'a.s1p'), '# Hz S RI R 50\n1 0 1\n');
+    await utimes(join(part, 'a.s1p'), old, old);
+    const changed = await hashPartFolder(part, again);
+    expect(changed.hash).not.toBe(first.hash);
+    expect(changed.hash).toBe((await hashPartFolder(part)).hash);
   });
 
   it('keys on every input', () => {

@@ -11,6 +11,7 @@ import { tmpdir } from 'node:os';
 import { join, relative } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { formatIssue } from '../../src/lib/issues.ts';
+import { OUTPUT_MARKER } from '../../src/pipeline/atomic-dir.ts';
 import { buildCatalogue, type BuildCatalogueOptions } from '../../src/pipeline/build-catalogue.ts';
 import { syntheticPartId, writeSyntheticCatalogue } from '../../scripts/bench/lib/synthetic-catalogue.ts';
 
@@ -71,6 +72,7 @@ describe('buildCatalogue', () => {
     const out = join(tmp, 'broken-out');
     await mkdir(out);
     await writeFile(join(out, 'marker.html'), 'previous site');
+    await writeFile(join(out, OUTPUT_MARKER), '');
     const before = await snapshot(out);
 
     const summary = await buildCatalogue(options({ contentDir: content, outDir: out, cache: false }));
@@ -89,6 +91,21 @@ describe('buildCatalogue', () => {
     expect(await snapshot(out)).toEqual(before);
     // no staging or old folder left next to the output
     expect((await readdir(tmp)).filter((n) => n.includes('.broken-out.'))).toEqual([]);
+  });
+
+  it('refuses an output folder it did not write, and leaves it alone', async () => {
+    const content = join(tmp, 'one');
+    await writeSyntheticCatalogue(content, 1, SMALL);
+    const out = join(tmp, 'someone-elses');
+    await mkdir(out);
+    await writeFile(join(out, 'thesis.tex'), 'precious');
+    const s = await buildCatalogue(options({ contentDir: content, outDir: out, cache: false }));
+    expect(s.exitCode).toBe(1);
+    expect(s.issues.map(formatIssue)).toEqual([`${out}:1: the output folder ${out} is not empty and was not written by a build (no ${OUTPUT_MARKER}); remove it or choose another folder`]);
+    expect(await readdir(out)).toEqual(['thesis.tex']);
+    const inside = await buildCatalogue(options({ contentDir: content, outDir: tmp, cache: false }));
+    expect(inside.exitCode).toBe(1);
+    expect(inside.failure).toMatch(/contains/);
   });
 
   describe('on a valid catalogue', () => {

@@ -9,6 +9,7 @@ import { mkdir, mkdtemp, readFile, readdir, rm, writeFile } from 'node:fs/promis
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { OUTPUT_MARKER } from '../../src/pipeline/atomic-dir.ts';
 import { PROJECT_ROOT } from '../../src/pipeline/build-catalogue.ts';
 import { startStaticServer } from '../../src/pipeline/static-server.ts';
 import { syntheticPartId, writeSyntheticCatalogue } from '../../scripts/bench/lib/synthetic-catalogue.ts';
@@ -71,6 +72,7 @@ describe('motional build (with the site)', () => {
     const out = join(tmp, 'site');
     await mkdir(out);
     await writeFile(join(out, 'stale.html'), 'from an older build');
+    await writeFile(join(out, OUTPUT_MARKER), '');
     const run = await startBuild(['--content', content, '--out', out, '--base', BASE, '--cache-dir', join(tmp, 'cache'), '--quiet']).done;
     expect(run.stderr).not.toMatch(/error/i);
     expect(run.code).toBe(0);
@@ -101,6 +103,7 @@ describe('motional build (with the site)', () => {
     const out = join(tmp, 'killed');
     await mkdir(out);
     await writeFile(join(out, 'index.html'), 'previous site');
+    await writeFile(join(out, OUTPUT_MARKER), '');
     const build = startBuild(['--content', content, '--out', out, '--cache-dir', join(tmp, 'cache'), '--quiet']);
     const staging = join(tmp, `.killed.staging-${build.child.pid}`);
     // the index is written just before the Astro build starts
@@ -109,7 +112,7 @@ describe('motional build (with the site)', () => {
     build.child.kill('SIGKILL');
     const run = await build.done;
     expect(run.signal).toBe('SIGKILL');
-    expect(await readdir(out)).toEqual(['index.html']);
+    expect((await readdir(out)).sort()).toEqual([OUTPUT_MARKER, 'index.html']);
     expect(await readFile(join(out, 'index.html'), 'utf8')).toBe('previous site');
     // the orphaned Astro process notices its parent is gone and stops within a few seconds
     await waitFor(async () => (await processesWriting(join(staging, 'site'))).length === 0, 10_000);

@@ -57,3 +57,12 @@ describe('small formatters', () => {
     expect(parseCompareSelection(new URLSearchParams('parts=<x>,ok'))).toEqual(['ok']);
   });
 });
+
+describe('si', () => {
+  // formatSi with two digits would print "6.1e+2 µΩ" for 610 µΩ (toPrecision), a plain number is wanted.
+  it('never prints an exponent inside an engineering-notation value', async () => {
+    const { si, formatWithUncertainty: fwu } = await import('../../src/site/format.ts');
+    expect(si(610e-6, 'Ω', 2)).toBe('610 µΩ');
+    expect(fwu(13.99809, 610e-6, 'Ω')).toBe('13.99809 Ω ± 610 µΩ');
+  });
+});

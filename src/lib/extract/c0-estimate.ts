@@ -63,34 +63,43 @@ export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options:
   const exclusion = options.exclusion ?? 10;
   const minPoints = options.minPoints ?? 5;
   const fail = (reason: string, points = 0): C0Estimate => ({ ok: false, reason, c0F: 0, uncertaintyF: 0, points, branchCF: [], fitted: [], sweeps: [] });
-  const fs: number[] = [];
-  const ceff: number[] = [];
-  const yOverW: number[] = [];
+  let total = 0;
+  for (const s of sweeps) total += s.freqHz.length;
+  const fsAll = new Float64Array(total);
+  const ceffAll = new Float64Array(total);
+  const yAll = new Float64Array(total);
+  const excl = modes.map((m) => exclusion / Math.max(m.q, 1));
   const used = new Set<string>();
+  let count = 0;
   for (const s of sweeps) {
+    const maxF = s.maxTrustedHz ?? Infinity;
     for (let i = 0; i < s.freqHz.length; i++) {
       const f = s.freqHz[i];
-      if (s.maxTrustedHz !== undefined && f >= s.maxTrustedHz) continue;
+      if (f >= maxF) continue;
       let near = false;
-      for (const m of modes) if (Math.abs(f / m.fsHz - 1) < exclusion / Math.max(m.q, 1)) { near = true; break; }
+      for (let k = 0; k < modes.length; k++) if (Math.abs(f / modes[k].fsHz - 1) < excl[k]) { near = true; break; }
       if (near) continue;
       const w = 2 * Math.PI * f;
       const c = s.bS[i] / w;
       if (!Number.isFinite(c)) continue;
-      fs.push(f);
-      ceff.push(c);
-      yOverW.push(Math.hypot(s.gS[i], s.bS[i]) / w);
+      fsAll[count] = f;
+      ceffAll[count] = c;
+      yAll[count] = Math.hypot(s.gS[i], s.bS[i]) / w;
+      count++;
       used.add(s.source);
     }
   }
+  const fs = fsAll.subarray(0, count);
+  const ceff = ceffAll.subarray(0, count);
+  const yOverW = yAll.subarray(0, count);
   if (fs.length < minPoints) return fail(`only ${fs.length} points lie away from the resonances (need ${minPoints}); sweep a wider span for C0`, fs.length);
 
   // Fit Ck only when kept points lie on both sides of fk, with some above-lossless leverage.
   const fitted = modes.map((m) => {
     let below = 0;
     let above = 0;
-    for (const f of fs) {
-      if (f < m.fsHz) below++; else above++;
+    for (let i = 0; i < count; i++) {
+      if (fs[i] < m.fsHz) below++; else above++;
     }
     return (below >= 2 && above >= 2) || m.c1F === undefined;
   });
@@ -102,7 +111,9 @@ export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options:
     return (lossless * x * x) / (x * x + m.r1Ohm! * m.r1Ohm!);
   };
   // Noise on Ceff is proportional to |Y|/ω; cap the weight where |Y| → 0 (anti-resonance).
-  const scale = ceff.reduce((a, b) => a + Math.abs(b), 0) / ceff.length;
+  let scale = 0;
+  for (let i = 0; i < count; i++) scale += Math.abs(ceff[i]);
+  scale /= count;
   // Normal equations accumulated directly (thousands of points, a handful of unknowns).
   const fitIdx = modes.map((_, k) => k).filter((k) => fitted[k]);
   const p = 1 + fitIdx.length;
@@ -152,7 +163,9 @@ export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options:
   // which moves C0 by the mean of the term.
   modes.forEach((m, k) => {
     if (fitted[k] || m.c1F === undefined) return;
-    const mean = fs.reduce((a, f) => a + term(f, m), 0) / fs.length;
+    let mean = 0;
+    for (let i = 0; i < count; i++) mean += term(fs[i], m);
+    mean /= count;
     u = Math.hypot(u, 0.01 * m.c1F * mean);
   });
   if (!(c0F > 0) || !Number.isFinite(u)) return fail(`capacitive-region fit gave a non-physical C0 (${c0F})`, fs.length);

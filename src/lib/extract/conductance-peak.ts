@@ -115,14 +115,19 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
       const wi = w[i];
       sse += wi * r * r;
       if (!withNormal) continue;
-      const j0 = 1;
       const j1 = v * v;
       const j2 = (-4 * kk * v * fs) / f;
-      const J = [j0, j1, j2];
-      for (let p = 0; p < 3; p++) {
-        normal.g[p] += wi * J[p] * r;
-        for (let q = p; q < 3; q++) normal.a[p][q] += wi * J[p] * J[q];
-      }
+      const a = normal.a;
+      const gv = normal.g;
+      gv[0] += wi * r;
+      gv[1] += wi * j1 * r;
+      gv[2] += wi * j2 * r;
+      a[0][0] += wi;
+      a[0][1] += wi * j1;
+      a[0][2] += wi * j2;
+      a[1][1] += wi * j1 * j1;
+      a[1][2] += wi * j1 * j2;
+      a[2][2] += wi * j2 * j2;
     }
     if (withNormal) for (let p = 0; p < 3; p++) for (let q = 0; q < p; q++) normal.a[p][q] = normal.a[q][p];
     return sse;

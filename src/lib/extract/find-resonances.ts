@@ -70,14 +70,36 @@ export interface FindResonancesOptions {
   shapeCheck?: boolean;
 }
 
+/** Stand-in for peaks that are not fitted (not confirmed on both sides). */
+const NOT_FITTED: ConductancePeakResult = { ok: false, reason: 'peak not inside the sweep', fsHz: 0, r1Ohm: 0, l1H: 0, c1F: 0, q: 0, bandwidthHz: 0, points: 0, rmsRelative: 0 };
+
 /** Noise floor assumed for perfect (synthetic, noiseless) data: −140 dB. */
 const NOISE_FLOOR = 1e-7;
 
+/** k-th smallest value (0-based) by quickselect; reorders `a`. */
+function select(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (hi > lo) {
+    const pivot = a[(lo + hi) >> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) { const t = a[i]; a[i] = a[j]; a[j] = t; i++; j--; }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return a[k];
+  }
+  return a[k];
+}
+
+/** Median (upper median for an even count), without sorting. */
 function median(values: Float64Array): number {
   if (values.length === 0) return 0;
-  const s = values.slice().sort();
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+  return select(values.slice(), values.length >> 1);
 }
 
 /** Relative noise of Y from robust second differences of G and B (white noise: var(d²) = 6σ²). */
@@ -123,25 +145,23 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     if (!(g[i] > left && g[i] >= right) || n < 3) continue;
     const thr = threshold(i);
     if (!(g[i] > thr)) continue;
-    const sideOk = (dir: number) => {
-      let k = i + dir;
-      while (k >= 0 && k < n) {
-        if (g[k] > g[i]) return false;
-        if (g[k] < g[i] - thr) return true;
-        k += dir;
-      }
-      return true; // ran off the sweep: judged by the other side and flagged as at the edge
-    };
-    const lOk = sideOk(-1);
-    const rOk = sideOk(1);
-    if (!lOk || !rOk) continue;
-    // At least one side must really drop (not just run off the edge).
-    const drops = (dir: number) => {
-      for (let k = i + dir; k >= 0 && k < n; k += dir) if (g[k] < g[i] - thr) return true;
-      return false;
-    };
-    const dl = drops(-1);
-    const dr = drops(1);
+    // Walk each side until a higher point (not a peak), a drop by the threshold (confirmed),
+    // or the sweep end (judged by the other side; then flagged as one-sided).
+    const level = g[i] - thr;
+    let side = 0; // 0 edge, 1 dropped, −1 higher
+    for (let k = i - 1; k >= 0; k--) {
+      if (g[k] > g[i]) { side = -1; break; }
+      if (g[k] < level) { side = 1; break; }
+    }
+    if (side < 0) continue;
+    const dl = side === 1;
+    side = 0;
+    for (let k = i + 1; k < n; k++) {
+      if (g[k] > g[i]) { side = -1; break; }
+      if (g[k] < level) { side = 1; break; }
+    }
+    if (side < 0) continue;
+    const dr = side === 1;
     if (!dl && !dr) continue;
     peaks.push(i);
     if (!dl || !dr) oneSided.add(i);
@@ -162,8 +182,8 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     const { i } = merged[k];
     const next = k + 1 < merged.length ? merged[k + 1].i : n;
     const step = i === 0 ? f[1] - f[0] : i === n - 1 ? f[n - 1] - f[n - 2] : 0.5 * (f[i + 1] - f[i - 1]);
-    const fit = fitConductancePeak(f, g, yAbs, i);
     const atBoundary = i === 0 || i === n - 1 || merged[k].oneSided;
+    const fit = atBoundary ? NOT_FITTED : fitConductancePeak(f, g, yAbs, i);
     let fsHz = f[i];
     let r1Ohm = 1 / g[i];
     let bandwidthHz: number;

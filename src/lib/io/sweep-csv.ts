@@ -262,30 +262,45 @@ function detectDelimiter(line: string): Delimiter {
   return best;
 }
 
-/** Split one line into fields; `undefined` when a quote is not closed. */
+/**
+ * Split one line into fields; `undefined` when a quote is not closed. Pieces are sliced, not
+ * added character by character (a 1 MB quoted field took 0.6 s that way).
+ */
 function splitFields(line: string, delim: Delimiter): string[] | undefined {
   if (line.indexOf('"') < 0) return line.split(delim);
   const out: string[] = [];
-  let cur = '';
+  let parts: string[] = [];
+  const n = line.length;
+  let i = 0;
   let quoted = false;
-  for (let i = 0; i < line.length; i++) {
-    const ch = line[i];
+  for (;;) {
     if (quoted) {
-      if (ch === '"') {
-        if (line[i + 1] === '"') {
-          cur += '"';
-          i++;
-        } else quoted = false;
-      } else cur += ch;
-    } else if (ch === '"') quoted = true;
-    else if (ch === delim) {
-      out.push(cur);
-      cur = '';
-    } else cur += ch;
+      const q = line.indexOf('"', i);
+      if (q < 0) return undefined;
+      parts.push(line.slice(i, q));
+      if (line.charCodeAt(q + 1) === 34) {
+        parts.push('"');
+        i = q + 2;
+      } else {
+        quoted = false;
+        i = q + 1;
+      }
+      continue;
+    }
+    let j = i;
+    while (j < n && line[j] !== '"' && line[j] !== delim) j++;
+    parts.push(line.slice(i, j));
+    if (j >= n) {
+      out.push(parts.join(''));
+      return out;
+    }
+    if (line[j] === '"') quoted = true;
+    else {
+      out.push(parts.join(''));
+      parts = [];
+    }
+    i = j + 1;
   }
-  if (quoted) return undefined;
-  out.push(cur);
-  return out;
 }
 
 /** A finite number times 10^shift, or a message saying what is wrong. */
