@@ -116,10 +116,13 @@ export async function loadPart(pathToYamlOrFolder: string, fs: FileSource = node
         }
       }
       const comp = sample.compensation;
-      if (comp?.open !== undefined && comp.short !== undefined) {
-        const compFixture = comp.fixture ?? ref.fixture;
+      // Compensation sweeps belong to one fixture (its own `fixture`, else the sample's first
+      // sweep's): they correct the sweeps taken in that fixture and leave others (say, an
+      // impedance-analyser export beside network-analyser sweeps) as they are.
+      const compFixture = comp?.fixture ?? sample.sweeps[0].fixture;
+      if (comp?.open !== undefined && comp.short !== undefined && ref.fixture === compFixture) {
         const compPath: FieldPath = ['samples', i, 'compensation'];
-        const fixturePath: FieldPath = comp.fixture ? [...compPath, 'fixture'] : [...sweepPath, 'fixture'];
+        const fixturePath: FieldPath = comp.fixture ? [...compPath, 'fixture'] : ['samples', i, 'sweeps', 0, 'fixture'];
         const open = await reader.read(comp.open, compFixture, [...compPath, 'open'], fixturePath);
         const short = await reader.read(comp.short, compFixture, [...compPath, 'short'], fixturePath);
         const load = comp.load !== undefined ? await reader.read(comp.load, compFixture, [...compPath, 'load'], fixturePath) : undefined;

@@ -26,7 +26,7 @@ export interface CalculatorForm {
 }
 
 export type CalculatorOutcome =
-  | { ok: true; advice: PierceAdvice; rows: Array<{ label: string; value: string; state?: string }> }
+  | { ok: true; advice: Extract<PierceAdvice, { ok: true }>; rows: Array<{ label: string; value: string; state?: string }> }
   | { ok: false; message: string; advice?: PierceAdvice };
 
 /** Initial form values from a circuit and the datasheet target. */

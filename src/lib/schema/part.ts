@@ -96,7 +96,7 @@ export const CompensationSchema = z.object({
   /** Optional load standard sweep and its true impedance (open/short/load correction). */
   load: fileName.optional(),
   loadResistance: quantity('resistance', { positive: true }).optional(),
-  /** Fixture of the compensation sweeps; defaults to the first sweep's fixture. */
+  /** Fixture of the compensation sweeps; defaults to the first sweep's fixture. Only sweeps taken in this fixture are compensated. */
   fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }).optional(),
 }).superRefine((c, ctx) => {
   if ((c.open === undefined) !== (c.short === undefined)) {

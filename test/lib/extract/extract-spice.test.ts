@@ -52,14 +52,14 @@ const CASES: SpiceCase[] = [
     // FIELD.md §1.1 two-branch check: X1 plus L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF at fs + 100 kHz
     name: 'X1 with its spurious branch',
     model: { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }, { fsHz: FS + 100e3, r1Ohm: 150, c1F: 2.468878e-15 }] },
-    sweeps: [['n.s1p', { startHz: FS - 1600, stopHz: FS + 1600, points: 1601 }], ['w.s1p', { startHz: FS - 50e3, stopHz: FS + 150e3, points: 5001 }]],
+    sweeps: [['n.s1p', { startHz: FS - 1600, stopHz: FS + 1600, points: 801 }], ['w.s1p', { startHz: FS - 50e3, stopHz: FS + 150e3, points: 5001 }]],
     kind: 'quartz-at',
   },
   {
     // FIELD.md §0 TF1, 32.768 kHz tuning fork
     name: 'TF1',
     model: { c0F: 1.2e-12, branches: [{ fsHz: 32768, r1Ohm: 35e3, c1F: 3e-15 }] },
-    sweeps: [['n.csv', { startHz: 32764, stopHz: 32772, points: 801 }], ['w.csv', { startHz: 32600, stopHz: 32900, points: 5001 }]],
+    sweeps: [['n.csv', { startHz: 32764, stopHz: 32772, points: 801 }], ['w.csv', { startHz: 32600, stopHz: 32900, points: 3001 }]],
     kind: 'quartz-tuning-fork',
   },
 ];
