@@ -271,7 +271,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     summary.exitCode = 0;
   } catch (err) {
     stage(undefined);
-    summary.failure = err instanceof Error ? err.message : String(err);
+    const message = err instanceof Error ? err.message : String(err);
+    summary.failure = err instanceof BuildFailure ? message : `internal error: ${message}`;
     if (!(err instanceof BuildFailure) && err instanceof Error && err.stack && process.env.MOTIONAL_DEBUG) log(`${err.stack}\n`);
     if (staging) await discardStaging(staging).catch(() => undefined);
   }

@@ -177,7 +177,21 @@ export async function createBuildTaskRunner(context: BuildTaskContext): Promise<
   const access = cacheAccess(context);
   const dirs = new Set<string>();
 
+  // An exception while processing one record is a bug, reported as that record's error so
+  // the build still lists every other record's problems (and fails).
   const run = async (task: BuildTask): Promise<BuildTaskResult> => {
+    try {
+      return await process(task);
+    } catch (err) {
+      const message = err instanceof Error ? err.message : String(err);
+      return {
+        index: task.index, yamlFile: task.yamlFile, valid: false, cached: false, ms: noTimes(),
+        issues: [{ severity: 'error', file: task.yamlFile, message: `internal error while building this part: ${message}`, code: 'internal' }],
+      };
+    }
+  };
+
+  const process = async (task: BuildTask): Promise<BuildTaskResult> => {
     const ms = noTimes();
     const base = { index: task.index, yamlFile: task.yamlFile, ms };
     const folder = dirname(task.yamlFile);
