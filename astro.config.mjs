@@ -78,6 +78,7 @@ function catalogueData() {
 }
 
 export default defineConfig({
+  publicDir: './src/public',
   output: 'static',
   base,
   outDir,

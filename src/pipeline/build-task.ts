@@ -181,7 +181,7 @@ export async function createBuildTaskRunner(context: BuildTaskContext): Promise<
   // the build still lists every other record's problems (and fails).
   const run = async (task: BuildTask): Promise<BuildTaskResult> => {
     try {
-      return await process(task);
+      return await processRecord(task);
     } catch (err) {
       const message = err instanceof Error ? err.message : String(err);
       return {
@@ -191,7 +191,7 @@ export async function createBuildTaskRunner(context: BuildTaskContext): Promise<
     }
   };
 
-  const process = async (task: BuildTask): Promise<BuildTaskResult> => {
+  const processRecord = async (task: BuildTask): Promise<BuildTaskResult> => {
     const ms = noTimes();
     const base = { index: task.index, yamlFile: task.yamlFile, ms };
     const folder = dirname(task.yamlFile);
