@@ -16,6 +16,7 @@ import { formatNetlist, medianModel, modelFromResult, type ModelWithLabels, type
 import { formatParametersCsv, formatParametersJson, type ExportSample } from '../../src/lib/models/parameters-export.ts';
 import type { Part } from '../../src/lib/schema/part.ts';
 import { parseQuantity } from '../../src/lib/units/si.ts';
+import { netlistInfoOf } from '../../src/lib/models/netlist-info.ts';
 import { loadPart } from '../../src/pipeline/load-part.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
 
@@ -48,12 +49,6 @@ export interface ChosenModel {
 export interface ChooseOptions {
   sampleId?: string;
   lotMedian?: boolean;
-}
-
-function methodOf(s: SampleResult): string {
-  return s.fit.converged
-    ? `complex least squares over the sample's sweeps (${s.fit.points} points, ${s.fit.iterations} iterations)`
-    : `closed-form and peak methods (least-squares fit not used: ${s.fit.reason})`;
 }
 
 /**
@@ -97,13 +92,7 @@ export async function loadChosenModel(path: string, opts: ChooseOptions, io: Cli
     return EXIT_BAD_INPUT;
   }
   const model = modelFromResult(sample, { hints });
-  const record = part.samples.find((s) => s.id === sample.sample);
-  const info: NetlistInfo = {
-    partId: part.id, title: part.title, kind: part.kind, sample: sample.sample, labels: model.labels,
-    temperatureC: sample.temperatureC, driveW: sample.driveW, date: record?.measured,
-    method: methodOf(sample), fitResidual: sample.fit.converged ? sample.fit.rmsResidual : undefined,
-    validSpanHz: sample.spanHz.max > sample.spanHz.min ? sample.spanHz : undefined,
-  };
+  const info = netlistInfoOf(part, sample, model.labels);
   return { part, sample, samples: result.samples, model, info };
 }
 

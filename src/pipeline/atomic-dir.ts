@@ -29,7 +29,7 @@ export function isInside(inner: string, outer: string): boolean {
 /**
  * Why the output folder may not be replaced, or undefined when it may: it must not contain
  * any of `protect` (the content, the project, the working folder), and when it exists and is
- * not empty it must carry {@link OUTPUT_MARKER}.
+ * not empty it must carry {@link OUTPUT_MARKER} (or be a site built by Astro itself).
  */
 export async function refuseReplace(outDir: string, protect: string[]): Promise<string | undefined> {
   const abs = resolve(outDir);
@@ -39,7 +39,9 @@ export async function refuseReplace(outDir: string, protect: string[]): Promise<
   if (!st) return undefined;
   if (!st.isDirectory()) return `the output ${outDir} is not a folder`;
   const names = await readdir(abs);
-  if (names.length > 0 && !names.includes(OUTPUT_MARKER)) {
+  // a site built by Astro directly (`astro build`) may be replaced too
+  const astroSite = names.includes('index.html') && names.includes('_astro');
+  if (names.length > 0 && !names.includes(OUTPUT_MARKER) && !astroSite) {
     return `the output folder ${outDir} is not empty and was not written by a build (no ${OUTPUT_MARKER}); remove it or choose another folder`;
   }
   return undefined;

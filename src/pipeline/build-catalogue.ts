@@ -35,13 +35,16 @@ import { normalizeBase } from './static-server.ts';
 /** The project root: where astro.config.mjs and node_modules are. */
 export const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 
-/** Working folders of Astro builds, one per build process (see runAstro). */
+/** Working folders of Astro builds, one per build process (see runAstroBuild). */
 const ASTRO_RUNS = join(PROJECT_ROOT, '.motional', 'astro-run');
+
+/** Astro builds started by this process (names their working folders). */
+let astroRuns = 0;
 
 /** Remove Astro working folders of build processes that are gone. */
 async function cleanAstroRuns(): Promise<void> {
   for (const name of await readdir(ASTRO_RUNS).catch(() => [] as string[])) {
-    const pid = Number(name);
+    const pid = Number(name.split('-')[0]);
     if (Number.isInteger(pid) && pid !== process.pid && !isProcessAlive(pid)) await rm(join(ASTRO_RUNS, name), { recursive: true, force: true });
   }
 }
@@ -241,7 +244,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     if (!options.dataOnly) {
       stage('site');
       const siteDir = join(staging.root, 'site');
-      summary.peakRssBytes.site = await runAstro({ dataDir, siteDir, basePath, pages: ids.length, progress: progressStream, log, signal: options.signal });
+      summary.peakRssBytes.site = await runAstroBuild({ dataDir, siteDir, basePath, pages: ids.length, progress: progressStream, log, signal: options.signal });
       builtDir = siteDir;
       summary.partsPublished = await countPublished(siteDir, ids, basePath);
     } else {
@@ -396,12 +399,18 @@ function duplicateIds(results: BuildTaskResult[]): Issue[] {
   return issues;
 }
 
-interface AstroRun {
+/** What {@link runAstroBuild} builds. */
+export interface AstroBuildOptions {
+  /** Catalogue data folder (MOTIONAL_DATA). */
   dataDir: string;
+  /** Output folder of the site (MOTIONAL_SITE_OUT). */
   siteDir: string;
+  /** Base path (MOTIONAL_BASE), normalised. */
   basePath: string;
+  /** Expected number of pages, for the progress display. */
   pages: number;
   progress: ProgressStream | undefined;
+  /** Receives Astro's output when the build fails. */
   log: (text: string) => void;
   signal: AbortSignal | undefined;
 }
@@ -427,10 +436,12 @@ const ORPHAN_GUARD = `data:text/javascript,${encodeURIComponent(
 )}`;
 
 /**
- * Run `astro build` in a child process; its output is kept and shown only when it fails.
+ * Run `astro build` of the catalogue site in a child process, safe to run alongside other
+ * builds; its output is kept and shown only when it fails.
  * @returns peak resident memory of the child, bytes (sampled)
+ * @throws Error when Astro fails or the build is stopped
  */
-async function runAstro(run: AstroRun): Promise<number> {
+export async function runAstroBuild(run: AstroBuildOptions): Promise<number> {
   const astro = join(PROJECT_ROOT, 'node_modules', 'astro', 'astro.js');
   const progress = createProgress({ label: 'site', total: run.pages, stream: run.progress, silent: !run.progress });
   // Astro writes its intermediate server chunks to `<cwd>/.astro/` when the output folder is
@@ -438,7 +449,7 @@ async function runAstro(run: AstroRun): Promise<number> {
   // would share that folder, and concurrent builds overwrite each other's pages. So each build
   // runs in a working folder of its own inside the project (the chunks must still find
   // node_modules), with --root naming the project.
-  const cwd = join(ASTRO_RUNS, String(process.pid));
+  const cwd = join(ASTRO_RUNS, `${process.pid}-${++astroRuns}`);
   await rm(cwd, { recursive: true, force: true });
   await mkdir(cwd, { recursive: true });
   const child = spawn(process.execPath, ['--import', ORPHAN_GUARD, astro, 'build', '--root', PROJECT_ROOT], {
@@ -490,7 +501,7 @@ async function runAstro(run: AstroRun): Promise<number> {
   if (code !== 0) {
     progress.done('failed');
     run.log(`${output.join('').trimEnd()}\n`);
-    throw new BuildFailure(run.signal?.aborted ? 'build stopped' : `astro build failed (${code})`);
+    throw new BuildFailure(run.signal?.aborted ? 'build stopped' : `astro build failed (exit ${code})`);
   }
   progress.done();
   return peak;

@@ -16,7 +16,8 @@ import { mkdir, writeFile } from 'node:fs/promises';
 import { dirname, join, posix } from 'node:path';
 import type { PartResult, SampleResult } from '../lib/extract/types.ts';
 import type { Part } from '../lib/schema/part.ts';
-import { formatNetlist, modelFromResult, type NetlistInfo } from '../lib/models/netlist-spice.ts';
+import { formatNetlist, modelFromResult } from '../lib/models/netlist-spice.ts';
+import { netlistInfoOf } from '../lib/models/netlist-info.ts';
 import { formatModelTouchstone } from '../lib/models/model-touchstone.ts';
 import { formatParametersCsv, formatParametersJson } from '../lib/models/parameters-export.ts';
 import type { LoadedPart } from './load-part.ts';
@@ -34,27 +35,6 @@ export interface DownloadFile {
 export interface EmitPart {
   data: PartData;
   downloads: Array<{ name: string; label?: string; content: string | Uint8Array }>;
-}
-
-/** How a sample's parameters were obtained, as the netlist header says it (same text as `netlist`). */
-export function methodOf(s: SampleResult): string {
-  return s.fit.converged
-    ? `complex least squares over the sample's sweeps (${s.fit.points} points, ${s.fit.iterations} iterations)`
-    : `closed-form and peak methods (least-squares fit not used: ${s.fit.reason})`;
-}
-
-/**
- * Header facts of a sample's netlist and model files — the same facts `motional netlist`
- * passes, so the downloaded netlist is byte-identical to what the command prints.
- */
-export function netlistInfoOf(part: Part, sample: SampleResult, labels: NetlistInfo['labels']): NetlistInfo {
-  const record = part.samples.find((s) => s.id === sample.sample);
-  return {
-    partId: part.id, title: part.title, kind: part.kind, sample: sample.sample, labels,
-    temperatureC: sample.temperatureC, driveW: sample.driveW, date: record?.measured,
-    method: methodOf(sample), fitResidual: sample.fit.converged ? sample.fit.rmsResidual : undefined,
-    validSpanHz: sample.spanHz.max > sample.spanHz.min ? sample.spanHz : undefined,
-  };
 }
 
 /**
@@ -186,3 +166,4 @@ export async function writeCatalogueData(outDir: string, parts: EmitPart[]): Pro
   await writeAll(jobs);
   await writeFile(join(outDir, 'index.json'), JSON.stringify(index));
 }
+

@@ -53,6 +53,11 @@ describe('atomic output folder', () => {
     expect(await refuseReplace(other, [])).toBeUndefined(); // empty
     await writeFile(join(other, 'todo.txt'), 'mine');
     expect(await refuseReplace(other, [])).toMatch(/is not empty and was not written by a build/);
+    await writeFile(join(other, 'index.html'), '');
+    expect(await refuseReplace(other, [])).toMatch(/is not empty/);
+    await mkdir(join(other, '_astro')); // a site Astro built by itself
+    expect(await refuseReplace(other, [])).toBeUndefined();
+    await rm(join(other, '_astro'), { recursive: true });
     await writeFile(join(other, OUTPUT_MARKER), '');
     expect(await refuseReplace(other, [])).toBeUndefined();
     expect(await refuseReplace(join(tmp, 'missing'), [content])).toBeUndefined();
