@@ -172,7 +172,7 @@ describe('formatTouchstone → parseTouchstone', () => {
   });
 
   it('writes a zero magnitude in DB format as a number it can read back', () => {
-    // A noiseless 2-port reflection record has S21 = S12 = 0 exactly (src/lib/synth/synth-sweep.ts).
+    // An exact zero entry (an RI file's `0 0`, ideal isolation) written as DB becomes 20·log10(0) = -Infinity.
     const data: NetworkData = {
       parameter: 'S', ports: 1, z0Ohm: [50], freqHz: Float64Array.of(1e6, 2e6),
       re: [Float64Array.of(0, 0.5)], im: [Float64Array.of(0, 0)], source: 'x', format: '', comments: [],

@@ -6,7 +6,9 @@
  * temperatures and drive levels give the temperature fit and the drive-level analysis.
  *
  * Published numbers are always finite: a mode whose every estimate failed is dropped with an
- * error diagnostic and a warning that says why.
+ * error diagnostic and a warning that says why. Duplicates of a stronger mode and spurious
+ * modes that are not reportable (screen-modes.ts: no converged fit, or more than 40 dB below
+ * the main mode) are dropped with a note.
  */
 import type { Part, Sample } from '../schema/part.ts';
 import type { BvdModel } from '../models/bvd.ts';
@@ -16,6 +18,7 @@ import { classifyModes, type ModeCandidate, type Observation } from './classify-
 import { estimateC0 } from './c0-estimate.ts';
 import { peakMethodsOf, referenceMethodsOf, otherBranchesCF, type PeakMethods, type ReferenceMethods } from './mode-methods.ts';
 import { fitModes } from './fit-modes.ts';
+import { spuriousRejection } from './screen-modes.ts';
 import { reportMode, type ModeSource } from './mode-report.ts';
 import { crossCheck } from './cross-check.ts';
 import { prepareSweeps, referenceConditions, SAME_TEMPERATURE_C, type ExtractSweepInput } from './reference-conditions.ts';
@@ -116,6 +119,21 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     diagnostics.push({ code: 'fit-failed', severity: 'warning', message: `joint fit over all sweeps failed (${fits.joint.reason}); values from the per-mode fits` });
   }
 
+  // A duplicate that was a main mode hands its role to the mode kept in its place.
+  fits.screen.duplicateOf.forEach((s, k) => {
+    if (s < 0) return;
+    const gone = candidates[k];
+    const kept = candidates[s];
+    if (!gone.spurious && kept.spurious) {
+      kept.spurious = false;
+      kept.overtone = gone.overtone;
+      kept.mainIndex = undefined;
+      kept.resistanceRatio = undefined;
+      kept.strengthDb = undefined;
+    }
+    for (const m of candidates) if (m.mainIndex === k) m.mainIndex = s;
+  });
+
   return timed(timing, 'report', () => {
     // Where each mode's values come from; modes with no usable estimate are dropped.
     const branches: BvdModel['branches'] = [];
@@ -123,6 +141,17 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     candidates.forEach((m, k) => {
       const where = `mode near ${formatFrequency(m.fsHz, 8)}`;
       const pm = fits.perMode[k];
+      const screened = fits.screen.dropped[k];
+      if (screened !== undefined) {
+        branches.push(initial.branches[k]);
+        sources.push(undefined);
+        const failed = m.spurious && fits.screen.duplicateOf[k] < 0 && !pm?.converged;
+        diagnostics.push({
+          code: 'other', severity: failed ? 'warning' : 'info',
+          message: `${m.spurious ? 'spurious ' : ''}${where}: not reported, ${screened}${failed ? ` (${pm?.reason ?? 'not attempted'})` : ''}`,
+        });
+        return;
+      }
       if (joint && fits.jointFree.includes(k)) {
         const j = fits.jointIndex[k];
         branches.push({ ...joint.model.branches[j] });
@@ -141,6 +170,16 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
         const why = [pm ? `fit: ${pm.reason}` : 'fit not attempted', `conductance peak: ${m.best.resonance.conductance.reason}`].join('; ');
         diagnostics.push({ code: 'fit-failed', severity: 'error', message: `${where}: dropped, no usable estimate (${why})` });
       }
+    });
+    // Spurious modes must stay reportable with their final values (screen-modes.ts).
+    candidates.forEach((m, k) => {
+      const src = sources[k];
+      if (!m.spurious || !src || m.mainIndex === undefined) return;
+      const main = sources[m.mainIndex] ? branches[m.mainIndex] : undefined;
+      const why = spuriousRejection(branches[k].r1Ohm, main?.r1Ohm, src.method !== 'conductance-peak');
+      if (why === undefined) return;
+      sources[k] = undefined;
+      diagnostics.push({ code: 'other', severity: src.method === 'conductance-peak' ? 'warning' : 'info', message: `spurious mode near ${formatFrequency(m.fsHz, 8)}: not reported, ${why}` });
     });
     const kept = candidates.map((_, k) => k).filter((k) => sources[k] !== undefined);
     kept.forEach((k, kk) => {

@@ -2,10 +2,18 @@
  * Finding the resonances of one sweep of the part alone.
  *
  * A series resonance is a peak of the conductance G = Re Y (Gmax = 1/R1 exactly at fs; C0 only
- * adds susceptance — FIELD.md §2b). Peaks are accepted by topographic prominence against a
- * noise threshold estimated from the data (robust second differences of G relative to |Y|,
- * since relative noise on Z is relative noise on Y), so noise wiggles on a resonance's flanks
- * are not taken for modes. Each peak is then refined by the conductance-peak fit, and the
+ * adds susceptance — FIELD.md §2b). Peaks are accepted by topographic prominence against two
+ * noise thresholds estimated from the data, whichever is higher:
+ * - relative: robust second differences of G and B relative to |Y| over the whole sweep (relative
+ *   noise on Z is relative noise on Y), so noise wiggles on a resonance's flanks are not modes;
+ * - local: the robust scatter of G in a window around the peak. A fixture converts its own
+ *   noise into Z with the sensitivity |dZ/dS|, so where the part is far from the fixture's
+ *   accurate range (reflection or shunt-through near the anti-resonance, FIELD.md §3.2) the noise
+ *   of Y is many times the sweep's typical relative noise; only a local estimate sees that.
+ * A peak must also be shaped like a resonance: the motional admittance traces a circle, so the
+ * susceptance swings down by about Gmax across the peak; noise that happens to peak in G does
+ * not. Each peak is then refined by the conductance-peak fit; two maxima refined onto the same
+ * resonance (fs closer than half a bandwidth) are one, the higher kept. Finally the
  * zero-phase crossings above it (fr: B falls through 0, fa: B rises through 0; FIELD.md §1.3)
  * and the |Z| maximum fn are located. Works unchanged for Q from a few hundred (ceramic) to
  * 10⁵ and for tuning forks: nothing depends on the absolute frequency or bandwidth.
@@ -14,6 +22,7 @@ import type { Diagnostic } from './types.ts';
 import type { AdmittanceSweep } from './part-alone.ts';
 import { fitConductancePeak, type ConductancePeakResult } from './conductance-peak.ts';
 import { crossingBetween, parabolaVertex } from './interpolate.ts';
+import { solveSmall } from './small-linalg.ts';
 import { formatFrequency, formatFrequencyRange } from './format-frequency.ts';
 
 /** One series resonance seen in one sweep. */
@@ -59,7 +68,7 @@ export interface FindResonancesResult {
 
 /** Options of {@link findResonances}. */
 export interface FindResonancesOptions {
-  /** Peaks need a prominence of this many noise standard deviations. Default 8. */
+  /** Peaks need a prominence of this many noise standard deviations (relative and local). Default 8. */
   prominenceSigmas?: number;
   /** …and at least this fraction of |Y| at the peak (rejects fixture ripple). Default 3e-3. */
   minRelativeProminence?: number;
@@ -75,6 +84,25 @@ const NOT_FITTED: ConductancePeakResult = { ok: false, reason: 'peak not inside 
 
 /** Noise floor assumed for perfect (synthetic, noiseless) data: −140 dB. */
 const NOISE_FLOOR = 1e-7;
+
+/** Half-width of the window of the local noise estimate, points. */
+export const LOCAL_NOISE_HALF_WIDTH = 20;
+
+/**
+ * A peak's susceptance swing must be at least this fraction of the one its conductance peak
+ * implies (1 for a lone resonance; noise gives about 0 ± a few tenths).
+ */
+export const MIN_SWING = 0.5;
+
+/**
+ * A peak this many local noise deviations above the median G of its window is not noise,
+ * whatever its shape: the susceptance test is waived (a mode sampled far more coarsely than
+ * its bandwidth shows no usable swing).
+ */
+export const STRONG_PEAK_SIGMAS = 30;
+
+/** Median |N(0, 1)| (common practice: MAD to standard deviation). */
+const MEDIAN_ABS_NORMAL = 0.6744897501960817;
 
 /** k-th smallest value (0-based) by quickselect; reorders `a`. */
 function select(a: Float64Array, k: number): number {
@@ -118,6 +146,65 @@ function estimateNoise(g: Float64Array, b: Float64Array, yAbs: Float64Array): nu
 }
 
 /**
+ * Absolute noise of G near point i, S: median |second difference| over ±LOCAL_NOISE_HALF_WIDTH
+ * points (white noise of spread σ: d² has spread √6·σ). A resonance's own curvature occupies
+ * only a few points of the window and barely moves the median.
+ * @param d2 |G[k+1] − 2G[k] + G[k−1]| at index k (0 at the ends)
+ * @param buf scratch of at least 2·LOCAL_NOISE_HALF_WIDTH + 1 values
+ */
+function localNoiseG(d2: Float64Array, i: number, buf: Float64Array): number {
+  const n = d2.length;
+  const lo = Math.max(1, i - LOCAL_NOISE_HALF_WIDTH);
+  const hi = Math.min(n - 2, i + LOCAL_NOISE_HALF_WIDTH);
+  const m = hi - lo + 1;
+  if (m < 3) return 0;
+  for (let k = 0; k < m; k++) buf[k] = d2[lo + k];
+  return select(buf.subarray(0, m), m >> 1) / MEDIAN_ABS_NORMAL / Math.sqrt(6);
+}
+
+/** Median of G over the local-noise window around i, S (the background a peak stands on). */
+function localMedianG(g: Float64Array, i: number, buf: Float64Array): number {
+  const lo = Math.max(0, i - LOCAL_NOISE_HALF_WIDTH);
+  const hi = Math.min(g.length - 1, i + LOCAL_NOISE_HALF_WIDTH);
+  const m = hi - lo + 1;
+  for (let k = 0; k < m; k++) buf[k] = g[lo + k];
+  return select(buf.subarray(0, m), m >> 1);
+}
+
+/**
+ * How much of a resonance's susceptance swing the data show at a conductance peak.
+ *
+ * The motional admittance 1/(R1 + jX) traces a circle (FIELD.md §2b): with u = X/R1 =
+ * (f − fs²/f)/bandwidth, G = G0/(1 + u²) and B = −G0·u/(1 + u²), so across the peak B falls by
+ * G0 between the half-power points. B over ±3 bandwidths (at least ±3.5 steps) is fitted by least
+ * squares as a + c·(f − fs) + γ·Bm(f), the line taking up C0 and the other modes; γ is about 1
+ * for a resonance (also for one sampled more coarsely than its bandwidth, where it comes out
+ * larger), about 0 for noise. Undefined with fewer than 5 points.
+ */
+function susceptanceSwing(f: Float64Array, b: Float64Array, i: number, fsHz: number, r1Ohm: number, bandwidthHz: number, stepHz: number): number | undefined {
+  const n = f.length;
+  const half = Math.max(3 * bandwidthHz, 3.5 * stepHz);
+  let lo = i;
+  let hi = i;
+  while (lo > 0 && i - lo < 400 && fsHz - f[lo - 1] <= half) lo--;
+  while (hi < n - 1 && hi - i < 400 && f[hi + 1] - fsHz <= half) hi++;
+  if (hi - lo + 1 < 5) return undefined;
+  const g0 = 1 / r1Ohm;
+  // Normal equations of B ≈ a + c·x + γ·p, x = (f − fs)/half, p = Bm/G0.
+  let s11 = 0, s1x = 0, s1p = 0, sxx = 0, sxp = 0, spp = 0, sb = 0, sxb = 0, spb = 0;
+  for (let k = lo; k <= hi; k++) {
+    const x = (f[k] - fsHz) / half;
+    const u = (f[k] - (fsHz * fsHz) / f[k]) / bandwidthHz;
+    const p = -u / (1 + u * u);
+    const y = b[k] / g0;
+    s11 += 1; s1x += x; s1p += p; sxx += x * x; sxp += x * p; spp += p * p;
+    sb += y; sxb += x * y; spb += p * y;
+  }
+  const sol = solveSmall([[s11, s1x, s1p], [s1x, sxx, sxp], [s1p, sxp, spp]], [sb, sxb, spb]);
+  return sol && Number.isFinite(sol[2]) ? sol[2] : undefined;
+}
+
+/**
  * Find every series resonance (and its anti-resonance, when swept) in a sweep of the part alone.
  * A sweep with no resonance gives an error diagnostic saying what the sweep does show.
  */
@@ -133,7 +220,11 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
   // Threshold relative to |Y|, but never below a tenth of the sweep's median |Y|: near an
   // anti-resonance |Y| collapses and a tiny absolute error (fixture compensation) would pass.
   const yFloor = 0.1 * median(yAbs);
-  const threshold = (i: number) => Math.max(sigmas * noise, minRel) * Math.max(yAbs[i], yFloor);
+  const relThreshold = (i: number) => Math.max(sigmas * noise, minRel) * Math.max(yAbs[i], yFloor);
+  // Local absolute noise of G (second differences; see localNoiseG).
+  const d2 = new Float64Array(n);
+  for (let i = 1; i < n - 1; i++) d2[i] = Math.abs(g[i + 1] - 2 * g[i] + g[i - 1]);
+  const buf = new Float64Array(2 * LOCAL_NOISE_HALF_WIDTH + 1);
 
   // Candidate maxima with enough prominence on both sides (a side reaching the sweep end counts).
   const peaks: number[] = [];
@@ -143,8 +234,9 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     const left = i > 0 ? g[i - 1] : -Infinity;
     const right = i < n - 1 ? g[i + 1] : -Infinity;
     if (!(g[i] > left && g[i] >= right) || n < 3) continue;
-    const thr = threshold(i);
+    let thr = relThreshold(i);
     if (!(g[i] > thr)) continue;
+    thr = Math.max(thr, sigmas * localNoiseG(d2, i, buf));
     // Walk each side until a higher point (not a peak), a drop by the threshold (confirmed),
     // or the sweep end (judged by the other side; then flagged as one-sided).
     const level = g[i] - thr;
@@ -177,12 +269,13 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     } else merged.push({ i: p, unresolved: false, oneSided: oneSided.has(p) });
   }
 
-  const resonances: Resonance[] = [];
-  for (let k = 0; k < merged.length; k++) {
-    const { i } = merged[k];
-    const next = k + 1 < merged.length ? merged[k + 1].i : n;
+  // Refine each peak; keep those shaped like a resonance.
+  const refined: Resonance[] = [];
+  let noSwing = 0;
+  for (const m of merged) {
+    const { i } = m;
     const step = i === 0 ? f[1] - f[0] : i === n - 1 ? f[n - 1] - f[n - 2] : 0.5 * (f[i + 1] - f[i - 1]);
-    const atBoundary = i === 0 || i === n - 1 || merged[k].oneSided;
+    const atBoundary = i === 0 || i === n - 1 || m.oneSided;
     const fit = atBoundary ? NOT_FITTED : fitConductancePeak(f, g, yAbs, i);
     let fsHz = f[i];
     let r1Ohm = 1 / g[i];
@@ -203,17 +296,46 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
         if (v && v.y > 0 && v.y <= 1 / g[i] && Math.abs(v.x - f[i]) <= step) { fsHz = v.x; r1Ohm = v.y; }
       }
     }
+    const strong = g[i] - localMedianG(g, i, buf) > STRONG_PEAK_SIGMAS * localNoiseG(d2, i, buf);
+    if (!atBoundary && !strong) {
+      // The swing is judged against the sampled peak height when the fit extrapolates far above it.
+      const swing = susceptanceSwing(f, b, i, fsHz, Math.max(r1Ohm, 0.5 / g[i]), bandwidthHz, step);
+      if (swing !== undefined && !(swing >= MIN_SWING)) { noSwing++; continue; }
+    }
     const ppbw = bandwidthHz / step;
     const fLow = fsHz - bandwidthHz / 2;
     const fHigh = fsHz + bandwidthHz / 2;
     const atEdge = atBoundary || i <= 1 || i >= n - 2 || fLow < f[0] || fHigh > f[n - 1];
     // Peak shape: a lone mode fits the conductance model to the noise; two close modes do not.
     const misfit = (options.shapeCheck ?? true) && fit.ok && ppbw >= 4 && fit.rmsRelative > Math.max(20 * noise, 2e-3);
-    const res: Resonance = {
+    refined.push({
       peakIndex: i, fsHz, r1Ohm, bandwidthHz, stepHz: step, pointsPerBandwidth: ppbw,
-      atEdge, atBoundary, unresolved: merged[k].unresolved || misfit, conductance: fit,
-    };
-    // Zero-phase crossings and |Z| maximum between this peak and the next.
+      atEdge, atBoundary, unresolved: m.unresolved || misfit, conductance: fit,
+    });
+  }
+  if (noSwing > 0) {
+    diagnostics.push({
+      code: 'signal-to-noise', severity: 'info', sweep: sweep.source,
+      message: `sweep ${sweep.source}: ${noSwing} conductance peak${noSwing > 1 ? 's' : ''} without the susceptance swing of a resonance ignored as noise`,
+    });
+  }
+
+  // Two maxima refined onto one resonance (fs closer than half a bandwidth): keep the higher.
+  const resonances: Resonance[] = [];
+  for (const r of refined) {
+    const last = resonances[resonances.length - 1];
+    if (last && !r.atBoundary && !last.atBoundary && Math.abs(r.fsHz - last.fsHz) < 0.5 * Math.max(r.bandwidthHz, last.bandwidthHz)) {
+      if (g[r.peakIndex] > g[last.peakIndex]) resonances[resonances.length - 1] = r;
+      continue;
+    }
+    resonances.push(r);
+  }
+
+  // Zero-phase crossings and |Z| maximum between each peak and the next.
+  for (let k = 0; k < resonances.length; k++) {
+    const res = resonances[k];
+    const i = res.peakIndex;
+    const next = k + 1 < resonances.length ? resonances[k + 1].peakIndex : n;
     let j = i;
     while (j < next - 1 && !(b[j] > 0 && b[j + 1] <= 0)) j++;
     if (j < next - 1 && b[j] > 0 && b[j + 1] <= 0) {
@@ -228,7 +350,6 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
       const v = parabolaVertex([f[best - 1], f[best], f[best + 1]], [yAbs[best - 1], yAbs[best], yAbs[best + 1]]);
       res.fnHz = v && Math.abs(v.x - f[best]) <= f[best + 1] - f[best - 1] ? v.x : f[best];
     }
-    resonances.push(res);
   }
 
   for (const r of resonances) {

@@ -6,12 +6,16 @@
  *
  * A per-mode window only holds C0 when it reaches away from the resonance (or covers the
  * anti-resonance); otherwise C0 is held at the capacitive-region estimate, since a window of a
- * few bandwidths barely constrains it. A failed joint fit is retried with the main modes only.
+ * few bandwidths barely constrains it. Between the two, the modes are screened
+ * (screen-modes.ts): duplicates of a stronger mode and unreportable spurious modes are left out
+ * of the joint fit, so they cannot distort it. A failed joint fit is retried with the main
+ * modes only.
  */
 import type { BvdModel } from '../models/bvd.ts';
 import type { ModeCandidate } from './classify-modes.ts';
 import type { PreparedSweep } from './reference-conditions.ts';
 import { fitBvd, type FitBvdResult, type FitSweep } from './fit-bvd.ts';
+import { screenModes, type ModeEstimate, type ScreenModesResult } from './screen-modes.ts';
 import { timed, type TimingCollector } from './timing.ts';
 
 /** Window half-width around fs (and fa) in bandwidths. */
@@ -30,6 +34,13 @@ export interface ModeFits {
   jointIndex: number[];
   /** Model the joint fit started from. */
   jointStart?: BvdModel;
+  /** Duplicates and unreportable spurious modes (left out of the joint fit; not to be reported). */
+  screen: ScreenModesResult;
+}
+
+/** Bandwidth fs/Q = 2π·fs²·R1·C1 of a branch, Hz (FIELD.md §3.3). */
+function bandwidthOf(b: { fsHz: number; r1Ohm: number; c1F: number }): number {
+  return 2 * Math.PI * b.fsHz * b.fsHz * b.r1Ohm * b.c1F;
 }
 
 function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): FitSweep | undefined {
@@ -81,11 +92,17 @@ export function fitModeWindow(mode: ModeCandidate, k: number, initial: BvdModel,
 export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: PreparedSweep[], quickOk: boolean[], flagged: boolean[], trustedMaxHz: number | undefined, timing?: TimingCollector): ModeFits {
   const perMode: Array<FitBvdResult | undefined> = modes.map((mode, k) => timed(timing, 'fit-mode', () => fitModeWindow(mode, k, initial, sweeps)));
   const converged = perMode.map((r) => r?.converged === true);
-  const included = modes.map((_, k) => k).filter((k) => converged[k] || quickOk[k]);
+  const estimates: Array<ModeEstimate | undefined> = modes.map((_, k) => {
+    if (!converged[k] && !quickOk[k]) return undefined;
+    const b = converged[k] ? perMode[k]!.model.branches[k] : initial.branches[k];
+    return { fsHz: b.fsHz, r1Ohm: b.r1Ohm, bandwidthHz: bandwidthOf(b), fitted: converged[k] };
+  });
+  const screen = screenModes(modes, estimates);
+  const included = modes.map((_, k) => k).filter((k) => (converged[k] || quickOk[k]) && screen.dropped[k] === undefined);
   const jointIndex = modes.map((_, k) => included.indexOf(k));
   const start: BvdModel = { ...initial, branches: included.map((k) => ({ ...(converged[k] ? perMode[k]!.model.branches[k] : initial.branches[k]) })) };
   let free = included.filter((k) => converged[k] && !flagged[k]);
-  const none: ModeFits = { perMode, jointFree: [], jointIndex };
+  const none: ModeFits = { perMode, jointFree: [], jointIndex, screen };
   if (free.length === 0) return none;
   const data = sweeps
     .map((s) => selectPoints(s, (f) => trustedMaxHz === undefined || f <= trustedMaxHz))
@@ -100,5 +117,5 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
       if (retry.converged) { joint = retry; free = mains; }
     }
   }
-  return { perMode, joint, jointFree: free, jointIndex, jointStart: start };
+  return { perMode, joint, jointFree: free, jointIndex, jointStart: start, screen };
 }
