@@ -52,8 +52,10 @@ export interface BuildRun {
   perPartMs: number;
   /** Stage wall times from the summary, seconds. */
   stages: Record<string, number>;
-  /** Thread time of extraction over all records, seconds. */
-  extractThreadSeconds: number;
+  /** Thread time over all records, seconds: load + validate, extract, page data, writing files. */
+  threadSeconds: { load: number; extract: number; data: number; write: number };
+  /** How the site was rendered ('full' or 'partial') and how many part pages. */
+  site: { mode: string; pagesRendered: number };
   cacheHits: number;
   cacheMisses: number;
   /** Peak resident memory, MB: build process (all threads), Astro process, and their sum. */
@@ -110,7 +112,8 @@ async function measuredBuild(content: string, out: string, cache: string, summar
     seconds: run.seconds,
     perPartMs: (run.seconds * 1000) / parts,
     stages,
-    extractThreadSeconds: s.recordMs.extract / 1000,
+    threadSeconds: { load: s.recordMs.load / 1000, extract: s.recordMs.extract / 1000, data: s.recordMs.data / 1000, write: s.recordMs.emit / 1000 },
+    site: { mode: s.site?.mode ?? 'none', pagesRendered: s.site?.pagesRendered ?? 0 },
     cacheHits: s.cache.hits,
     cacheMisses: s.cache.misses,
     peakRssMB: { build: s.peakRssBytes.build / MB, site: s.peakRssBytes.site / MB, sum: (s.peakRssBytes.build + s.peakRssBytes.site) / MB },
@@ -241,7 +244,11 @@ export function formatBenchBuild(r: BenchBuildResult): string {
     ].join('  '),
   );
   const head = 'parts       cold  per part      warm  warm/cold  peak (build+site)  bare Astro  ratio';
-  const stages = r.sizes.map((s) => `  ${s.parts} parts cold stages: ${Object.entries(s.cold.stages).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ')}; warm: ${Object.entries(s.warm.stages).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ')}`);
+  const fmt = (o: Record<string, number>) => Object.entries(o).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ');
+  const stages = r.sizes.flatMap((s) => [
+    `  ${s.parts} parts cold: ${fmt(s.cold.stages)}; thread time ${fmt(s.cold.threadSeconds)}; site ${s.cold.site.mode}`,
+    `  ${s.parts} parts warm: ${fmt(s.warm.stages)}; ${s.warm.cacheMisses} re-extracted; site ${s.warm.site.mode} (${s.warm.site.pagesRendered} part pages rendered)`,
+  ]);
   const t = r.targets;
   const yes = (b: boolean | undefined) => (b === undefined ? 'not measured' : b ? 'met' : 'MISSED');
   return [

@@ -22,6 +22,7 @@ The output folder is replaced only when everything succeeded.
   --cache-dir DIR extraction cache folder (default: .motional/cache)
   --summary FILE  also write the build summary as JSON to FILE
   --data-only     emit the catalogue data into the output folder, without the site
+  --full-site     render every page, even when only some parts changed since the last build
   --quiet         no progress display
   -h, --help      show this help
 
@@ -70,6 +71,9 @@ export function parseBuildArgs(args: string[]): { options: BuildCatalogueOptions
         break;
       case '--data-only':
         options.dataOnly = true;
+        break;
+      case '--full-site':
+        options.fullSite = true;
         break;
       case '--quiet':
         quiet = true;

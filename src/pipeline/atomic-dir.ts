@@ -4,13 +4,15 @@
  *
  * Layout for an output folder `/x/dist`:
  * - `/x/.dist.staging-<pid>/`  the build's working folder (data, site, scratch);
- * - `/x/.dist.old-<pid>/`      the previous output during the swap, removed right after.
+ * - `/x/.dist.old-<pid>-<n>/`  the previous output during the swap, removed right after
+ *                              (`…-<n>s`: the staging folder's remains).
  *
- * The swap is two renames: `dist → .dist.old-<pid>`, then `staging/site → dist`. Between them
+ * The swap is two renames: `dist → .dist.old-<pid>-<n>`, then `staging/site → dist`. Between them
  * (microseconds) `dist` does not exist; it is never half-written. A build killed at any point
  * leaves either the old or the new folder in place plus leftovers that {@link cleanStale}
  * removes on the next start (only those whose process is gone, so a concurrent build keeps its own).
  */
+import { spawn } from 'node:child_process';
 import { mkdir, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
 import { basename, dirname, join, relative, resolve, isAbsolute } from 'node:path';
 
@@ -90,7 +92,7 @@ export async function cleanStale(outDir: string): Promise<string[]> {
   const removed: string[] = [];
   for (const name of entries.sort()) {
     if (!name.startsWith(prefix)) continue;
-    const m = /^(staging|old)-(\d+)$/.exec(name.slice(prefix.length));
+    const m = /^(staging|old)-(\d+)(-\d+s?)?$/.exec(name.slice(prefix.length));
     if (!m) continue;
     const pid = Number(m[2]);
     if (pid !== process.pid && isProcessAlive(pid)) continue;
@@ -110,14 +112,28 @@ export async function createStaging(outDir: string): Promise<StagingDir> {
   return { outDir: abs, root };
 }
 
+/** Options of {@link swapInto}. */
+export interface SwapOptions {
+  /** Text of the {@link OUTPUT_MARKER} file (default: a note). */
+  marker?: string;
+  /**
+   * Remove the previous output and the staging leftovers in a detached process instead of
+   * waiting (a large site takes seconds to delete). They are renamed to unique names first, so
+   * nothing a later build creates is touched; {@link cleanStale} removes any that survive.
+   */
+  background?: boolean;
+}
+
+let swaps = 0;
+
 /**
  * Put `builtDir` (a folder inside the staging root) in place of the output folder, then remove
  * the previous output and the staging root.
  */
-export async function swapInto(staging: StagingDir, builtDir: string): Promise<void> {
-  await writeFile(join(builtDir, OUTPUT_MARKER), 'written by motional build; the whole folder is replaced on the next build\n');
-  const old = leftoverName(staging.outDir, OLD, process.pid);
-  await rm(old, { recursive: true, force: true });
+export async function swapInto(staging: StagingDir, builtDir: string, options: SwapOptions = {}): Promise<void> {
+  await writeFile(join(builtDir, OUTPUT_MARKER), options.marker ?? 'written by motional build; the whole folder is replaced on the next build\n');
+  const seq = ++swaps;
+  const old = `${leftoverName(staging.outDir, OLD, process.pid)}-${seq}`;
   let hadOld = false;
   try {
     await stat(staging.outDir);
@@ -133,8 +149,26 @@ export async function swapInto(staging: StagingDir, builtDir: string): Promise<v
     if (hadOld) await rename(old, staging.outDir).catch(() => undefined);
     throw err;
   }
-  await rm(old, { recursive: true, force: true });
-  await discardStaging(staging);
+  if (!options.background) {
+    await rm(old, { recursive: true, force: true });
+    await discardStaging(staging);
+    return;
+  }
+  const trash = `${leftoverName(staging.outDir, OLD, process.pid)}-${seq}s`;
+  await rename(staging.root, trash);
+  removeDetached(hadOld ? [old, trash] : [trash]);
+}
+
+/** Delete folders in a detached child process that outlives this one. */
+export function removeDetached(paths: string[]): void {
+  const script = 'for (const p of process.argv.slice(1)) require("node:fs").rmSync(p, { recursive: true, force: true })';
+  try {
+    const child = spawn(process.execPath, ['-e', script, ...paths], { detached: true, stdio: 'ignore' });
+    child.on('error', () => undefined);
+    child.unref();
+  } catch {
+    // cleanStale removes them on the next build
+  }
 }
 
 /** Remove the staging root (after a failure, or after the swap). */

@@ -25,11 +25,14 @@ import { fileURLToPath } from 'node:url';
 import { formatIssue, type Issue } from '../lib/issues.ts';
 import { parseOscillatorsYaml } from '../lib/osc/oscillators-yaml.ts';
 import { OUTPUT_MARKER, cleanStale, createStaging, discardStaging, isProcessAlive, refuseReplace, swapInto, type StagingDir } from './atomic-dir.ts';
-import { createBuildTaskRunner, createRecordLookup, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
+import { findPartFiles } from './check-paths.ts';
+import { nodeFileSource } from './file-source.ts';
+import { createBuildTaskRunner, createRecordLookup, linkFiles, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
 import { loadFingerprintMemo, pruneCache, sha256 } from './cache.ts';
 import type { IndexEntry } from '../site/types.ts';
+import { PAGES_ENV, belongsTo, formatManifest, linkTree, overlayTree, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
-import { createWorkerPool, defaultJobs } from './worker-pool.ts';
+import { createWorkerPool, defaultJobs, runLanes } from './worker-pool.ts';
 import { normalizeBase } from './static-server.ts';
 
 /** The project root: where astro.config.mjs and node_modules are. */
@@ -49,8 +52,8 @@ async function cleanAstroRuns(): Promise<void> {
   }
 }
 
-/** How deep folders of part folders are searched (as `check` does). */
-export const MAX_SEARCH_DEPTH = 8;
+/** How deep folders of part folders are searched (the search is `check`'s own, findPartFiles). */
+export { MAX_SEARCH_DEPTH } from './check-paths.ts';
 
 export interface BuildCatalogueOptions {
   /** Folder of part folders (and optionally oscillators.yaml). Default `content`. */
@@ -67,6 +70,8 @@ export interface BuildCatalogueOptions {
   cacheDir?: string;
   /** Skip the Astro build: the output folder receives the catalogue data only. */
   dataOnly?: boolean;
+  /** Render every page even when only some parts changed (see partial-site.ts). */
+  fullSite?: boolean;
   /** Also keep a copy of the emitted catalogue data here (replaced). */
   keepDataDir?: string;
   /** Progress display; false for none. Default process.stderr. */
@@ -105,29 +110,12 @@ export interface BuildSummary {
   stageMs: Partial<Record<BuildStage, number>> & { total: number };
   /** Thread time summed over records, ms: fingerprint + cache, load + validate, extract, page data, writing. */
   recordMs: { hash: number; load: number; extract: number; data: number; emit: number };
+  /** How the site was rendered: every page, or only the changed parts' pages over the previous site. */
+  site?: { mode: 'full' | 'partial'; pagesRendered: number; partsRemoved: number };
   /** Peak resident memory, bytes: this process (all threads) and the Astro build process. */
   peakRssBytes: { build: number; site: number };
   issues: Issue[];
   outDir: string;
-}
-
-/**
- * Every part.yaml under `dir`: its own, else those of its sub-folders, sorted; hidden folders,
- * node_modules, links to folders and the `exclude` folders (absolute: the build's own output)
- * are skipped.
- */
-export async function discoverRecords(dir: string, exclude: ReadonlySet<string> = new Set(), depth = 0): Promise<string[]> {
-  const own = join(dir, 'part.yaml');
-  if ((await stat(own).catch(() => undefined))?.isFile()) return [own];
-  if (depth >= MAX_SEARCH_DEPTH) return [];
-  const entries = await readdir(dir, { withFileTypes: true }).catch(() => []);
-  const names = entries
-    .filter((e) => e.isDirectory() && !e.name.startsWith('.') && e.name !== 'node_modules' && !exclude.has(resolve(dir, e.name)))
-    .map((e) => e.name)
-    .sort();
-  const out: string[] = [];
-  for (const name of names) out.push(...(await discoverRecords(join(dir, name), exclude, depth + 1)));
-  return out;
 }
 
 class BuildFailure extends Error {}
@@ -179,14 +167,18 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       throw new BuildFailure('no content');
     }
     const exclude = new Set([outDir, ...[options.keepDataDir, cacheDir].filter((d): d is string => !!d).map((d) => resolve(d))]);
-    const records = await discoverRecords(contentDir, exclude);
+    // the search `check` does: links followed (loop-safe), a folder past the depth limit is an error
+    const discovered = await findPartFiles(nodeFileSource, contentDir, { exclude });
+    const records = discovered.files;
+    summary.issues.push(...discovered.issues);
     summary.recordsFound = records.length;
     if (records.length === 0) {
       summary.issues.push({ severity: 'error', file: contentDir, message: 'no part.yaml in this folder or its subfolders', code: 'no-parts' });
       throw new BuildFailure('no records');
     }
+    const beforeOscillators = summary.issues.length;
     const oscillators = await readOscillators(contentDir, summary.issues);
-    const oscillatorsBad = summary.issues.some((i) => i.severity === 'error');
+    const oscillatorsBad = summary.issues.slice(beforeOscillators).some((i) => i.severity === 'error');
     checkAbort();
 
     // The staging folder sits next to the output folder, which is not touched until the swap.
@@ -241,10 +233,35 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     checkAbort();
 
     let builtDir = dataDir;
+    const partKeys = Object.fromEntries(results.map((r) => [r.id!, r.key]));
+    let siteHash = '';
     if (!options.dataOnly) {
       stage('site');
+      siteHash = await siteCodeHash(PROJECT_ROOT);
+      const plan = options.fullSite || !useCache ? undefined : planPartialSite(await readManifest(outDir), { siteHash, base: basePath, parts: partKeys });
+      const partial = plan && (await siteSupportsPartialPages()) ? plan : undefined;
       const siteDir = join(staging.root, 'site');
-      summary.peakRssBytes.site = await runAstroBuild({ dataDir, siteDir, basePath, pages: ids.length, progress: progressStream, log, signal: options.signal });
+      const astro = { basePath, progress: progressStream, log, signal: options.signal };
+      if (partial) {
+        // Astro renders the changed parts' pages (and the pages over all parts) from a data
+        // folder holding just those parts and the whole index; the rest comes from the
+        // previous site, which stays untouched until the swap.
+        const deltaDir = join(staging.root, 'delta');
+        const freshDir = join(staging.root, 'site-fresh');
+        const changed = new Set(partial.changed);
+        const deltaFiles = ['index.json', ...results.filter((r) => changed.has(r.id!)).flatMap((r) => r.files ?? [])];
+        if (!(await linkFiles(dataDir, deltaFiles, deltaDir))) throw new Error('a part file vanished from the staging folder');
+        const pagesFile = join(staging.root, 'pages.json');
+        await writeFile(pagesFile, JSON.stringify(partial.changed));
+        summary.peakRssBytes.site = await runAstroBuild({ ...astro, dataDir: deltaDir, siteDir: freshDir, pages: partial.changed.length, pagesFile });
+        const replaced = new Set([...partial.changed, ...partial.removed]);
+        await linkTree(outDir, siteDir, (rel) => rel === OUTPUT_MARKER || belongsTo(rel, replaced));
+        await overlayTree(freshDir, siteDir);
+        summary.site = { mode: 'partial', pagesRendered: partial.changed.length, partsRemoved: partial.removed.length };
+      } else {
+        summary.peakRssBytes.site = await runAstroBuild({ ...astro, dataDir, siteDir, pages: ids.length });
+        summary.site = { mode: 'full', pagesRendered: ids.length, partsRemoved: 0 };
+      }
       builtDir = siteDir;
       summary.partsPublished = await countPublished(siteDir, ids, basePath);
     } else {
@@ -267,7 +284,13 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         await cp(dataDir, keep, { recursive: true });
       });
     }
-    await swapInto(staging, builtDir);
+    const marker = formatManifest({
+      kind: options.dataOnly ? 'data' : 'site',
+      siteHash,
+      base: basePath,
+      parts: Object.fromEntries(Object.entries(partKeys).map(([id, key]) => [id, key ?? ''])),
+    });
+    await swapInto(staging, builtDir, { marker, background: true });
     staging = undefined;
     stage(undefined);
     if (context.cacheDir) await pruneCache(context.cacheDir).catch(() => 0);
@@ -325,8 +348,8 @@ async function runRecords(
   const memo = memoFile ? await loadFingerprintMemo(memoFile) : undefined;
   const lookup = createRecordLookup(context, memo);
   let nextLookup = 0;
-  const lookupLane = async () => {
-    while (nextLookup < records.length) {
+  const lookupLane = async (stopped: () => boolean) => {
+    while (nextLookup < records.length && !stopped()) {
       if (signal?.aborted) throw new BuildFailure('build stopped');
       const index = nextLookup++;
       const outcome = await lookup.lookup(index, records[index]);
@@ -339,7 +362,7 @@ async function runRecords(
       }
     }
   };
-  await Promise.all(Array.from({ length: Math.min(records.length, LOOKUP_CONCURRENCY) }, lookupLane));
+  await runLanes(Math.min(records.length, LOOKUP_CONCURRENCY), lookupLane);
   await memo?.save().catch(() => undefined);
   todo.sort((a, b) => a.index - b.index);
 
@@ -357,8 +380,8 @@ async function runRecords(
     run = () => Promise.reject(new Error('no task'));
   }
   let next = 0;
-  const lane = async () => {
-    while (next < todo.length) {
+  const lane = async (stopped: () => boolean) => {
+    while (next < todo.length && !stopped()) {
       if (signal?.aborted) throw new BuildFailure('build stopped');
       const task = todo[next++];
       const result = await run({ ...task, validateOnly: failed });
@@ -369,7 +392,7 @@ async function runRecords(
   };
   try {
     // two tasks per thread keep every thread busy while results travel back
-    await Promise.all(Array.from({ length: Math.min(todo.length, Math.max(1, threads) * 2) }, lane));
+    await runLanes(Math.min(todo.length, Math.max(1, threads) * 2), lane);
   } finally {
     await close();
   }
@@ -409,6 +432,8 @@ export interface AstroBuildOptions {
   basePath: string;
   /** Expected number of pages, for the progress display. */
   pages: number;
+  /** JSON file of the part ids whose pages to render (partial builds); absent = all. */
+  pagesFile?: string;
   progress: ProgressStream | undefined;
   /** Receives Astro's output when the build fails. */
   log: (text: string) => void;
@@ -459,6 +484,7 @@ export async function runAstroBuild(run: AstroBuildOptions): Promise<number> {
       MOTIONAL_DATA: run.dataDir,
       MOTIONAL_BASE: run.basePath,
       MOTIONAL_SITE_OUT: run.siteDir,
+      ...(run.pagesFile ? { [PAGES_ENV]: run.pagesFile } : {}),
       ASTRO_TELEMETRY_DISABLED: '1',
       NO_COLOR: '1',
       FORCE_COLOR: '0',
@@ -538,6 +564,7 @@ export function formatSummary(s: BuildSummary): string {
     `parts published: ${s.partsPublished}`,
     `samples: ${s.samples}, modes: ${s.modes}, warnings: ${s.warnings}, errors: ${s.errors}`,
     `cache: ${s.cache.enabled ? `${s.cache.hits} hits, ${s.cache.misses} misses` : 'off'}; worker threads: ${s.threads}`,
+    ...(s.site ? [`site: ${s.site.mode === 'full' ? `all ${s.site.pagesRendered} part pages rendered` : `${s.site.pagesRendered} changed part pages rendered, ${s.site.partsRemoved} removed, the rest kept from the previous build`}`] : []),
     `time: ${stages}; total ${sec(s.stageMs.total)}`,
     `record work (thread time): fingerprint ${sec(s.recordMs.hash)}, load ${sec(s.recordMs.load)}, extract ${sec(s.recordMs.extract)}, page data ${sec(s.recordMs.data)}, write ${sec(s.recordMs.emit)}`,
     `peak memory: build ${mb(s.peakRssBytes.build)}${s.peakRssBytes.site ? `, site ${mb(s.peakRssBytes.site)}` : ''}`,

@@ -77,6 +77,10 @@ export interface BuildTaskResult {
   stats?: PartStats;
   /** Search-index row of the part, once its files are in the data folder. */
   indexEntry?: IndexEntry;
+  /** The part's files in the data folder, relative, '/'-separated. */
+  files?: string[];
+  /** Cache key of the part's data (when the cache is on). */
+  key?: string;
   ms: TaskTimes;
 }
 
@@ -141,7 +145,7 @@ export function createRecordLookup(context: BuildTaskContext, memo?: Fingerprint
         return {
           done: {
             index, yamlFile, id: header.id, idLine: header.idLine, issues: relocate(header.issues, folder),
-            valid: true, cached: true, stats: header.stats, indexEntry: header.indexEntry, ms,
+            valid: true, cached: true, stats: header.stats, indexEntry: header.indexEntry, files: header.files, key, ms,
           },
         };
       }
@@ -239,7 +243,7 @@ export async function createBuildTaskRunner(context: BuildTaskContext): Promise<
       await rm(scratch, { recursive: true, force: true });
     }
     lap('emit');
-    return { ...base, id: loaded.part.id, idLine, issues: loaded.issues, valid: true, cached: false, stats, indexEntry };
+    return { ...base, id: loaded.part.id, idLine, issues: loaded.issues, valid: true, cached: false, stats, indexEntry, files, key: task.key };
   };
   return { run };
 }
@@ -264,7 +268,7 @@ async function listFiles(root: string): Promise<string[]> {
  * one id: the build fails on the duplicate anyway).
  * @returns false when a source file is missing
  */
-async function linkFiles(from: string, files: string[], to: string, dirs: Set<string>, move = false): Promise<boolean> {
+export async function linkFiles(from: string, files: string[], to: string, dirs = new Set<string>(), move = false): Promise<boolean> {
   for (const rel of files) {
     const parts = rel.split('/');
     const src = join(from, ...parts);

@@ -157,7 +157,7 @@ function validSamplesOf(data: unknown): Array<[number, Sample]> {
 
 type At = (path: FieldPath, message: string, code: string, severity?: Issue['severity']) => void;
 
-/** Names in one record that differ only by letter case are an error at the later reference. */
+/** Names in one record that differ only by letter case or Unicode normalisation are an error at the later reference. */
 function reportCaseCollisions(samples: Array<[number, Sample]>, at: At): void {
   const refs: Array<{ name: string; path: FieldPath }> = [];
   for (const [i, s] of samples) {

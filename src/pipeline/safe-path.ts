@@ -16,8 +16,9 @@
  * - a link (the file itself or any folder on the way) whose real path leaves the part folder;
  * - a name whose letter case differs from the entry on disk (works on a case-insensitive
  *   file system, fails on Linux).
- * Names that differ only by letter case within one record are also an error (see
- * {@link findCaseCollisions}): they are one file on some systems and two on others.
+ * Names that differ only by letter case or Unicode normalisation (NFC `é` vs NFD `e`+U+0301)
+ * within one record are also an error (see {@link findCaseCollisions}): they are one file on
+ * some systems and two on others.
  */
 import { basename, dirname, join, sep } from 'node:path';
 import { nodeFileSource, type FileSource } from './file-source.ts';
@@ -127,8 +128,9 @@ async function missingMessage(fs: FileSource, path: string, name: string): Promi
 }
 
 /**
- * Names in one record that differ only by letter case, as pairs [first seen, later one].
- * Exact repeats are fine (the same file named twice).
+ * Names in one record that differ only by letter case or Unicode normalisation (compared as
+ * `name.normalize('NFC').toLowerCase()`), as pairs [first seen, later one]. Exact repeats are
+ * fine (the same file named twice).
  */
 export function findCaseCollisions(names: readonly string[]): Array<[string, string]> {
   const first = new Map<string, string>();
@@ -136,7 +138,8 @@ export function findCaseCollisions(names: readonly string[]): Array<[string, str
   for (const raw of names) {
     const checked = checkPartFileName(raw);
     const name = checked.ok ? checked.name : raw;
-    const key = name.toLowerCase();
+    // NFC first: macOS file systems treat NFC and NFD spellings as one name, Linux as two
+    const key = name.normalize('NFC').toLowerCase();
     const seen = first.get(key);
     if (seen === undefined) first.set(key, name);
     else if (seen !== name) pairs.push([seen, raw]);

@@ -148,3 +148,24 @@ export function serveTasks<T, R>(handler: (task: T, data: unknown) => Promise<R>
     }
   });
 }
+
+/**
+ * Run `lanes` copies of an async loop at once and wait until every one has stopped. After the
+ * first failure `stopped()` turns true so the others finish their current item and return;
+ * then the first error is thrown. (Promise.all would return while the others still write into
+ * a folder the caller is about to remove.)
+ */
+export async function runLanes(lanes: number, lane: (stopped: () => boolean) => Promise<void>): Promise<void> {
+  let failed = false;
+  const stopped = () => failed;
+  const settled = await Promise.allSettled(
+    Array.from({ length: Math.max(0, lanes) }, () =>
+      lane(stopped).catch((err: unknown) => {
+        failed = true;
+        throw err;
+      }),
+    ),
+  );
+  const rejected = settled.find((r): r is PromiseRejectedResult => r.status === 'rejected');
+  if (rejected) throw rejected.reason;
+}

@@ -58,7 +58,8 @@ export function runCalculator(data: CalculatorData, form: CalculatorForm): Calcu
   const pinOut = capacitance(form.pinOut, 'output pin capacitance');
   const pinToPin = capacitance(form.pinToPin, 'pin-to-pin stray');
   const gmText = form.gm.trim();
-  const gm = /^(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(gmText) ? { ok: true as const, value: Number(gmText) } : { ok: false as const };
+  // `\d+(?:\.\d*)?`, not `\d+\.?\d*`: the latter backtracks quadratically on a long run of digits
+  const gm = /^(\d+(?:\.\d*)?|\.\d+)(e[+-]?\d+)?$/i.test(gmText) ? { ok: true as const, value: Number(gmText) } : { ok: false as const };
   const target = parseEngValue(form.target, 'Hz');
   const bad = [stray, pinIn, pinOut, pinToPin].find((v) => typeof v === 'string') as string | undefined;
   if (bad) return { ok: false, message: bad };

@@ -25,6 +25,20 @@ describe('atomic output folder', () => {
     expect(await readdir(tmp)).toEqual(['dist']);
   });
 
+  it('can leave removing the previous output to a detached process', async () => {
+    const out = join(tmp, 'dist');
+    await mkdir(out);
+    await writeFile(join(out, 'old.txt'), 'old');
+    const staging = await createStaging(out);
+    await mkdir(join(staging.root, 'site'));
+    await writeFile(join(staging.root, 'site', 'new.txt'), 'new');
+    await swapInto(staging, join(staging.root, 'site'), { background: true, marker: 'm' });
+    expect((await readdir(out)).sort()).toEqual([OUTPUT_MARKER, 'new.txt']);
+    expect(await readFile(join(out, OUTPUT_MARKER), 'utf8')).toBe('m');
+    for (let i = 0; i < 100 && (await readdir(tmp)).length > 1; i++) await new Promise((r) => setTimeout(r, 50));
+    expect(await readdir(tmp)).toEqual(['dist']);
+  });
+
   it('creates the output folder when there was none', async () => {
     const out = join(tmp, 'a', 'b', 'dist');
     const staging = await createStaging(out);

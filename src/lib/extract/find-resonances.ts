@@ -2,14 +2,17 @@
  * Finding the resonances of one sweep of the part alone.
  *
  * A series resonance is a peak of the conductance G = Re Y (Gmax = 1/R1 exactly at fs; C0 only
- * adds susceptance — FIELD.md §2b). Peaks are accepted by topographic prominence against two
- * noise thresholds estimated from the data, whichever is higher:
- * - relative: robust second differences of G and B relative to |Y| over the whole sweep (relative
- *   noise on Z is relative noise on Y), so noise wiggles on a resonance's flanks are not modes;
- * - local: the robust scatter of G in a window around the peak. A fixture converts its own
- *   noise into Z with the sensitivity |dZ/dS|, so where the part is far from the fixture's
- *   accurate range (reflection or shunt-through near the anti-resonance, FIELD.md §3.2) the noise
- *   of Y is many times the sweep's typical relative noise; only a local estimate sees that.
+ * adds susceptance — FIELD.md §2b). Peaks are accepted by topographic prominence against the
+ * noise estimated from the data in a window around each peak (sweep-noise.ts), whichever of
+ * these is higher, times `prominenceSigmas`:
+ * - the relative noise of Y times |Y| (relative noise on Z is relative noise on Y), so noise
+ *   wiggles on a resonance's flanks are not taken for modes;
+ * - the absolute noise of G. A fixture converts its own noise into Z with the sensitivity
+ *   |dZ/dS|, so where the part is far from the fixture's accurate range (reflection or
+ *   shunt-through near the anti-resonance, FIELD.md §3.2) the noise of Y is many times the
+ *   sweep's typical relative noise and roughly constant in absolute terms.
+ * Being local, the estimates also keep a resonance in the fixture's accurate range from being
+ * judged by the noise of a worse region elsewhere in the same sweep.
  * A peak must also be shaped like a resonance: the motional admittance traces a circle, so the
  * susceptance swings down by about Gmax across the peak; noise that happens to peak in G does
  * not. Each peak is then refined by the conductance-peak fit; two maxima refined onto the same
@@ -22,7 +25,8 @@ import type { Diagnostic } from './types.ts';
 import type { AdmittanceSweep } from './part-alone.ts';
 import { fitConductancePeak, type ConductancePeakResult } from './conductance-peak.ts';
 import { crossingBetween, parabolaVertex } from './interpolate.ts';
-import { solveSmall } from './small-linalg.ts';
+import { median, sweepNoise } from './sweep-noise.ts';
+import { susceptanceSwing } from './susceptance-swing.ts';
 import { formatFrequency, formatFrequencyRange } from './format-frequency.ts';
 
 /** One series resonance seen in one sweep. */
@@ -62,7 +66,7 @@ export interface Resonance {
 export interface FindResonancesResult {
   resonances: Resonance[];
   diagnostics: Diagnostic[];
-  /** Estimated relative noise of Y (≈ relative noise of Z), dimensionless. */
+  /** Estimated relative noise of Y (≈ relative noise of Z) over the whole sweep (median), dimensionless. */
   noiseRelative: number;
 }
 
@@ -82,127 +86,21 @@ export interface FindResonancesOptions {
 /** Stand-in for peaks that are not fitted (not confirmed on both sides). */
 const NOT_FITTED: ConductancePeakResult = { ok: false, reason: 'peak not inside the sweep', fsHz: 0, r1Ohm: 0, l1H: 0, c1F: 0, q: 0, bandwidthHz: 0, points: 0, rmsRelative: 0 };
 
-/** Noise floor assumed for perfect (synthetic, noiseless) data: −140 dB. */
-const NOISE_FLOOR = 1e-7;
-
-/** Half-width of the window of the local noise estimate, points. */
-export const LOCAL_NOISE_HALF_WIDTH = 20;
-
 /**
  * A peak's susceptance swing must be at least this fraction of the one its conductance peak
- * implies (1 for a lone resonance; noise gives about 0 ± a few tenths).
+ * implies (1 for a lone resonance; see susceptance-swing.ts)…
  */
 export const MIN_SWING = 0.5;
+
+/** …and at least this many of its standard errors (noise gives 0 ± one). */
+export const MIN_SWING_SIGMAS = 3;
 
 /**
  * A peak this many local noise deviations above the median G of its window is not noise,
  * whatever its shape: the susceptance test is waived (a mode sampled far more coarsely than
  * its bandwidth shows no usable swing).
  */
-export const STRONG_PEAK_SIGMAS = 30;
-
-/** Median |N(0, 1)| (common practice: MAD to standard deviation). */
-const MEDIAN_ABS_NORMAL = 0.6744897501960817;
-
-/** k-th smallest value (0-based) by quickselect; reorders `a`. */
-function select(a: Float64Array, k: number): number {
-  let lo = 0;
-  let hi = a.length - 1;
-  while (hi > lo) {
-    const pivot = a[(lo + hi) >> 1];
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a[i] < pivot) i++;
-      while (a[j] > pivot) j--;
-      if (i <= j) { const t = a[i]; a[i] = a[j]; a[j] = t; i++; j--; }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else return a[k];
-  }
-  return a[k];
-}
-
-/** Median (upper median for an even count), without sorting. */
-function median(values: Float64Array): number {
-  if (values.length === 0) return 0;
-  return select(values.slice(), values.length >> 1);
-}
-
-/** Relative noise of Y from robust second differences of G and B (white noise: var(d²) = 6σ²). */
-function estimateNoise(g: Float64Array, b: Float64Array, yAbs: Float64Array): number {
-  const n = g.length;
-  if (n < 5) return NOISE_FLOOR;
-  const e = new Float64Array(n - 2);
-  for (let i = 1; i < n - 1; i++) {
-    const d2g = g[i + 1] - 2 * g[i] + g[i - 1];
-    const d2b = b[i + 1] - 2 * b[i] + b[i - 1];
-    e[i - 1] = Math.min(Math.abs(d2g), Math.abs(d2b)) / yAbs[i];
-  }
-  // The smaller of two second differences is dominated by noise rather than curvature; for two
-  // independent normal values of spread s its median is 0.3755·s, and s = √6·σ.
-  return Math.max(NOISE_FLOOR, median(e) / 0.3755 / Math.sqrt(6));
-}
-
-/**
- * Absolute noise of G near point i, S: median |second difference| over ±LOCAL_NOISE_HALF_WIDTH
- * points (white noise of spread σ: d² has spread √6·σ). A resonance's own curvature occupies
- * only a few points of the window and barely moves the median.
- * @param d2 |G[k+1] − 2G[k] + G[k−1]| at index k (0 at the ends)
- * @param buf scratch of at least 2·LOCAL_NOISE_HALF_WIDTH + 1 values
- */
-function localNoiseG(d2: Float64Array, i: number, buf: Float64Array): number {
-  const n = d2.length;
-  const lo = Math.max(1, i - LOCAL_NOISE_HALF_WIDTH);
-  const hi = Math.min(n - 2, i + LOCAL_NOISE_HALF_WIDTH);
-  const m = hi - lo + 1;
-  if (m < 3) return 0;
-  for (let k = 0; k < m; k++) buf[k] = d2[lo + k];
-  return select(buf.subarray(0, m), m >> 1) / MEDIAN_ABS_NORMAL / Math.sqrt(6);
-}
-
-/** Median of G over the local-noise window around i, S (the background a peak stands on). */
-function localMedianG(g: Float64Array, i: number, buf: Float64Array): number {
-  const lo = Math.max(0, i - LOCAL_NOISE_HALF_WIDTH);
-  const hi = Math.min(g.length - 1, i + LOCAL_NOISE_HALF_WIDTH);
-  const m = hi - lo + 1;
-  for (let k = 0; k < m; k++) buf[k] = g[lo + k];
-  return select(buf.subarray(0, m), m >> 1);
-}
-
-/**
- * How much of a resonance's susceptance swing the data show at a conductance peak.
- *
- * The motional admittance 1/(R1 + jX) traces a circle (FIELD.md §2b): with u = X/R1 =
- * (f − fs²/f)/bandwidth, G = G0/(1 + u²) and B = −G0·u/(1 + u²), so across the peak B falls by
- * G0 between the half-power points. B over ±3 bandwidths (at least ±3.5 steps) is fitted by least
- * squares as a + c·(f − fs) + γ·Bm(f), the line taking up C0 and the other modes; γ is about 1
- * for a resonance (also for one sampled more coarsely than its bandwidth, where it comes out
- * larger), about 0 for noise. Undefined with fewer than 5 points.
- */
-function susceptanceSwing(f: Float64Array, b: Float64Array, i: number, fsHz: number, r1Ohm: number, bandwidthHz: number, stepHz: number): number | undefined {
-  const n = f.length;
-  const half = Math.max(3 * bandwidthHz, 3.5 * stepHz);
-  let lo = i;
-  let hi = i;
-  while (lo > 0 && i - lo < 400 && fsHz - f[lo - 1] <= half) lo--;
-  while (hi < n - 1 && hi - i < 400 && f[hi + 1] - fsHz <= half) hi++;
-  if (hi - lo + 1 < 5) return undefined;
-  const g0 = 1 / r1Ohm;
-  // Normal equations of B ≈ a + c·x + γ·p, x = (f − fs)/half, p = Bm/G0.
-  let s11 = 0, s1x = 0, s1p = 0, sxx = 0, sxp = 0, spp = 0, sb = 0, sxb = 0, spb = 0;
-  for (let k = lo; k <= hi; k++) {
-    const x = (f[k] - fsHz) / half;
-    const u = (f[k] - (fsHz * fsHz) / f[k]) / bandwidthHz;
-    const p = -u / (1 + u * u);
-    const y = b[k] / g0;
-    s11 += 1; s1x += x; s1p += p; sxx += x * x; sxp += x * p; spp += p * p;
-    sb += y; sxb += x * y; spb += p * y;
-  }
-  const sol = solveSmall([[s11, s1x, s1p], [s1x, sxx, sxp], [s1p, sxp, spp]], [sb, sxb, spb]);
-  return sol && Number.isFinite(sol[2]) ? sol[2] : undefined;
-}
+export const STRONG_PEAK_SIGMAS = 20;
 
 /**
  * Find every series resonance (and its anti-resonance, when swept) in a sweep of the part alone.
@@ -214,17 +112,41 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
   const diagnostics: Diagnostic[] = [];
   const yAbs = new Float64Array(n);
   for (let i = 0; i < n; i++) yAbs[i] = Math.hypot(g[i], b[i]);
-  const noise = estimateNoise(g, b, yAbs);
+  const noiseOf = sweepNoise(g, b, yAbs);
+  const noise = noiseOf.relative;
   const sigmas = options.prominenceSigmas ?? 8;
   const minRel = options.minRelativeProminence ?? 3e-3;
   // Threshold relative to |Y|, but never below a tenth of the sweep's median |Y|: near an
   // anti-resonance |Y| collapses and a tiny absolute error (fixture compensation) would pass.
   const yFloor = 0.1 * median(yAbs);
-  const relThreshold = (i: number) => Math.max(sigmas * noise, minRel) * Math.max(yAbs[i], yFloor);
-  // Local absolute noise of G (second differences; see localNoiseG).
-  const d2 = new Float64Array(n);
-  for (let i = 1; i < n - 1; i++) d2[i] = Math.abs(g[i + 1] - 2 * g[i] + g[i - 1]);
-  const buf = new Float64Array(2 * LOCAL_NOISE_HALF_WIDTH + 1);
+  const floorThreshold = (i: number) => minRel * Math.max(yAbs[i], yFloor);
+  // Prominence needed at i: the larger of the local relative noise (times |Y|, floored) and the
+  // local absolute noise of G, times `sigmas`, and never below the ripple floor.
+  const threshold = (i: number) => Math.max(
+    floorThreshold(i),
+    sigmas * noiseOf.relativeAt(i) * Math.max(yAbs[i], yFloor),
+    sigmas * noiseOf.conductanceAt(i),
+  );
+
+  // Walk each side of maximum i until a higher point (not a peak), a drop by `thr` (confirmed),
+  // or the sweep end (judged by the other side; then flagged as one-sided).
+  // Returns 0 not prominent, 1 one-sided, 2 confirmed on both sides.
+  const prominence = (i: number, thr: number): number => {
+    const level = g[i] - thr;
+    let sides = 0;
+    let edges = 0;
+    for (let dir = -1; dir <= 1; dir += 2) {
+      let side = 0; // 0 edge, 1 dropped, −1 higher
+      for (let k = i + dir; k >= 0 && k < n; k += dir) {
+        if (g[k] > g[i]) { side = -1; break; }
+        if (g[k] < level) { side = 1; break; }
+      }
+      if (side < 0) return 0;
+      if (side === 1) sides++;
+      else edges++;
+    }
+    return sides === 0 ? 0 : edges > 0 ? 1 : 2;
+  };
 
   // Candidate maxima with enough prominence on both sides (a side reaching the sweep end counts).
   const peaks: number[] = [];
@@ -234,29 +156,16 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     const left = i > 0 ? g[i - 1] : -Infinity;
     const right = i < n - 1 ? g[i + 1] : -Infinity;
     if (!(g[i] > left && g[i] >= right) || n < 3) continue;
-    let thr = relThreshold(i);
+    // The floor is the lowest threshold: a maximum not prominent against it is no peak, and
+    // the local noise need not be estimated.
+    const floor = floorThreshold(i);
+    if (!(g[i] > floor) || prominence(i, floor) === 0) continue;
+    const thr = threshold(i);
     if (!(g[i] > thr)) continue;
-    thr = Math.max(thr, sigmas * localNoiseG(d2, i, buf));
-    // Walk each side until a higher point (not a peak), a drop by the threshold (confirmed),
-    // or the sweep end (judged by the other side; then flagged as one-sided).
-    const level = g[i] - thr;
-    let side = 0; // 0 edge, 1 dropped, −1 higher
-    for (let k = i - 1; k >= 0; k--) {
-      if (g[k] > g[i]) { side = -1; break; }
-      if (g[k] < level) { side = 1; break; }
-    }
-    if (side < 0) continue;
-    const dl = side === 1;
-    side = 0;
-    for (let k = i + 1; k < n; k++) {
-      if (g[k] > g[i]) { side = -1; break; }
-      if (g[k] < level) { side = 1; break; }
-    }
-    if (side < 0) continue;
-    const dr = side === 1;
-    if (!dl && !dr) continue;
+    const p = prominence(i, thr);
+    if (p === 0) continue;
     peaks.push(i);
-    if (!dl || !dr) oneSided.add(i);
+    if (p === 1) oneSided.add(i);
   }
 
   // Peaks within three samples of each other are one feature the sweep cannot separate.
@@ -296,11 +205,11 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
         if (v && v.y > 0 && v.y <= 1 / g[i] && Math.abs(v.x - f[i]) <= step) { fsHz = v.x; r1Ohm = v.y; }
       }
     }
-    const strong = g[i] - localMedianG(g, i, buf) > STRONG_PEAK_SIGMAS * localNoiseG(d2, i, buf);
+    const strong = g[i] - noiseOf.backgroundAt(i) > STRONG_PEAK_SIGMAS * noiseOf.conductanceAt(i);
     if (!atBoundary && !strong) {
-      // The swing is judged against the sampled peak height when the fit extrapolates far above it.
+      // Judged against the sampled peak height when the fit extrapolates far above it.
       const swing = susceptanceSwing(f, b, i, fsHz, Math.max(r1Ohm, 0.5 / g[i]), bandwidthHz, step);
-      if (swing !== undefined && !(swing >= MIN_SWING)) { noSwing++; continue; }
+      if (swing && !(swing.gamma >= MIN_SWING && swing.gamma >= MIN_SWING_SIGMAS * swing.gammaSigma)) { noSwing++; continue; }
     }
     const ppbw = bandwidthHz / step;
     const fLow = fsHz - bandwidthHz / 2;

@@ -72,6 +72,12 @@ export interface FitBvdResult extends FitSummary {
   parameterNames?: string[];
   /** Which stopping rule ended the iteration (levenberg-marquardt.ts StopRule). */
   stop?: string;
+  /**
+   * On failure caused by one branch (fitted values not physical, fs outside the span, moved
+   * too far, or not determined by the data): its index in the model. The caller may hold that
+   * branch and fit the others again.
+   */
+  failedBranch?: number;
 }
 
 /** A converged fit whose RMS relative residual exceeds this does not describe the data. */
@@ -282,12 +288,13 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
   for (const e of map.branches) {
     const br = model.branches[e.branch];
     const name = `branches[${e.branch}]`;
-    if (![br.fsHz, br.r1Ohm, br.c1F].every(isPositive)) return fail(`${name}: fitted values not finite and positive`, failed(), o);
-    if (br.fsHz < fLo || br.fsHz > fHi) return fail(`${name}: fitted fs ${br.fsHz.toPrecision(10)} Hz outside the measured span ${fLo}…${fHi} Hz`, failed(), o);
+    const failedBranch = e.branch;
+    if (![br.fsHz, br.r1Ohm, br.c1F].every(isPositive)) return fail(`${name}: fitted values not finite and positive`, { ...failed(), failedBranch }, o);
+    if (br.fsHz < fLo || br.fsHz > fHi) return fail(`${name}: fitted fs ${br.fsHz.toPrecision(10)} Hz outside the measured span ${fLo}…${fHi} Hz`, { ...failed(), failedBranch }, o);
     const factorR = Math.exp(Math.abs(lm.x[e.lnR1] - x0[e.lnR1]));
     const factorC = Math.exp(Math.abs(lm.x[e.lnC1] - x0[e.lnC1]));
     if (factorR > RESULT_FACTOR_LIMIT || factorC > RESULT_FACTOR_LIMIT) {
-      return fail(`${name}: r1 or c1 moved by a factor ${Math.max(factorR, factorC).toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT}): the data do not determine it`, failed(), o);
+      return fail(`${name}: r1 or c1 moved by a factor ${Math.max(factorR, factorC).toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT}): the data do not determine it`, { ...failed(), failedBranch }, o);
     }
     const dFs = e.fs0Hz * 1e-6; // ∂fs/∂p
     const vP = cov(e.fsOffset, e.fsOffset);
@@ -303,7 +310,7 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     const relR = Math.sqrt(Math.max(vR, 0));
     const relC = Math.sqrt(Math.max(vC, 0));
     if (!(relR <= MAX_RELATIVE_UNCERTAINTY) || !(relC <= MAX_RELATIVE_UNCERTAINTY)) {
-      return fail(`${name}: not determined by the data (relative uncertainty r1 ${(100 * relR).toPrecision(3)} %, c1 ${(100 * relC).toPrecision(3)} %)`, failed(), o);
+      return fail(`${name}: not determined by the data (relative uncertainty r1 ${(100 * relR).toPrecision(3)} %, c1 ${(100 * relC).toPrecision(3)} %)`, { ...failed(), failedBranch }, o);
     }
     const l1H = 1 / ((2 * Math.PI * br.fsHz) ** 2 * br.c1F);
     const q = 1 / (2 * Math.PI * br.fsHz * br.r1Ohm * br.c1F);

@@ -7,9 +7,10 @@
  * A per-mode window only holds C0 when it reaches away from the resonance (or covers the
  * anti-resonance); otherwise C0 is held at the capacitive-region estimate, since a window of a
  * few bandwidths barely constrains it. Between the two, the modes are screened
- * (screen-modes.ts): duplicates of a stronger mode and unreportable spurious modes are left out
- * of the joint fit, so they cannot distort it. A failed joint fit is retried with the main
- * modes only.
+ * (screen-modes.ts): duplicates of a stronger mode and spurious sightings without a converged
+ * fit are left out of the joint fit, so they cannot distort it. When the joint fit fails on one branch the data
+ * do not determine, that branch is held at its window-fit value and the others are fitted
+ * again; a joint fit that still fails is retried with the main modes only.
  */
 import type { BvdModel } from '../models/bvd.ts';
 import type { ModeCandidate } from './classify-modes.ts';
@@ -34,7 +35,7 @@ export interface ModeFits {
   jointIndex: number[];
   /** Model the joint fit started from. */
   jointStart?: BvdModel;
-  /** Duplicates and unreportable spurious modes (left out of the joint fit; not to be reported). */
+  /** Duplicates and unreportable spurious modes (not to be reported; `excluded` ones left out of the joint fit). */
   screen: ScreenModesResult;
 }
 
@@ -98,7 +99,7 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
     return { fsHz: b.fsHz, r1Ohm: b.r1Ohm, bandwidthHz: bandwidthOf(b), fitted: converged[k] };
   });
   const screen = screenModes(modes, estimates);
-  const included = modes.map((_, k) => k).filter((k) => (converged[k] || quickOk[k]) && screen.dropped[k] === undefined);
+  const included = modes.map((_, k) => k).filter((k) => (converged[k] || quickOk[k]) && !screen.excluded[k]);
   const jointIndex = modes.map((_, k) => included.indexOf(k));
   const start: BvdModel = { ...initial, branches: included.map((k) => ({ ...(converged[k] ? perMode[k]!.model.branches[k] : initial.branches[k]) })) };
   let free = included.filter((k) => converged[k] && !flagged[k]);
@@ -110,6 +111,13 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
   if (data.length === 0) return none;
   const run = (ks: number[]) => timed(timing, 'fit-joint', () => fitBvd(data, start, { freeBranches: ks.map((k) => jointIndex[k]), fitC0: true }));
   let joint = run(free);
+  // A branch the data do not determine is held at its window-fit value and the rest refitted.
+  while (!joint.converged && joint.failedBranch !== undefined && free.length > 1) {
+    const k = free.find((kk) => jointIndex[kk] === joint.failedBranch);
+    if (k === undefined) break;
+    free = free.filter((kk) => kk !== k);
+    joint = run(free);
+  }
   if (!joint.converged) {
     const mains = free.filter((k) => !modes[k].spurious);
     if (mains.length && mains.length < free.length) {

@@ -12,6 +12,8 @@
  *   practical effect on an oscillator, and at that level a "mode" found in a sweep is far more
  *   likely noise or fixture ripple than a resonance, so it is not published.
  * Main modes are never dropped here except as duplicates: their absence would hide a failure.
+ * Duplicates and spurious sightings without a converged fit are also kept out of the joint fit
+ * (`excluded`); a fitted spurious mode too weak to report stays in it.
  */
 import type { ModeCandidate } from './classify-modes.ts';
 
@@ -37,6 +39,12 @@ export interface ScreenModesResult {
   duplicateOf: number[];
   /** Why the mode is not reported (lower-case sentence fragment), undefined when it is. */
   dropped: Array<string | undefined>;
+  /**
+   * The mode is no resonance the model should hold (a duplicate, or a spurious sighting without
+   * a converged fit): left out of the joint fit. A spurious mode that is real but too weak to
+   * report stays in the fitted model, since the data show it.
+   */
+  excluded: boolean[];
 }
 
 /** 20·log10(Rspur/Rmain), dB; Infinity when not finite and positive. */
@@ -66,6 +74,7 @@ export function screenModes(modes: ModeCandidate[], estimates: Array<ModeEstimat
   const n = modes.length;
   const duplicateOf = new Array<number>(n).fill(-1);
   const dropped = new Array<string | undefined>(n).fill(undefined);
+  const excluded = new Array<boolean>(n).fill(false);
   const order = modes.map((_, k) => k).filter((k) => estimates[k] !== undefined).sort((a, b) => estimates[a]!.fsHz - estimates[b]!.fsHz);
   // Strongest first, so a chain of near-equal frequencies collapses onto one survivor.
   const byStrength = [...order].sort((a, b) => estimates[a]!.r1Ohm - estimates[b]!.r1Ohm);
@@ -88,6 +97,7 @@ export function screenModes(modes: ModeCandidate[], estimates: Array<ModeEstimat
   for (let k = 0; k < n; k++) {
     if (duplicateOf[k] >= 0) {
       dropped[k] = `same resonance as the stronger mode near ${estimates[survivor(k)]!.fsHz.toPrecision(10)} Hz`;
+      excluded[k] = true;
       continue;
     }
     const m = modes[k];
@@ -96,6 +106,7 @@ export function screenModes(modes: ModeCandidate[], estimates: Array<ModeEstimat
     const main = m.mainIndex !== undefined ? estimates[survivor(m.mainIndex)] : undefined;
     const why = spuriousRejection(e?.r1Ohm ?? NaN, main?.r1Ohm, e?.fitted ?? false);
     if (why) dropped[k] = why;
+    excluded[k] = !(e?.fitted ?? false);
   }
-  return { duplicateOf, dropped };
+  return { duplicateOf, dropped, excluded };
 }

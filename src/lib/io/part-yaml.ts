@@ -4,11 +4,16 @@
  * dot/bracket form (`samples[0].sweeps[1].file`); all issues are collected, not just the first.
  *
  * Order of work:
- * 1. text checks: empty, size ({@link MAX_PART_YAML_BYTES}), binary, long lines, flow nesting;
- * 2. YAML syntax (yaml `parseDocument` with a `LineCounter`), errors and warnings located;
+ * 1. text checks: empty, size ({@link MAX_PART_YAML_BYTES}), binary, CR-only line endings,
+ *    long lines (a lone CR counts as a line break), line count ({@link MAX_PART_YAML_LINES}),
+ *    flow nesting;
+ * 2. YAML syntax (yaml `parseDocument` with a `LineCounter`), errors and warnings located, their
+ *    messages cut to {@link MAX_YAML_MESSAGE_CHARS} characters (a bad token can be a whole line);
  * 3. one walk of the YAML tree that refuses aliases (no "billion laughs" expansion ever happens),
- *    limits nesting depth and builds plain data — text fields keep their source text, so
- *    `id: 0012` stays "0012" and `package: 3225` stays "3225";
+ *    refuses duplicate keys (found here with a Set: yaml's own `uniqueKeys` check compares every
+ *    key with every other, quadratic in the key count), limits nesting depth and builds plain
+ *    data — text fields keep their source text, so `id: 0012` stays "0012" and `package: 3225`
+ *    stays "3225"; each key's position is kept for the warnings below;
  * 4. unknown keys as warnings with a "did you mean" hint;
  * 5. zod validation ({@link PartSchema}) with issues mapped back to YAML positions, plus the
  *    cross-field rules re-checked here, because zod 4 skips an object's refinements once the
@@ -26,6 +31,10 @@ export const MAX_PART_YAML_BYTES = 1024 * 1024;
 export const MAX_PART_YAML_LINE_CHARS = 10_000;
 /** Deepest nesting of mappings and lists accepted; a valid record needs 5. */
 export const MAX_PART_YAML_DEPTH = 20;
+/** Most lines accepted; a record with many samples and sweeps needs a few hundred. */
+export const MAX_PART_YAML_LINES = 20_000;
+/** Longest yaml parser message kept, characters (it may quote a whole line). */
+const MAX_YAML_MESSAGE_CHARS = 200;
 /** Stop reporting after this many issues in one record (and say so). */
 const MAX_ISSUES = 200;
 
@@ -34,6 +43,7 @@ export interface PartYamlOptions {
   maxBytes?: number;
   maxLineChars?: number;
   maxDepth?: number;
+  maxLines?: number;
 }
 
 /** A field path: keys and list indexes. */
@@ -72,26 +82,28 @@ export function parsePartYaml(text: string, file: string, opts: PartYamlOptions 
   const maxBytes = opts.maxBytes ?? MAX_PART_YAML_BYTES;
   const maxLineChars = opts.maxLineChars ?? MAX_PART_YAML_LINE_CHARS;
   const maxDepth = opts.maxDepth ?? MAX_PART_YAML_DEPTH;
+  const maxLines = opts.maxLines ?? MAX_PART_YAML_LINES;
   const nowhere: PartYamlResult['locate'] = () => ({});
   const fail = (issues: Issue[]): PartYamlResult => ({ issues, locate: nowhere });
 
   if (text.length > maxBytes) return fail([errorAt(file, undefined, `file is ${text.length} bytes, over the limit of ${maxBytes} bytes for a part record`, { code: 'size' })]);
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const pre = checkText(body, file, maxLineChars, maxDepth);
+  const pre = checkText(body, file, { maxLineChars, maxDepth, maxLines });
   if (pre.length > 0) return fail(pre);
   const lineCounter = new LineCounter();
-  const doc = parseDocument(body, { lineCounter, prettyErrors: false, uniqueKeys: true });
+  // uniqueKeys: false — duplicates are found in toPlain (yaml's check is quadratic in the key count)
+  const doc = parseDocument(body, { lineCounter, prettyErrors: false, uniqueKeys: false });
   const at = (offset: number | undefined): FieldPosition => (offset === undefined ? {} : lineCounter.linePos(offset));
   const locate = (path: FieldPath) => at(findOffset(doc, path));
   const issues: Issue[] = [];
   for (const e of doc.errors) {
-    const message = /call stack/i.test(e.message) ? `nesting deeper than ${maxDepth} levels` : `yaml syntax: ${lowerFirst(e.message)}`;
+    const message = /call stack/i.test(e.message) ? `nesting deeper than ${maxDepth} levels` : `yaml syntax: ${yamlMessage(e.message)}`;
     issues.push({ severity: 'error', file, ...at(e.pos[0]), message, code: 'yaml' });
   }
   for (const w of doc.warnings) {
-    issues.push({ severity: 'warning', file, ...at(w.pos[0]), message: `yaml: ${lowerFirst(w.message)}`, code: 'yaml' });
+    issues.push({ severity: 'warning', file, ...at(w.pos[0]), message: `yaml: ${yamlMessage(w.message)}`, code: 'yaml' });
   }
-  if (issues.some((i) => i.severity === 'error')) return { issues, locate };
+  if (issues.some((i) => i.severity === 'error')) return { issues: capIssues(issues, file), locate };
 
   if (doc.contents === null || (isScalar(doc.contents) && doc.contents.value === null && !doc.contents.source)) {
     return fail([errorAt(file, undefined, 'empty file, expected a part record (id, title, kind, samples)', { code: 'empty' })]);
@@ -104,10 +116,10 @@ export function parsePartYaml(text: string, file: string, opts: PartYamlOptions 
 
   const built = toPlain(doc.contents, [], maxDepth);
   for (const p of built.problems) issues.push({ severity: 'error', file, ...at(p.offset), path: formatFieldPath(p.path) || undefined, message: p.message, code: p.code });
-  if (built.problems.length > 0) return { issues, locate };
+  if (built.problems.length > 0) return { issues: capIssues(issues, file), locate };
 
   const data = built.value;
-  for (const w of unknownKeys(built.value)) issues.push({ severity: 'warning', file, ...at(findOffset(doc, w.path, true)), path: formatFieldPath(w.path), message: w.message, code: 'unknown-key' });
+  for (const w of unknownKeys(built.value)) issues.push({ severity: 'warning', file, ...at(built.keyOffsets.get(w.parent)?.get(w.key)), path: formatFieldPath(w.path), message: w.message, code: 'unknown-key' });
 
   const result = PartSchema.safeParse(built.value, { reportInput: true });
   const errors: Issue[] = [];
@@ -124,20 +136,41 @@ export function parsePartYaml(text: string, file: string, opts: PartYamlOptions 
   for (const c of crossFieldProblems(built.value)) add(c.path, c.message, 'invalid');
   issues.push(...errors);
   issues.sort((a, b) => (a.line ?? 0) - (b.line ?? 0) || (a.col ?? 0) - (b.col ?? 0));
-  if (issues.length > MAX_ISSUES) {
-    const shown = issues.slice(0, MAX_ISSUES);
-    shown.push(errorAt(file, undefined, `${issues.length - MAX_ISSUES} more issues not shown`, { code: 'too-many' }));
-    return { issues: shown, locate, data };
-  }
+  if (issues.length > MAX_ISSUES) return { issues: capIssues(issues, file), locate, data };
   return { part: result.success && errors.length === 0 ? result.data : undefined, issues, locate, data };
 }
 
-function lowerFirst(s: string): string {
-  return s.length > 0 ? s[0].toLowerCase() + s.slice(1) : s;
+/** The first {@link MAX_ISSUES} issues, and a note of how many more there were. */
+function capIssues(issues: Issue[], file: string): Issue[] {
+  if (issues.length <= MAX_ISSUES) return issues;
+  const shown = issues.slice(0, MAX_ISSUES);
+  shown.push(errorAt(file, undefined, `${issues.length - MAX_ISSUES} more issues not shown`, { code: 'too-many' }));
+  return shown;
 }
 
-/** Binary content, long lines and runaway flow nesting, found before the YAML parser runs. */
-function checkText(text: string, file: string, maxLineChars: number, maxDepth: number): Issue[] {
+/** A yaml parser message, lower-case first letter, cut to {@link MAX_YAML_MESSAGE_CHARS}. */
+function yamlMessage(s: string): string {
+  const m = s.length > 0 ? s[0].toLowerCase() + s.slice(1) : s;
+  return m.length > MAX_YAML_MESSAGE_CHARS ? `${m.slice(0, MAX_YAML_MESSAGE_CHARS - 1)}…` : m;
+}
+
+interface TextLimits {
+  maxLineChars: number;
+  maxDepth: number;
+  maxLines: number;
+}
+
+/**
+ * Binary content, CR-only line endings, long lines, too many lines and runaway flow nesting,
+ * found before the YAML parser runs. A lone CR counts as a line break here (YAML 1.2 §5.4), so a
+ * file of CR-only lines is not one long line; the yaml package reads a lone CR as an ordinary
+ * character, so such a file is refused with its own message.
+ */
+function checkText(text: string, file: string, { maxLineChars, maxDepth, maxLines }: TextLimits): Issue[] {
+  const firstCr = text.search(/\r(?!\n)/);
+  if (firstCr >= 0 && !text.includes('\n')) {
+    return [errorAt(file, 1, 'CR-only line endings; save the file with LF or CRLF line endings', { code: 'line-endings', col: firstCr + 1 })];
+  }
   const issues: Issue[] = [];
   let line = 1;
   let lineStart = 0;
@@ -146,10 +179,14 @@ function checkText(text: string, file: string, maxLineChars: number, maxDepth: n
   let comment = false;
   for (let i = 0; i <= text.length; i++) {
     const c = i < text.length ? text.charCodeAt(i) : 10;
-    if (c === 10) {
+    if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) {
       if (i - lineStart > maxLineChars) {
         issues.push(errorAt(file, line, `line is ${i - lineStart} characters long, over the limit of ${maxLineChars}`, { code: 'long-line' }));
         if (issues.length >= 5) return issues;
+      }
+      if (line === maxLines && i + 1 < text.length) {
+        issues.push(errorAt(file, line + 1, `file has more than ${maxLines} lines, over the limit for a part record`, { code: 'too-many-lines' }));
+        return issues;
       }
       line++;
       lineStart = i + 1;
@@ -183,9 +220,17 @@ interface Problem {
   code: string;
 }
 
-/** Convert the YAML tree to plain data, refusing aliases, complex keys and deep nesting. */
-function toPlain(root: Node, rootPath: FieldPath, maxDepth: number): { value: unknown; problems: Problem[] } {
+/** Plain data from the YAML tree, the problems found, and the offset of every key of every mapping built. */
+interface PlainResult {
+  value: unknown;
+  problems: Problem[];
+  keyOffsets: WeakMap<object, Map<string, number>>;
+}
+
+/** Convert the YAML tree to plain data, refusing aliases, complex keys, duplicate keys and deep nesting. */
+function toPlain(root: Node, rootPath: FieldPath, maxDepth: number): PlainResult {
   const problems: Problem[] = [];
+  const keyOffsets = new WeakMap<object, Map<string, number>>();
   let aliases = 0;
   const walk = (node: Node | null | undefined, path: FieldPath, depth: number): unknown => {
     if (node == null) return null;
@@ -208,6 +253,8 @@ function toPlain(root: Node, rootPath: FieldPath, maxDepth: number): { value: un
     if (isSeq(node)) return node.items.map((item, i) => walk(item as Node, [...path, i], depth + 1));
     if (isMap(node)) {
       const out: Record<string, unknown> = {};
+      const offsets = new Map<string, number>();
+      keyOffsets.set(out, offsets);
       for (const pair of node.items) {
         const k = pair.key as Node | null;
         if (!isScalar(k) || (typeof k.value !== 'string' && typeof k.value !== 'number' && typeof k.value !== 'boolean')) {
@@ -215,6 +262,12 @@ function toPlain(root: Node, rootPath: FieldPath, maxDepth: number): { value: un
           continue;
         }
         const name = String(k.value);
+        const offset = k.range?.[0] ?? 0;
+        if (offsets.has(name)) {
+          problems.push({ path: [...path, name], offset, message: `yaml syntax: map keys must be unique; "${shorten(name)}" appears again`, code: 'yaml' });
+          continue;
+        }
+        offsets.set(name, offset);
         // defineProperty: a key named "__proto__" stays an ordinary key.
         Object.defineProperty(out, name, { value: walk(pair.value as Node, [...path, name], depth + 1), enumerable: true, writable: true, configurable: true });
       }
@@ -226,14 +279,16 @@ function toPlain(root: Node, rootPath: FieldPath, maxDepth: number): { value: un
   const value = walk(root, rootPath, 1);
   const first = problems.find((p) => p.code === 'yaml-alias');
   if (first && aliases > 1) first.message += ` (${aliases - 1} more aliases in the file)`;
-  return { value, problems };
+  return { value, problems, keyOffsets };
 }
 
-/**
- * Offset of the deepest existing node along a path: a collection by its key, a scalar by its
- * value (or by its key when `atKey`).
- */
-function findOffset(doc: Document, path: FieldPath, atKey = false): number | undefined {
+/** Text cut to 60 characters for a message. */
+function shorten(s: string): string {
+  return s.length > 60 ? `${s.slice(0, 60)}…` : s;
+}
+
+/** Offset of the deepest existing node along a path: a collection by its key, a scalar by its value. */
+function findOffset(doc: Document, path: FieldPath): number | undefined {
   let node: unknown = doc.contents;
   let best: number | undefined = (node as Node | null)?.range?.[0];
   for (const step of path) {
@@ -242,7 +297,7 @@ function findOffset(doc: Document, path: FieldPath, atKey = false): number | und
       if (!pair) return best;
       const key = pair.key as Node;
       const value = pair.value as Node | null;
-      best = !atKey && isScalar(value) && value.source !== '' ? value.range?.[0] : key.range?.[0];
+      best = isScalar(value) && value.source !== '' ? value.range?.[0] : key.range?.[0];
       node = value;
     } else if (isSeq(node) && typeof step === 'number' && step < node.items.length) {
       node = node.items[step];
@@ -341,14 +396,23 @@ function crossFieldProblems(data: unknown): Array<{ path: FieldPath; message: st
 
 type Level = keyof typeof KNOWN_KEYS;
 
+/** An unknown key: its path, the mapping it is in and the key (to look up its position), a message. */
+interface UnknownKey {
+  path: FieldPath;
+  parent: object;
+  key: string;
+  message: string;
+}
+
 /** Unknown keys at every record level, with a hint: a near spelling, or the level the key belongs to. */
-function unknownKeys(data: unknown): Array<{ path: FieldPath; message: string }> {
-  const out: Array<{ path: FieldPath; message: string }> = [];
+function unknownKeys(data: unknown): UnknownKey[] {
+  const out: UnknownKey[] = [];
   const check = (obj: unknown, level: Level, path: FieldPath) => {
     if (obj === null || typeof obj !== 'object' || Array.isArray(obj)) return;
+    const known = new Set<string>(KNOWN_KEYS[level]);
     for (const key of Object.keys(obj)) {
-      if ((KNOWN_KEYS[level] as readonly string[]).includes(key)) continue;
-      out.push({ path: [...path, key], message: `unknown field "${key}" is ignored${hintFor(key, level)}` });
+      if (known.has(key)) continue;
+      out.push({ path: [...path, key], parent: obj, key, message: `unknown field "${shorten(key)}" is ignored${hintFor(key, level)}` });
     }
   };
   check(data, 'part', []);

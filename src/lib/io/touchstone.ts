@@ -751,7 +751,9 @@ export interface FormatTouchstoneOptions {
  * number (17 significant digits at most, so reading it back gives the same doubles; the
  * frequency's decimal point is moved for the unit, so it reads back exactly too). Canonical option line `# <unit> <param> <format> R <ohm>`.
  * v1 normalises Z and Y to R and needs equal reference impedances on both ports; v2 writes
- * `[Reference]` per port, two-port order 12_21, and Z/Y in ohm/siemens.
+ * `[Reference]` per port, two-port order 12_21, and Z/Y in ohm/siemens. In DB format a zero
+ * magnitude is written as 20·log10(Number.MIN_VALUE) ≈ -6466 dB (20·log10(0) is -Infinity, which
+ * no reader accepts); it reads back as a magnitude below 1e-323.
  * @throws Error when v1 is asked for unequal port reference impedances
  */
 export function formatTouchstone(data: NetworkData, opts: FormatTouchstoneOptions = {}): string {
@@ -789,7 +791,9 @@ export function formatTouchstone(data: NetworkData, opts: FormatTouchstoneOption
       else {
         const mag = Math.hypot(x, y);
         const ang = (Math.atan2(y, x) * 180) / Math.PI;
-        row += ` ${num(format === 'MA' ? mag : 20 * Math.log10(mag))} ${num(ang)}`;
+        // DB: a zero magnitude (ideal isolation) is written as the smallest positive double's
+        // level, 20·log10(5e-324) ≈ -6466 dB, which reads back as 5e-324 or 0, never -Infinity
+        row += ` ${num(format === 'MA' ? mag : 20 * Math.log10(Math.max(mag, Number.MIN_VALUE)))} ${num(ang)}`;
       }
     }
     out.push(row);

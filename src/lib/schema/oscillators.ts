@@ -49,7 +49,8 @@ const MAX_TOLERANCE = 0.5;
 /** "5 %", "5%", "0.05" or 0.05 → 0.05. */
 const tolerance = z.union([z.string(), z.number()]).transform((input, ctx) => {
   const text = String(input).trim();
-  const m = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(%?)$/.exec(text.replace(/^±\s*/, ''));
+  // `\d+(?:\.\d*)?`, not `\d+\.?\d*`: the latter backtracks quadratically on a long run of digits
+  const m = /^([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(%?)$/.exec(text.replace(/^±\s*/, ''));
   const value = m ? Number(m[1]) / (m[2] ? 100 : 1) : Number.NaN;
   if (!(value >= 0 && value <= MAX_TOLERANCE)) {
     ctx.addIssue({ code: 'custom', message: `expected a tolerance between 0 and 50 % such as "5 %", got "${text}"` });

@@ -151,6 +151,39 @@ describe('extractPart recovers seeded synthetic parts across FIELD.md', () => {
   });
 });
 
+describe('extractPart reports spurious modes down to 40 dB below the main mode', () => {
+  // FIELD.md §1.1 two-branch part with R2 raised: X1 plus a branch of L2 = 40 mH (C2 = 2.468878 fF)
+  // at fs + 100 kHz; strength 20·log10(R2/R1) (FIELD.md §5); the rule of screen-modes.ts
+  function spurious(r2Ohm: number) {
+    const f2 = FS_X1 + 100e3;
+    const b2 = { fsHz: f2, r1Ohm: r2Ohm, c1F: 2.468878e-15 };
+    const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS_X1, r1Ohm: 20, c1F: 10e-15 }, b2] };
+    const bw2 = bandwidth(b2);
+    const { part, inputs } = syntheticPart(model, [
+      { file: 'n.s1p', freqHz: linGrid(FS_X1 - 1600, FS_X1 + 1600, 1601) },
+      { file: 'n2.s1p', freqHz: linGrid(f2 - 6 * bw2, f2 + 6 * bw2, 1601) },
+      { file: 'w.s1p', freqHz: linGrid(FS_X1 - 50e3, FS_X1 + 150e3, 5001) },
+    ], { noiseDb: -80, seed: 5 });
+    return { model, s: extractPart(part, inputs).samples[0] };
+  }
+
+  it('reports one 39.55 dB down (R2 = 1.9 kΩ)', () => {
+    const { s } = spurious(1900);
+    expect(s.modes.map((m) => [m.overtone, m.spurious])).toEqual([[1, false], [1, true]]);
+    expect(s.modes[1].strengthDb).toBeCloseTo(20 * Math.log10(1900 / 20), 1);
+    expect(s.warnings).toEqual([]);
+  });
+
+  it('leaves out one 43.52 dB down (R2 = 3 kΩ) with a note, yet fits the main mode and C0 with it in the model', () => {
+    const { model, s } = spurious(3000);
+    expect(s.modes.map((m) => [m.overtone, m.spurious])).toEqual([[1, false]]);
+    expect(s.diagnostics.map((d) => d.message)).toContain('spurious mode near 16.015494 MHz: not reported, 43.5 dB below the main mode (r1 3.00e+3 Ω against 20.0 Ω; reported down to 40 dB)');
+    expect(s.fit.converged).toBe(true);
+    expect(s.warnings).toEqual([]);
+    expectRecovered({ ...model, branches: [model.branches[0]] }, s, 'X1 beside a weak spurious mode');
+  });
+});
+
 describe('extractPart uncertainties are honest', () => {
   // Seeded trials: the true value lies within 3 standard uncertainties in ≥ 95 % of trials
   // (for a normal error 99.7 %; issue 3 asks ≥ 95 %).

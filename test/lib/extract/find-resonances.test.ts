@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { findResonances } from '../../../src/lib/extract/find-resonances.ts';
-import { partAlone } from '../../../src/lib/extract/part-alone.ts';
+import { partAlone, type AdmittanceSweep } from '../../../src/lib/extract/part-alone.ts';
 import { parallelResonanceOf, zeroPhaseOf } from '../../../src/lib/extract/closed-form.ts';
-import type { BvdModel } from '../../../src/lib/models/bvd.ts';
+import { admittanceAt, type BvdModel } from '../../../src/lib/models/bvd.ts';
+import { gaussian } from '../../support/rng.ts';
 import { fsOf, linGrid, synthSweep } from './synthetic.ts';
 
 // FIELD.md §0 reference resonators X1 and TF1, §7 ceramic example (IEEE 177 model).
@@ -14,6 +15,37 @@ const CERAMIC: BvdModel = { c0F: 20.6e-12, branches: [{ fsHz: CER_FS, r1Ohm: 8, 
 
 function find(model: BvdModel, f: Float64Array, noiseDb?: number, seed = 1, source = 'x.s1p') {
   return findResonances(partAlone(synthSweep(model, f, { noiseDb, seed, source })));
+}
+
+/** A Lorentzian conductance bump added to a sweep, with or without the susceptance swing of a resonance. */
+interface Bump { fHz: number; g0S: number; bandwidthHz: number; swing: boolean }
+
+/**
+ * Admittance of the model plus complex noise of constant absolute size `sigmaS` on Y: what a
+ * reflection or shunt-through record gives where |Z| ≫ Z0, since there dY/dS is about constant
+ * (FIELD.md §3.2: Y = (1 − S11)/(Z0(1 + S11)), dY/dS11 → −1/(2Z0) as S11 → 1).
+ */
+function admittanceSweep(model: BvdModel, f: Float64Array, sigmaS: number, seed: number, bump?: Bump): AdmittanceSweep {
+  const n = f.length;
+  const gS = new Float64Array(n);
+  const bS = new Float64Array(n);
+  const zRe = new Float64Array(n);
+  const zIm = new Float64Array(n);
+  const g = gaussian(seed);
+  for (let i = 0; i < n; i++) {
+    let [re, im] = admittanceAt(model, f[i]);
+    if (bump) {
+      const u = (2 * (f[i] - bump.fHz)) / bump.bandwidthHz;
+      re += bump.g0S / (1 + u * u);
+      if (bump.swing) im -= (bump.g0S * u) / (1 + u * u);
+    }
+    gS[i] = re + sigmaS * g();
+    bS[i] = im + sigmaS * g();
+    const d = gS[i] * gS[i] + bS[i] * bS[i];
+    zRe[i] = gS[i] / d;
+    zIm[i] = -bS[i] / d;
+  }
+  return { freqHz: f, gS, bS, zRe, zIm, source: 'y.s1p' };
 }
 
 describe('findResonances', () => {
@@ -51,6 +83,49 @@ describe('findResonances', () => {
         expect(r.noiseRelative).toBeLessThan(2e-3);
       }
     }
+  });
+
+  it('takes no noise near the anti-resonance for a mode when the noise of Y is constant, not proportional to |Y|', () => {
+    // X1 over 0.999…1.004 fs with 1 µS to 100 µS of absolute noise on Y: near fa (|Y| ≈ 2 µS) the
+    // relative noise is hundreds of per cent (FIELD.md §3.2), at fs (|Y| ≈ 50 mS) it stays small
+    const f = linGrid(0.999 * FS, 1.004 * FS, 2001);
+    for (const sigmaS of [1e-6, 1e-5, 3e-5, 1e-4]) {
+      for (let seed = 1; seed <= 5; seed++) {
+        const r = findResonances(admittanceSweep(X1, f, sigmaS, seed));
+        const inner = r.resonances.filter((x) => !x.atBoundary);
+        expect(inner, `σ ${sigmaS} S seed ${seed}`).toHaveLength(1);
+        expect(Math.abs(inner[0].fsHz - FS)).toBeLessThan(0.1 * 318.31);
+      }
+    }
+  });
+
+  it('ignores a conductance bump without the susceptance swing of a resonance, and finds it with the swing', () => {
+    // a bump 10 noise deviations high and 150 Hz wide on a plain capacitor (FIELD.md §2b: a mode's
+    // admittance traces a circle, so B swings by Gmax across it); 20 seeded trials each
+    const f = linGrid(FS - 20_000, FS + 20_000, 2001);
+    const cap: BvdModel = { c0F: 3e-12, branches: [] };
+    let withSwing = 0;
+    let without = 0;
+    for (let seed = 1; seed <= 20; seed++) {
+      const bump = { fHz: FS + 123, g0S: 10e-6, bandwidthHz: 150 };
+      withSwing += findResonances(admittanceSweep(cap, f, 1e-6, seed, { ...bump, swing: true })).resonances.filter((x) => !x.atBoundary).length;
+      const r = findResonances(admittanceSweep(cap, f, 1e-6, seed, { ...bump, swing: false }));
+      without += r.resonances.filter((x) => !x.atBoundary).length;
+      if (r.diagnostics.some((d) => d.code === 'signal-to-noise')) {
+        expect(r.diagnostics[0].message).toMatch(/^sweep y\.s1p: \d+ conductance peaks? without the susceptance swing of a resonance ignored as noise$/);
+      }
+    }
+    expect(withSwing).toBeGreaterThanOrEqual(18);
+    expect(without).toBe(0);
+  });
+
+  it('keeps one resonance when two maxima of one peak refine onto the same fs', () => {
+    // noiseless X1 at 159 points per bandwidth with a 3 % notch over the top five points
+    const s = partAlone(synthSweep(X1, linGrid(FS - 1600, FS + 1600, 1601)));
+    for (let k = -2; k <= 2; k++) s.gS[800 + k] *= 0.97;
+    const r = findResonances(s);
+    expect(r.resonances).toHaveLength(1);
+    expect(Math.abs(r.resonances[0].fsHz - FS)).toBeLessThan(0.1);
   });
 
   it('says "capacitive only between 3.97 and 4.03 MHz" for a sweep below the resonance', () => {

@@ -504,6 +504,20 @@ describe('fitBvd failures are results', () => {
     expect(fit.reason).toMatch(/^branches\[0\]: /);
   });
 
+  it('names the branch the data do not determine, and no branch when the failure is not one branch\'s', () => {
+    // X1 data (−60 dB) with a start that adds a second branch 20 kHz above fs that the sweep does not show
+    const f = grid(X1.branches[0].fsHz - 3000, X1.branches[0].fsHz + 30_000, 3001);
+    const sweep = synth(X1, f, { noiseDb: -60, seed: 3 });
+    const start: BvdModel = { ...perturb(X1, 0.2, 1.05, 1.01, 1.01), branches: [...perturb(X1, 0.2, 1.05, 1.01, 1.01).branches, { fsHz: X1.branches[0].fsHz + 20e3, r1Ohm: 1e4, c1F: 1e-15 }] };
+    const both = fitBvd([sweep], start);
+    expectCleanFailure(both, start);
+    expect(both.failedBranch).toBe(1);
+    expect(both.reason).toMatch(/^branches\[1\]: /);
+    const short = fitBvd([sweep], start, { maxIterations: 1 });
+    expect(short.converged).toBe(false);
+    expect(short.failedBranch).toBeUndefined();
+  });
+
   it('reports running out of iterations', () => {
     const start = perturb(X1, 20, 1.3, 0.8, 1.05);
     const fit = fitBvd([synth(X1, spanOf(X1))], start, { maxIterations: 1 });
