@@ -169,7 +169,7 @@ function reportCaseCollisions(samples: Array<[number, Sample]>, at: At): void {
   }
   for (const [first, later] of findCaseCollisions(refs.map((r) => r.name))) {
     const ref = refs.find((r) => r.name === later)!;
-    at(ref.path, `"${later}" and "${first}" differ only by letter case; they are one file on some systems and two on others, rename one`, 'path-case');
+    at(ref.path, `"${later}" and "${first}" differ only by letter case or Unicode normalisation; they are one file on some systems and two on others, rename one`, 'path-case');
   }
 }
 
