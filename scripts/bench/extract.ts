@@ -82,7 +82,7 @@ function median(v: number[]): number {
 
 /** Build the sample, extract it `runs` times (after warm-up), report times. */
 export async function benchExtract(options: { quick?: boolean } = {}): Promise<BenchExtractResult> {
-  const runs = options.quick ? 20 : 40;
+  const runs = options.quick ? 40 : 200;
   const fs = 1e8 / (2 * Math.PI);
   const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: fs, r1Ohm: 20, c1F: 10e-15 }] };
   const fL = fs * Math.sqrt(1 + 10e-15 / 13e-12);
@@ -96,7 +96,8 @@ export async function benchExtract(options: { quick?: boolean } = {}): Promise<B
   const inputs = refs.map((ref, i) => ({ sampleId: 'A1', ref, file: ref.file, impedance: sweep(model, grids[i], 100 + i, ref.file, ref.addedCapacitance) }));
   const points = grids.reduce((n, g) => n + g.length, 0);
 
-  for (let i = 0; i < 5; i++) extractPart(part, inputs); // warm-up (JIT)
+  // Warm-up: let the JIT compile the hot paths first, so the median is the steady state.
+  for (let i = 0; i < (options.quick ? 20 : 100); i++) extractPart(part, inputs);
   const wall: number[] = [];
   const cpu: number[] = [];
   const steps: Record<string, number[]> = {};
