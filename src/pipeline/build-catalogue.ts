@@ -104,7 +104,7 @@ export interface BuildSummary {
   cache: { enabled: boolean; hits: number; misses: number };
   /** Worker threads requested. */
   jobs: number;
-  /** Worker threads started (0: everything ran in the main thread). */
+  /** Worker threads started besides the main thread, which takes tasks too (0: main thread only). */
   threads: number;
   /** Wall time per stage and in all, ms. */
   stageMs: Partial<Record<BuildStage, number>> & { total: number };
@@ -114,6 +114,11 @@ export interface BuildSummary {
   site?: { mode: 'full' | 'partial'; pagesRendered: number; partsRemoved: number };
   /** Peak resident memory, bytes: this process (all threads) and the Astro build process. */
   peakRssBytes: { build: number; site: number };
+  /**
+   * CPU time, seconds: this process (all threads, from its start) and the Astro process. Unlike
+   * wall time it hardly depends on what else the machine is doing.
+   */
+  cpuSeconds: { build: number; site: number };
   issues: Issue[];
   outDir: string;
 }
@@ -133,7 +138,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   const summary: BuildSummary = {
     exitCode: 1, recordsFound: 0, recordsValid: 0, recordsInvalid: 0, partsPublished: 0, samples: 0, modes: 0,
     warnings: 0, errors: 0, cache: { enabled: useCache, hits: 0, misses: 0 }, jobs, threads: 0, stageMs: { total: 0 },
-    recordMs: { hash: 0, load: 0, extract: 0, data: 0, emit: 0 }, peakRssBytes: { build: 0, site: 0 }, issues: [], outDir,
+    recordMs: { hash: 0, load: 0, extract: 0, data: 0, emit: 0 }, peakRssBytes: { build: 0, site: 0 }, cpuSeconds: { build: 0, site: 0 }, issues: [], outDir,
   };
   let stageStart = t0;
   let current: BuildStage | undefined;
@@ -242,6 +247,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       const partial = plan && (await siteSupportsPartialPages()) ? plan : undefined;
       const siteDir = join(staging.root, 'site');
       const astro = { basePath, progress: progressStream, log, signal: options.signal };
+      let astroUsage: AstroUsage;
       if (partial) {
         // Astro renders the changed parts' pages (and the pages over all parts) from a data
         // folder holding just those parts and the whole index; the rest comes from the
@@ -253,15 +259,17 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         if (!(await linkFiles(dataDir, deltaFiles, deltaDir))) throw new Error('a part file vanished from the staging folder');
         const pagesFile = join(staging.root, 'pages.json');
         await writeFile(pagesFile, JSON.stringify(partial.changed));
-        summary.peakRssBytes.site = await runAstroBuild({ ...astro, dataDir: deltaDir, siteDir: freshDir, pages: partial.changed.length, pagesFile });
+        astroUsage = await runAstroBuild({ ...astro, dataDir: deltaDir, siteDir: freshDir, pages: partial.changed.length, pagesFile });
         const replaced = new Set([...partial.changed, ...partial.removed]);
         await linkTree(outDir, siteDir, (rel) => rel === OUTPUT_MARKER || belongsTo(rel, replaced));
         await overlayTree(freshDir, siteDir);
         summary.site = { mode: 'partial', pagesRendered: partial.changed.length, partsRemoved: partial.removed.length };
       } else {
-        summary.peakRssBytes.site = await runAstroBuild({ ...astro, dataDir, siteDir, pages: ids.length });
+        astroUsage = await runAstroBuild({ ...astro, dataDir, siteDir, pages: ids.length });
         summary.site = { mode: 'full', pagesRendered: ids.length, partsRemoved: 0 };
       }
+      summary.peakRssBytes.site = astroUsage.peakRssBytes;
+      summary.cpuSeconds.site = astroUsage.cpuSeconds;
       builtDir = siteDir;
       summary.partsPublished = await countPublished(siteDir, ids, basePath);
     } else {
@@ -304,7 +312,9 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   }
   summary.errors = summary.issues.filter((i) => i.severity === 'error').length;
   summary.warnings += summary.issues.filter((i) => i.severity === 'warning').length;
-  summary.peakRssBytes.build = process.resourceUsage().maxRSS * 1024;
+  const usage = process.resourceUsage();
+  summary.peakRssBytes.build = usage.maxRSS * 1024;
+  summary.cpuSeconds.build = (usage.userCPUTime + usage.systemCPUTime) / 1e6;
   summary.stageMs.total = performance.now() - t0;
   return summary;
 }
@@ -327,7 +337,7 @@ const LOOKUP_CONCURRENCY = 8;
 
 /**
  * Every record, in two passes: cache lookups in the main thread (hits are finished there),
- * then the rest through the worker threads (or the main thread), a few tasks per thread in flight.
+ * then the rest through the main thread and the worker threads, taking tasks from one queue.
  */
 async function runRecords(
   records: string[],
@@ -366,35 +376,43 @@ async function runRecords(
   await memo?.save().catch(() => undefined);
   todo.sort((a, b) => a.index - b.index);
 
-  let run: (task: BuildTask) => Promise<BuildTaskResult>;
-  let close = async () => {};
-  const threads = jobs > 1 && todo.length >= MIN_RECORDS_FOR_THREADS ? Math.min(jobs, todo.length) : 0;
-  if (threads > 0) {
-    const pool = createWorkerPool<BuildTask, BuildTaskResult>({ moduleUrl: new URL('./build-worker.ts', import.meta.url), size: threads, workerData: context });
-    run = (task) => pool.run(task);
-    close = () => pool.close();
-  } else if (todo.length > 0) {
-    const runner = await createBuildTaskRunner(context);
-    run = (task) => runner.run(task);
-  } else {
-    run = () => Promise.reject(new Error('no task'));
-  }
+  // The main thread always takes tasks too (it starts in a fraction of a second, while a
+  // worker thread needs a second or two to load its code), plus jobs − 1 worker threads when
+  // there is enough to do.
+  const threads = jobs > 1 && todo.length >= MIN_RECORDS_FOR_THREADS ? Math.min(jobs - 1, todo.length - 1) : 0;
+  const pool = threads > 0
+    ? createWorkerPool<BuildTask, BuildTaskResult>({ moduleUrl: new URL('./build-worker.ts', import.meta.url), size: threads, workerData: context })
+    : undefined;
   let next = 0;
-  const lane = async (stopped: () => boolean) => {
-    while (next < todo.length && !stopped()) {
-      if (signal?.aborted) throw new BuildFailure('build stopped');
-      const task = todo[next++];
-      const result = await run({ ...task, validateOnly: failed });
-      if (!result.valid) failed = true;
-      results[task.index] = result;
-      progress.tick(1, note());
+  let halted = false; // a lane failed: the others stop after their current task
+  const lane = (run: (task: BuildTask) => Promise<BuildTaskResult>) => async (stopped: () => boolean) => {
+    try {
+      while (next < todo.length && !stopped() && !halted) {
+        if (signal?.aborted) throw new BuildFailure('build stopped');
+        const task = todo[next++];
+        const result = await run({ ...task, validateOnly: failed });
+        if (!result.valid) failed = true;
+        results[task.index] = result;
+        progress.tick(1, note());
+      }
+    } catch (err) {
+      halted = true;
+      throw err;
     }
   };
   try {
-    // two tasks per thread keep every thread busy while results travel back
-    await runLanes(Math.min(todo.length, Math.max(1, threads) * 2), lane);
+    const lanes: Array<Promise<void>> = [];
+    // two tasks per worker keep it busy while results travel back
+    if (pool) lanes.push(runLanes(Math.min(todo.length, threads * 2), lane((task) => pool.run(task))));
+    if (todo.length > 0) {
+      const runner = await createBuildTaskRunner(context);
+      lanes.push(runLanes(1, lane((task) => runner.run(task))));
+    }
+    const settled = await Promise.allSettled(lanes);
+    const rejected = settled.find((r): r is PromiseRejectedResult => r.status === 'rejected');
+    if (rejected) throw rejected.reason;
   } finally {
-    await close();
+    await pool?.close();
   }
   progress.done(`${hits} cached, ${todo.length} processed${failed ? ', invalid records found' : ''}`);
   return { results, threads };
@@ -454,19 +472,32 @@ export function astroEnv(env: NodeJS.ProcessEnv): NodeJS.ProcessEnv {
   return out;
 }
 
-// Ends the Astro process when the build process dies without cleaning up (kill -9): its
-// parent id changes, and a site half-written into a staging folder helps nobody.
-const ORPHAN_GUARD = `data:text/javascript,${encodeURIComponent(
-  'const p=process.ppid;setInterval(()=>{if(process.ppid!==p)process.exit(129)},500).unref();',
+// Preloaded into the Astro process: ends it when the build process dies without cleaning up
+// (kill -9; its parent id changes, and a site half-written into a staging folder helps nobody),
+// and reports its peak memory and CPU time at exit.
+const ASTRO_PRELOAD = `data:text/javascript,${encodeURIComponent(
+  [
+    'import { writeFileSync } from "node:fs";',
+    'const p = process.ppid;',
+    'setInterval(() => { if (process.ppid !== p) process.exit(129); }, 500).unref();',
+    'const f = process.env.MOTIONAL_USAGE_FILE;',
+    'if (f) process.on("exit", () => { try { writeFileSync(f, JSON.stringify(process.resourceUsage())); } catch {} });',
+  ].join('\n'),
 )}`;
+
+/** Peak memory and CPU time of the Astro process. */
+export interface AstroUsage {
+  peakRssBytes: number;
+  cpuSeconds: number;
+}
 
 /**
  * Run `astro build` of the catalogue site in a child process, safe to run alongside other
  * builds; its output is kept and shown only when it fails.
- * @returns peak resident memory of the child, bytes (sampled)
+ * @returns peak memory and CPU time of the Astro process
  * @throws Error when Astro fails or the build is stopped
  */
-export async function runAstroBuild(run: AstroBuildOptions): Promise<number> {
+export async function runAstroBuild(run: AstroBuildOptions): Promise<AstroUsage> {
   const astro = join(PROJECT_ROOT, 'node_modules', 'astro', 'astro.js');
   const progress = createProgress({ label: 'site', total: run.pages, stream: run.progress, silent: !run.progress });
   // Astro writes its intermediate server chunks to `<cwd>/.astro/` when the output folder is
@@ -477,7 +508,8 @@ export async function runAstroBuild(run: AstroBuildOptions): Promise<number> {
   const cwd = join(ASTRO_RUNS, `${process.pid}-${++astroRuns}`);
   await rm(cwd, { recursive: true, force: true });
   await mkdir(cwd, { recursive: true });
-  const child = spawn(process.execPath, ['--import', ORPHAN_GUARD, astro, 'build', '--root', PROJECT_ROOT], {
+  const usageFile = join(cwd, 'usage.json');
+  const child = spawn(process.execPath, ['--import', ASTRO_PRELOAD, astro, 'build', '--root', PROJECT_ROOT], {
     cwd,
     env: {
       ...astroEnv(process.env),
@@ -485,6 +517,7 @@ export async function runAstroBuild(run: AstroBuildOptions): Promise<number> {
       MOTIONAL_BASE: run.basePath,
       MOTIONAL_SITE_OUT: run.siteDir,
       ...(run.pagesFile ? { [PAGES_ENV]: run.pagesFile } : {}),
+      MOTIONAL_USAGE_FILE: usageFile,
       ASTRO_TELEMETRY_DISABLED: '1',
       NO_COLOR: '1',
       FORCE_COLOR: '0',
@@ -523,6 +556,7 @@ export async function runAstroBuild(run: AstroBuildOptions): Promise<number> {
     child.on('close', (c, sig) => done(c ?? sig ?? 'unknown'));
   });
   clearInterval(timer);
+  const usage = await readFile(usageFile, 'utf8').then((t) => JSON.parse(t) as NodeJS.ResourceUsage).catch(() => undefined);
   await rm(cwd, { recursive: true, force: true });
   if (code !== 0) {
     progress.done('failed');
@@ -530,7 +564,10 @@ export async function runAstroBuild(run: AstroBuildOptions): Promise<number> {
     throw new BuildFailure(run.signal?.aborted ? 'build stopped' : `astro build failed (exit ${code})`);
   }
   progress.done();
-  return peak;
+  return {
+    peakRssBytes: usage ? Math.max(peak, usage.maxRSS * 1024) : peak,
+    cpuSeconds: usage ? (usage.userCPUTime + usage.systemCPUTime) / 1e6 : 0,
+  };
 }
 
 /** Parts whose page exists in the built site: `<site>/parts/<id>/index.html` (or `parts/<id>.html`). */
@@ -567,7 +604,7 @@ export function formatSummary(s: BuildSummary): string {
     ...(s.site ? [`site: ${s.site.mode === 'full' ? `all ${s.site.pagesRendered} part pages rendered` : `${s.site.pagesRendered} changed part pages rendered, ${s.site.partsRemoved} removed, the rest kept from the previous build`}`] : []),
     `time: ${stages}; total ${sec(s.stageMs.total)}`,
     `record work (thread time): fingerprint ${sec(s.recordMs.hash)}, load ${sec(s.recordMs.load)}, extract ${sec(s.recordMs.extract)}, page data ${sec(s.recordMs.data)}, write ${sec(s.recordMs.emit)}`,
-    `peak memory: build ${mb(s.peakRssBytes.build)}${s.peakRssBytes.site ? `, site ${mb(s.peakRssBytes.site)}` : ''}`,
+    `peak memory: build ${mb(s.peakRssBytes.build)}${s.peakRssBytes.site ? `, site ${mb(s.peakRssBytes.site)}` : ''}; CPU time: build ${s.cpuSeconds.build.toFixed(1)} s${s.cpuSeconds.site ? `, site ${s.cpuSeconds.site.toFixed(1)} s` : ''}`,
   ];
   if (s.exitCode === 0) lines.push(`built ${relative(process.cwd(), s.outDir) || '.'}`);
   else lines.push(`build failed: ${s.failure ?? 'unknown'}; ${relative(process.cwd(), s.outDir) || '.'} left unchanged`);

@@ -48,6 +48,8 @@ export interface C0Estimate {
   /** Which branch capacitances were fitted rather than held. */
   fitted: boolean[];
   sweeps: string[];
+  /** When not `ok` because the fit gave C0 ≤ 0: that value, F (e.g. an added capacitor larger than the shunt capacitance). */
+  nonPhysicalC0F?: number;
 }
 
 /** Options of {@link estimateC0}. */
@@ -168,6 +170,9 @@ export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options:
     mean /= count;
     u = Math.hypot(u, 0.01 * m.c1F * mean);
   });
-  if (!(c0F > 0) || !Number.isFinite(u)) return fail(`capacitive-region fit gave a non-physical C0 (${c0F})`, fs.length);
+  if (!(c0F > 0) || !Number.isFinite(u)) {
+    const failed = fail(`capacitive-region fit gave a non-physical C0 (${c0F})`, fs.length);
+    return Number.isFinite(c0F) ? { ...failed, nonPhysicalC0F: c0F } : failed;
+  }
   return { ok: true, reason: 'ok', c0F, uncertaintyF: u, points: fs.length, branchCF, fitted, sweeps: [...used] };
 }

@@ -98,6 +98,8 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     return empty(c0Est.ok ? c0Est.c0F : 0);
   }
   let c0Start = c0Est.ok ? c0Est.c0F : 0;
+  /** C0 the susceptance at resonance gave when it was not positive, F; c0Start is then only a guess for the fits. */
+  let c0NotPositive: number | undefined;
   if (!(c0Start > 0)) {
     // Circle centre: at fs the branch adds no susceptance, so B(fs) = ωC0 + other branches.
     const m = candidates[0];
@@ -105,7 +107,23 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     const i = m.best.resonance.peakIndex;
     const probe: BvdModel = { c0F: 0, branches: peaks.map((p) => p.branch) };
     c0Start = s.part.bS[i] / (2 * Math.PI * s.part.freqHz[i]) - otherBranchesCF(probe, 0, s.part.freqHz[i]);
-    if (!(c0Start > 0)) c0Start = 1e-12;
+    // The capacitor the record says was added is larger than all the shunt capacitance seen
+    // (the capacitive region, else the susceptance at resonance, gives C0 < 0 for the part alone):
+    // the record is wrong, and no C0 of the part alone can be given.
+    const negativeC0F = c0Est.nonPhysicalC0F ?? (Number.isFinite(c0Start) ? c0Start : undefined);
+    const loaded = c0Est.nonPhysicalC0F !== undefined ? split.reference.find((x) => x.loaded) : s.loaded ? s : undefined;
+    if (loaded && negativeC0F !== undefined && negativeC0F < 0) {
+      diagnostics.push({
+        code: 'other', severity: 'error', sweep: loaded.source,
+        message: `C0 of the part alone would be ${picofarads(negativeC0F)} pF after removing addedCapacitance ${picofarads(loaded.addedCF!)} pF of sweep ${loaded.source}; check addedCapacitance and addedConnection`,
+      });
+      return empty();
+    }
+    if (!(c0Start > 0)) {
+      // Only a start for the fits; never published (see "C0 of the part alone" below).
+      c0NotPositive = c0Start;
+      c0Start = 1e-12;
+    }
   }
   const initial: BvdModel = { c0F: c0Start, branches: peaks.map((p) => ({ ...p.branch })) };
   const refMethods: ReferenceMethods[] = timed(timing, 'load-shift', () => candidates.map((m, k) => referenceMethodsOf(m, k, initial, split.reference)));
@@ -193,6 +211,14 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     else if (c0Est.ok) c0 = { value: c0Est.c0F, uncertainty: c0Est.uncertaintyF, method: 'capacitive-region' };
     else {
       const withC0 = kept.map((k) => fits.perMode[k]).find((f) => f?.converged && f.parameterNames?.includes('lnC0F'));
+      if (!withC0 && c0NotPositive !== undefined) {
+        // The only C0 left would be the fits' start guess: publish no C0 and no modes.
+        diagnostics.push({
+          code: 'other', severity: 'error',
+          message: `sample ${sample.id}: no C0: the susceptance at resonance gives ${Number.isFinite(c0NotPositive) ? `${picofarads(c0NotPositive)} pF` : 'no value'} and no fit converged; sweep a wider span for the capacitive region, and check the fixture correction`,
+        });
+        return empty();
+      }
       c0 = withC0 ? { value: withC0.model.c0F, uncertainty: withC0.uncertainty.c0F, method: 'complex-fit' } : { value: c0Start, uncertainty: 0.1 * c0Start, method: 'conductance-peak' };
       if (!withC0) diagnostics.push({ code: 'other', severity: 'warning', message: `C0 only from the susceptance at resonance (${(c0Start * 1e12).toPrecision(4)} pF, ±10 %); sweep a wider span for the capacitive region` });
     }
@@ -301,4 +327,10 @@ function conditions(result: SampleResult, split: ReturnType<typeof referenceCond
       result.diagnostics.push({ code: 'drive-dependence', severity: 'warning', message: `R1 changes by a factor ${drive.resistanceRatio.toFixed(2)} over the drive levels measured (limit used ${DRIVE_RATIO_WARNING}); frequency moves ${drive.frequencyShiftPpm.toFixed(2)} ppm` });
     }
   }
+}
+
+/** A capacitance for messages, pF with a true minus sign: "−7.00". */
+function picofarads(f: number): string {
+  const v = f * 1e12;
+  return `${v < 0 ? '−' : ''}${Math.abs(v).toPrecision(3)}`;
 }

@@ -287,14 +287,18 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
   return { resonances, diagnostics, noiseRelative: noise };
 }
 
-/** What a sweep without a resonance shows: "capacitive only between 3.97 and 4.03 MHz". */
+/**
+ * What a sweep without a resonance shows, and what to do: "capacitive only between 3.97 and
+ * 4.03 MHz; sweep across the expected resonance, and check the fixture and the frequency unit".
+ */
 function describeFlat(sweep: AdmittanceSweep): string {
   const { freqHz: f, bS: b } = sweep;
   const n = f.length;
   const range = formatFrequencyRange(f[0], f[n - 1]);
   let pos = 0;
   for (let i = 0; i < n; i++) if (b[i] > 0) pos++;
-  if (pos === n) return `capacitive only between ${range}`;
-  if (pos === 0) return `inductive only between ${range}`;
-  return `no conductance peak above the noise between ${range}`;
+  const advice = 'sweep across the expected resonance, and check the fixture and the frequency unit';
+  if (pos === n) return `capacitive only between ${range}; ${advice}`;
+  if (pos === 0) return `inductive only between ${range}; ${advice}`;
+  return `no conductance peak above the noise between ${range}; sweep across the expected resonance, or average to reduce the noise`;
 }

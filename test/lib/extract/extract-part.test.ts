@@ -251,8 +251,23 @@ describe('extractPart diagnostics', () => {
     const result = extractPart(part, inputs);
     const s = result.samples[0];
     expect(s.modes).toEqual([]);
-    expect(s.warnings).toContain('sweep a1.s1p: no resonance: capacitive only between 3.97 and 4.03 MHz');
+    expect(s.warnings).toContain('sweep a1.s1p: no resonance: capacitive only between 3.97 and 4.03 MHz; sweep across the expected resonance, and check the fixture and the frequency unit');
     expect(s.diagnostics.filter((d) => d.severity === 'error').map((d) => d.code)).toEqual(['no-resonance', 'no-resonance']);
+    expect(allFinite(result)).toBe(true);
+  });
+
+  it('refuses an addedCapacitance larger than the whole shunt capacitance: an error, no C0 and no modes', () => {
+    // X1 (FIELD.md §0, IEEE 177 model) measured alone, the record claiming 10 pF added in
+    // parallel: the part alone would have C0 = 3 − 10 = −7 pF (FIELD.md §2a: parallel C adds)
+    const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS_X1, r1Ohm: 20, c1F: 10e-15 }] };
+    const { part, inputs } = syntheticPart(model, [{ file: 'x1.s1p', freqHz: linGrid(0.9995 * FS_X1, 1.0025 * FS_X1, 2001) }], { noiseDb: -80, seed: 6 });
+    inputs[0].ref.addedCapacitance = 10e-12;
+    inputs[0].ref.addedConnection = 'parallel';
+    const result = extractPart(part, inputs);
+    const s = result.samples[0];
+    expect(s.modes).toEqual([]);
+    expect(s.c0F).toBe(0);
+    expect(s.warnings).toContain('C0 of the part alone would be −7.00 pF after removing addedCapacitance 10.0 pF of sweep x1.s1p; check addedCapacitance and addedConnection');
     expect(allFinite(result)).toBe(true);
   });
 

@@ -133,7 +133,7 @@ describe('findResonances', () => {
     const part: BvdModel = { c0F: 5e-12, branches: [{ fsHz: 4.2e6, r1Ohm: 50, c1F: 20e-15 }] };
     const r = find(part, linGrid(3.97e6, 4.03e6, 801), -70, 1, 'a1-narrow.s1p');
     expect(r.resonances).toEqual([]);
-    expect(r.diagnostics).toEqual([{ code: 'no-resonance', severity: 'error', sweep: 'a1-narrow.s1p', message: 'sweep a1-narrow.s1p: no resonance: capacitive only between 3.97 and 4.03 MHz' }]);
+    expect(r.diagnostics).toEqual([{ code: 'no-resonance', severity: 'error', sweep: 'a1-narrow.s1p', message: 'sweep a1-narrow.s1p: no resonance: capacitive only between 3.97 and 4.03 MHz; sweep across the expected resonance, and check the fixture and the frequency unit' }]);
   });
 
   it('says "inductive only" between the resonance and the anti-resonance', () => {
@@ -141,7 +141,7 @@ describe('findResonances', () => {
     // The conductance still rises toward fs at the lower edge: that is said too.
     expect(r.diagnostics.map((d) => d.message)).toEqual([
       'sweep x.s1p: conductance rises to the sweep edge at 15.92049 MHz; a resonance may lie just outside — widen the span',
-      'sweep x.s1p: no resonance: inductive only between 15.92 and 15.94 MHz',
+      'sweep x.s1p: no resonance: inductive only between 15.92 and 15.94 MHz; sweep across the expected resonance, and check the fixture and the frequency unit',
     ]);
   });
 
