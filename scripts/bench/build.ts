@@ -58,6 +58,8 @@ export interface BuildRun {
   site: { mode: string; pagesRendered: number };
   cacheHits: number;
   cacheMisses: number;
+  /** CPU seconds: build process (all threads) and Astro process (less affected by other load than wall time). */
+  cpuSeconds: { build: number; site: number };
   /** Peak resident memory, MB: build process (all threads), Astro process, and their sum. */
   peakRssMB: { build: number; site: number; sum: number };
   modes: number;
@@ -116,6 +118,7 @@ async function measuredBuild(content: string, out: string, cache: string, summar
     site: { mode: s.site?.mode ?? 'none', pagesRendered: s.site?.pagesRendered ?? 0 },
     cacheHits: s.cache.hits,
     cacheMisses: s.cache.misses,
+    cpuSeconds: { build: s.cpuSeconds.build, site: s.cpuSeconds.site },
     peakRssMB: { build: s.peakRssBytes.build / MB, site: s.peakRssBytes.site / MB, sum: (s.peakRssBytes.build + s.peakRssBytes.site) / MB },
     modes: s.modes,
     warnings: s.warnings,
@@ -246,8 +249,8 @@ export function formatBenchBuild(r: BenchBuildResult): string {
   const head = 'parts       cold  per part      warm  warm/cold  peak (build+site)  bare Astro  ratio';
   const fmt = (o: Record<string, number>) => Object.entries(o).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ');
   const stages = r.sizes.flatMap((s) => [
-    `  ${s.parts} parts cold: ${fmt(s.cold.stages)}; thread time ${fmt(s.cold.threadSeconds)}; site ${s.cold.site.mode}`,
-    `  ${s.parts} parts warm: ${fmt(s.warm.stages)}; ${s.warm.cacheMisses} re-extracted; site ${s.warm.site.mode} (${s.warm.site.pagesRendered} part pages rendered)`,
+    `  ${s.parts} parts cold: ${fmt(s.cold.stages)}; task time ${fmt(s.cold.threadSeconds)}; CPU ${fmt(s.cold.cpuSeconds)}; site ${s.cold.site.mode}`,
+    `  ${s.parts} parts warm: ${fmt(s.warm.stages)}; CPU ${fmt(s.warm.cpuSeconds)}; ${s.warm.cacheMisses} re-extracted; site ${s.warm.site.mode} (${s.warm.site.pagesRendered} part pages rendered)`,
   ]);
   const t = r.targets;
   const yes = (b: boolean | undefined) => (b === undefined ? 'not measured' : b ? 'met' : 'MISSED');

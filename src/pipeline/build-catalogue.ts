@@ -108,7 +108,11 @@ export interface BuildSummary {
   threads: number;
   /** Wall time per stage and in all, ms. */
   stageMs: Partial<Record<BuildStage, number>> & { total: number };
-  /** Thread time summed over records, ms: fingerprint + cache, load + validate, extract, page data, writing. */
+  /**
+   * Time per step summed over records, ms: fingerprint + cache, load + validate, extract, page
+   * data, writing. Tasks in one thread overlap (one computes while another waits for the
+   * disk), so these add up to more than the wall time; see cpuSeconds for the real cost.
+   */
   recordMs: { hash: number; load: number; extract: number; data: number; emit: number };
   /** How the site was rendered: every page, or only the changed parts' pages over the previous site. */
   site?: { mode: 'full' | 'partial'; pagesRendered: number; partsRemoved: number };
@@ -603,7 +607,7 @@ export function formatSummary(s: BuildSummary): string {
     `cache: ${s.cache.enabled ? `${s.cache.hits} hits, ${s.cache.misses} misses` : 'off'}; worker threads: ${s.threads}`,
     ...(s.site ? [`site: ${s.site.mode === 'full' ? `all ${s.site.pagesRendered} part pages rendered` : `${s.site.pagesRendered} changed part pages rendered, ${s.site.partsRemoved} removed, the rest kept from the previous build`}`] : []),
     `time: ${stages}; total ${sec(s.stageMs.total)}`,
-    `record work (thread time): fingerprint ${sec(s.recordMs.hash)}, load ${sec(s.recordMs.load)}, extract ${sec(s.recordMs.extract)}, page data ${sec(s.recordMs.data)}, write ${sec(s.recordMs.emit)}`,
+    `record steps (summed over records; tasks overlap): fingerprint ${sec(s.recordMs.hash)}, load ${sec(s.recordMs.load)}, extract ${sec(s.recordMs.extract)}, page data ${sec(s.recordMs.data)}, write ${sec(s.recordMs.emit)}`,
     `peak memory: build ${mb(s.peakRssBytes.build)}${s.peakRssBytes.site ? `, site ${mb(s.peakRssBytes.site)}` : ''}; CPU time: build ${s.cpuSeconds.build.toFixed(1)} s${s.cpuSeconds.site ? `, site ${s.cpuSeconds.site.toFixed(1)} s` : ''}`,
   ];
   if (s.exitCode === 0) lines.push(`built ${relative(process.cwd(), s.outDir) || '.'}`);
