@@ -1,6 +1,7 @@
 /**
  * `npm run bench`: run every benchmark module in scripts/bench/ (each exports a function whose
- * name starts with `bench`), print a readable report and write bench-results.json.
+ * name starts with `bench`; an optional `format<Name>(result)` export gives its report text),
+ * print a readable report and write bench-results.json.
  *
  * Options:
  *   --quick        small sizes only (each module receives { quick: true })
@@ -88,7 +89,10 @@ async function main(): Promise<number> {
         const result = await (fn as (o: { quick: boolean }) => Promise<unknown>)({ quick: opts.quick });
         const seconds = (performance.now() - t0) / 1000;
         records.push({ module: name, fn: fnName, ok: true, seconds, result });
-        process.stdout.write(`\n${name}.${fnName} (${seconds.toFixed(1)} s):${formatValue(result, '')}\n`);
+        // a module may export its own report: format<FunctionName>(result) → text
+        const formatter = mod[`format${fnName[0].toUpperCase()}${fnName.slice(1)}`];
+        const text = typeof formatter === 'function' ? `\n${String((formatter as (r: unknown) => string)(result))}` : formatValue(result, '');
+        process.stdout.write(`\n${name}.${fnName} (${seconds.toFixed(1)} s):${text}\n`);
       } catch (err) {
         const seconds = (performance.now() - t0) / 1000;
         records.push({ module: name, fn: fnName, ok: false, seconds, error: (err as Error).stack ?? String(err) });
