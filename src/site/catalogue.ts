@@ -39,3 +39,15 @@ export function siteBase(): string {
   const withLead = b.startsWith('/') ? b : `/${b}`;
   return withLead.endsWith('/') ? withLead : `${withLead}/`;
 }
+
+/**
+ * Ids of the part pages to render. The build sets MOTIONAL_PAGES to a JSON file listing only the
+ * parts whose data changed (an incremental rebuild keeps the other pages from the previous site);
+ * otherwise every part. Rule that makes this safe: a part page depends only on its own data, the
+ * base path and the site code.
+ */
+export function partPageIds(): string[] {
+  const file = process.env.MOTIONAL_PAGES;
+  if (file) return JSON.parse(readFileSync(file, 'utf8')) as string[];
+  return readIndex().map((e) => e.id);
+}
