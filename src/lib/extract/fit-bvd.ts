@@ -187,7 +187,7 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
   };
   let j = 0;
   for (const s of sweeps) {
-    const cPar = s.addedCapacitanceF !== undefined && s.addedConnection === 'parallel' ? s.addedCapacitanceF : 0;
+    const addedParallelF = s.addedCapacitanceF !== undefined && s.addedConnection === 'parallel' ? s.addedCapacitanceF : 0;
     const cSer = s.addedCapacitanceF !== undefined && s.addedConnection === 'series' ? s.addedCapacitanceF : 0;
     const weight = s.weight ?? 1;
     const { freqHz, zRe, zIm } = s;
@@ -197,7 +197,7 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
       p.zRe[j] = zRe[i];
       p.zIm[j] = zIm[i];
       p.weight[j] = weight;
-      p.parallelCapF[j] = cPar;
+      p.parallelCapF[j] = addedParallelF;
       p.seriesCapF[j] = cSer;
       j++;
     }

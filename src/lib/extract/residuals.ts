@@ -149,7 +149,7 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
   const rsStart = initial.rsOhm ?? 0;
   const lsStart = initial.lsH ?? 0;
   const cpF = initial.cpF ?? 0;
-  const cPar = points.parallelCapF;
+  const addedParallelF = points.parallelCapF;
   const cSer = points.seriesCapF;
   const weight = points.weight;
   const fixed = initial.branches.filter((_, k) => !isFree[k]);
@@ -163,7 +163,7 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     omega[i] = om;
     invF[i] = 1 / f;
     let gRe = 0;
-    let bIm = om * (c0Fixed + cpF + cPar[i]);
+    let bIm = om * (c0Fixed + cpF + addedParallelF[i]);
     for (const br of fixed) {
       const x = ((f - br.fsHz) * (f + br.fsHz)) / (2 * Math.PI * f * br.fsHz * br.fsHz * br.c1F);
       const den = br.r1Ohm * br.r1Ohm + x * x;
