@@ -11,6 +11,7 @@
 import { pathToFileURL } from 'node:url';
 import { fitBvd, type FitSweep } from '../../src/lib/extract/fit-bvd.ts';
 import { admittanceAt, type BvdModel } from '../../src/lib/models/bvd.ts';
+import { createRng } from '../../src/lib/synth/rng.ts';
 
 /** Timing of one case, ms. */
 export interface BenchFitCase {
@@ -34,17 +35,10 @@ const RUNS = 60;
 
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: 1e8 / (2 * Math.PI), r1Ohm: 20, c1F: 10e-15 }] };
 
-/** mulberry32 + Box–Muller, seeded (kept local: scripts do not import test support). */
+/** Seeded standard normal deviates from the generator the synthetic sweeps use. */
 function normal(seed: number): () => number {
-  let a = seed >>> 0;
-  const uniform = (): number => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
+  const rng = createRng(seed);
+  return () => rng.gaussian();
 }
 
 function sweep(lo: number, hi: number, n: number, seed: number, parallelCapF = 0): FitSweep {

@@ -17,6 +17,7 @@ import { formatParametersCsv, formatParametersJson, type ExportSample } from '..
 import type { Part } from '../../src/lib/schema/part.ts';
 import { parseQuantity } from '../../src/lib/units/si.ts';
 import { netlistInfoOf } from '../../src/lib/models/netlist-info.ts';
+import { inductanceOf, qualityOf } from '../../src/lib/models/bvd.ts';
 import { loadPart } from '../../src/pipeline/load-part.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
 
@@ -102,10 +103,10 @@ function medianExport(chosen: ChosenModel): ExportSample {
   return {
     sample: 'lot-median',
     c0F: model.c0F,
-    modes: model.branches.map((b, i) => {
-      const l1H = 1 / ((2 * Math.PI * b.fsHz) ** 2 * b.c1F);
-      return { overtone: labels[i].overtone, spurious: labels[i].spurious, fsHz: b.fsHz, r1Ohm: b.r1Ohm, c1F: b.c1F, l1H, q: (2 * Math.PI * b.fsHz * l1H) / b.r1Ohm };
-    }),
+    modes: model.branches.map((b, i) => ({
+      overtone: labels[i].overtone, spurious: labels[i].spurious, fsHz: b.fsHz, r1Ohm: b.r1Ohm, c1F: b.c1F,
+      l1H: inductanceOf(b), q: qualityOf(b),
+    })),
   };
 }
 

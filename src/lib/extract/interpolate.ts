@@ -5,16 +5,25 @@
  */
 
 /**
- * x where the quadratic through (xs[k], ys[k]), k = 0..2, equals `target`, restricted to
- * [a, b] (either order); undefined when no root lies there.
+ * Newton form of the quadratic through three points, in coordinates local to x0:
+ * y = y0 + d1·u + d2·u·(u − u1), u = x − x0.
  */
-export function quadraticCrossing(xs: readonly number[], ys: readonly number[], target: number, a: number, b: number): number | undefined {
+function newtonQuadratic(xs: readonly number[], ys: readonly number[]): { x0: number; y0: number; u1: number; d1: number; d2: number } {
   const [x0, x1, x2] = xs;
   const [y0, y1, y2] = ys;
   const u1 = x1 - x0;
   const u2 = x2 - x0;
   const d1 = (y1 - y0) / u1;
   const d2 = ((y2 - y1) / (u2 - u1) - d1) / u2;
+  return { x0, y0, u1, d1, d2 };
+}
+
+/**
+ * x where the quadratic through (xs[k], ys[k]), k = 0..2, equals `target`, restricted to
+ * [a, b] (either order); undefined when no root lies there.
+ */
+export function quadraticCrossing(xs: readonly number[], ys: readonly number[], target: number, a: number, b: number): number | undefined {
+  const { x0, y0, u1, d1, d2 } = newtonQuadratic(xs, ys);
   // y = y0 + d1·u + d2·u·(u − u1) = A·u² + B·u + C + target
   const A = d2;
   const B = d1 - d2 * u1;
@@ -63,12 +72,7 @@ export function crossingBetween(x: ArrayLike<number>, y: ArrayLike<number>, i: n
 
 /** Vertex of the parabola through three points (x of the extremum), or undefined if degenerate. */
 export function parabolaVertex(xs: readonly number[], ys: readonly number[]): { x: number; y: number } | undefined {
-  const [x0, x1, x2] = xs;
-  const [y0, y1, y2] = ys;
-  const u1 = x1 - x0;
-  const u2 = x2 - x0;
-  const d1 = (y1 - y0) / u1;
-  const d2 = ((y2 - y1) / (u2 - u1) - d1) / u2;
+  const { x0, y0, u1, d1, d2 } = newtonQuadratic(xs, ys);
   if (!(d2 !== 0) || !Number.isFinite(d2)) return undefined;
   const uv = (d2 * u1 - d1) / (2 * d2);
   const yv = y0 + d1 * uv + d2 * uv * (uv - u1);
