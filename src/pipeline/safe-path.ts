@@ -1,6 +1,7 @@
 /**
- * Path safety for the files a part record names (CONTRACT §1: a record may only reference
- * files inside its own folder — no absolute paths, no `..`, no links that leave the folder).
+ * Path safety for the files a part record names (README: The part record, and Limits and
+ * robustness: a record may only reference files inside its own folder — no absolute paths, no
+ * `..`, no links that leave the folder).
  *
  * Two stages: {@link checkPartFileName} looks at the name alone (pure, no file access), then
  * {@link resolveInPartFolder} opens nothing but asks the FileSource where the name really leads.

@@ -83,7 +83,7 @@ export interface PartView {
   recordWarnings: string[];
 }
 
-/** The cautions every part page shows (FIELD.md §10). */
+/** The cautions every part page shows (as in README: Cautions). */
 export const PART_CAUTIONS: readonly string[] = [
   'The parameters describe one sample at one drive level, temperature and fixture. They are not a specification and do not replace the crystal maker’s data or the qualification of the part.',
   'Never use a circuit that exceeds the maker’s maximum drive level. Drive estimates state their assumptions (R1 or RL, voltage across the crystal or at a pin). Tuning forks and small SMD blanks are damaged by µW-level overdrive; units with drive-level dependence may not start at low drive.',

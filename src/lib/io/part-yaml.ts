@@ -1,7 +1,8 @@
 /**
  * Part record reader: `part.yaml` text in, a validated {@link Part} plus located issues out
- * (CONTRACT §1). Every issue carries the file, 1-based line and column, and the field path in
- * dot/bracket form (`samples[0].sweeps[1].file`); all issues are collected, not just the first.
+ * (README: The part record). Every issue carries the file, 1-based line and column, and the
+ * field path in dot/bracket form (`samples[0].sweeps[1].file`); all issues are collected, not
+ * just the first.
  *
  * Order of work:
  * 1. text checks: empty, size ({@link MAX_PART_YAML_BYTES}), binary, CR-only line endings,

@@ -1,5 +1,5 @@
 /**
- * CSV/TSV impedance sweeps (CONTRACT.md §1, "Sweep files").
+ * CSV/TSV impedance sweeps (README: The part record, "Sweep files").
  *
  * - Blank lines and lines starting with `#` or `!` are comments. The first other line is the
  *   header; its delimiter (`,`, `;` or tab, whichever occurs most outside quotes) is used for

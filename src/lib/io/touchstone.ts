@@ -1,6 +1,6 @@
 /**
  * Touchstone reader and writer (Touchstone File Format Specification v1.1 and v2.0, IBIS Open
- * Forum; FIELD.md §9). One- and two-port S, Z and Y data in RI, MA or DB format.
+ * Forum). One- and two-port S, Z and Y data in RI, MA or DB format.
  *
  * Reading rules (all keywords, units and options case-insensitive):
  * - `!` starts a comment anywhere; full-line comments are kept in `NetworkData.comments`.
@@ -424,7 +424,7 @@ class TouchstoneReader {
     else this.pairTargets = [[0], [2], [1], [3]];
     this.perPoint = 1 + 2 * this.pairTargets.length;
     const { parameter, refOhm, format } = this.options;
-    // v1 Z and Y data are normalised to R (FIELD.md §9)
+    // v1 Z and Y data are normalised to R (Touchstone v1.1; from memory, checked against two public readers)
     this.scaleRe = this.version === 1 ? (parameter === 'Z' ? refOhm : parameter === 'Y' ? 1 / refOhm : 1) : 1;
     const tri = P === 2 && this.matrixFormat !== 'full' ? `, ${this.matrixFormat} triangle` : '';
     this.describe = `${P}-port ${format}${tri}`;

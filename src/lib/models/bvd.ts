@@ -3,7 +3,7 @@
  *
  *   Y(f) = jωC0 + Σk 1/(Rk + jXk),   Xk = ωLk − 1/(ωCk),   Z = 1/Y
  *
- * (IEEE 177 / IEC 60444-5 multi-resonance equivalent circuit; FIELD.md §1.1.)
+ * (IEEE Std 177 / IEC 60444-5 multi-resonance equivalent circuit.)
  * Branches add in admittance. Near a mode the naive Xk loses about log10(Q) digits to
  * cancellation, so Xk is evaluated as Lk(ω − ωk)(ω + ωk)/ω with ω − ωk from the frequency offset.
  * Optional fixture parasitics: Rs and Ls in series with the whole, Cp across C0.

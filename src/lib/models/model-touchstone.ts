@@ -1,7 +1,7 @@
 /**
  * The fitted model as a one-port Touchstone v1 file (`.s1p`, option line `# Hz S RI R 50`):
- * S11 = (Z − Z0)/(Z + Z0) of the part alone (FIELD.md §3.2, §9), frequencies and values with
- * 17 significant digits (a double round-trips exactly), `!` comments for part, sample,
+ * S11 = (Z − Z0)/(Z + Z0) of the part alone (Touchstone v1.1, IBIS Open Forum), frequencies and
+ * values with 17 significant digits (a double round-trips exactly), `!` comments for part, sample,
  * conditions and the caution that it is a model of measured data. Returns a string.
  */
 import { impedanceAt, type BvdModel } from './bvd.ts';

@@ -1,6 +1,6 @@
 /**
  * SPICE subcircuit of a measured part: C0 between the two pins and one series R-L-C branch per
- * mode (IEEE 177 / IEC 60444-5 multi-resonance equivalent circuit; FIELD.md §1.1, §4.7).
+ * mode (IEEE Std 177 / IEC 60444-5 multi-resonance equivalent circuit).
  *
  * - Plain R, L, C elements any SPICE reads; values in plain exponent form with 15 significant
  *   digits by default (1.00000000000000e-14) — never SPICE suffixes, where M means milli.
@@ -8,7 +8,7 @@
  *   cannot leave its `*` line; the subcircuit name is reduced to [A-Za-z0-9_].
  * - The header says what the model is: part, sample, conditions, date, how it was extracted,
  *   that it is measured data, that it is narrow-band and linear, its valid span and the cautions
- *   of FIELD.md §10. The date is passed in (the sample's measurement date), never read from a clock.
+ *   of README: Cautions. The date is passed in (the sample's measurement date), never read from a clock.
  * - The writer returns a string and never writes a file.
  */
 import { inductanceOf, qualityOf, type BvdModel } from './bvd.ts';
@@ -165,9 +165,13 @@ export function formatNetlist(model: BvdModel, info: NetlistInfo, options: Forma
   return `${lines.join('\n')}\n`;
 }
 
-/** AT-cut coupling k = 8.8 % (Vig tutorial) gives the ideal-plate minimum r = n²π²/(8k²) (FIELD.md §1.4). */
+/**
+ * AT-cut coupling k = 8.8 % (J. R. Vig, "Quartz Crystal Resonators and Oscillators for Frequency
+ * Control and Timing Applications — A Tutorial") gives the ideal-plate minimum r = n²π²/(8k²), from
+ * C1n = 8k²C0/(nπ)² (QCM review, Sensors 21(10):3490, 2021).
+ */
 const AT_COUPLING = 0.088;
-/** AT-cut Q·f above this is implausible (FIELD.md §1.4, from memory). */
+/** AT-cut Q·f above this is implausible (from memory). */
 const AT_MAX_QF_HZ = 1.6e13;
 
 function plausibilityWarnings(model: BvdModel, chosen: number[], info: NetlistInfo): string[] {

@@ -8,7 +8,8 @@
  *   frequency in ppm against ± tolerance; margin = tolerance − |offset|, ppm. The tolerance holds
  *   at 25 °C: a sample measured elsewhere is compared all the same, with a note.
  * - ESR: the resistance at fr (Rr) when the extraction reports it — what a datasheet ESR usually
- *   means — else R1 (for M > 50 the two agree within 0.04 %; FIELD.md §2(b)). Margin in % of the limit.
+ *   means (from memory) — else R1 (for M > 50 the two agree within 0.04 %, IEEE Std 177 figure of
+ *   merit M; derived from the BVD model). Margin in % of the limit.
  * - C0: the part's shunt capacitance against c0Max; margin in % of the limit.
  * - Overtone: the physical order of the mode nearest the datasheet frequency against the
  *   datasheet overtone.

@@ -1,5 +1,5 @@
 /**
- * Crystal drive level in an oscillator, FIELD.md §4.6 (forms derived from the BVD model).
+ * Crystal drive level in an oscillator (forms derived from the BVD model).
  *
  *   P = R1·Im,rms²,  Im = ω(C0 + CL)·Vx   ⇒   P = R1·(ω(C0 + CL)·Vpp/2)²/2      (motional current)
  *   P = RL·(ωCL·Vx,pk)²/2                                                     (terminal current)

@@ -3,7 +3,7 @@
  *
  * The tables are hard-coded: they are not round(10^(i/n), 1) — E24 departs from that formula
  * at 2.7 3.0 3.3 3.6 3.9 4.3 4.7 8.2, E12 at 2.7 3.3 3.9 4.7 8.2, E6 at 3.3 4.7 (historical
- * rounding; FIELD.md §8).
+ * rounding; IEC 60063:2015).
  *
  * Nearest value: write x = m·10^d with 1 ≤ m < 10; the candidates are series·10^d plus
  * 1.0·10^(d+1) (decade wrap); the winner minimises |ln(x/v)|, so the boundaries between two

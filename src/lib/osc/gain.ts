@@ -1,6 +1,7 @@
 /**
- * Small-signal start-up numbers of a Pierce oscillator (FIELD.md §4.4, §4.5; derived from the
- * BVD model, matching the critical-gm analysis of Vittoz, Degrauwe & Bitz 1988):
+ * Small-signal start-up numbers of a Pierce oscillator (derived from the BVD model, matching the
+ * critical-gm analysis of E. A. Vittoz, M. G. R. Degrauwe, S. Bitz, "High-performance crystal
+ * oscillator circuits: theory and application", IEEE J. Solid-State Circuits, 1988):
  *
  *   gm,crit = ω²R1·CaCb·(1 + C0/Cs)²,  Cs = CaCb/(Ca + Cb)
  *   (equal capacitors, CL = Cs: gm,crit = 4R1ω²(C0 + CL)²; unequal ones raise it by (Ca + Cb)²/(4CaCb))

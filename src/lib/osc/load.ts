@@ -1,7 +1,7 @@
 /**
  * Load behaviour of a crystal: load-resonance frequency, pulling, trim sensitivity, the load
  * capacitance that hits a target frequency, and the load-resonance resistance.
- * FIELD.md §2(d), §4.1, §4.3 (IEC 60444-11 terms fL, CL; forms derived from the BVD model).
+ * (IEC 60444-11 terms fL, CL; forms derived from the BVD model.)
  *
  * Exact lossless forms (R1 = 0), main branch only:
  *   fL = fs·√(1 + C1/(C0 + CL))                      DL = fL/fs − 1
@@ -60,7 +60,7 @@ export function trimSensitivityPpmPerPf(branch: MotionalBranch, c0F: number, clF
   return { exact: exact * PPM * PER_PF, approx: approx * PPM * PER_PF };
 }
 
-/** Load-resonance resistance RL = R1(1 + C0/CL)², Ω (FIELD.md §4.3). */
+/** Load-resonance resistance RL = R1(1 + C0/CL)², Ω (derived from the BVD model). */
 export function loadResistanceOhm(r1Ohm: number, c0F: number, clF: number): number {
   const k = 1 + c0F / clF;
   return r1Ohm * k * k;

@@ -3,7 +3,8 @@
  * preferred values, the frequency offset they leave, its band over tolerances, the gain margin,
  * the negative resistance and the drive level — each with a pass/warn verdict and its reason.
  *
- * Load network (FIELD.md §4.2): Ca = Cext,in + Cin + Cboard, Cb = Cext,out + Cout + Cboard
+ * Load network (the usual Pierce load formula, from memory; derived from the circuit):
+ * Ca = Cext,in + Cin + Cboard, Cb = Cext,out + Cout + Cboard
  * (all to ground), CL = CaCb/(Ca + Cb) + Cpin-pin. The crystal's own C0 is not part of CL.
  *
  * Target: the datasheet nominal frequency when given; otherwise the part's own lossless load
@@ -116,7 +117,7 @@ export type PierceAdvice = {
 
 const PPM = 1e6;
 
-/** Cautions shown with every advice (FIELD.md §10). */
+/** Cautions shown with every advice (as in README: Cautions). */
 export const PIERCE_CAUTIONS: readonly string[] = [
   'load-capacitor advice depends on stray capacitance that only a board measurement settles; confirm frequency, start-up and negative-resistance margin on the real board over temperature and supply',
   'gm and negative-resistance margins are small-signal; oscillator ICs vary with process, voltage and temperature — use the IC maker\'s limits (maximum ESR, gm,crit) where given',

@@ -1,5 +1,5 @@
 /**
- * The part record (`part.yaml`, CONTRACT §1) as a zod 4 schema.
+ * The part record (`part.yaml`, README: The part record) as a zod 4 schema.
  *
  * Keys are exactly the record's keys. Quantities are written as strings with units in the
  * record (`12 MHz`) and come out of the schema as numbers in SI base units:
@@ -35,7 +35,7 @@ function temperatureRange() {
   });
 }
 
-/** Letters, digits, '.', '_', '-' (CONTRACT §1). */
+/** Letters, digits, '.', '_', '-' (README: The part record). */
 const ID = /^[A-Za-z0-9._-]+$/;
 const idString = (what: string) =>
   z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(
