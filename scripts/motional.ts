@@ -1,5 +1,5 @@
 /**
- * The `motional` command line (CONTRACT §2): `npm run -s motional -- <command> ...`.
+ * The `motional` command line (README: Commands): `npm run -s motional -- <command> ...`.
  *
  * A thin dispatcher: each command lives in scripts/cli/<command>.ts and exports
  * `run(args, io?): Promise<number>`, the exit status. Commands are imported only when used,

@@ -80,7 +80,7 @@ const points = Number(values.points ?? 801);
 if (!Number.isInteger(points) || points < 2) fail(`--points: expected a whole number ≥ 2, got "${values.points}"`);
 
 const first = model.branches[0];
-const bandwidthHz = first.fsHz * 2 * Math.PI * first.fsHz * first.r1Ohm * first.c1F; // fs/Q (FIELD.md §3.3)
+const bandwidthHz = first.fsHz * 2 * Math.PI * first.fsHz * first.r1Ohm * first.c1F; // fs/Q, the half-power bandwidth of the BVD model
 const start = quantity(values.start, 'frequency', 'Hz', 'start');
 const stop = quantity(values.stop, 'frequency', 'Hz', 'stop');
 let grid: FreqGridSpec;

@@ -1,5 +1,5 @@
 /**
- * Benchmark of fitBvd: a 1,601-point sweep of an X1-like crystal (FIELD.md §0: 16 MHz-class AT
+ * Benchmark of fitBvd: a 1,601-point sweep of an X1-like crystal (synthetic: 16 MHz-class AT
  * fundamental, L1 10 mH, C1 10 fF, R1 20 Ω, C0 3 pF) with −60 dB seeded complex noise, fitted
  * from a start as close-form estimates would give it (fs 1 ppm, R1 5 %, C1 1 %, C0 1 % off) and
  * from a poor start (fs 20 ppm, R1 30 %, C1 20 %, C0 5 % off). Also times a joint fit of a

@@ -27,7 +27,7 @@ export interface BenchReadTouchstoneResult {
 const POINTS = 200_000;
 const RUNS = 5;
 
-/** Synthetic two-port S data of a BVD crystal (X1 of FIELD.md §0) between two 50 ohm ports. */
+/** Synthetic two-port S data of a BVD crystal (the invented reference crystal X1, values below) between two 50 ohm ports. */
 function synthesise(points: number): NetworkData {
   const freqHz = new Float64Array(points);
   const re = [0, 1, 2, 3].map(() => new Float64Array(points));

@@ -1,6 +1,6 @@
 /**
  * `motional build [--content DIR] [--out DIR] [--base PATH] [--jobs N] [--no-cache]`
- * (CONTRACT §2): validate every record, extract, emit the catalogue data and build the site
+ * (README: Commands): validate every record, extract, emit the catalogue data and build the site
  * into DIR, replacing it atomically. Problems go to stderr as `FILE:LINE: message`, the summary
  * to stdout. Exit 0 built, 1 any invalid record or a failed build (DIR untouched), 2 usage.
  */

@@ -1,5 +1,5 @@
 /**
- * `motional check PATH...` (CONTRACT §2): validate part records and every file they name.
+ * `motional check PATH...` (README: Commands): validate part records and every file they name.
  * Prints each issue as `FILE:LINE: message` on stderr (warnings marked `warning:`), then a
  * one-line summary on stdout. Exit 0 when there is no error (warnings allowed), 1 when there
  * is any error, 2 on a usage error.

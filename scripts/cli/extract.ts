@@ -1,9 +1,11 @@
 /**
- * `motional extract PART [--json] [--sample ID]` (CONTRACT §2, §3).
+ * `motional extract PART [--json] [--sample ID]` (README: Commands).
  *
- * Loads the part record and its sweeps, extracts every sample and prints either the JSON of
- * CONTRACT §3 (SI base units, every key named there plus the engine's extra fields) or a
- * readable table. Problems with the input are printed as `FILE:LINE: message` on stderr.
+ * Loads the part record and its sweeps, extracts every sample and prints either the fixed
+ * extract JSON (SI base units: `part`, `samples[].sample`, `c0F`, `modes[]` with `overtone`,
+ * `spurious`, `fsHz`, `fpHz`, `r1Ohm`, `l1H`, `c1F`, `q`, `uncertainty`, and `warnings`, plus
+ * the engine's extra fields) or a readable table. Problems with the input are printed as
+ * `FILE:LINE: message` on stderr.
  * Exit: 0 done (warnings allowed), 1 bad input (invalid record, or no mode could be
  * extracted from any sample), 2 usage.
  */

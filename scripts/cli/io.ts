@@ -18,7 +18,7 @@ export const processIo: CliIo = {
 /** A command's entry point: arguments after the command name in, exit status out. */
 export type RunCommand = (args: string[], io?: CliIo) => Promise<number>;
 
-/** Exit statuses shared by the commands (CONTRACT §2). */
+/** Exit statuses shared by the commands (README: Commands). */
 export const EXIT_OK = 0;
 export const EXIT_BAD_INPUT = 1;
 export const EXIT_USAGE = 2;

@@ -3,7 +3,7 @@
  *                        [--format spice|touchstone|csv|json] [--start F --stop F --points N]`
  *
  * Prints the SPICE subcircuit of one sample of a part (the first unless --sample) on stdout
- * (CONTRACT §2), or the lot's median part, or — with --format — the model as a Touchstone
+ * (README: Commands), or the lot's median part, or — with --format — the model as a Touchstone
  * `.s1p`, or the parameters as CSV / JSON. Exit: 0 done, 1 bad input, 2 usage.
  * The header's date is the sample's `measured` date (never the clock).
  */

@@ -1,16 +1,17 @@
 /**
- * Small physics and sweep-planning helpers for the demo catalogue (FIELD.md §1, §2(d), §3.3, §6).
+ * Small physics and sweep-planning helpers for the demo catalogue (BVD model of IEEE Std 177,
+ * load resonance, sweep planning, AT-cut temperature cubic).
  * Exported so the demo recovery test evaluates the documented values the same way.
  */
 import { motionalReactance, type BvdModel, type MotionalBranch } from '../../src/lib/models/bvd.ts';
 import type { FreqGridSpec } from '../../src/lib/synth/freq-grid.ts';
 
-/** Half-power bandwidth fs/Q = 2π·fs²·R1·C1, Hz (FIELD.md §3.3). */
+/** Half-power bandwidth fs/Q = 2π·fs²·R1·C1, Hz (derived from the BVD model). */
 export function bandwidthHz(b: MotionalBranch): number {
   return 2 * Math.PI * b.fsHz * b.fsHz * b.r1Ohm * b.c1F;
 }
 
-/** Lossless load frequency fL = fs·√(1 + C1/(C0 + CL)), Hz (FIELD.md §2(d)). */
+/** Lossless load frequency fL = fs·√(1 + C1/(C0 + CL)), Hz (IEC 60444-11 term fL; form derived from the BVD model). */
 export function loadFrequencyHz(b: MotionalBranch, c0F: number, clF: number): number {
   return b.fsHz * Math.sqrt(1 + b.c1F / (c0F + clF));
 }
@@ -26,8 +27,8 @@ export function fsForNominal(nominalHz: number, offsetPpm: number, c1F: number, 
 
 /**
  * Lossless anti-resonance just above branch k's fs, Hz: the zero of the susceptance
- * B(f) = ωC0 − Σj 1/Xj(f) with every resistance set to zero (CONTRACT.md §3 `fpHz`;
- * for one branch fs·√(1 + C1/C0), FIELD.md §1.2). B rises between its poles (the branch fs
+ * B(f) = ωC0 − Σj 1/Xj(f) with every resistance set to zero (the `fpHz` of `extract --json`;
+ * for one branch fs·√(1 + C1/C0), IEEE Std 177's fp). B rises between its poles (the branch fs
  * values), so bisection between fs_k and the next pole finds it.
  */
 export function antiResonanceHz(model: BvdModel, k: number): number {
@@ -73,7 +74,8 @@ export function roundCenter(f: number, spanHz: number): number {
 const POINT_CHOICES = [201, 401, 801, 1601, 3201];
 
 /**
- * A narrow sweep around a resonance as a practitioner sets it up (FIELD.md §3.3): span at least
+ * A narrow sweep around a resonance as a practitioner sets it up (common practice, not from a
+ * standard): span at least
  * ±halfWidthBw bandwidths rounded up to a nice number, centre rounded, and the smallest usual
  * point count giving at least `perBw` points per bandwidth.
  */
@@ -113,7 +115,10 @@ export function wideGrid(model: BvdModel, k = 0, opts: { below?: number; above?:
   };
 }
 
-/** AT-cut frequency offset Δf/f = a1·t + a2·t² + a3·t³, t = T − 25 °C (FIELD.md §6). */
+/**
+ * AT-cut frequency offset Δf/f = a1·t + a2·t² + a3·t³, t = T − 25 °C (Gerber & Ballato (eds.),
+ * Precision Frequency Control, Academic Press 1985, as quoted in M. Haney's 2001 thesis).
+ */
 export function atCutOffset(tempC: number, a: readonly [number, number, number]): number {
   const t = tempC - 25;
   return a[0] * t + a[1] * t * t + a[2] * t * t * t;

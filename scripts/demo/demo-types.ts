@@ -8,7 +8,7 @@ import type { FreqGridSpec } from '../../src/lib/synth/freq-grid.ts';
 import type { AddedCapacitor, FixtureParasitics } from '../../src/lib/synth/synth-sweep.ts';
 import type { SynthFileFormat } from '../../src/lib/synth/synth-file.ts';
 
-/** What a branch of the documented model is, in the terms of CONTRACT.md §3 `modes`. */
+/** What a branch of the documented model is, in the terms of the `modes` list of `extract --json`. */
 export interface DemoMode {
   /** Index into the sample's `model.branches`. */
   branch: number;
@@ -60,7 +60,7 @@ export interface DemoSample {
   sweeps: DemoSweep[];
 }
 
-/** Datasheet as written in the record (strings with units, CONTRACT.md §1). */
+/** Datasheet as written in the record (strings with units, README: The part record). */
 export interface DemoDatasheet {
   frequency: string;
   tolerance?: string;
@@ -79,7 +79,7 @@ export interface DemoScenario {
   shows: string;
   /** The part deliberately fails these datasheet limits (the generator checks all others). */
   fails?: Array<'esrMax' | 'tolerance' | 'c0Max'>;
-  /** AT-cut temperature coefficients used for temperature sweeps (FIELD.md §6), per °C^k. */
+  /** AT-cut temperature coefficients used for temperature sweeps (Gerber & Ballato 1985, as quoted by Haney 2001), per °C^k. */
   temperatureCoefficients?: readonly [number, number, number];
   /** R1 and fs offset against drive level, for drive-level sweeps. */
   driveLevels?: ReadonlyArray<{ driveW: number; r1Ohm: number; offsetPpm: number }>;

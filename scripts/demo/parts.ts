@@ -10,9 +10,10 @@
  * Pellowin Ceramics (ceramic resonators), Orrinbay Acoustic (SAW resonators). Everything
  * here is synthetic demo data, not a measurement of any real part.
  *
- * Model values sit in the typical ranges of FIELD.md §7, and each part's fs is chosen so
- * that at its datasheet load capacitance it lies within the datasheet tolerance
- * (fL = fs·√(1 + C1/(C0 + CL)), FIELD.md §2(d)), except where `scenario.fails` says so.
+ * Model values sit in typical ranges for each kind of part (from memory; plausibility only), and
+ * each part's fs is chosen so that at its datasheet load capacitance it lies within the datasheet
+ * tolerance (lossless fL = fs·√(1 + C1/(C0 + CL)), IEC 60444-11 term fL, form derived from the BVD
+ * model), except where `scenario.fails` says so.
  */
 import type { BvdModel, MotionalBranch } from '../../src/lib/models/bvd.ts';
 import type { SynthFileFormat } from '../../src/lib/synth/synth-file.ts';
@@ -249,9 +250,10 @@ const parts: DemoPart[] = [];
   });
 }
 
-// 8. 16 MHz 2520 over temperature (AT-cut cubic, angle offset +2′, FIELD.md §6).
+// 8. 16 MHz 2520 over temperature (AT-cut cubic, angle offset +2′).
 {
-  // FIELD.md §6: a1 = −5.08e-6/°C per degree of angle offset (here +2′ = 1/30 °), a2 = −0.45e-9/°C², a3 = 108.6e-12/°C³.
+  // Gerber & Ballato (eds.), Precision Frequency Control, Academic Press 1985, as quoted in
+  // M. Haney's 2001 thesis: a1 = −5.08e-6/°C per degree of angle offset (here +2′ = 1/30 °), a2 = −0.45e-9/°C², a3 = 108.6e-12/°C³.
   const coeffs = [(-5.08e-6 * 2) / 60, -0.45e-9, 108.6e-12] as const;
   const model = quartz(16e6, -2.5, 38, 4.2 * fF, 1.6 * pF, 8 * pF);
   const temps = [-40, -20, 0, 25, 50, 70, 85];
@@ -420,7 +422,7 @@ const parts: DemoPart[] = [];
 // 14. 40 MHz 2016 with a third-overtone sweep above the instrument's range.
 {
   const fund = quartz(40e6, -4, 24, 2.8 * fF, 1.3 * pF, 8 * pF);
-  // Third overtone near 3·f1·1.0028 (FIELD.md §5 piezoelectric stiffening estimate), C1/9 and a higher R.
+  // Third overtone near 3·f1·1.0028 (piezoelectric stiffening estimate, from memory), C1/9 and a higher R.
   const model: BvdModel = { ...fund, branches: [...fund.branches, branch(3 * fund.branches[0].fsHz * 1.0028, 72, 0.33 * fF)] };
   parts.push({
     id: 'xt-40m-2016-range',
@@ -448,7 +450,7 @@ const parts: DemoPart[] = [];
 {
   const c0F = 3.6 * pF;
   const f3 = fsForNominal(50e6, 4, 1.15 * fF, c0F, 'series');
-  const f1 = (f3 / 3) / 1.0028 * (1 + 35e-6); // FIELD.md §5: f3/(3f1) ≈ 1.0028, here with a little trapping offset
+  const f1 = (f3 / 3) / 1.0028 * (1 + 35e-6); // f3/(3f1) ≈ 1.0028 (stiffening estimate, from memory), here with a little trapping offset
   const model: BvdModel = { c0F, branches: [branch(f1, 11, 10.5 * fF), branch(f3, 36, 1.15 * fF)] };
   const bw1 = bandwidthHz(model.branches[0]);
   const bw3 = bandwidthHz(model.branches[1]);
@@ -533,7 +535,7 @@ const parts: DemoPart[] = [];
 
 // 18. 433.92 MHz SAW resonator, 1-port reflection in dB/angle and GHz.
 {
-  // FIELD.md §7 consistency check: 433.92 MHz with L1 = 50 µH gives C1 = 2.690611 fF.
+  // Consistency check L1 = 1/((2πfs)²C1): 433.92 MHz with L1 = 50 µH gives C1 = 2.690611 fF.
   const model = quartz(433.92e6, -18, 17, 2.690611 * fF, 2.3 * pF, 'series');
   parts.push({
     id: 'saw-434',
