@@ -3,8 +3,9 @@
  * The decks are committed under test/fixtures/spice/ (regenerate with
  * `npx tsx test/fixtures/spice/generate.ts`); the test checks they equal what the code writes now.
  *
- * Parts: X1, TF1 and OT100 are FIELD.md §0's synthetic reference resonators (not real parts).
- * OT3 adds to OT100 a fundamental (f3/(3f1) = 1.0028, FIELD.md §5, C1 ≈ 9·C1,3) and a spurious
+ * Parts: X1, TF1 and OT100 are invented reference resonators (not real parts; values below).
+ * OT3 adds to OT100 a fundamental (f3/(3f1) = 1.0028, a piezoelectric stiffening estimate from
+ * memory; C1 ≈ 9·C1,3, from C1n = 8k²C0/(nπ)², QCM review, Sensors 21(10):3490, 2021) and a spurious
  * mode 150 kHz above the main mode (synthetic). ODD has non-round, extraction-like values so that
  * rounding its element values visibly moves the resonance.
  */
@@ -12,7 +13,7 @@ import { type BvdModel, type MotionalBranch } from '../../../src/lib/models/bvd.
 import { formatNetlist, type BranchLabel, type FormatNetlistOptions, type NetlistInfo } from '../../../src/lib/models/netlist-spice.ts';
 import { impedanceDeck, type AcSweep } from '../../support/spice.ts';
 
-/** Branch from L1, C1, R1 (FIELD.md §0 gives L1 and C1). */
+/** Branch from L1, C1, R1 (the reference resonators are given by L1 and C1). */
 export function branchLc(l1H: number, c1F: number, r1Ohm: number): MotionalBranch {
   return { fsHz: 1 / (2 * Math.PI * Math.sqrt(l1H * c1F)), r1Ohm, c1F };
 }
@@ -37,11 +38,11 @@ export function fpHz(b: MotionalBranch, c0F: number): number {
 
 const around = (f: number, half: number, points = 2001): AcSweep => ({ startHz: f - half, stopHz: f + half, points });
 
-// FIELD.md §0: X1 = 10 mH, 10 fF, 20 Ω, 3 pF (ωs = 1e8 rad/s exactly).
+// Reference resonator X1 (invented): 10 mH, 10 fF, 20 Ω, 3 pF (ωs = 1e8 rad/s exactly).
 export const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: 1e8 / (2 * Math.PI), r1Ohm: 20, c1F: 10e-15 }] };
-// FIELD.md §0: TF1 = 7 863.559 H, 3 fF, 35 kΩ, 1.2 pF; fs = 32 768 Hz (we use fs and C1).
+// Reference tuning fork TF1 (invented): 7 863.559 H, 3 fF, 35 kΩ, 1.2 pF; fs = 32 768 Hz (we use fs and C1).
 export const TF1: BvdModel = { c0F: 1.2e-12, branches: [{ fsHz: 32768, r1Ohm: 35e3, c1F: 3e-15 }] };
-// FIELD.md §0: OT100 = 2.533030 mH, 1 fF, 60 Ω, 3 pF; fs = 100 MHz.
+// Reference overtone resonator OT100 (invented): 2.533030 mH, 1 fF, 60 Ω, 3 pF; fs = 100 MHz.
 const OT100_MAIN: MotionalBranch = { fsHz: 100e6, r1Ohm: 60, c1F: 1e-15 };
 export const OT3: BvdModel = {
   c0F: 3e-12,
@@ -59,7 +60,7 @@ export const OT3_LABELS: BranchLabel[] = [
 export const ODD: BvdModel = { c0F: 3.02718e-12, branches: [{ fsHz: 12003456.789, r1Ohm: 24.8137, c1F: 17.8349e-15 }] };
 
 const info = (partId: string, title: string, extra: Partial<NetlistInfo> = {}): NetlistInfo => ({
-  partId, title, sample: 'ref', method: 'synthetic reference values (FIELD.md)', ...extra,
+  partId, title, sample: 'ref', method: 'synthetic reference values', ...extra,
 });
 
 const x1 = X1.branches[0];
@@ -70,7 +71,7 @@ export const SPICE_CASES: SpiceCase[] = [
   {
     id: 'x1',
     model: X1,
-    info: info('X1', '16 MHz-class AT fundamental, FIELD.md reference resonator', { kind: 'quartz-at', labels: [{ overtone: 1, spurious: false, main: true }] }),
+    info: info('X1', '16 MHz-class AT fundamental, synthetic reference resonator', { kind: 'quartz-at', labels: [{ overtone: 1, spurious: false, main: true }] }),
     sweeps: [
       { name: 'fs', sweep: around(x1.fsHz, widthHz(x1)) },
       { name: 'fp', sweep: around(fpHz(x1, X1.c0F), 3 * widthHz(x1)) },
@@ -80,7 +81,7 @@ export const SPICE_CASES: SpiceCase[] = [
   {
     id: 'tf1',
     model: TF1,
-    info: info('TF1', '32.768 kHz tuning fork, FIELD.md reference resonator', { kind: 'quartz-tuning-fork' }),
+    info: info('TF1', '32.768 kHz tuning fork, synthetic reference resonator', { kind: 'quartz-tuning-fork' }),
     sweeps: [
       { name: 'fs', sweep: around(tf1.fsHz, widthHz(tf1)) },
       { name: 'fp', sweep: around(fpHz(tf1, TF1.c0F), 3 * widthHz(tf1)) },
@@ -136,7 +137,8 @@ export function seriesLoadDeck(clF: number, sweep: AcSweep): string {
   const cl = clF.toExponential(14);
   return impedanceDeck(
     `motional fL check: X1 + series CL ${clF * 1e12} pF`,
-    // Rdc gives node mid the DC path SPICE needs (STACK.md); 1e15 Ω changes Z by ~1e-14 relative.
+    // Rdc gives node mid the DC path SPICE needs (without one ngspice stops on a singular matrix);
+    // 1e15 Ω changes Z by ~1e-14 relative.
     `${netlist}CL in mid ${cl}\nXDUT mid 0 ${subcktNameOf(c)}\nRdc mid 0 1e15\n`,
     sweep,
     `x1-cl${Math.round(clF * 1e12)}pf.out`,
@@ -144,8 +146,9 @@ export function seriesLoadDeck(clF: number, sweep: AcSweep): string {
 }
 
 /**
- * Load-resonance checks: X1 + series CL, swept ±5 Hz around FIELD.md §4.1's "fL with R1"
- * (8/10/12/20 pF: 15 922 728.295, 15 921 615.718, 15 920 799.784, 15 918 954.922 Hz).
+ * Load-resonance checks: X1 + series CL, swept ±5 Hz around the load resonance with R1 (lower
+ * zero-phase frequency of crystal + series CL, computed independently with mpmath from the BVD
+ * model; 8/10/12/20 pF: 15 922 728.295, 15 921 615.718, 15 920 799.784, 15 918 954.922 Hz).
  */
 export const LOAD_CASES: Array<{ clF: number; fieldFlWithR1Hz: number; sweep: AcSweep }> = [
   [8e-12, 15922728.295],
