@@ -1,63 +1,40 @@
 /**
- * A small static file server for a built site (node:http), for `npm start` and tests.
+ * The preview server of a built site, for `npm start` and tests: sirv serves the files,
+ * node:http listens.
  *
- * - Serves `root` under the site's base path (`/` or e.g. `/tools/crystals/`); a request
- *   outside the base gets a redirect to the base for `/` and 404 otherwise.
- * - A folder answers with its `index.html`; a folder asked for without the trailing slash is
- *   redirected to it (so relative links work). `x` also tries `x.html`.
- * - Unknown paths answer with the site's `404.html` (status 404) when it has one.
- * - Never serves anything outside `root` (decoded `..`, NUL, links leaving the folder).
+ * - The site lives under its base path (`/` or e.g. `/tools/crystals/`). `/` and the base
+ *   without its trailing slash are redirected to the base; these are the only redirects, and
+ *   their Location is the base itself, never text taken from the request. Other paths outside
+ *   the base answer 404.
+ * - Under the base, `x/`, `x` and `x.html` answer with the page; unknown paths and hidden
+ *   files answer with the site's `404.html`, status 404.
+ * - Paths with `.` or `..` segments, backslashes, NUL or broken percent-encoding are refused
+ *   (400) before any file is looked up; sirv itself never leaves the folder.
  * - Binds to 127.0.0.1 by default; when the port is taken it tries the next ones.
  */
-import { createReadStream } from 'node:fs';
-import { realpath, stat } from 'node:fs/promises';
+import { readFile } from 'node:fs/promises';
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
-import { extname, join, resolve, sep } from 'node:path';
+import { extname, join, resolve } from 'node:path';
+import sirv from 'sirv';
 
-/** Content types by file ending. */
-export const MIME_TYPES: Readonly<Record<string, string>> = {
-  '.html': 'text/html; charset=utf-8',
-  '.htm': 'text/html; charset=utf-8',
-  '.css': 'text/css; charset=utf-8',
-  '.js': 'text/javascript; charset=utf-8',
-  '.mjs': 'text/javascript; charset=utf-8',
-  '.json': 'application/json; charset=utf-8',
-  '.map': 'application/json; charset=utf-8',
-  '.webmanifest': 'application/manifest+json',
-  '.xml': 'application/xml; charset=utf-8',
-  '.txt': 'text/plain; charset=utf-8',
-  '.md': 'text/markdown; charset=utf-8',
-  '.csv': 'text/csv; charset=utf-8',
-  '.tsv': 'text/tab-separated-values; charset=utf-8',
+/**
+ * Content types of the catalogue's download files that sirv does not know or reads otherwise
+ * (`.ts` is a Touchstone file here, not an MPEG stream).
+ */
+const DOWNLOAD_TYPES: Readonly<Record<string, string>> = {
   '.cir': 'text/plain; charset=utf-8',
   '.lib': 'text/plain; charset=utf-8',
   '.sp': 'text/plain; charset=utf-8',
   '.s1p': 'text/plain; charset=utf-8',
   '.s2p': 'text/plain; charset=utf-8',
   '.ts': 'text/plain; charset=utf-8',
+  '.txt': 'text/plain; charset=utf-8',
+  '.csv': 'text/csv; charset=utf-8',
+  '.tsv': 'text/tab-separated-values; charset=utf-8',
   '.yaml': 'text/yaml; charset=utf-8',
   '.yml': 'text/yaml; charset=utf-8',
-  '.svg': 'image/svg+xml',
-  '.png': 'image/png',
-  '.jpg': 'image/jpeg',
-  '.jpeg': 'image/jpeg',
-  '.gif': 'image/gif',
-  '.webp': 'image/webp',
-  '.avif': 'image/avif',
-  '.ico': 'image/x-icon',
-  '.woff': 'font/woff',
-  '.woff2': 'font/woff2',
-  '.ttf': 'font/ttf',
-  '.otf': 'font/otf',
-  '.wasm': 'application/wasm',
-  '.pdf': 'application/pdf',
-  '.zip': 'application/zip',
+  '.md': 'text/markdown; charset=utf-8',
 };
-
-/** Content type of a file name (binary fallback). */
-export function contentTypeOf(path: string): string {
-  return MIME_TYPES[extname(path).toLowerCase()] ?? 'application/octet-stream';
-}
 
 /** `/`, or `/a/b/`: leading and trailing slash, no doubles. */
 export function normalizeBase(base: string | undefined): string {
@@ -86,62 +63,61 @@ export interface StaticServer {
   close(): Promise<void>;
 }
 
-async function fileAt(root: string, realRoot: string, rel: string): Promise<string | undefined> {
-  const path = join(root, rel);
-  if (path !== root && !path.startsWith(root + sep)) return undefined;
-  const st = await stat(path).catch(() => undefined);
-  if (!st?.isFile()) return undefined;
-  const real = await realpath(path).catch(() => undefined);
-  if (!real || !real.startsWith(realRoot + sep)) return undefined;
-  return real;
+/** Why a request path is refused, or undefined when it may be looked up. */
+export function refusePath(pathname: string): string | undefined {
+  let decoded: string;
+  try {
+    decoded = decodeURIComponent(pathname);
+  } catch {
+    return 'broken percent-encoding';
+  }
+  if (decoded.includes('\0')) return 'NUL character';
+  if (decoded.includes('\\')) return 'backslash';
+  if (decoded.split('/').some((s) => s === '.' || s === '..')) return '"." or ".." segment';
+  return undefined;
 }
 
-function send(res: ServerResponse, status: number, text: string, headers: Record<string, string> = {}): void {
+function isHidden(pathname: string): boolean {
+  return decodeURIComponent(pathname).split('/').some((s) => s.startsWith('.'));
+}
+
+function sendText(res: ServerResponse, status: number, text: string, headers: Record<string, string> = {}): void {
   res.writeHead(status, { 'content-type': 'text/plain; charset=utf-8', ...headers });
   res.end(text);
 }
 
-function makeHandler(root: string, realRoot: string, base: string) {
-  return async (req: IncomingMessage, res: ServerResponse): Promise<void> => {
-    if (req.method !== 'GET' && req.method !== 'HEAD') return send(res, 405, 'method not allowed', { allow: 'GET, HEAD' });
-    const url = new URL(req.url ?? '/', 'http://localhost');
-    let pathname: string;
-    try {
-      pathname = decodeURIComponent(url.pathname);
-    } catch {
-      return send(res, 400, 'bad request');
-    }
-    if (pathname.includes('\0')) return send(res, 400, 'bad request');
-    if (`${pathname}/` === base) return send(res, 301, '', { location: base + url.search });
-    if (!pathname.startsWith(base)) {
-      if (pathname === '/') return send(res, 302, '', { location: base });
-      return send(res, 404, `not found (the site lives under ${base})`);
-    }
-    const rel = pathname.slice(base.length);
-    if (rel.split('/').includes('..')) return send(res, 400, 'bad request');
-    let file: string | undefined;
-    if (rel === '' || rel.endsWith('/')) {
-      file = await fileAt(root, realRoot, join(rel, 'index.html'));
-    } else {
-      file = await fileAt(root, realRoot, rel);
-      if (!file) {
-        const dir = await stat(join(root, rel)).catch(() => undefined);
-        if (dir?.isDirectory() && (await fileAt(root, realRoot, join(rel, 'index.html')))) {
-          return send(res, 301, '', { location: `${url.pathname}/${url.search}` });
-        }
-        file = await fileAt(root, realRoot, `${rel}.html`);
-      }
-    }
-    let status = 200;
-    if (!file) {
-      file = await fileAt(root, realRoot, '404.html');
-      status = 404;
-      if (!file) return send(res, 404, 'not found');
-    }
-    const st = await stat(file);
-    res.writeHead(status, { 'content-type': contentTypeOf(file), 'content-length': String(st.size), 'cache-control': 'no-cache' });
-    if (req.method === 'HEAD') return void res.end();
-    createReadStream(file).on('error', () => res.destroy()).pipe(res);
+/** The site's own 404 page, read per request so a rebuild shows at once. */
+async function sendNotFoundPage(root: string, res: ServerResponse): Promise<void> {
+  const page = await readFile(join(root, '404.html')).catch(() => undefined);
+  if (!page) return sendText(res, 404, 'not found (the site has no 404.html)');
+  res.writeHead(404, { 'content-type': 'text/html; charset=utf-8', 'content-length': String(page.length), 'cache-control': 'no-cache' });
+  res.end(page);
+}
+
+function makeHandler(root: string, base: string) {
+  const serveFile = sirv(root, {
+    dev: true, // look files up on every request: a rebuild is served without a restart
+    etag: true,
+    extensions: ['html'],
+    setHeaders: (res, pathname) => {
+      const type = pathname.endsWith('/') ? undefined : DOWNLOAD_TYPES[extname(pathname).toLowerCase()];
+      if (type) res.setHeader('content-type', type);
+    },
+  });
+  return (req: IncomingMessage, res: ServerResponse): void => {
+    if (req.method !== 'GET' && req.method !== 'HEAD') return sendText(res, 405, 'method not allowed', { allow: 'GET, HEAD' });
+    const pathname = (req.url ?? '/').split(/[?#]/, 1)[0];
+    const refusal = refusePath(pathname);
+    if (refusal) return sendText(res, 400, `bad request path: ${refusal}`);
+    if (pathname === '/' && base !== '/') return sendText(res, 302, '', { location: base });
+    if (`${pathname}/` === base) return sendText(res, 301, '', { location: base });
+    if (!pathname.startsWith(base)) return sendText(res, 404, `not found (the site lives under ${base})`);
+    const rest = `/${pathname.slice(base.length)}`.replace(/\/{2,}/g, '/');
+    if (isHidden(rest)) return void sendNotFoundPage(root, res);
+    // sirv reads a Range header loosely (an end before the start throws); a preview needs none
+    delete req.headers.range;
+    req.url = rest;
+    serveFile(req, res, () => sendNotFoundPage(root, res));
   };
 }
 
@@ -165,17 +141,18 @@ function listen(server: Server, port: number, host: string): Promise<number> {
 /** Serve a built site folder. */
 export async function startStaticServer(options: StaticServerOptions): Promise<StaticServer> {
   const root = resolve(options.root);
-  const realRoot = await realpath(root);
   const base = normalizeBase(options.base);
   const host = options.host ?? '127.0.0.1';
   const first = options.port ?? 4321;
   const attempts = first === 0 ? 1 : Math.max(1, options.portAttempts ?? 20);
-  const handler = makeHandler(root, realRoot, base);
+  const handler = makeHandler(root, base);
   const server = createServer((req, res) => {
-    handler(req, res).catch(() => {
-      if (!res.headersSent) send(res, 500, 'internal error');
+    try {
+      handler(req, res);
+    } catch (err) {
+      if (!res.headersSent) sendText(res, 500, `internal error serving ${req.url}: ${(err as Error).message}`);
       else res.destroy();
-    });
+    }
   });
   let lastError: unknown;
   for (let i = 0; i < attempts; i++) {
@@ -195,5 +172,7 @@ export async function startStaticServer(options: StaticServerOptions): Promise<S
       if ((err as NodeJS.ErrnoException).code !== 'EADDRINUSE') break;
     }
   }
-  throw lastError instanceof Error ? lastError : new Error(`could not listen on ${host}:${first}`);
+  const last = first + attempts - 1;
+  const why = lastError instanceof Error ? lastError.message : String(lastError);
+  throw new Error(`static server: could not listen on ${host} port ${first}${last > first ? `–${last}` : ''}: ${why}`);
 }
