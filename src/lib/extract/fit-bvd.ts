@@ -8,8 +8,9 @@
  * residuals.ts for the model, the parameterisation (ppm offset of fs, ln R1, ln C1, ln C0,
  * Rs, Ls) and the derivatives; levenberg-marquardt.ts for the iteration and its stopping rules.
  *
- * Standard uncertainties come from the covariance (JᵀJ)⁻¹·s², s² = SSR/(m − n), m residuals
- * (two per point), n parameters, propagated to fs, R1, C1, L1 = 1/((2πfs)²C1) and
+ * Standard uncertainties come from the covariance (JᵀJ)⁻¹·s², s² = SSR/(m − n) the reduced χ²
+ * (m residuals, two per point, n parameters), widened by √((1 + ρ)/(1 − ρ)) when the residuals'
+ * lag-1 autocorrelation ρ shows structure the model does not explain, propagated to fs, R1, C1, L1 = 1/((2πfs)²C1) and
  * Q = 1/(2πfs R1 C1) through their gradients in the fitted parameters.
  *
  * Failure is a result: converged = false, a reason, the initial model and zero uncertainties.
@@ -34,6 +35,11 @@ export interface FitSweep {
   addedConnection?: 'parallel' | 'series';
   /** Optional relative weight (default 1); multiplies the squared residuals of this sweep. */
   weight?: number;
+  /**
+   * Standard deviation of each impedance point per component, Ω (measurement-noise.ts), same
+   * length as freqHz. Absent: the relative residual (σZ = |Zmeas|).
+   */
+  sigmaZOhm?: Float64Array;
 }
 
 /** Which parameters the fit may change. */
@@ -72,12 +78,61 @@ export interface FitBvdResult extends FitSummary {
   parameterNames?: string[];
   /** Which stopping rule ended the iteration (levenberg-marquardt.ts StopRule). */
   stop?: string;
+  /** |Zmeas − Zmod|² per point of each input sweep (points inside the window, in order), Ω², when converged. */
+  residualZ2BySweep?: Float64Array[];
+  /** Residuals over residuals minus parameters, m/(m − n). */
+  dofFactor?: number;
+  /**
+   * Residual structure (converged fits): lag-1 autocorrelation of the weighted residuals along
+   * frequency within each sweep, its significance limit 3/√N, and the factor the uncertainties
+   * were widened by when it was exceeded (1 otherwise).
+   */
+  structure?: ResidualStructure;
   /**
    * On failure caused by one branch (fitted values not physical, fs outside the span, moved
    * too far, or not determined by the data): its index in the model. The caller may hold that
    * branch and fit the others again.
    */
   failedBranch?: number;
+}
+
+/** Lag-1 autocorrelation of a fit's weighted residuals and what it did to the uncertainties. */
+export interface ResidualStructure {
+  lag1: number;
+  /** 3/√N: white residuals stay below it with probability 99.87 % (normal approximation). */
+  limit: number;
+  /** Factor applied to the standard uncertainties: √((1 + ρ)/(1 − ρ)) when ρ > limit, else 1. */
+  inflation: number;
+}
+
+/** Significance of the lag-1 autocorrelation test, in standard errors (1/√N each). */
+export const STRUCTURE_SIGMAS = 3;
+
+/**
+ * Lag-1 autocorrelation of residual pairs [re, im] along each sweep (the sequences of real
+ * and of imaginary parts, pooled), not across sweep boundaries.
+ * @param starts index of the first point of each sweep in the flattened points, plus the total
+ */
+export function residualStructure(r: Float64Array, starts: number[]): ResidualStructure {
+  let num = 0;
+  let den = 0;
+  let pairs = 0;
+  for (let s = 0; s + 1 < starts.length; s++) {
+    for (let i = starts[s]; i < starts[s + 1]; i++) {
+      den += r[2 * i] * r[2 * i] + r[2 * i + 1] * r[2 * i + 1];
+      if (i + 1 < starts[s + 1]) {
+        num += r[2 * i] * r[2 * i + 2] + r[2 * i + 1] * r[2 * i + 3];
+        pairs += 2;
+      }
+    }
+  }
+  const lag1 = den > 0 ? num / den : 0;
+  const limit = pairs > 0 ? STRUCTURE_SIGMAS / Math.sqrt(pairs) : Infinity;
+  // A first-order autoregressive error with coefficient ρ has √((1 + ρ)/(1 − ρ)) times the
+  // spread of a mean that white noise would give (effective sample size N·(1 − ρ)/(1 + ρ)).
+  const rho = Math.min(lag1, 0.98);
+  const inflation = lag1 > limit ? Math.sqrt((1 + rho) / (1 - rho)) : 1;
+  return { lag1, limit, inflation };
 }
 
 /** A converged fit whose RMS relative residual exceeds this does not describe the data. */
@@ -145,7 +200,7 @@ function resolveOptions(model: BvdModel, options: FitBvdOptions): ResolvedOption
 }
 
 /** Flatten the sweeps into fit points (window applied), or return a reason. */
-function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions): BvdFitPoints | string {
+function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions): (BvdFitPoints & { starts: number[] }) | string {
   if (!Array.isArray(sweeps) || sweeps.length === 0) return 'no sweeps to fit';
   const centres = o.freeBranches.map((k) => model.branches[k].fsHz);
   const all = !Number.isFinite(o.windowHz);
@@ -158,6 +213,7 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
   for (const s of sweeps) {
     const n = s.freqHz?.length ?? 0;
     if (s.zRe?.length !== n || s.zIm?.length !== n) return `${s.source}: frequency and impedance arrays differ in length`;
+    if (s.sigmaZOhm && s.sigmaZOhm.length !== n) return `${s.source}: frequency and noise arrays differ in length`;
     const weight = s.weight ?? 1;
     if (!isPositive(weight)) return `${s.source}: weight ${weight}: expected a positive number`;
     if (s.addedCapacitanceF !== undefined) {
@@ -174,16 +230,19 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
       const zi = s.zIm[i];
       if (!Number.isFinite(zr) || !Number.isFinite(zi)) return `${s.source}: point ${i}: impedance ${zr} ${zi}: expected finite numbers`;
       if (zr === 0 && zi === 0) return `${s.source}: point ${i}: impedance is zero, so no relative residual`;
+      if (s.sigmaZOhm && !isPositive(s.sigmaZOhm[i])) return `${s.source}: point ${i}: noise ${s.sigmaZOhm[i]} Ω: expected a positive number`;
       count++;
     }
   }
-  const p: BvdFitPoints = {
+  const p: BvdFitPoints & { starts: number[] } = {
     freqHz: new Float64Array(count),
     zRe: new Float64Array(count),
     zIm: new Float64Array(count),
     weight: new Float64Array(count),
     parallelCapF: new Float64Array(count),
     seriesCapF: new Float64Array(count),
+    sigmaZOhm: sweeps.some((s) => s.sigmaZOhm) ? new Float64Array(count) : undefined,
+    starts: [],
   };
   let j = 0;
   for (const s of sweeps) {
@@ -191,17 +250,20 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
     const cSer = s.addedCapacitanceF !== undefined && s.addedConnection === 'series' ? s.addedCapacitanceF : 0;
     const weight = s.weight ?? 1;
     const { freqHz, zRe, zIm } = s;
+    p.starts.push(j);
     for (let i = 0; i < freqHz.length; i++) {
       if (!inWindow(freqHz[i])) continue;
       p.freqHz[j] = freqHz[i];
       p.zRe[j] = zRe[i];
       p.zIm[j] = zIm[i];
+      if (p.sigmaZOhm) p.sigmaZOhm[j] = s.sigmaZOhm ? s.sigmaZOhm[i] : Math.hypot(zRe[i], zIm[i]);
       p.weight[j] = weight;
       p.parallelCapF[j] = addedParallelF;
       p.seriesCapF[j] = cSer;
       j++;
     }
   }
+  p.starts.push(j);
   return p;
 }
 
@@ -278,8 +340,12 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     return fail(`model does not describe the data: rms relative residual ${rmsFinal.toPrecision(3)} (limit ${MAX_RMS_RESIDUAL})`, failed(), o);
   }
 
-  // Covariance of the parameters and propagation to reported quantities.
-  const s2 = lm.ssr / (m - n);
+  // Covariance of the parameters, scaled by the reduced χ² and widened when the residuals are
+  // structured, and propagation to reported quantities.
+  const rFinal = new Float64Array(m);
+  problem.residuals(lm.x, rFinal);
+  const structure = residualStructure(rFinal, points.starts);
+  const s2 = (lm.ssr / (m - n)) * structure.inflation * structure.inflation;
   const cov = (p: number, q: number): number => lm.inverseNormal![p * n + q] * s2;
   const u = zeroUncertainty(model, o);
   const fLo = problem.spanHz.min;
@@ -351,6 +417,8 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     for (let q = 0; q < n; q++) row.push(cov(p, q));
     covariance.push(row);
   }
+  const z2 = problem.impedanceResiduals(lm.x);
+  const residualZ2BySweep = points.starts.slice(0, -1).map((start, s) => z2.slice(start, points.starts[s + 1]));
   return {
     converged: true,
     reason: lm.reason,
@@ -359,5 +427,8 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     uncertainty: u,
     covariance,
     parameterNames: [...map.names],
+    residualZ2BySweep,
+    dofFactor: m / (m - n),
+    structure,
   };
 }

@@ -16,6 +16,8 @@ import type { BvdModel } from '../models/bvd.ts';
 import type { ModeCandidate } from './classify-modes.ts';
 import type { PreparedSweep } from './reference-conditions.ts';
 import { fitBvd, type FitBvdResult, type FitSweep } from './fit-bvd.ts';
+import { impedanceSigmaOhm, noiseFromResiduals, type RecordedNoise } from './measurement-noise.ts';
+import type { RecordedQuantity } from '../sweep/sweep.ts';
 import { screenModes, type ModeEstimate, type ScreenModesResult } from './screen-modes.ts';
 import { timed, type TimingCollector } from './timing.ts';
 
@@ -37,6 +39,8 @@ export interface ModeFits {
   jointStart?: BvdModel;
   /** Duplicates and unreportable spurious modes (not to be reported; `excluded` ones left out of the joint fit). */
   screen: ScreenModesResult;
+  /** Noise of each sweep of the joint fit as its final weights used it (from the fit's residuals). */
+  jointNoise: Array<{ source: string; noise: RecordedNoise }>;
 }
 
 /** Bandwidth fs/Q = 2π·fs²·R1·C1 of a branch, Hz (FIELD.md §3.3). */
@@ -44,19 +48,52 @@ function bandwidthOf(b: { fsHz: number; r1Ohm: number; c1F: number }): number {
   return 2 * Math.PI * b.fsHz * b.fsHz * b.r1Ohm * b.c1F;
 }
 
-function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): FitSweep | undefined {
+/** The points of a sweep that `keep` accepts, with their recorded quantity and noise. */
+interface SelectedSweep extends FitSweep {
+  sigmaZOhm: Float64Array;
+  recorded: RecordedQuantity;
+  /** The sweep's noise estimate before any fit. */
+  noise: RecordedNoise;
+}
+
+function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): SelectedSweep | undefined {
   const f = s.impedance.freqHz;
   const idx: number[] = [];
   for (let i = 0; i < f.length; i++) if (keep(f[i])) idx.push(i);
   if (idx.length === 0) return undefined;
-  const base = { source: s.source, addedCapacitanceF: s.loaded ? s.addedCF : undefined, addedConnection: s.loaded ? s.connection : undefined };
-  if (idx.length === f.length) return { freqHz: f, zRe: s.impedance.zRe, zIm: s.impedance.zIm, ...base };
+  const base = { source: s.source, noise: s.noise, addedCapacitanceF: s.loaded ? s.addedCF : undefined, addedConnection: s.loaded ? s.connection : undefined };
+  if (idx.length === f.length) return { freqHz: f, zRe: s.impedance.zRe, zIm: s.impedance.zIm, sigmaZOhm: s.sigmaZOhm, recorded: s.recorded, ...base };
+  const pick = (a: Float64Array) => Float64Array.from(idx, (i) => a[i]);
+  const r = s.recorded;
   return {
-    freqHz: Float64Array.from(idx, (i) => f[i]),
-    zRe: Float64Array.from(idx, (i) => s.impedance.zRe[i]),
-    zIm: Float64Array.from(idx, (i) => s.impedance.zIm[i]),
+    freqHz: pick(f),
+    zRe: pick(s.impedance.zRe),
+    zIm: pick(s.impedance.zIm),
+    sigmaZOhm: pick(s.sigmaZOhm),
+    recorded: { name: r.name, re: pick(r.re), im: pick(r.im), zPerUnit: pick(r.zPerUnit) },
     ...base,
   };
+}
+
+/**
+ * Rounds of noise re-estimation after the joint fit: each takes the noise of every sweep from
+ * the fit's residuals (measurement-noise.ts) and fits again with the new weights. Two rounds
+ * settle the weights (the second changes the parameters by a small part of their uncertainty).
+ */
+export const NOISE_ROUNDS = 2;
+
+/** Refit with each sweep's noise taken from the residuals of `fit`; returns the last converged fit and the noise used. */
+function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedSweep[], start: BvdModel) => FitBvdResult): { fit: FitBvdResult; noise: RecordedNoise[] } {
+  let current = fit;
+  let noise = data.map((d) => noiseFromResiduals(d.recorded, current.residualZ2BySweep![data.indexOf(d)], current.dofFactor ?? 1));
+  for (let round = 0; round < NOISE_ROUNDS; round++) {
+    const next = data.map((d, s) => ({ ...d, sigmaZOhm: impedanceSigmaOhm(d.recorded, noise[s]) }));
+    const refit = run(next, current.model);
+    if (!refit.converged || !refit.residualZ2BySweep) break;
+    current = refit;
+    if (round + 1 < NOISE_ROUNDS) noise = data.map((d, s) => noiseFromResiduals(d.recorded, current.residualZ2BySweep![s], current.dofFactor ?? 1));
+  }
+  return { fit: current, noise };
 }
 
 /** Window fit of mode k on its best sweep. */
@@ -103,13 +140,14 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
   const jointIndex = modes.map((_, k) => included.indexOf(k));
   const start: BvdModel = { ...initial, branches: included.map((k) => ({ ...(converged[k] ? perMode[k]!.model.branches[k] : initial.branches[k]) })) };
   let free = included.filter((k) => converged[k] && !flagged[k]);
-  const none: ModeFits = { perMode, jointFree: [], jointIndex, screen };
+  const none: ModeFits = { perMode, jointFree: [], jointIndex, screen, jointNoise: [] };
   if (free.length === 0) return none;
   const data = sweeps
     .map((s) => selectPoints(s, (f) => trustedMaxHz === undefined || f <= trustedMaxHz))
-    .filter((d): d is FitSweep => d !== undefined);
+    .filter((d): d is SelectedSweep => d !== undefined);
   if (data.length === 0) return none;
-  const run = (ks: number[]) => timed(timing, 'fit-joint', () => fitBvd(data, start, { freeBranches: ks.map((k) => jointIndex[k]), fitC0: true }));
+  const fitJoint = (d: SelectedSweep[], from: BvdModel, ks: number[]) => timed(timing, 'fit-joint', () => fitBvd(d, from, { freeBranches: ks.map((k) => jointIndex[k]), fitC0: true }));
+  const run = (ks: number[]) => fitJoint(data, start, ks);
   let joint = run(free);
   // A branch the data do not determine is held at its window-fit value and the rest refitted.
   while (!joint.converged && joint.failedBranch !== undefined && free.length > 1) {
@@ -125,5 +163,12 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
       if (retry.converged) { joint = retry; free = mains; }
     }
   }
-  return { perMode, joint, jointFree: free, jointIndex, jointStart: start, screen };
+  let jointNoise: ModeFits['jointNoise'] = data.map((d) => ({ source: d.source, noise: d.noise }));
+  if (joint.converged && joint.residualZ2BySweep) {
+    const ks = free;
+    const settled = reweighted(data, joint, (d, from) => fitJoint(d, from, ks));
+    joint = settled.fit;
+    jointNoise = data.map((d, s) => ({ source: d.source, noise: settled.noise[s] }));
+  }
+  return { perMode, joint, jointFree: free, jointIndex, jointStart: start, screen, jointNoise };
 }

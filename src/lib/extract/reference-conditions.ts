@@ -6,8 +6,9 @@
  * reference. Results at other conditions go to extra fields.
  */
 import type { SweepRef } from '../schema/part.ts';
-import type { ImpedanceSweep } from '../sweep/sweep.ts';
+import { recordedOf, type ImpedanceSweep, type RecordedQuantity } from '../sweep/sweep.ts';
 import { partAlone, type AddedConnection, type AdmittanceSweep } from './part-alone.ts';
+import { impedanceSigmaOhm, noiseFromDifferences, type RecordedNoise } from './measurement-noise.ts';
 
 /** One sweep as handed to the extraction (loaded and fixture-converted by the pipeline). */
 export interface ExtractSweepInput {
@@ -28,6 +29,12 @@ export interface PreparedSweep {
   ref: SweepRef;
   /** As measured (part plus any added capacitor). */
   impedance: ImpedanceSweep;
+  /** What the instrument recorded (S11, S21, Z or Y) and |dZ/dM| per point. */
+  recorded: RecordedQuantity;
+  /** Noise of the recorded quantity from the sweep's own second differences (before any fit). */
+  noise: RecordedNoise;
+  /** Standard deviation of each impedance point from that noise, Ω. */
+  sigmaZOhm: Float64Array;
   /** The part alone (added capacitor removed). */
   part: AdmittanceSweep;
   temperatureC?: number;
@@ -53,11 +60,16 @@ export function prepareSweeps(inputs: ExtractSweepInput[], sampleTemperatureC?: 
     const addedCF = s.ref.addedCapacitance;
     const connection: AddedConnection = s.ref.addedConnection ?? 'parallel';
     const n = z.freqHz.length;
+    const recorded = recordedOf(z);
+    const noise = noiseFromDifferences(z);
     out.push({
       index: out.length,
       source: s.ref.file,
       ref: s.ref,
       impedance: z,
+      recorded,
+      noise,
+      sigmaZOhm: impedanceSigmaOhm(recorded, noise),
       part: { ...partAlone(z, addedCF, connection), source: s.ref.file },
       temperatureC: s.ref.temperature ?? sampleTemperatureC,
       driveW: s.ref.drive,

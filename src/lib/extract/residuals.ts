@@ -11,14 +11,18 @@
  * reactance: (f − fk) is formed as (f − fk0) − Δfk from the exact offset to the start
  * frequency fk0, so no digits are lost near resonance.
  *
- * Residuals — relative, in admittance form. Per point
- *   r = w·(Ym − Y),   Ym = 1/(Zmeas − Zs),   w = √weight·|Zmeas − Zs0|²/|Zmeas|,
- * stacked [re, im], with Zs0 the series elements at the start values (w stays fixed during the
- * fit). Since Ym − Y = (Zmod − Zmeas)/((Zmeas − Zs)(Zmod − Zs)),
- *   |r| = √weight·|Zmeas − Zmod|/|Zmeas| · (1 + O(residual)),
- * i.e. the complex relative impedance residual: points near fs (small |Z|) and near fa (large |Z|)
- * count alike, and an instrument error proportional to |Zmeas| gives every residual the same
- * variance (hence the |Zmeas − Zs|² factor for series-capacitor sweeps). Working in admittance
+ * Residuals — in admittance form, weighted by the noise of each point. Per point
+ *   r = w·(Ym − Y),   Ym = 1/(Zmeas − Zs),   w = √weight·|Zmeas − Zs0|²/σZ,
+ * stacked [re, im], with Zs0 the series elements at the start values and σZ the standard
+ * deviation of the measured impedance per component (measurement-noise.ts: the noise of the
+ * recorded S11, S21, Z or Y carried through the fixture conversion); w stays fixed during the
+ * fit. Since Ym − Y = (Zmod − Zmeas)/((Zmeas − Zs)(Zmod − Zs)),
+ *   |r| = √weight·|Zmeas − Zmod|/σZ · (1 + O(residual)),
+ * so every residual has unit variance when σZ is right, and a point whose Z the fixture makes
+ * noisy (a reflection record far above Z0) counts for as little as it holds. Where the noise of
+ * Y = 1/Z stays linear in the recorded quantity (reflection and series-through near fa, where
+ * Z is noisy beyond its own size), the admittance residual stays well behaved. Without σZ the
+ * weight is |Zmeas|: the relative impedance residual. Working in admittance
  * keeps the model close to linear: C0 enters linearly and the anti-resonance is a smooth zero
  * crossing of Im Y rather than a narrow peak of |Z|, so a start whose fa is many bandwidths off
  * still converges quickly. The weights are fixed, so this is ordinary weighted least squares:
@@ -42,6 +46,11 @@ export interface BvdFitPoints {
   zIm: Float64Array;
   /** Relative weight of each point (multiplies its squared residual). */
   weight: Float64Array;
+  /**
+   * Standard deviation of each measured impedance point, per component, Ω (measurement-noise.ts).
+   * Absent: |Zmeas|, i.e. the relative impedance residual.
+   */
+  sigmaZOhm?: Float64Array;
   /** Known capacitor across the part during the measurement, F (0 when none). */
   parallelCapF: Float64Array;
   /** Known capacitor in series with the part, F (0 when none). */
@@ -78,6 +87,8 @@ export interface BvdResiduals extends LeastSquaresProblem {
   toModel(x: Float64Array): BvdModel;
   /** RMS over points of the exact relative impedance residual |Zmeas − Zmod|/|Zmeas| at x. */
   relativeRms(x: Float64Array): number;
+  /** |Zmeas − Zmod|² per point at x, Ω². */
+  impedanceResiduals(x: Float64Array): Float64Array;
 }
 
 /**
@@ -181,7 +192,8 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     // Weight from the series elements at the start values.
     const uRe = zr - rsStart;
     const uIm = zi - om * lsStart - capX;
-    w[i] = (Math.sqrt(weight[i]) * (uRe * uRe + uIm * uIm)) / Math.sqrt(zr * zr + zi * zi);
+    const sigma = points.sigmaZOhm ? points.sigmaZOhm[i] : Math.sqrt(zr * zr + zi * zi);
+    w[i] = (Math.sqrt(weight[i]) * (uRe * uRe + uIm * uIm)) / sigma;
     const vRe = zr - rsFixed;
     const vIm = zi - zsIm;
     const vd = 1 / (vRe * vRe + vIm * vIm);
@@ -336,12 +348,12 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     return model;
   };
 
-  const relativeRms = (x: Float64Array): number => {
+  const impedanceResiduals = (x: Float64Array): Float64Array => {
     loadBranches(x);
     const c0 = map.c0 >= 0 ? Math.exp(x[map.c0]) : 0;
     const rs = rsFixed + (map.rs >= 0 ? x[map.rs] : 0);
     const lsH = map.ls >= 0 ? x[map.ls] * NANO : 0;
-    let s = 0;
+    const out = new Float64Array(np);
     for (let i = 0; i < np; i++) {
       const f = freq[i];
       let yRe = fixYRe[i];
@@ -355,8 +367,15 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
       const yd = yRe * yRe + yIm * yIm;
       const dRe = zmRe[i] - (rs + yRe / yd);
       const dIm = zmIm[i] - (fixZsIm[i] + omega[i] * lsH - yIm / yd);
-      s += (dRe * dRe + dIm * dIm) / (zmRe[i] * zmRe[i] + zmIm[i] * zmIm[i]);
+      out[i] = dRe * dRe + dIm * dIm;
     }
+    return out;
+  };
+
+  const relativeRms = (x: Float64Array): number => {
+    const d2 = impedanceResiduals(x);
+    let s = 0;
+    for (let i = 0; i < np; i++) s += d2[i] / (zmRe[i] * zmRe[i] + zmIm[i] * zmIm[i]);
     return Math.sqrt(s / np);
   };
 
@@ -372,5 +391,6 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     spanHz: { min: fLo, max: fHi },
     toModel,
     relativeRms,
+    impedanceResiduals,
   };
 }

@@ -32,6 +32,33 @@ export interface ImpedanceSweep {
   zIm: Float64Array;
   /** Source file name for messages. */
   source: string;
+  /**
+   * The quantity the instrument recorded, from which Z was computed, and how strongly its
+   * noise shows in Z. Absent: the record held Z itself (an impedance CSV or a Z file).
+   */
+  recorded?: RecordedQuantity;
+}
+
+/**
+ * What an instrument recorded at each point (S11, S21, Z or Y) and |dZ/dM|, the factor by
+ * which a small error of the recorded value M reaches the device impedance Z through the
+ * fixture conversion and any compensation. The receiver's noise lives in M: a floor
+ * independent of the signal plus a part proportional to |M|; through this factor it becomes
+ * the noise of each impedance point (reflection far from Z0, for example, multiplies it).
+ */
+export interface RecordedQuantity {
+  name: 'S11' | 'S21' | 'Z' | 'Y';
+  /** Recorded value per point (unitless for S, Ω for Z, S for Y). */
+  re: Float64Array;
+  im: Float64Array;
+  /** |dZ/dM| per point: ohm per unit of the recorded quantity. */
+  zPerUnit: Float64Array;
+}
+
+/** The recorded quantity of a sweep; a sweep without one recorded Z itself (|dZ/dZ| = 1). */
+export function recordedOf(sweep: ImpedanceSweep): RecordedQuantity {
+  if (sweep.recorded) return sweep.recorded;
+  return { name: 'Z', re: sweep.zRe, im: sweep.zIm, zPerUnit: new Float64Array(sweep.freqHz.length).fill(1) };
 }
 
 /** First index whose frequency is not strictly above its predecessor, or -1. */

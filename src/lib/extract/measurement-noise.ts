@@ -1,0 +1,206 @@
+/**
+ * Noise of what the instrument recorded, estimated from each sweep's own data, and the
+ * standard deviation it gives every impedance point.
+ *
+ * A receiver adds a floor independent of the signal and a trace noise proportional to it, so
+ * the recorded quantity M (S11, S21, or Z/Y of an impedance analyser) carries, per real and
+ * imaginary component, σ_M² = floor² + (trace·|M|)². Through the fixture conversion that
+ * becomes σ_Z = |dZ/dM|·σ_M at each point (`RecordedQuantity.zPerUnit`). Near the
+ * anti-resonance of a reflection record, for example, |dZ/dS11| = |Z + Z0|²/(2·Z0) reaches
+ * 10¹⁰ Ω, and a point there says almost nothing about Z; weighting by 1/σ_Z lets the fit use
+ * each point for what it holds.
+ *
+ * Two estimates, both fitting the two variances to squared deviations e with mean
+ * 2·(floor² + trace²·|M|²) (two components), by iteratively reweighted least squares for an
+ * exponentially distributed e (the maximum-likelihood fit of a variance model to χ²₂ data):
+ * - before any fit, from normalised second differences of M over frequency (they remove any
+ *   locally linear trend; near a resonance the curve's own bend dominates, so deviations far
+ *   above the current model are set aside as signal, not noise);
+ * - after a fit, from the residuals carried back into M (|Zmeas − Zmod|/|dZ/dM|), with the
+ *   fit's degrees of freedom accounted for. This is the estimate the published uncertainties
+ *   rest on.
+ */
+import { recordedOf, type ImpedanceSweep, type RecordedQuantity } from '../sweep/sweep.ts';
+
+/** Noise of one sweep's recorded quantity, per real and imaginary component. */
+export interface RecordedNoise {
+  /** Additive floor, in units of the recorded quantity. */
+  floor: number;
+  /** Proportional trace noise, relative to |M|. */
+  trace: number;
+  /** Where the estimate came from. */
+  from: 'differences' | 'residuals';
+}
+
+/**
+ * Smallest relative noise assumed, of |M| and of the sweep's largest |M|: noiseless
+ * (computed) data would otherwise give a zero σ. 1e-12 is far above double rounding
+ * (2.2e-16) yet far below any instrument.
+ */
+export const MIN_RELATIVE_NOISE = 1e-12;
+
+/**
+ * Second differences more than this many times the current noise model are signal (a
+ * resonance's bend), not noise. For χ²₂ data (exponential) the chance of a noise deviation
+ * this large is e^−40 per point: none is lost in practice.
+ */
+const SIGNAL_FACTOR = 40;
+
+/** IRLS rounds of the variance fit (it converges in a few). */
+const VARIANCE_FIT_ROUNDS = 8;
+
+/** σ_M² = floor² + trace²·|M|² fitted to e with E[e] = 2σ_M²: returns the two variances. */
+function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null, rounds = VARIANCE_FIT_ROUNDS): { a: number; b: number } {
+  const n = m2.length;
+  let count = 0;
+  let sum = 0;
+  for (let i = 0; i < n; i++) {
+    if (use && !use[i]) continue;
+    sum += e[i] / 2;
+    count++;
+  }
+  if (count === 0) return { a: 0, b: 0 };
+  let a = sum / count;
+  let b = 0;
+  for (let round = 0; round < rounds; round++) {
+    // Weighted least squares of e/2 on (1, |M|²), weights 1/μ² (the variance of an exponential is μ²).
+    let s00 = 0;
+    let s01 = 0;
+    let s11 = 0;
+    let t0 = 0;
+    let t1 = 0;
+    for (let i = 0; i < n; i++) {
+      if (use && !use[i]) continue;
+      const mu = a + b * m2[i];
+      const w = mu > 0 ? 1 / (mu * mu) : 1;
+      const y = e[i] / 2;
+      const x = m2[i];
+      s00 += w;
+      s01 += w * x;
+      s11 += w * x * x;
+      t0 += w * y;
+      t1 += w * x * y;
+    }
+    const det = s00 * s11 - s01 * s01;
+    let na = det > 0 ? (s11 * t0 - s01 * t1) / det : -1;
+    let nb = det > 0 ? (s00 * t1 - s01 * t0) / det : -1;
+    if (!(na >= 0 && nb >= 0)) {
+      // One term alone: keep the one whose fit deviates least (deviance of exponential data).
+      const onlyA = s00 > 0 ? t0 / s00 : 0;
+      const onlyB = s11 > 0 ? t1 / s11 : 0;
+      const dev = (va: number, vb: number): number => {
+        let d = 0;
+        for (let i = 0; i < n; i++) {
+          if (use && !use[i]) continue;
+          const mu = va + vb * m2[i];
+          if (!(mu > 0)) return Infinity;
+          const y = e[i] / 2;
+          d += y / mu + Math.log(mu);
+        }
+        return d;
+      };
+      if (dev(onlyA, 0) <= dev(0, onlyB)) { na = onlyA; nb = 0; } else { na = 0; nb = onlyB; }
+    }
+    a = na;
+    b = nb;
+  }
+  return { a, b };
+}
+
+/** Largest |M|² of the points in use. */
+function maxOf(m2: Float64Array): number {
+  let max = 0;
+  for (let i = 0; i < m2.length; i++) if (m2[i] > max) max = m2[i];
+  return max;
+}
+
+function squaredMagnitudes(rec: RecordedQuantity): Float64Array {
+  const n = rec.re.length;
+  const m2 = new Float64Array(n);
+  for (let i = 0; i < n; i++) m2[i] = rec.re[i] * rec.re[i] + rec.im[i] * rec.im[i];
+  return m2;
+}
+
+function toNoise(v: { a: number; b: number }, m2: Float64Array, from: RecordedNoise['from']): RecordedNoise {
+  const minFloor = MIN_RELATIVE_NOISE * Math.sqrt(maxOf(m2));
+  return { floor: Math.max(Math.sqrt(Math.max(v.a, 0)), minFloor), trace: Math.max(Math.sqrt(Math.max(v.b, 0)), MIN_RELATIVE_NOISE), from };
+}
+
+/**
+ * Noise of the recorded quantity from its second differences (before any fit).
+ * d_k = (h₋·M_{k+1} − (h₋ + h₊)·M_k + h₊·M_{k−1}) / √(h₋² + (h₋ + h₊)² + h₊²), with the
+ * steps h₋ = f_k − f_{k−1}, h₊ = f_{k+1} − f_k: zero for a straight line whatever the steps,
+ * and of the same spread as the noise of one point.
+ */
+export function noiseFromDifferences(sweep: ImpedanceSweep): RecordedNoise {
+  const rec = recordedOf(sweep);
+  const f = sweep.freqHz;
+  const n = f.length;
+  const all = squaredMagnitudes(rec);
+  if (n < 3) return toNoise({ a: 0, b: 0 }, all, 'differences');
+  const m2 = new Float64Array(n - 2);
+  const e = new Float64Array(n - 2);
+  for (let k = 1; k < n - 1; k++) {
+    const hm = f[k] - f[k - 1];
+    const hp = f[k + 1] - f[k];
+    const norm = Math.sqrt(hm * hm + (hm + hp) * (hm + hp) + hp * hp);
+    const dRe = (hm * rec.re[k + 1] - (hm + hp) * rec.re[k] + hp * rec.re[k - 1]) / norm;
+    const dIm = (hm * rec.im[k + 1] - (hm + hp) * rec.im[k] + hp * rec.im[k - 1]) / norm;
+    e[k - 1] = Number.isFinite(dRe) && Number.isFinite(dIm) ? dRe * dRe + dIm * dIm : 0;
+    m2[k - 1] = all[k];
+  }
+  // Start from the lower half of the deviations (robust to the resonance), then set aside
+  // what stands far above the model and refit.
+  const use = new Uint8Array(e.length);
+  const sorted = Float64Array.from(e).sort();
+  const median = sorted[sorted.length >> 1];
+  for (let i = 0; i < e.length; i++) use[i] = e[i] <= median ? 1 : 0;
+  let v = fitVariances(m2, e, use);
+  v = { a: v.a / LOWER_HALF_MEAN, b: v.b / LOWER_HALF_MEAN };
+  for (let round = 0; round < 3; round++) {
+    let kept = 0;
+    for (let i = 0; i < e.length; i++) {
+      const mu = 2 * (v.a + v.b * m2[i]);
+      use[i] = mu > 0 && e[i] <= SIGNAL_FACTOR * mu ? 1 : 0;
+      kept += use[i];
+    }
+    if (kept < 3) break;
+    v = fitVariances(m2, e, use);
+  }
+  return toNoise(v, all, 'differences');
+}
+
+/**
+ * Mean of an exponential variable below its median, as a fraction of its mean: with median
+ * μ·ln 2, E[e | e ≤ median] = 2·μ·(1 − ½(1 + ln 2)) = μ·(1 − ln 2).
+ */
+const LOWER_HALF_MEAN = 1 - Math.LN2;
+
+/**
+ * Noise of the recorded quantity from a fit's residuals.
+ * @param residualZ2 |Zmeas − Zmod|² per point of this sweep, Ω²
+ * @param dofFactor residuals over residuals minus fitted parameters (≥ 1), shared by all sweeps of the fit
+ */
+export function noiseFromResiduals(rec: RecordedQuantity, residualZ2: Float64Array, dofFactor: number): RecordedNoise {
+  const n = residualZ2.length;
+  const m2 = squaredMagnitudes(rec);
+  const e = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const g = rec.zPerUnit[i];
+    e[i] = g > 0 && Number.isFinite(g) ? (residualZ2[i] / (g * g)) * dofFactor : 0;
+  }
+  return toNoise(fitVariances(m2, e, null), m2, 'residuals');
+}
+
+/** Standard deviation of each impedance point (per component), Ω: |dZ/dM|·√(floor² + trace²·|M|²). */
+export function impedanceSigmaOhm(rec: RecordedQuantity, noise: RecordedNoise): Float64Array {
+  const n = rec.re.length;
+  const out = new Float64Array(n);
+  const a = noise.floor * noise.floor;
+  const b = noise.trace * noise.trace;
+  for (let i = 0; i < n; i++) {
+    const m2 = rec.re[i] * rec.re[i] + rec.im[i] * rec.im[i];
+    out[i] = rec.zPerUnit[i] * Math.sqrt(a + b * m2);
+  }
+  return out;
+}
