@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { main } from '../../scripts/motional.ts';
 
-// The expected behaviour is CONTRACT §2: `check PATH...` prints each problem as
+// The expected behaviour is in README: Commands: `check PATH...` prints each problem as
 // `FILE:LINE: message` on stderr; exit 0 all valid, 1 any problem (2 for a usage error).
 
 const BAD = 'test/fixtures/bad-records';
@@ -171,7 +171,7 @@ describe('motional check as a real process', () => {
     expect(r).toMatchObject({ code: 0, out: '3 parts, 0 problems, 1 warning\n' });
   });
 
-  it('runs through the npm script of CONTRACT §2', () => {
+  it('runs through the npm script of README: Commands', () => {
     const r = spawnSync('npm', ['run', '-s', 'motional', '--', 'check', join(BAD, 'wrong-unit')], { encoding: 'utf8', timeout: 60_000 });
     expect(r.status).toBe(1);
     expect(r.stderr).toContain(`${BAD}/wrong-unit/part.yaml:5: datasheet.esrMax: expected a resistance`);

@@ -1,8 +1,8 @@
 /**
- * A synthetic part folder for the `netlist` and `advise` command tests: X1 of FIELD.md §0 plus
- * the second branch of FIELD.md §1.1's two-branch check (L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF,
- * 100 kHz above fs) as a spurious mode, measured as reflection sweeps written by the project's
- * own model Touchstone writer. Invented part; not a real product.
+ * A synthetic part folder for the `netlist` and `advise` command tests: the reference resonator
+ * X1 (L1 10 mH, C1 10 fF, R1 20 Ω, C0 3 pF) plus a second branch (L2 = 40 mH, R2 = 150 Ω,
+ * C2 = 2.468878 fF, 100 kHz above fs) as a spurious mode, measured as reflection sweeps written
+ * by the project's own model Touchstone writer. Invented part; not a real product.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';

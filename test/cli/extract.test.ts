@@ -7,7 +7,7 @@ import { formatSweepCsv } from '../../src/lib/io/sweep-csv.ts';
 import type { BvdModel } from '../../src/lib/models/bvd.ts';
 import { linGrid, synthSweep } from '../lib/extract/synthetic.ts';
 
-// X1 of FIELD.md §0 (synthetic, IEEE 177 model) written as CSV sweeps of an invented part.
+// Reference resonator X1 (synthetic, IEEE Std 177 model) written as CSV sweeps of an invented part.
 const FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 
@@ -45,7 +45,7 @@ beforeAll(() => {
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 describe('motional extract', () => {
-  it('prints the CONTRACT §3 JSON in SI units and exits 0', async () => {
+  it('prints the extract JSON in SI units and exits 0', async () => {
     const r = await run([good, '--json']);
     expect(r.code).toBe(0);
     const j = JSON.parse(r.out);

@@ -45,7 +45,7 @@ describe('motional netlist', () => {
     const loaded = await loadPart(part);
     const result = extractPart(loaded.part!, loaded.sweeps);
     const chosen = modelFromResult(result.samples[0], { hints: { frequency: 15.9208e6, overtone: 1 } });
-    // The extraction recovers FIELD.md §0's X1 and the §1.1 second branch (loose: the extractor's own tests are strict).
+    // The extraction recovers X1 and the second branch of design-part.ts (loose: the extractor's own tests are strict).
     expect(Math.abs(chosen.model.branches[0].fsHz / FS_X1 - 1)).toBeLessThan(1e-6);
     expect(Math.abs(chosen.model.branches[1].fsHz / FS_SPUR - 1)).toBeLessThan(1e-6);
     expect(chosen.model.branches[0].r1Ohm).toBeCloseTo(20, 1);

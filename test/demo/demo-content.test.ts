@@ -67,7 +67,7 @@ describe('demo catalogue content', () => {
   });
 
   it('puts every part within its datasheet tolerance at the datasheet load, except documented failures', () => {
-    // fL = fs·√(1 + C1/(C0 + CL)) (FIELD.md §2(d), lossless); series parts at fs.
+    // fL = fs·√(1 + C1/(C0 + CL)) (lossless load resonance, derived from the BVD model); series parts at fs.
     for (const part of DEMO_PARTS) {
       const ds = part.datasheet;
       const nominal = parseQuantity(ds.frequency, 'frequency');

@@ -46,12 +46,13 @@ describe('demo catalogue recovery', () => {
 describe('demo catalogue scenarios', () => {
   const part = (id: string) => DEMO_PARTS.find((p) => p.id === id)!;
 
-  it('the temperature part reproduces the AT-cut cubic of FIELD.md §6 (+2′ row)', async () => {
+  it('the temperature part reproduces the AT-cut cubic at an angle offset of +2′', async () => {
     const p = part('xt-16m-2520-temp');
     const t = (await extracted(p.id)).samples[0].temperature;
     expect(t).toBeDefined();
     expect(t!.form).toBe('cubic');
-    // FIELD.md §6 table, Δθ = +2′ (Gerber & Ballato 1985 via Haney 2001): −40 °C −20.7189 ppm,
+    // Δθ = +2′, coefficients of Gerber & Ballato (eds.), Precision Frequency Control, Academic
+    // Press 1985, as quoted in M. Haney's 2001 thesis; evaluated with mpmath: −40 °C −20.7189 ppm,
     // 85 °C +11.6776 ppm, peak-to-peak −40…85 °C 32.3965 ppm.
     expect(atCutOffset(-40, p.scenario.temperatureCoefficients!) * 1e6).toBeCloseTo(-20.7189, 3);
     const at = (c: number) => t!.points.find((x) => x.temperatureC === c)!.offsetPpm;

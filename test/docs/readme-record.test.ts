@@ -1,7 +1,7 @@
 /**
  * The README's complete record example must be a valid record: the test takes the YAML block
  * under "The part record" from README.md, writes the sweep files it names (synthetic, from
- * FIELD.md §0-style values scaled to 12 MHz), and runs `motional check` and `extract` on it.
+ * values like the reference resonator X1's, scaled to 12 MHz), and runs `motional check` and `extract` on it.
  */
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -34,7 +34,7 @@ describe('README record example', () => {
   const dir = mkdtempSync(join(tmpdir(), 'motional-readme-'));
   writeFileSync(join(dir, 'part.yaml'), yamlText);
 
-  // A 12 MHz AT-cut part in the typical range of FIELD.md §7 (invented values): C1 12 fF, C0 2.4 pF, R1 25 Ω.
+  // A 12 MHz AT-cut part in the typical range (from memory; invented values): C1 12 fF, C0 2.4 pF, R1 25 Ω.
   // fs chosen so that at the 8 pF datasheet load the part sits on 12 MHz.
   const c1F = 12e-15;
   const c0F = 2.4e-12;

@@ -1,8 +1,8 @@
 /**
- * Property-based tests of the CSV/TSV impedance reader (src/lib/io/sweep-csv.ts, CONTRACT §1
- * "Sweep files"): random text and mutated valid files are either read into finite, rising data
- * or refused with the project's InputError, every issue located, each input within the time
- * budget; sweeps written by formatSweepCsv read back to the same values.
+ * Property-based tests of the CSV/TSV impedance reader (src/lib/io/sweep-csv.ts, README: The part
+ * record, "Sweep files"): random text and mutated valid files are either read into finite,
+ * rising data or refused with the project's InputError, every issue located, each input within
+ * the time budget; sweeps written by formatSweepCsv read back to the same values.
  */
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';

@@ -1,5 +1,5 @@
 /**
- * Property-based tests of the part record reader (src/lib/io/part-yaml.ts, CONTRACT §1): random
+ * Property-based tests of the part record reader (src/lib/io/part-yaml.ts, README: The part record): random
  * text, YAML-word soup, random YAML documents and mutated valid records never throw; every issue
  * names the file and a line inside it (or concerns the whole file); a record comes back only
  * without errors, and then holds no NaN or Infinity; nothing pollutes Object.prototype; each

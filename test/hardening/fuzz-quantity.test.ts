@@ -13,7 +13,7 @@ afterAll(() => counter.write());
 
 const KINDS: UnitKind[] = ['frequency', 'capacitance', 'resistance', 'inductance', 'power', 'temperature', 'ppm', 'conductance', 'voltage', 'current', 'time'];
 
-/** Valid quantities of CONTRACT §1 and the foundation issue, and ranges. */
+/** Valid quantities of README: The part record and the foundation issue, and ranges. */
 const VALID = [
   '12 MHz', '12MHz', '12e6 Hz', '8 pF', '80 ohm', '80 Ω', '100 uW', '100 µW', '10 ppm', '25 C', '25 °C', '-40 to 85 C', '-40 C to 85 C',
   '-40..85 C', '3 pF', '32.768 kHz', '0.5 mH', '5 mA/V', '5 mS', '3.3 V', '1 mA', '1 ms', '+1.5e-3 F', '.5 kohm', '1.0E+2 Ohm',
@@ -109,7 +109,7 @@ describe('formatSi → parseQuantity', () => {
     expectRoundTrip(0, 'F', 'capacitance', 4);
   });
 
-  it('reads back the atto range it writes (uncertainties of C1 are a few aF, CONTRACT §3 example 4e-18)', () => {
+  it('reads back the atto range it writes (uncertainties of C1 are a few aF, e.g. 4e-18 F)', () => {
     fc.assert(fc.property(magnitudeArb(-18, -15.01), fc.integer({ min: 1, max: 8 }), (x, digits) => expectRoundTrip(x, 'F', 'capacitance', digits)), { seed: FUZZ_SEED, numRuns: 300 });
   });
 });

@@ -13,7 +13,7 @@ import { InputError, type Issue } from '../../src/lib/issues.ts';
 export const ROOT = resolve(import.meta.dirname, '..', '..');
 /** Bound on the time one input may take, ms (real inputs take well under 1 ms). */
 export const INPUT_BUDGET_MS = 200;
-/** Seed of every property in these files (deterministic inputs, STYLE.md §8.7). */
+/** Seed of every property in these files: inputs are deterministic, so every failure reproduces. */
 export const FUZZ_SEED = 20_260_502;
 
 // ---------------------------------------------------------------- mutations

@@ -4,8 +4,8 @@
  * InputError, every issue located (file and line), each input within the time budget; files
  * written by formatTouchstone read back to the same values.
  *
- * Valid seeds: the Touchstone 1.1 / 2.0 specification examples (test/fixtures/touchstone-spec,
- * FIELD.md §9), the scikit-rf 0.15 written files (test/fixtures/touchstone-skrf) and the
+ * Valid seeds: the Touchstone 1.1 / 2.0 specification examples (IBIS Open Forum;
+ * test/fixtures/touchstone-spec), the scikit-rf 0.15 written files (test/fixtures/touchstone-skrf) and the
  * synthetic good records; the bad-sweep fixtures are mutated too.
  */
 import { readdirSync, readFileSync } from 'node:fs';

@@ -1,5 +1,5 @@
 /**
- * Numerical edge cases through the extraction (src/lib/extract/extract-part.ts, CONTRACT §3):
+ * Numerical edge cases through the extraction (src/lib/extract/extract-part.ts, `extract --json`):
  * a sweep with no resonance, two modes closer than the sweep resolves, a resonance at the sweep
  * edge, data that would give a negative or zero parameter (a passive part cannot have negative
  * resistance; an added capacitor larger than the whole shunt capacitance), fits that cannot
@@ -7,8 +7,8 @@
  * Each gives a warning or error that says what to do, and never a published NaN, Infinity or
  * non-positive physical parameter: every number of the result is scanned.
  *
- * Sweeps: FIELD.md §0 resonator X1 (L1 10 mH, C1 10 fF, R1 20 Ω, C0 3 pF; invented), its
- * impedance from src/lib/models/bvd.ts (FIELD.md §1.1), with seeded noise where stated.
+ * Sweeps: reference resonator X1 (L1 10 mH, C1 10 fF, R1 20 Ω, C0 3 pF; invented), its
+ * impedance from src/lib/models/bvd.ts (IEEE Std 177 BVD model), with seeded noise where stated.
  */
 import { describe, expect, it } from 'vitest';
 import { extractPart } from '../../src/lib/extract/extract-part.ts';
@@ -49,7 +49,7 @@ function expectNothingBadPublished(result: PartResult): void {
     if (s.modes.length > 0) expect(s.c0F).toBeGreaterThan(0);
     else expect(s.c0F).toBeGreaterThanOrEqual(0);
     for (const b of s.model.branches) for (const v of [b.fsHz, b.r1Ohm, b.c1F]) expect(v).toBeGreaterThan(0);
-    // the CONTRACT §3 JSON: numbers stay numbers (JSON.stringify would turn NaN into null)
+    // the extract JSON: numbers stay numbers (JSON.stringify would turn NaN into null)
     expect(JSON.stringify({ c0F: s.c0F, modes: s.modes })).not.toContain('null');
   }
 }

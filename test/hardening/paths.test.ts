@@ -1,8 +1,9 @@
 /**
- * File names in records, through `motional check` (CONTRACT §1: a record may only reference
- * files inside its own folder; §2: every problem printed as `FILE:LINE: message`): links that
- * leave the folder, link loops, devices and FIFOs, `..` and absolute paths in every spelling,
- * control, invisible and direction-changing characters, Unicode normalisation and letter case.
+ * File names in records, through `motional check` (README: The part record — a record may name
+ * only files inside its own folder; README: Commands — every problem printed as
+ * `FILE:LINE: message`): links that leave the folder, link loops, devices and FIFOs, `..` and
+ * absolute paths in every spelling, control, invisible and direction-changing characters,
+ * Unicode normalisation and letter case.
  * Each must be a located error at the record's field (or, for folders of parts, a located
  * problem), never a crash, a hang or a silent skip. Folders are built in a temp directory.
  */

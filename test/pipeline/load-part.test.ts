@@ -7,7 +7,7 @@ import type { FileSource, FileStat } from '../../src/pipeline/file-source.ts';
 import { impedanceAt, type BvdModel } from '../../src/lib/models/bvd.ts';
 import { formatIssue } from '../../src/lib/issues.ts';
 
-// FIELD.md §0 synthetic resonator X1 (not a real part): L1 10 mH, C1 10 fF, R1 20 Ω, C0 3 pF.
+// Synthetic reference resonator X1 (not a real part): L1 10 mH, C1 10 fF, R1 20 Ω, C0 3 pF.
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: 1e8 / (2 * Math.PI), r1Ohm: 20, c1F: 10e-15 }] };
 const FS = X1.branches[0].fsHz;
 const FREQS = Array.from({ length: 11 }, (_, i) => FS - 5e3 + i * 1e3);
@@ -16,7 +16,7 @@ type C = [number, number];
 const div = ([a, b]: C, [c, d]: C): C => [(a * c + b * d) / (c * c + d * d), (b * c - a * d) / (c * c + d * d)];
 const n17 = (x: number) => x.toPrecision(17);
 
-/** FIELD.md §3.2 reflection: S11 = (Z − Z0)/(Z + Z0). */
+/** Reflection: S11 = (Z − Z0)/(Z + Z0). */
 function s1pReflection(z: (f: number) => C, freqs = FREQS, z0 = 50): string {
   const rows = freqs.map((f) => {
     const [r, x] = z(f);
@@ -25,7 +25,7 @@ function s1pReflection(z: (f: number) => C, freqs = FREQS, z0 = 50): string {
   return `# Hz S RI R ${z0}\n${rows.join('\n')}\n`;
 }
 
-/** FIELD.md §3.2 series-through: S21 = 2Z0/(Z + 2Z0), S11 = Z/(Z + 2Z0). */
+/** Series-through (derived from the circuit): S21 = 2Z0/(Z + 2Z0), S11 = Z/(Z + 2Z0). */
 function s2pSeries(z: (f: number) => C, freqs = FREQS): string {
   const rows = freqs.map((f) => {
     const [r, x] = z(f);
@@ -60,7 +60,7 @@ beforeAll(() => {
 afterAll(() => rmSync(root, { recursive: true, force: true }));
 
 describe('loadPart: reading sweeps', () => {
-  it('reads a reflection .s1p into the impedance of the part (FIELD.md §3.2 round trip)', async () => {
+  it('reads a reflection .s1p into the impedance of the part (reflection round trip)', async () => {
     const dir = makePart('reflection', {
       'part.yaml': record('    sweeps:\n      - file: a1.s1p\n        fixture: reflection\n'),
       'a1.s1p': s1pReflection(x1),
@@ -91,7 +91,7 @@ describe('loadPart: reading sweeps', () => {
     expect(Array.from(b.sweeps[0].impedance!.zRe)).toEqual(Array.from(a.sweeps[0].impedance!.zRe));
   });
 
-  it('applies open/short and open/short/load compensation (FIELD.md §3.1 check: 16 MHz, Rs 0.5 Ω, Ls 5 nH, Cp 1 pF, DUT 20 Ω)', async () => {
+  it('applies open/short and open/short/load compensation (check values computed with mpmath: 16 MHz, Rs 0.5 Ω, Ls 5 nH, Cp 1 pF, DUT 20 Ω)', async () => {
     const w = (f: number) => 2 * Math.PI * f;
     const zs = (f: number): C => [0.5, w(f) * 5e-9];
     const withFixture = (zdut: C) => (f: number): C => {
@@ -108,19 +108,19 @@ describe('loadPart: reading sweeps', () => {
       'open.csv': csvZ(open, freqs),
       'short.csv': csvZ(zs, freqs),
     });
-    // FIELD.md §3.1: Zm = 20.499919 + j0.462443 Ω at 16 MHz
+    // check value (mpmath): Zm = 20.499919 + j0.462443 Ω at 16 MHz
     expect(withFixture([20, 0])(16e6)[0]).toBeCloseTo(20.499919, 5);
     expect(withFixture([20, 0])(16e6)[1]).toBeCloseTo(0.462443, 5);
     const loaded = await loadPart(dir);
     expect(loaded.issues).toEqual([]);
     const z = loaded.sweeps[0].impedance!;
-    // FIELD.md §3.1: exact open/short → 20.000000 Ω
+    // check value (mpmath): exact open/short → 20.000000 Ω
     for (let i = 0; i < 3; i++) {
       expect(z.zRe[i]).toBeCloseTo(20, 9);
       expect(z.zIm[i]).toBeCloseTo(0, 9);
     }
 
-    // FIELD.md §3.1: open/short/load with a 50 Ω load → 20.000000 Ω. The OSL formula is
+    // check value (mpmath): open/short/load with a 50 Ω load → 20.000000 Ω. The OSL formula is
     // linear in the stated load value, so stating 100 Ω for the 50 Ω standard must give 40 Ω:
     // that shows the load sweep and loadResistance are used, not only open and short.
     const osl = makePart('compensated-osl', {

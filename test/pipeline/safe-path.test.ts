@@ -5,8 +5,9 @@ import { execFileSync } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checkPartFileName, findCaseCollisions, resolveInPartFolder, sweepFormatOf } from '../../src/pipeline/safe-path.ts';
 
-// Rules: CONTRACT §1 ("a record may only reference files inside its own folder (no absolute
-// paths, no `..`, no links that leave the folder)"); the Unicode list is common practice
+// Rules: README: The part record ("a record may name only files inside its own folder") and
+// README: Limits and robustness (no absolute paths, no `..`, no links that resolve outside);
+// the Unicode list is common practice
 // (Unicode TR #36 "Unicode Security Considerations" on bidi and invisible characters).
 
 describe('checkPartFileName', () => {

@@ -4,7 +4,8 @@ import { impedanceOver } from '../../src/lib/models/bvd.ts';
 import { X1 } from './fixture.ts';
 
 describe('decimateCurve', () => {
-  // FIELD.md §0 X1 (IEEE 177 BVD model): minimum |Z| near fs = 15 915 494.309 Hz; §1.1 Z(fs) = 19.99928 − j0.119996 Ω, §1.3 |Z|min = 19.999280 Ω.
+  // Reference resonator X1 (IEEE Std 177 BVD model): minimum |Z| near fs = 15 915 494.309 Hz; check values
+  // (mpmath) Z(fs) = 19.99928 − j0.119996 Ω, |Z|min = 19.999280 Ω.
   it('keeps the resonance minimum of |Z| of a dense sweep', () => {
     const n = 20_001;
     const fs = X1.branches[0].fsHz;

@@ -17,7 +17,7 @@ async function netlistCli(args: string[]): Promise<string> {
   return out;
 }
 
-// The downloads must be what the command line prints for the same part and sample (CONTRACT §2).
+// The downloads must be what the command line prints for the same part and sample (README: Commands).
 describe('makeDownloads on a demo record', async () => {
   const folder = join('content', 'parts', 'xt-8m-hc49s');
   const loaded = await loadPart(folder);

@@ -1,8 +1,8 @@
 /**
  * Synthetic site fixtures: part records, loaded sweeps and "perfect" extraction results built
  * directly from known BVD models (synthetic data, no extraction involved), for testing the page
- * data and the site without depending on the extractor. Reference resonators from FIELD.md §0
- * (X1: 10 mH, 10 fF, 20 Ω, 3 pF) and §7 typical ranges (common practice, from memory there).
+ * data and the site without depending on the extractor. Invented reference resonators
+ * (X1: 10 mH, 10 fF, 20 Ω, 3 pF) and typical parameter ranges (from memory).
  */
 import { impedanceOver, inductanceOf, qualityOf, type BvdModel } from '../../src/lib/models/bvd.ts';
 import type { ModeResult, PartResult, SampleResult } from '../../src/lib/extract/types.ts';
@@ -130,7 +130,7 @@ export function makeFixturePart(spec: FixturePartSpec): { loaded: LoadedPart; re
   return { loaded, result: { part: spec.id, samples }, part };
 }
 
-/** FIELD.md §0 X1: 10 mH, 10 fF, 20 Ω, 3 pF → fs = 15 915 494.309 Hz. */
+/** Reference resonator X1 (invented): 10 mH, 10 fF, 20 Ω, 3 pF → fs = 15 915 494.309 Hz. */
 export const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: 1e8 / (2 * Math.PI), r1Ohm: 20, c1F: 10e-15 }] };
 
 /** A demo Pierce circuit (invented values, common practice ranges). */

@@ -18,7 +18,7 @@ describe('makePartData', () => {
     expect(JSON.stringify(data)).not.toMatch(/NaN|Infinity/);
   });
 
-  // FIELD.md §0 X1: fs = 15 915 494.309 Hz, Q = 50 000 (IEEE 177 BVD model).
+  // Reference resonator X1: fs = 15 915 494.309 Hz, Q = 50 000 (IEEE Std 177 BVD model).
   it('summarises the first sample main mode of the X1 reference resonator', () => {
     const { data } = x1Part();
     expect(data.summary.fsHz).toBeCloseTo(15_915_494.309, 2);
@@ -29,7 +29,7 @@ describe('makePartData', () => {
     expect(data.synthetic).toBe(true);
   });
 
-  // CL for a target f: CL = C1/((f/fs)² − 1) − C0 (FIELD.md §4.1), independent arithmetic here.
+  // CL for a target f: CL = C1/((f/fs)² − 1) − C0 (lossless, derived from the BVD model), independent arithmetic here.
   it('gives the load capacitance that reaches the datasheet frequency', () => {
     const { data } = x1Part();
     const fs = X1.branches[0].fsHz;
@@ -52,7 +52,7 @@ describe('makePartData', () => {
     expect(Math.max(...p.residualPct.y)).toBeLessThan(0.5);
   });
 
-  // Pulling at the datasheet CL: DL = fs·√(1 + C1/(C0 + CL)) vs nominal (FIELD.md §4.1).
+  // Pulling at the datasheet CL: DL = fs·√(1 + C1/(C0 + CL)) vs nominal (lossless, derived from the BVD model).
   it('marks the datasheet load capacitance on the pulling curve', () => {
     const { data } = x1Part();
     const pull = data.samples[0].plots.pulling!;

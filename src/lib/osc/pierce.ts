@@ -9,7 +9,7 @@
  *
  * Target: the datasheet nominal frequency when given; otherwise the part's own lossless load
  * resonance at the datasheet CL (then the offset measures only the error in CL). The capacitors
- * minimise |offset| of the extracted sample's lossless load resonance fL (main branch, §4.1)
+ * minimise |offset| of the extracted sample's lossless load resonance fL (main branch; see load.ts)
  * from that target. R1 raises fL by about fs/(2QM) — 0.08 ppm for a 16 MHz AT part — which the
  * advice neglects. Equal pair: floor and ceiling of the ideal equal value; best pair: every
  * ordered pair within {@link PAIR_STEPS} preferred values of the ideal and at most

@@ -1,8 +1,9 @@
 /**
  * Bad sweep files: every one is refused with an InputError whose issues name the file and
  * the line, and say what was wrong. Fixtures: test/fixtures/bad-sweeps/ (hand-written,
- * see test/fixtures/README.md). Rules checked: Touchstone 1.1/2.0 specification (FIELD.md §9)
- * and CONTRACT.md §1 for CSV; message wording is the project's (STYLE.md §5).
+ * see test/fixtures/README.md). Rules checked: Touchstone 1.1/2.0 specification (IBIS
+ * Open Forum) and README: The part record ("Sweep files") for CSV; message wording is the
+ * project's (DEVELOPERS.md: Reading an issue line).
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';

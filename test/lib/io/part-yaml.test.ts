@@ -4,7 +4,10 @@ import { formatIssue, type Issue } from '../../../src/lib/issues.ts';
 
 const FILE = 'parts/XO-0012/part.yaml';
 
-/** The CONTRACT §1 example record (invented supplier and part names). */
+/**
+ * A full example record: the example of README: The part record with every optional field filled
+ * in (invented supplier and part names).
+ */
 const CONTRACT_EXAMPLE = `id: XO-0012
 title: 12 MHz crystal, 3225 SMD
 kind: quartz-at
@@ -69,7 +72,7 @@ function only(text: string): Issue {
 }
 
 describe('parsePartYaml: valid records', () => {
-  it('reads the CONTRACT §1 example into SI base units with no issue', () => {
+  it('reads the full example record into SI base units with no issue', () => {
     const r = parsePartYaml(CONTRACT_EXAMPLE, FILE);
     expect(r.issues).toEqual([]);
     const part = r.part!;

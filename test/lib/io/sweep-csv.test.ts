@@ -1,5 +1,5 @@
 /**
- * CSV/TSV impedance sweeps per CONTRACT.md §1 ("Sweep files"): header names and units,
+ * CSV/TSV impedance sweeps per README: The part record ("Sweep files"): header names and units,
  * delimiters, decimal comma in `;` files, quoting, BOM/CRLF, magnitude/phase, and the writer's
  * round trip. Bad files are in bad-sweeps.test.ts.
  */
@@ -10,8 +10,8 @@ import type { ImpedanceSweep } from '../../../src/lib/sweep/sweep.ts';
 const arr = (a: Float64Array) => Array.from(a);
 
 describe('parseSweepCsv', () => {
-  it('reads the contract example header with |Z| in ohm and phase in degrees', () => {
-    // CONTRACT.md §1 example header
+  it('reads the README example header with |Z| in ohm and phase in degrees', () => {
+    // the example header of README: The part record
     const s = parseSweepCsv('frequency (MHz),|Z| (ohm),phase (deg)\n12,100,0\n12.5,200,90\n13,50,-90\n', 'a.csv');
     expect(arr(s.freqHz)).toEqual([12e6, 12.5e6, 13e6]);
     expect(arr(s.zRe)).toEqual([100, 0, 0]);

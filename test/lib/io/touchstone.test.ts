@@ -1,7 +1,7 @@
 /**
  * Touchstone reader: keyword layout, option line, normalisation, wrapping, noise blocks and
  * comments, on hand-written fixtures that follow the Touchstone File Format Specification
- * v1.1 / v2.0 (IBIS Open Forum; summarised in FIELD.md §9). Expected values are the numbers in
+ * v1.1 / v2.0 (IBIS Open Forum). Expected values are the numbers in
  * each fixture, converted by the spec's definitions (RI: re, im; MA: mag ∠deg; DB: 20·log10|x|
  * ∠deg; v1 Z/Y normalised to R, v2 Z/Y in ohm/siemens). Writer round trips at the end.
  */

@@ -4,8 +4,9 @@
  * model's (src/lib/models/bvd.ts impedanceAt) and the resonances must sit where the model puts them.
  *
  * Series resonance is compared as the same quantity on both sides: the peak of G = Re Y, which
- * is exactly fs for one branch because C0 only adds susceptance (FIELD.md §2(b)); 1/Gmax = R1.
- * (Never the minimum of |Z|, which C0 moves below fs — STACK.md physics note.)
+ * is exactly fs for one branch because C0 only adds susceptance (derived from the BVD model);
+ * 1/Gmax = R1. (Never the minimum of |Z|, which C0 moves below fs, to fs·(1 − C0·R1²/(2·L1)) to
+ * first order — IEEE Std 177's fm.)
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';

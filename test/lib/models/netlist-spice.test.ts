@@ -105,7 +105,7 @@ describe('formatNetlist', () => {
     expect(noSpur).not.toContain('spurious mode near');
   });
 
-  it('flags a low figure of merit and an r below the AT-cut minimum (FIELD.md §1.4, §10)', () => {
+  it('flags a low figure of merit and an r below the AT-cut minimum (ideal-plate r, k = 8.8 %)', () => {
     const ceramicLike = { c0F: 20.6e-12, branches: [{ fsHz: 4.005879e6, r1Ohm: 8, c1F: 4.1e-12 }] };
     expect(formatNetlist(ceramicLike, { partId: 'C1', kind: 'quartz-at' })).toMatch(/CAUTION: .* r = C0\/C1 = 5\.024 below the AT-cut minimum 159\.3/);
     const lowM = { c0F: 3e-12, branches: [{ fsHz: 100e6, r1Ohm: 200, c1F: 1e-15 }] };

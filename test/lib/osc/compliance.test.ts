@@ -5,7 +5,7 @@ import { modeOf, sampleOf } from './sample-fixtures.ts';
 
 const pF = 1e-12;
 const x1 = X1.branches[0];
-// FIELD.md §4.1: X1's load resonance with R1 at 8 pF is 15 922 728.295 Hz.
+// Check value (mpmath, BVD model): X1's load resonance with R1 at 8 pF is 15 922 728.295 Hz.
 const FL8_WITH_R1 = 15922728.295;
 
 describe('datasheet compliance of one sample', () => {
@@ -23,7 +23,7 @@ describe('datasheet compliance of one sample', () => {
   });
 
   it('uses fr for a series-calibrated part, and says so', () => {
-    // FIELD.md §1.3: X1 fr − fs = +0.954964 Hz.
+    // Check value (mpmath; fr as IEEE Std 177 names it): X1 fr − fs = +0.954964 Hz.
     const fr = x1.fsHz + 0.954964;
     const s = sampleOf('A1', X1, [modeOf(x1, X1.c0F, 1, false, { frHz: fr, rrOhm: 20.00072 })]);
     const r = checkCompliance(s, { frequency: x1.fsHz, tolerance: 1, loadCapacitance: 'series' });
@@ -32,7 +32,7 @@ describe('datasheet compliance of one sample', () => {
     expect(r.items[0].verdict).toBe('pass');
   });
 
-  it('judges ESR on Rr when the extraction gives it (FIELD.md §1.3: X1 Rr = 20.000720 Ω), else on R1', () => {
+  it('judges ESR on Rr when the extraction gives it (X1 Rr = 20.000720 Ω by mpmath), else on R1', () => {
     const withRr = sampleOf('A1', X1, [modeOf(x1, X1.c0F, 1, false, { rrOhm: 20.00072 })]);
     const a = checkCompliance(withRr, { esrMax: 20 }).items.find((i) => i.check === 'esr')!;
     expect(a.value).toBe(20.00072);

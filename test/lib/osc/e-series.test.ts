@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { E_SERIES, nearestPreferred, preferredNeighbours, preferredRange } from '../../../src/lib/osc/e-series.ts';
 
-// IEC 60063:2015 values as listed in FIELD.md §8 (cross-checked there against public tables).
+// IEC 60063:2015 values (cross-checked against public tables).
 const IEC_60063 = {
   E6: '1.0 1.5 2.2 3.3 4.7 6.8',
   E12: '1.0 1.2 1.5 1.8 2.2 2.7 3.3 3.9 4.7 5.6 6.8 8.2',
@@ -15,7 +15,7 @@ describe('E-series tables', () => {
     });
   }
 
-  it('differs from round(10^(i/n), 1) where FIELD.md §8 says the historical rounding does', () => {
+  it('differs from round(10^(i/n), 1) where the historical rounding of IEC 60063 does', () => {
     const formula = (n: number) => Array.from({ length: n }, (_, i) => Math.round(10 ** (i / n) * 10) / 10);
     const diff = (n: number, table: readonly number[]) => table.filter((v, i) => v !== formula(n)[i]);
     expect(diff(24, E_SERIES.E24)).toEqual([2.7, 3.0, 3.3, 3.6, 3.9, 4.3, 4.7, 8.2]);
@@ -24,7 +24,7 @@ describe('E-series tables', () => {
   });
 });
 
-describe('nearest preferred value (by |ln|, FIELD.md §8 examples)', () => {
+describe('nearest preferred value (by |ln|, boundaries at geometric means)', () => {
   it('picks 12 for 11 in E12 although 10 and 12 tie linearly (boundary 10.954)', () => {
     expect(nearestPreferred(11, 'E12')).toBe(12);
     expect(nearestPreferred(10.95, 'E12')).toBe(10);

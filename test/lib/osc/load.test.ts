@@ -11,7 +11,7 @@ const x1 = X1.branches[0];
 const tf1 = TF1.branches[0];
 const pF = 1e-12;
 
-// FIELD.md §4.1 table for X1 (IEEE 177 BVD model; values computed with mpmath for FIELD.md):
+// Check table for X1 (IEEE Std 177 BVD model; values computed independently with mpmath):
 // CL, fL exact lossless (Hz), DL exact / approx (ppm), fL with R1 (Hz), RL numeric / formula (Ω), S (ppm/pF, approximate form)
 const TABLE: Array<[number, number, number, number, number, number, number, number]> = [
   [8, 15922726.981, 454.4422, 454.5455, 15922728.295, 37.8151, 37.8125, 41.3223],
@@ -20,7 +20,7 @@ const TABLE: Array<[number, number, number, number, number, number, number, numb
   [20, 15918953.823, 217.3677, 217.3913, 15918954.922, 26.4513, 26.45, 9.4518],
 ];
 
-describe('load resonance of X1 against FIELD.md §4.1', () => {
+describe('load resonance of X1 against the mpmath check table', () => {
   for (const [cl, fl, dlExact, dlApprox, flR1, rlNum, rlFormula, s] of TABLE) {
     it(`gives fL, DL, RL and trim sensitivity at ${cl} pF as tabulated`, () => {
       expect(loadFrequencyHz(x1, X1.c0F, cl * pF)).toBeCloseTo(fl, 3);
@@ -34,7 +34,7 @@ describe('load resonance of X1 against FIELD.md §4.1', () => {
       expect(withLoss.rlOhm).toBeCloseTo(rlNum, 4);
       expect(loadResistanceOhm(x1.r1Ohm, X1.c0F, cl * pF)).toBeCloseTo(rlFormula, 4);
       const sens = trimSensitivityPpmPerPf(x1, X1.c0F, cl * pF);
-      // FIELD.md tabulates the approximate S; the exact one is −dDL/dCL of the exact DL
+      // The check table holds the approximate S; the exact one is −dDL/dCL of the exact DL
       // (checked here by a central difference over ±0.001 pF).
       expect(sens.approx).toBeCloseTo(s, 4);
       const h = 0.001 * pF;
@@ -44,20 +44,20 @@ describe('load resonance of X1 against FIELD.md §4.1', () => {
     });
   }
 
-  it('gives the pulling from 10 to 20 pF of FIELD.md §4.1 (167.2241 approx, 167.1738 exact ppm)', () => {
+  it('gives the pulling from 10 to 20 pF (167.2241 approx, 167.1738 exact ppm)', () => {
     const p = pullingPpm(x1, X1.c0F, 10 * pF, 20 * pF);
     expect(p.approx).toBeCloseTo(167.2241, 4);
     expect(p.exact).toBeCloseTo(167.1738, 4);
   });
 
-  it('gives TF1 at 12.5 pF DL 109.4891 ppm approx and 109.4831 ppm exact (FIELD.md §4.1)', () => {
+  it('gives TF1 at 12.5 pF DL 109.4891 ppm approx and 109.4831 ppm exact', () => {
     const dl = loadOffsetPpm(tf1, TF1.c0F, 12.5 * pF);
     expect(dl.approx).toBeCloseTo(109.4891, 4);
     expect(dl.exact).toBeCloseTo(109.4831, 4);
   });
 
-  it('gives the overtone pulling of FIELD.md §5 (10 MHz plate, C0 4 pF, CL 10 pF)', () => {
-    // FIELD.md §5 (C1n ≈ C1/n², QCM review Sensors 2021): 714.2857 / 79.3651 / 28.5714 ppm, approx form.
+  it('gives the overtone pulling of one plate (10 MHz plate, C0 4 pF, CL 10 pF)', () => {
+    // C1n ≈ C1/n² (QCM review, Sensors 21(10):3490, 2021): 714.2857 / 79.3651 / 28.5714 ppm, approx form.
     const plate = (c1F: number) => ({ fsHz: 10e6, r1Ohm: 10, c1F });
     expect(loadOffsetPpm(plate(20e-15), 4 * pF, 10 * pF).approx).toBeCloseTo(714.2857, 4);
     expect(loadOffsetPpm(plate(20e-15 / 9), 4 * pF, 10 * pF).approx).toBeCloseTo(79.3651, 4);
@@ -68,7 +68,7 @@ describe('load resonance of X1 against FIELD.md §4.1', () => {
   });
 
   it('solves the load capacitance that hits a frequency exactly, lossless and with R1', () => {
-    // Round trip through FIELD.md §4.1's 8 pF row.
+    // Round trip through the check table's 8 pF row.
     const lossless = loadCapacitanceForHz(x1, X1.c0F, 15922726.981);
     expect(lossless.ok && lossless.clF / pF).toBeCloseTo(8, 5);
     const lossy = loadCapacitanceForWithLoss(X1, 0, 15922728.295);
@@ -102,13 +102,13 @@ function zeroPhase(rows: ImpedanceRow[]): number {
 
 function loadSuite(name: string, run: (deck: string) => Promise<ImpedanceRow[]> | ImpedanceRow[]): void {
   for (const c of LOAD_CASES) {
-    it(`${name}: the zero phase of X1 + series ${c.clF / pF} pF matches fL with R1 (FIELD.md §4.1)`, async () => {
+    it(`${name}: the zero phase of X1 + series ${c.clF / pF} pF matches fL with R1 (mpmath check value)`, async () => {
       const rows = await run(seriesLoadDeck(c.clF, c.sweep));
       const simHz = zeroPhase(rows);
       const ours = loadResonanceWithLoss(X1, 0, c.clF);
       expect(ours.ok).toBe(true);
       if (!ours.ok) return;
-      // Simulator vs our solver: within 1e-4 Hz (6e-12 relative); both vs FIELD.md's 3-decimal value.
+      // Simulator vs our solver: within 1e-4 Hz (6e-12 relative); both vs the 3-decimal mpmath check value.
       expect(Math.abs(simHz - ours.freqHz)).toBeLessThan(1e-4);
       expect(Math.abs(simHz - c.fieldFlWithR1Hz)).toBeLessThan(6e-4);
       // The lossless form sits about 1.1–1.3 Hz lower: the simulation tells them apart.

@@ -45,7 +45,7 @@ describe('lot statistics', () => {
     expect(r1.note).toMatch(/median absolute deviation is zero/);
   });
 
-  it('includes the frequency at the datasheet load capacitance (FIELD.md §4.1: 15 922 728.295 Hz at 8 pF)', () => {
+  it('includes the frequency at the datasheet load capacitance (mpmath check value: 15 922 728.295 Hz at 8 pF)', () => {
     const s = lotStatistics(lot([20, 20, 20]), { loadCapacitance: 8e-12 });
     const f = s.parameters.find((p) => p.parameter === 'loadFreqHz')!;
     expect(f.median).toBeCloseTo(15922728.295, 3);

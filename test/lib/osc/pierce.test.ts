@@ -11,7 +11,7 @@ const x1 = X1.branches[0];
 const tf1 = TF1.branches[0];
 const fL12 = loadFrequencyHz(x1, X1.c0F, 12 * pF);
 
-/** A circuit with the lumped stray of FIELD.md §4.2 (CL = CaCb/(Ca + Cb) + Cstray) as pin-to-pin stray. */
+/** A circuit with the lumped stray of the usual Pierce load formula (CL = CaCb/(Ca + Cb) + Cstray) as pin-to-pin stray. */
 function circuit(extra: Partial<OscillatorCircuit> = {}): OscillatorCircuit {
   return {
     name: 'bench-pierce', gm: 5e-3, inputCapacitance: 0, outputCapacitance: 0, boardStray: 0, boardStrayUncertainty: 0,
@@ -24,8 +24,9 @@ function ok(a: PierceAdvice): Extract<PierceAdvice, { ok: true }> {
   return a;
 }
 
-describe('critical transconductance and negative resistance (FIELD.md §4.4, §4.5)', () => {
-  // FIELD.md §4.4 (derived; matches Vittoz, Degrauwe & Bitz 1988): X1, Ca = Cb = 24 pF.
+describe('critical transconductance and negative resistance', () => {
+  // Derived from the BVD model; matches Vittoz, Degrauwe & Bitz, IEEE J. Solid-State Circuits 1988.
+  // X1, Ca = Cb = 24 pF; check values by mpmath.
   it('gives 1.800000e-4 S for X1 with 24/24 pF at ωs', () => {
     expect(criticalGmS(20, X1.c0F, 24 * pF, 24 * pF, x1.fsHz)).toBeCloseTo(1.8e-4, 10);
   });
@@ -47,7 +48,7 @@ describe('critical transconductance and negative resistance (FIELD.md §4.4, §4
     expect(-r / 31.25).toBeCloseTo(5.56, 2);
     expect(-r / 20).toBeCloseTo(8.68, 2);
   });
-  it('makes gm/gm,crit equal |Rneg|/RL exactly (one rule, FIELD.md §4.5)', () => {
+  it('makes gm/gm,crit equal |Rneg|/RL exactly (one rule in the linear model)', () => {
     const gm = 1e-3;
     const ratio = gm / criticalGmS(20, X1.c0F, 24 * pF, 24 * pF, fL12);
     const rl = 20 * (1 + X1.c0F / (12 * pF)) ** 2;
@@ -55,7 +56,7 @@ describe('critical transconductance and negative resistance (FIELD.md §4.4, §4
   });
 });
 
-describe('drive level (FIELD.md §4.6)', () => {
+describe('drive level (forms derived from the BVD model)', () => {
   // X1, CL = 12 pF, Vx = 1 Vpp, ω = 1e8: 5.625 µW by all three forms (pin form: Ca = 24 pF, Vpin = 0.5 Vpp).
   it('gives 5.625 µW by the motional-current, terminal-current and pin forms', () => {
     expect(driveFromCrystalVoltageW(20, X1.c0F, 12 * pF, x1.fsHz, 1) / 1e-6).toBeCloseTo(5.625, 9);
@@ -68,7 +69,7 @@ describe('drive level (FIELD.md §4.6)', () => {
   });
 });
 
-describe('Pierce capacitor advice (FIELD.md §4.2 example: CL 8 pF, stray 2.5 pF, E12)', () => {
+describe('Pierce capacitor advice (example: CL 8 pF, stray 2.5 pF, E12)', () => {
   const advice = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitance: 8 * pF }, model: X1, mainBranch: 0, circuit: circuit() }));
 
   it('aims at the part\'s own frequency at the datasheet CL when the datasheet gives no frequency', () => {
@@ -129,7 +130,7 @@ describe('Pierce gain margin, negative resistance and drive verdicts', () => {
     expect(a.best.checks.negativeResistance.verdict).toBe('pass');
   });
   it('estimates drive with the supply as the swing and warns above the datasheet maximum', () => {
-    // 3.3 Vpp across X1 at 12 pF: 5.625 µW · 3.3² ≈ 61.3 µW (FIELD.md §4.6 scaled), over 10 µW.
+    // 3.3 Vpp across X1 at 12 pF: 5.625 µW · 3.3² ≈ 61.3 µW (the 1 Vpp check value scaled), over 10 µW.
     expect(a.best.driveW / 1e-6).toBeCloseTo(5.625 * 3.3 ** 2 * (a.best.freqHz / x1.fsHz) ** 2, 6);
     expect(a.best.checks.drive.verdict).toBe('warn');
     expect(a.assumptions.join(' ')).toMatch(/assumed equal to the supply/);

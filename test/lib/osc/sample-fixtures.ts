@@ -1,6 +1,6 @@
 /**
  * Builders of SampleResult objects for tests of the design modules: modes from known BVD branches
- * (synthetic, FIELD.md §0 parts), with the bookkeeping fields the extraction would fill left neutral.
+ * (synthetic reference resonators X1, TF1, OT100; invented), with the bookkeeping fields the extraction would fill left neutral.
  */
 import type { ModeResult, SampleResult } from '../../../src/lib/extract/types.ts';
 import { inductanceOf, qualityOf, type BvdModel, type MotionalBranch } from '../../../src/lib/models/bvd.ts';

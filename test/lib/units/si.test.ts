@@ -143,7 +143,7 @@ describe('formatSi', () => {
   });
 
   it('rounds to the requested significant digits', () => {
-    // FIELD.md §0: X1 fs = 15 915 494.309 Hz
+    // reference resonator X1 (L1 10 mH, C1 10 fF): fs = 15 915 494.309 Hz
     expect(formatSi(15915494.309, 'Hz')).toBe('15.92 MHz');
     expect(formatSi(15915494.309, 'Hz', 6)).toBe('15.9155 MHz');
     expect(formatSi(32768, 'Hz', 5)).toBe('32.768 kHz');
