@@ -77,8 +77,17 @@ export function refusePath(pathname: string): string | undefined {
   return undefined;
 }
 
-function isHidden(pathname: string): boolean {
-  return decodeURIComponent(pathname).split('/').some((s) => s.startsWith('.'));
+/**
+ * Give sirv the request's decoded path under the base. sirv decodes with decodeURI, which keeps
+ * reserved characters encoded (`%23` `#`, `%26` `&`, `%3F` `?`, …), so a download whose name holds
+ * one would not be found. Its URL parser (@polka/url) memoises the parsed URL on
+ * `req._parsedUrl`; that memo is set here to the decoded path, with `%` escaped once for
+ * sirv's own decodeURI.
+ */
+function handOver(req: IncomingMessage, decodedPath: string): void {
+  const pathname = decodedPath.replaceAll('%', '%25');
+  req.url = pathname;
+  Object.assign(req, { _parsedUrl: { pathname, search: '', query: undefined, hash: undefined, raw: pathname } });
 }
 
 function sendText(res: ServerResponse, status: number, text: string, headers: Record<string, string> = {}): void {
@@ -112,11 +121,11 @@ function makeHandler(root: string, base: string) {
     if (pathname === '/' && base !== '/') return sendText(res, 302, '', { location: base });
     if (`${pathname}/` === base) return sendText(res, 301, '', { location: base });
     if (!pathname.startsWith(base)) return sendText(res, 404, `not found (the site lives under ${base})`);
-    const rest = `/${pathname.slice(base.length)}`.replace(/\/{2,}/g, '/');
-    if (isHidden(rest)) return void sendNotFoundPage(root, res);
+    const rest = decodeURIComponent(`/${pathname.slice(base.length)}`).replace(/\/{2,}/g, '/');
+    if (rest.split('/').some((s) => s.startsWith('.'))) return void sendNotFoundPage(root, res);
     // sirv reads a Range header loosely (an end before the start throws); a preview needs none
     delete req.headers.range;
-    req.url = rest;
+    handOver(req, rest);
     serveFile(req, res, () => sendNotFoundPage(root, res));
   };
 }

@@ -4,15 +4,12 @@
  *
  * TypeScript workers: on Node 20 a `new Worker('x.ts', { execArgv: ['--import', 'tsx'] })`
  * fails with ERR_UNKNOWN_FILE_EXTENSION (the loader hooks are not in place before the entry
- * module loads). So each thread starts from a tiny JavaScript bootstrap that registers tsx's
- * ESM hooks through its API and then imports the real module.
+ * module loads). So each thread starts from a tiny JavaScript bootstrap (worker-bootstrap.mjs)
+ * that registers tsx's ESM hooks through its public API and then imports the real module.
  *
  * The worker module calls {@link serveTasks} with its handler.
  */
 import { availableParallelism } from 'node:os';
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
-import { pathToFileURL } from 'node:url';
 import { Worker, parentPort, workerData as threadData } from 'node:worker_threads';
 
 export interface WorkerPoolOptions {
@@ -49,25 +46,12 @@ export function defaultJobs(): number {
   return Math.max(1, availableParallelism());
 }
 
-function tsxApiUrl(): string {
-  const require = createRequire(import.meta.url);
-  const pkg = require.resolve('tsx/package.json');
-  return pathToFileURL(join(dirname(pkg), 'dist/esm/api/index.mjs')).href;
-}
-
-function bootstrapSource(moduleUrl: URL): string {
-  const lines: string[] = [];
-  if (moduleUrl.pathname.endsWith('.ts')) {
-    lines.push(`const { register } = await import(${JSON.stringify(tsxApiUrl())});`, 'register();');
-  }
-  lines.push(`await import(${JSON.stringify(moduleUrl.href)});`);
-  return lines.join('\n');
-}
+/** The thread entry: registers tsx for `.ts` modules, then imports the worker module. */
+const BOOTSTRAP_URL = new URL('./worker-bootstrap.mjs', import.meta.url);
 
 /** Start a pool of threads running `moduleUrl`. */
 export function createWorkerPool<T, R>(options: WorkerPoolOptions): WorkerPool<T, R> {
   const size = Math.max(1, Math.floor(options.size ?? defaultJobs()));
-  const source = bootstrapSource(options.moduleUrl);
   const queue: Array<Pending<R>> = [];
   const busy = new Map<Worker, Pending<R>>();
   const idle: Worker[] = [];
@@ -93,7 +77,7 @@ export function createWorkerPool<T, R>(options: WorkerPoolOptions): WorkerPool<T
   };
 
   for (let i = 0; i < size; i++) {
-    const worker = new Worker(source, { eval: true, workerData: options.workerData, execArgv: [] });
+    const worker = new Worker(BOOTSTRAP_URL, { argv: [options.moduleUrl.href], workerData: options.workerData, execArgv: [] });
     worker.on('message', (reply: Reply) => {
       const job = busy.get(worker);
       if (!job || job.id !== reply.id) return;

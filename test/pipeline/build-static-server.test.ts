@@ -7,6 +7,8 @@ import { normalizeBase, refusePath, startStaticServer, type StaticServer } from 
 
 const CANARY = 'canary-outside-the-site-4e1f';
 const NOT_FOUND_PAGE = '<h1>page not found</h1>';
+/** Sweep file names a record may hold: reserved URL characters, a literal percent sign, non-ASCII. */
+const ODD_NAMES = ["a1 narrow & 'q' #1 {{7*7}}.s1p", 'a1 wide $(id) %3Cb%3E;.csv', 'why?+=,@:.txt', '100% drive.ts', 'größe.s2p'];
 
 let tmp: string;
 let site: string;
@@ -26,6 +28,7 @@ beforeAll(async () => {
   await writeFile(join(site, 'downloads', 'XO-1', 'model.cir'), '.subckt x');
   await writeFile(join(site, 'downloads', 'XO-1', 'a1.ts'), '# Hz S RI R 50');
   await writeFile(join(site, '.motional-output'), 'marker');
+  for (const name of ODD_NAMES) await writeFile(join(site, 'downloads', 'XO-1', name), `file ${name}`);
   // next to the served folder: none of this may ever come back
   await writeFile(join(tmp, 'canary.txt'), CANARY);
   await mkdir(join(tmp, 'site-other'));
@@ -180,6 +183,17 @@ describe('static server: base path, pages and 404', () => {
       expect(res.status, file).toBe(200);
       expect(res.headers['content-type'], file).toBe('text/plain; charset=utf-8');
     }
+  });
+
+  it('serves downloads whose names hold reserved characters, percent signs or non-ASCII letters', async () => {
+    for (const name of ODD_NAMES) {
+      const res = await rawRequest(underBase.port, `/base/downloads/XO-1/${encodeURIComponent(name)}`);
+      expect(res.status, name).toBe(200);
+      expect(res.body, name).toBe(`file ${name}`);
+    }
+    // a percent sign is a file name character only when encoded: '%3Cb%3E' names '<b>'
+    const decodedOnce = await rawRequest(underBase.port, `/base/downloads/XO-1/${encodeURIComponent('a1 wide $(id) <b>;.csv')}`);
+    expect(decodedOnce.status).toBe(404);
   });
 
   it('answers other methods with 405 and ignores byte ranges', async () => {
