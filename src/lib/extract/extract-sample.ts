@@ -29,6 +29,8 @@ import { analyseDriveLevel, DRIVE_RATIO_WARNING } from './drive-level.ts';
 import { mainMode } from '../osc/main-mode.ts';
 import { formatFrequency } from './format-frequency.ts';
 import { timed, type TimingCollector } from './timing.ts';
+import { antiResonanceEvidence, FA_VISIBLE_SNR, type NoisySweep } from './fa-visibility.ts';
+import { impedanceSigmaOhm } from './measurement-noise.ts';
 
 /** Options of the extraction. */
 export interface ExtractOptions {
@@ -224,6 +226,13 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     }
     const model: BvdModel = { c0F: c0.value, branches: kept.map((k) => branches[k]) };
 
+    // Each unloaded reference sweep with the noise its final weights used (fa-visibility.ts).
+    const finalNoise = new Map(fits.jointNoise.map((j) => [j.source, j.noise]));
+    const unloadedNoisy: NoisySweep[] = split.reference.filter((s) => !s.loaded).map((s) => {
+      const noise = finalNoise.get(s.source) ?? s.noise;
+      return { source: s.source, freqHz: s.impedance.freqHz, zRe: s.impedance.zRe, zIm: s.impedance.zIm, sigmaZOhm: impedanceSigmaOhm(s.recorded, noise) };
+    });
+
     const modes: ModeResult[] = [];
     kept.forEach((k, kk) => {
       const m = candidates[k];
@@ -240,7 +249,16 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
       const res = m.best.resonance;
       const d1 = resolutionDiagnostic({ source: m.best.source, fsHz: mode.fsHz, bandwidthHz: mode.fsHz / mode.q, stepHz: res.stepHz, pointsPerBandwidth: res.pointsPerBandwidth });
       if (d1) diagnostics.push(d1);
-      if (!m.spurious && !m.observations.some((o) => !o.loaded && o.resonance.faHz !== undefined)) diagnostics.push(spanMissingFaDiagnostic(mode.fsHz, mode.fpHz));
+      if (!m.spurious) {
+        const evidence = antiResonanceEvidence(model, kk, mode.fpHz, unloadedNoisy);
+        if (!evidence) diagnostics.push(spanMissingFaDiagnostic(mode.fsHz, mode.fpHz));
+        else if (evidence.snr < FA_VISIBLE_SNR) {
+          diagnostics.push({
+            code: 'signal-to-noise', severity: 'warning', sweep: evidence.source,
+            message: `mode near ${formatFrequency(mode.fsHz, 8)}: its anti-resonance near ${formatFrequency(mode.fpHz, 8)} is not seen above the noise floor (evidence ${evidence.snr.toPrecision(2)}, want ≥ ${FA_VISIBLE_SNR} in ${evidence.source}); fp comes from C0 and C1 alone`,
+          });
+        }
+      }
       diagnostics.push(...plausibilityDiagnostics(mode, part.kind));
       for (const cc of mode.crossCheck) {
         if (cc.verdict === 'disagree') diagnostics.push({ code: 'methods-disagree', severity: 'warning', message: `mode near ${formatFrequency(mode.fsHz, 8)}: ${cc.message}` });

@@ -78,10 +78,14 @@ export interface FitBvdResult extends FitSummary {
   parameterNames?: string[];
   /** Which stopping rule ended the iteration (levenberg-marquardt.ts StopRule). */
   stop?: string;
-  /** |Zmeas − Zmod|² per point of each input sweep (points inside the window, in order), Ω², when converged. */
+  /**
+   * |Zmeas − Zmod|² per point of each input sweep (points inside the window, in order), Ω², when
+   * converged, corrected for each point's leverage: ×2/(2 − h) with h the point's share of the
+   * hat matrix (its two rows). A point the fit bends to (high leverage) shows a small residual
+   * whatever its noise; the correction gives every point an expected value 2σZ² so the noise
+   * estimated from these residuals is not fooled by it.
+   */
   residualZ2BySweep?: Float64Array[];
-  /** Residuals over residuals minus parameters, m/(m − n). */
-  dofFactor?: number;
   /**
    * Residual structure (converged fits): lag-1 autocorrelation of the weighted residuals along
    * frequency within each sweep, its significance limit 3/√N, and the factor the uncertainties
@@ -133,6 +137,33 @@ export function residualStructure(r: Float64Array, starts: number[]): ResidualSt
   const rho = Math.min(lag1, 0.98);
   const inflation = lag1 > limit ? Math.sqrt((1 + rho) / (1 - rho)) : 1;
   return { lag1, limit, inflation };
+}
+
+/** Leverages are capped here so a point the fit passes through exactly keeps a finite correction. */
+const MAX_POINT_LEVERAGE = 1.98;
+
+/** |Zmeas − Zmod|²·2/(2 − h) per point at x (see FitBvdResult.residualZ2BySweep). */
+function leverageCorrected(problem: ReturnType<typeof createBvdResiduals>, x: Float64Array, inverseNormal: Float64Array): Float64Array {
+  const z2 = problem.impedanceResiduals(x);
+  const m = problem.residualCount;
+  const n = problem.parameterCount;
+  const r = new Float64Array(m);
+  const jac = new Float64Array(m * n);
+  if (!problem.residualsAndJacobian(x, r, jac)) return z2;
+  const row = new Float64Array(n);
+  for (let i = 0; i < z2.length; i++) {
+    let h = 0;
+    for (const k of [2 * i, 2 * i + 1]) {
+      for (let p = 0; p < n; p++) row[p] = jac[p * m + k];
+      for (let p = 0; p < n; p++) {
+        let t = 0;
+        for (let q = 0; q < n; q++) t += inverseNormal[p * n + q] * row[q];
+        h += row[p] * t;
+      }
+    }
+    z2[i] *= 2 / (2 - Math.min(Math.max(h, 0), MAX_POINT_LEVERAGE));
+  }
+  return z2;
 }
 
 /** A converged fit whose RMS relative residual exceeds this does not describe the data. */
@@ -342,9 +373,7 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
 
   // Covariance of the parameters, scaled by the reduced χ² and widened when the residuals are
   // structured, and propagation to reported quantities.
-  const rFinal = new Float64Array(m);
-  problem.residuals(lm.x, rFinal);
-  const structure = residualStructure(rFinal, points.starts);
+  const structure = residualStructure(lm.r, points.starts);
   const s2 = (lm.ssr / (m - n)) * structure.inflation * structure.inflation;
   const cov = (p: number, q: number): number => lm.inverseNormal![p * n + q] * s2;
   const u = zeroUncertainty(model, o);
@@ -417,7 +446,7 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     for (let q = 0; q < n; q++) row.push(cov(p, q));
     covariance.push(row);
   }
-  const z2 = problem.impedanceResiduals(lm.x);
+  const z2 = leverageCorrected(problem, lm.x, lm.inverseNormal);
   const residualZ2BySweep = points.starts.slice(0, -1).map((start, s) => z2.slice(start, points.starts[s + 1]));
   return {
     converged: true,
@@ -428,7 +457,6 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     covariance,
     parameterNames: [...map.names],
     residualZ2BySweep,
-    dofFactor: m / (m - n),
     structure,
   };
 }

@@ -85,13 +85,13 @@ export const NOISE_ROUNDS = 2;
 /** Refit with each sweep's noise taken from the residuals of `fit`; returns the last converged fit and the noise used. */
 function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedSweep[], start: BvdModel) => FitBvdResult): { fit: FitBvdResult; noise: RecordedNoise[] } {
   let current = fit;
-  let noise = data.map((d) => noiseFromResiduals(d.recorded, current.residualZ2BySweep![data.indexOf(d)], current.dofFactor ?? 1));
+  let noise = data.map((d) => noiseFromResiduals(d.recorded, current.residualZ2BySweep![data.indexOf(d)]));
   for (let round = 0; round < NOISE_ROUNDS; round++) {
     const next = data.map((d, s) => ({ ...d, sigmaZOhm: impedanceSigmaOhm(d.recorded, noise[s]) }));
     const refit = run(next, current.model);
     if (!refit.converged || !refit.residualZ2BySweep) break;
     current = refit;
-    if (round + 1 < NOISE_ROUNDS) noise = data.map((d, s) => noiseFromResiduals(d.recorded, current.residualZ2BySweep![s], current.dofFactor ?? 1));
+    if (round + 1 < NOISE_ROUNDS) noise = data.map((d, s) => noiseFromResiduals(d.recorded, current.residualZ2BySweep![s]));
   }
   return { fit: current, noise };
 }

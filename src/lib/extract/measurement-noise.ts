@@ -17,7 +17,7 @@
  *   locally linear trend; near a resonance the curve's own bend dominates, so deviations far
  *   above the current model are set aside as signal, not noise);
  * - after a fit, from the residuals carried back into M (|Zmeas − Zmod|/|dZ/dM|), with the
- *   fit's degrees of freedom accounted for. This is the estimate the published uncertainties
+ *   leverage of each point accounted for (fit-bvd.ts). This is the estimate the published uncertainties
  *   rest on.
  */
 import { recordedOf, type ImpedanceSweep, type RecordedQuantity } from '../sweep/sweep.ts';
@@ -47,32 +47,51 @@ export const MIN_RELATIVE_NOISE = 1e-12;
 const SIGNAL_FACTOR = 40;
 
 /** IRLS rounds of the variance fit (it converges in a few). */
-const VARIANCE_FIT_ROUNDS = 8;
+const VARIANCE_FIT_ROUNDS = 12;
 
-/** σ_M² = floor² + trace²·|M|² fitted to e with E[e] = 2σ_M²: returns the two variances. */
+/**
+ * σ_M² = floor² + trace²·|M|² fitted to e with E[e] = 2σ_M²: returns the two variances (a, b).
+ * Maximum likelihood for exponential e (deviance Σ y/μ + ln μ, y = e/2, μ = a + b·|M|²) by
+ * iteratively reweighted least squares (weights 1/μ²), each step projected onto a, b ≥ their
+ * smallest values and accepted only when the deviance falls (else halved). The start takes a
+ * from the quarter of the points with the smallest |M| and b from the quarter with the largest,
+ * each as median/ln 2 (the median of an exponential is its mean·ln 2).
+ */
 function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null, rounds = VARIANCE_FIT_ROUNDS): { a: number; b: number } {
-  const n = m2.length;
-  let count = 0;
-  let sum = 0;
-  for (let i = 0; i < n; i++) {
-    if (use && !use[i]) continue;
-    sum += e[i] / 2;
-    count++;
-  }
-  if (count === 0) return { a: 0, b: 0 };
-  let a = sum / count;
-  let b = 0;
+  const idx: number[] = [];
+  for (let i = 0; i < m2.length; i++) if (!use || use[i]) idx.push(i);
+  if (idx.length === 0) return { a: 0, b: 0 };
+  let maxM2 = 0;
+  for (const i of idx) if (m2[i] > maxM2) maxM2 = m2[i];
+  const aMin = (MIN_RELATIVE_NOISE * MIN_RELATIVE_NOISE) * Math.max(maxM2, Number.MIN_VALUE);
+  const bMin = MIN_RELATIVE_NOISE * MIN_RELATIVE_NOISE;
+  const byM = [...idx].sort((p, q) => m2[p] - m2[q]);
+  const quarter = Math.max(1, byM.length >> 2);
+  const medianOf = (xs: number[]) => {
+    const v = xs.sort((p, q) => p - q);
+    return v[v.length >> 1];
+  };
+  let a = Math.max(medianOf(byM.slice(0, quarter).map((i) => e[i] / 2)) / Math.LN2, aMin);
+  let b = Math.max(medianOf(byM.slice(-quarter).map((i) => e[i] / (2 * Math.max(m2[i], Number.MIN_VALUE)))) / Math.LN2, bMin);
+  // Only one of the two is free when |M| barely varies: keep the start's split then.
+  const deviance = (va: number, vb: number): number => {
+    let d = 0;
+    for (const i of idx) {
+      const mu = va + vb * m2[i];
+      d += e[i] / 2 / mu + Math.log(mu);
+    }
+    return d;
+  };
+  let dev = deviance(a, b);
   for (let round = 0; round < rounds; round++) {
-    // Weighted least squares of e/2 on (1, |M|²), weights 1/μ² (the variance of an exponential is μ²).
     let s00 = 0;
     let s01 = 0;
     let s11 = 0;
     let t0 = 0;
     let t1 = 0;
-    for (let i = 0; i < n; i++) {
-      if (use && !use[i]) continue;
+    for (const i of idx) {
       const mu = a + b * m2[i];
-      const w = mu > 0 ? 1 / (mu * mu) : 1;
+      const w = 1 / (mu * mu);
       const y = e[i] / 2;
       const x = m2[i];
       s00 += w;
@@ -82,27 +101,21 @@ function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null,
       t1 += w * x * y;
     }
     const det = s00 * s11 - s01 * s01;
-    let na = det > 0 ? (s11 * t0 - s01 * t1) / det : -1;
-    let nb = det > 0 ? (s00 * t1 - s01 * t0) / det : -1;
-    if (!(na >= 0 && nb >= 0)) {
-      // One term alone: keep the one whose fit deviates least (deviance of exponential data).
-      const onlyA = s00 > 0 ? t0 / s00 : 0;
-      const onlyB = s11 > 0 ? t1 / s11 : 0;
-      const dev = (va: number, vb: number): number => {
-        let d = 0;
-        for (let i = 0; i < n; i++) {
-          if (use && !use[i]) continue;
-          const mu = va + vb * m2[i];
-          if (!(mu > 0)) return Infinity;
-          const y = e[i] / 2;
-          d += y / mu + Math.log(mu);
-        }
-        return d;
-      };
-      if (dev(onlyA, 0) <= dev(0, onlyB)) { na = onlyA; nb = 0; } else { na = 0; nb = onlyB; }
+    let na = det > 0 ? (s11 * t0 - s01 * t1) / det : t0 / s00;
+    let nb = det > 0 ? (s00 * t1 - s01 * t0) / det : 0;
+    // Projection onto the smallest values: refit the other with this one held.
+    if (na < aMin) { na = aMin; nb = (t1 - aMin * s01) / s11; }
+    if (nb < bMin) { nb = bMin; na = Math.max((t0 - bMin * s01) / s00, aMin); }
+    let step = 1;
+    let accepted = false;
+    for (let h = 0; h < 30; h++) {
+      const ta = Math.max(a + step * (na - a), aMin);
+      const tb = Math.max(b + step * (nb - b), bMin);
+      const td = deviance(ta, tb);
+      if (td <= dev) { a = ta; b = tb; dev = td; accepted = true; break; }
+      step /= 2;
     }
-    a = na;
-    b = nb;
+    if (!accepted) break;
   }
   return { a, b };
 }
@@ -178,16 +191,16 @@ const LOWER_HALF_MEAN = 1 - Math.LN2;
 
 /**
  * Noise of the recorded quantity from a fit's residuals.
- * @param residualZ2 |Zmeas − Zmod|² per point of this sweep, Ω²
- * @param dofFactor residuals over residuals minus fitted parameters (≥ 1), shared by all sweeps of the fit
+ * @param residualZ2 |Zmeas − Zmod|² per point of this sweep, Ω², corrected for each point's
+ *   leverage (fit-bvd.ts), so its expected value is 2σZ²
  */
-export function noiseFromResiduals(rec: RecordedQuantity, residualZ2: Float64Array, dofFactor: number): RecordedNoise {
+export function noiseFromResiduals(rec: RecordedQuantity, residualZ2: Float64Array): RecordedNoise {
   const n = residualZ2.length;
   const m2 = squaredMagnitudes(rec);
   const e = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const g = rec.zPerUnit[i];
-    e[i] = g > 0 && Number.isFinite(g) ? (residualZ2[i] / (g * g)) * dofFactor : 0;
+    e[i] = g > 0 && Number.isFinite(g) ? residualZ2[i] / (g * g) : 0;
   }
   return toNoise(fitVariances(m2, e, null), m2, 'residuals');
 }

@@ -85,7 +85,10 @@ export interface BvdResiduals extends LeastSquaresProblem {
   readonly spanHz: { min: number; max: number };
   /** Model at parameter vector x (fixed parts copied from the initial model). */
   toModel(x: Float64Array): BvdModel;
-  /** RMS over points of the exact relative impedance residual |Zmeas − Zmod|/|Zmeas| at x. */
+  /**
+   * RMS of the exact relative impedance residual |Zmeas − Zmod|/|Zmeas| at x, over the points
+   * whose noise is at most NOISY_POINT_RELATIVE of |Zmeas| (all points when σZ is not given).
+   */
   relativeRms(x: Float64Array): number;
   /** |Zmeas − Zmod|² per point at x, Ω². */
   impedanceResiduals(x: Float64Array): Float64Array;
@@ -99,6 +102,9 @@ export const TRIAL_FACTOR_LIMIT = 1e3;
 
 /** Trial steps may move a branch's fs at most this fraction of the data span beyond its ends. */
 export const TRIAL_SPAN_MARGIN = 0.1;
+
+/** A point whose σZ exceeds this fraction of |Zmeas| is noise-dominated for the relative RMS. */
+export const NOISY_POINT_RELATIVE = 0.1;
 
 const PPM = 1e-6;
 const NANO = 1e-9;
@@ -372,11 +378,29 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     return out;
   };
 
+  // Points whose own noise is a large part of |Z| say nothing about whether the model's shape
+  // fits (a reflection record far above Z0, a through record whose signal sits in the floor):
+  // the relative RMS leaves them out, unless too few others remain.
+  const shapePoint = new Uint8Array(np).fill(1);
+  if (points.sigmaZOhm) {
+    let kept = 0;
+    for (let i = 0; i < np; i++) {
+      const mag = Math.hypot(zmRe[i], zmIm[i]);
+      shapePoint[i] = points.sigmaZOhm[i] <= NOISY_POINT_RELATIVE * mag ? 1 : 0;
+      kept += shapePoint[i];
+    }
+    if (kept <= n) shapePoint.fill(1);
+  }
   const relativeRms = (x: Float64Array): number => {
     const d2 = impedanceResiduals(x);
     let s = 0;
-    for (let i = 0; i < np; i++) s += d2[i] / (zmRe[i] * zmRe[i] + zmIm[i] * zmIm[i]);
-    return Math.sqrt(s / np);
+    let count = 0;
+    for (let i = 0; i < np; i++) {
+      if (!shapePoint[i]) continue;
+      s += d2[i] / (zmRe[i] * zmRe[i] + zmIm[i] * zmIm[i]);
+      count++;
+    }
+    return Math.sqrt(s / count);
   };
 
   return {

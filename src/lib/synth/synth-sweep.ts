@@ -7,8 +7,9 @@
  *   → fixture parasitics: Zm = Zs + 1/(1/Z' + jωCp), Zs = Rs + jωLs (FIELD.md §3.1: series parts
  *     toward the instrument, stray admittance across the device; open/short compensation removes them)
  *   → fixture: S-parameters (FIELD.md §3.2) or Z directly
- *   → seeded complex Gaussian noise, relative to each recorded entry:
- *     x + |x|·σ·(g1 + j·g2) with σ = 10^(dB/20)/√2, so E|noise|²/|x|² = 10^(dB/10).
+ *   → seeded complex Gaussian noise on each recorded entry, as a receiver adds it: a floor
+ *     independent of the signal (`floorDb`) plus a trace term proportional to it (`traceNoise`);
+ *     or the older relative-only form x + |x|·σ·(g1 + j·g2), σ = 10^(dB/20)/√2 (`noiseDb`).
  *
  * Everything generated here is synthetic; the file writer labels it so.
  */
@@ -51,8 +52,19 @@ export interface SynthSweepSpec {
   z0Ohm?: number;
   parasitics?: FixtureParasitics;
   added?: AddedCapacitor;
-  /** Relative noise level, dB (e.g. −70); absent = noiseless. */
+  /**
+   * Relative-only noise level, dB (e.g. −70): x + |x|·σ·g on every recorded value. Kept for the
+   * tests that document it; a real receiver is better described by `floorDb` + `traceNoise`.
+   */
   noiseDb?: number;
+  /**
+   * Instrument noise floor, dB below the source: an additive complex Gaussian independent of
+   * the signal, E|n|² = 10^(dB/10) in units of the recorded quantity (S: the source's 1; an
+   * impedance analyser's Z: the range resistance `z0Ohm`; its Y: 1/z0Ohm). Typical −60 … −100 dB.
+   */
+  floorDb?: number;
+  /** Trace noise proportional to the signal, RMS relative (e.g. 1e-4): E|n|² = (trace·|x|)². */
+  traceNoise?: number;
   /** Noise seed; default 1. */
   seed?: number;
   /** Name for messages and the records' `source`; default "synthetic". */
@@ -106,7 +118,7 @@ export function synthesizeSweep(spec: SynthSweepSpec): SynthSweepResult {
 }
 
 /** Options shared by everything that records impedances as a network. */
-export type RecordOptions = Pick<SynthSweepSpec, 'fixture' | 'ports' | 'parameter' | 'z0Ohm' | 'noiseDb' | 'seed' | 'source'>;
+export type RecordOptions = Pick<SynthSweepSpec, 'fixture' | 'ports' | 'parameter' | 'z0Ohm' | 'noiseDb' | 'floorDb' | 'traceNoise' | 'seed' | 'source'>;
 
 /**
  * Record impedances at the instrument plane as a network, with seeded noise.
@@ -122,13 +134,22 @@ export function recordImpedances(
   const source = opts.source ?? 'synthetic';
   const rng = createRng(seed);
   const sigma = opts.noiseDb === undefined ? 0 : 10 ** (opts.noiseDb / 20) / Math.SQRT2;
+  const fixture = opts.fixture;
+  const parameter = fixture === 'impedance' ? (opts.parameter ?? 'Z') : 'S';
+  const floorUnit = parameter === 'Z' ? z0Ohm : parameter === 'Y' ? 1 / z0Ohm : 1;
+  const floor = opts.floorDb === undefined ? 0 : (10 ** (opts.floorDb / 20) * floorUnit) / Math.SQRT2;
+  const trace = (opts.traceNoise ?? 0) / Math.SQRT2;
+  if (!(floor >= 0 && Number.isFinite(floor)) || !(trace >= 0 && Number.isFinite(trace))) {
+    throw new Error(`noise floor ${opts.floorDb} dB and trace noise ${opts.traceNoise}: expected finite values, trace ≥ 0`);
+  }
+  // Per component: the relative and trace terms scale with |x|, the floor does not.
   const noisy = (x: Complex): Complex => {
-    if (sigma === 0) return x;
     const mag = Math.hypot(x.re, x.im);
-    return { re: x.re + mag * sigma * rng.gaussian(), im: x.im + mag * sigma * rng.gaussian() };
+    const spread = Math.sqrt((sigma * mag) ** 2 + floor * floor + (trace * mag) ** 2);
+    if (spread === 0) return x;
+    return { re: x.re + spread * rng.gaussian(), im: x.im + spread * rng.gaussian() };
   };
   const n = freqHz.length;
-  const fixture = opts.fixture;
   const ports: 1 | 2 = fixture === 'impedance' ? 1 : fixture === 'reflection' ? (opts.ports ?? 1) : 2;
   if (fixture !== 'impedance' && fixture !== 'reflection' && opts.ports === 1) {
     throw new Error(`a ${fixture} fixture records 2 ports, got 1`);
@@ -137,7 +158,6 @@ export function recordImpedances(
   const re = Array.from({ length: entries }, () => new Float64Array(n));
   const im = Array.from({ length: entries }, () => new Float64Array(n));
   const measured = emptySweep(freqHz, source);
-  const parameter = fixture === 'impedance' ? (opts.parameter ?? 'Z') : 'S';
   for (let i = 0; i < n; i++) {
     const z = instrumentZ[i];
     let m: SMatrix;
