@@ -151,6 +151,8 @@ function listen(server: Server, port: number, host: string): Promise<number> {
 export async function startStaticServer(options: StaticServerOptions): Promise<StaticServer> {
   const root = resolve(options.root);
   const base = normalizeBase(options.base);
+  // the base is the Location of the redirects: a backslash would make it leave the site
+  if (/[\\?#\s\0]/.test(base)) throw new Error(`static server: base path "${options.base}" may not hold a backslash, "?", "#", NUL or white space`);
   const host = options.host ?? '127.0.0.1';
   const first = options.port ?? 4321;
   const attempts = first === 0 ? 1 : Math.max(1, options.portAttempts ?? 20);

@@ -154,6 +154,12 @@ describe('static server: base path, pages and 404', () => {
     expect(bare.headers.location).toBe('/base/');
   });
 
+  it('refuses a base path that could lead a redirect off the site', async () => {
+    await expect(startStaticServer({ root: site, base: '\\evil.example', port: 0 })).rejects.toThrow(
+      'static server: base path "\\evil.example" may not hold a backslash, "?", "#", NUL or white space',
+    );
+  });
+
   it('answers paths outside the base with 404', async () => {
     const outside = await rawRequest(underBase.port, '/index.html');
     expect(outside.status).toBe(404);
