@@ -78,14 +78,8 @@ export interface FitBvdResult extends FitSummary {
   parameterNames?: string[];
   /** Which stopping rule ended the iteration (levenberg-marquardt.ts StopRule). */
   stop?: string;
-  /**
-   * |Zmeas − Zmod|² per point of each input sweep (points inside the window, in order), Ω², when
-   * converged, corrected for each point's leverage: ×2/(2 − h) with h the point's share of the
-   * hat matrix (its two rows). A point the fit bends to (high leverage) shows a small residual
-   * whatever its noise; the correction gives every point an expected value 2σZ² so the noise
-   * estimated from these residuals is not fooled by it.
-   */
-  residualZ2BySweep?: Float64Array[];
+  /** Residuals of each input sweep (points inside the window, in order), when converged. */
+  residualsBySweep?: SweepResiduals[];
   /**
    * Residual structure (converged fits): lag-1 autocorrelation of the weighted residuals along
    * frequency within each sweep, its significance limit 3/√N, and the factor the uncertainties
@@ -139,19 +133,31 @@ export function residualStructure(r: Float64Array, starts: number[]): ResidualSt
   return { lag1, limit, inflation };
 }
 
+/**
+ * Zmeas − Zmod per point, Ω, and each point's leverage factor 2/(2 − h), h the point's share of
+ * the hat matrix (its two rows). A point the fit bends to (high leverage) shows a small residual
+ * whatever its noise; |Zmeas − Zmod|²·factor has expected value 2σZ² for every point, so noise
+ * estimated from it is not fooled by such points.
+ */
+export interface SweepResiduals {
+  re: Float64Array;
+  im: Float64Array;
+  leverageFactor: Float64Array;
+}
+
 /** Leverages are capped here so a point the fit passes through exactly keeps a finite correction. */
 const MAX_POINT_LEVERAGE = 1.98;
 
-/** |Zmeas − Zmod|²·2/(2 − h) per point at x (see FitBvdResult.residualZ2BySweep). */
-function leverageCorrected(problem: ReturnType<typeof createBvdResiduals>, x: Float64Array, inverseNormal: Float64Array): Float64Array {
-  const z2 = problem.impedanceResiduals(x);
+/** Leverage factor 2/(2 − h) per point at x (see SweepResiduals). */
+function leverageFactors(problem: ReturnType<typeof createBvdResiduals>, x: Float64Array, inverseNormal: Float64Array, np: number): Float64Array {
+  const out = new Float64Array(np).fill(1);
   const m = problem.residualCount;
   const n = problem.parameterCount;
   const r = new Float64Array(m);
   const jac = new Float64Array(m * n);
-  if (!problem.residualsAndJacobian(x, r, jac)) return z2;
+  if (!problem.residualsAndJacobian(x, r, jac)) return out;
   const row = new Float64Array(n);
-  for (let i = 0; i < z2.length; i++) {
+  for (let i = 0; i < np; i++) {
     let h = 0;
     for (const k of [2 * i, 2 * i + 1]) {
       for (let p = 0; p < n; p++) row[p] = jac[p * m + k];
@@ -161,9 +167,9 @@ function leverageCorrected(problem: ReturnType<typeof createBvdResiduals>, x: Fl
         h += row[p] * t;
       }
     }
-    z2[i] *= 2 / (2 - Math.min(Math.max(h, 0), MAX_POINT_LEVERAGE));
+    out[i] = 2 / (2 - Math.min(Math.max(h, 0), MAX_POINT_LEVERAGE));
   }
-  return z2;
+  return out;
 }
 
 /** A converged fit whose RMS relative residual exceeds this does not describe the data. */
@@ -446,8 +452,12 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     for (let q = 0; q < n; q++) row.push(cov(p, q));
     covariance.push(row);
   }
-  const z2 = leverageCorrected(problem, lm.x, lm.inverseNormal);
-  const residualZ2BySweep = points.starts.slice(0, -1).map((start, s) => z2.slice(start, points.starts[s + 1]));
+  const dz = problem.impedanceResiduals(lm.x);
+  const lev = leverageFactors(problem, lm.x, lm.inverseNormal, np);
+  const residualsBySweep: SweepResiduals[] = points.starts.slice(0, -1).map((start, s) => {
+    const end = points.starts[s + 1];
+    return { re: dz.re.slice(start, end), im: dz.im.slice(start, end), leverageFactor: lev.slice(start, end) };
+  });
   return {
     converged: true,
     reason: lm.reason,
@@ -456,7 +466,7 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     uncertainty: u,
     covariance,
     parameterNames: [...map.names],
-    residualZ2BySweep,
+    residualsBySweep,
     structure,
   };
 }

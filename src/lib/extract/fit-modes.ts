@@ -70,7 +70,7 @@ function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): SelectedS
     zRe: pick(s.impedance.zRe),
     zIm: pick(s.impedance.zIm),
     sigmaZOhm: pick(s.sigmaZOhm),
-    recorded: { name: r.name, re: pick(r.re), im: pick(r.im), zPerUnit: pick(r.zPerUnit) },
+    recorded: { name: r.name, re: pick(r.re), im: pick(r.im), dZdMRe: pick(r.dZdMRe), dZdMIm: pick(r.dZdMIm) },
     ...base,
   };
 }
@@ -85,15 +85,15 @@ export const NOISE_ROUNDS = 2;
 /** Refit with each sweep's noise taken from the residuals of `fit`; returns the last converged fit and the noise used. */
 function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedSweep[], start: BvdModel) => FitBvdResult): { fit: FitBvdResult; noise: RecordedNoise[] } {
   let current = fit;
-  let noise = data.map((d) => noiseFromResiduals(d.recorded, current.residualZ2BySweep![data.indexOf(d)]));
+  let estimates = data.map((d, s) => noiseFromResiduals(d.recorded, current.residualsBySweep![s]));
   for (let round = 0; round < NOISE_ROUNDS; round++) {
-    const next = data.map((d, s) => ({ ...d, sigmaZOhm: impedanceSigmaOhm(d.recorded, noise[s]) }));
+    const next = data.map((d, s) => ({ ...d, sigmaZOhm: impedanceSigmaOhm(d.recorded, estimates[s].noise, estimates[s].modelM2) }));
     const refit = run(next, current.model);
-    if (!refit.converged || !refit.residualZ2BySweep) break;
+    if (!refit.converged || !refit.residualsBySweep) break;
     current = refit;
-    if (round + 1 < NOISE_ROUNDS) noise = data.map((d, s) => noiseFromResiduals(d.recorded, current.residualZ2BySweep![s]));
+    if (round + 1 < NOISE_ROUNDS) estimates = data.map((d, s) => noiseFromResiduals(d.recorded, current.residualsBySweep![s]));
   }
-  return { fit: current, noise };
+  return { fit: current, noise: estimates.map((e) => e.noise) };
 }
 
 /** Window fit of mode k on its best sweep. */
@@ -164,7 +164,7 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
     }
   }
   let jointNoise: ModeFits['jointNoise'] = data.map((d) => ({ source: d.source, noise: d.noise }));
-  if (joint.converged && joint.residualZ2BySweep) {
+  if (joint.converged && joint.residualsBySweep) {
     const ks = free;
     const settled = reweighted(data, joint, (d, from) => fitJoint(d, from, ks));
     joint = settled.fit;

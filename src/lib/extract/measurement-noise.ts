@@ -5,7 +5,7 @@
  * A receiver adds a floor independent of the signal and a trace noise proportional to it, so
  * the recorded quantity M (S11, S21, or Z/Y of an impedance analyser) carries, per real and
  * imaginary component, σ_M² = floor² + (trace·|M|)². Through the fixture conversion that
- * becomes σ_Z = |dZ/dM|·σ_M at each point (`RecordedQuantity.zPerUnit`). Near the
+ * becomes σ_Z = |dZ/dM|·σ_M at each point (`RecordedQuantity.dZdMRe/Im`). Near the
  * anti-resonance of a reflection record, for example, |dZ/dS11| = |Z + Z0|²/(2·Z0) reaches
  * 10¹⁰ Ω, and a point there says almost nothing about Z; weighting by 1/σ_Z lets the fit use
  * each point for what it holds.
@@ -16,7 +16,7 @@
  * - before any fit, from normalised second differences of M over frequency (they remove any
  *   locally linear trend; near a resonance the curve's own bend dominates, so deviations far
  *   above the current model are set aside as signal, not noise);
- * - after a fit, from the residuals carried back into M (|Zmeas − Zmod|/|dZ/dM|), with the
+ * - after a fit, from the residuals carried back into M ((Zmeas − Zmod)/(dZ/dM)), with the
  *   leverage of each point accounted for (fit-bvd.ts). This is the estimate the published uncertainties
  *   rest on.
  */
@@ -189,31 +189,56 @@ export function noiseFromDifferences(sweep: ImpedanceSweep): RecordedNoise {
  */
 const LOWER_HALF_MEAN = 1 - Math.LN2;
 
-/**
- * Noise of the recorded quantity from a fit's residuals.
- * @param residualZ2 |Zmeas − Zmod|² per point of this sweep, Ω², corrected for each point's
- *   leverage (fit-bvd.ts), so its expected value is 2σZ²
- */
-export function noiseFromResiduals(rec: RecordedQuantity, residualZ2: Float64Array): RecordedNoise {
-  const n = residualZ2.length;
-  const m2 = squaredMagnitudes(rec);
-  const e = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const g = rec.zPerUnit[i];
-    e[i] = g > 0 && Number.isFinite(g) ? residualZ2[i] / (g * g) : 0;
-  }
-  return toNoise(fitVariances(m2, e, null), m2, 'residuals');
+/** Noise of a sweep from a fit, and |M|² of the fitted model at each point. */
+export interface NoiseFromFit {
+  noise: RecordedNoise;
+  /** |M_model|² per point: the recorded value the model predicts (M − ΔZ/(dZ/dM)). */
+  modelM2: Float64Array;
 }
 
-/** Standard deviation of each impedance point (per component), Ω: |dZ/dM|·√(floor² + trace²·|M|²). */
-export function impedanceSigmaOhm(rec: RecordedQuantity, noise: RecordedNoise): Float64Array {
+/**
+ * Noise of the recorded quantity from a fit's residuals. Each residual is carried back into M,
+ * δM = (Zmeas − Zmod)/(dZ/dM), and the variance model is fitted against the model's |M|, not
+ * the measured one: where the signal sits in the floor the measured |M| is itself noise and
+ * would pass the floor off as trace noise.
+ * @param residuals Zmeas − Zmod per point, Ω, with each point's leverage factor (fit-bvd.ts),
+ *   so that |δM|²·factor has expected value 2σ_M²
+ */
+export function noiseFromResiduals(rec: RecordedQuantity, residuals: { re: Float64Array; im: Float64Array; leverageFactor: Float64Array }): NoiseFromFit {
+  const n = residuals.re.length;
+  const modelM2 = new Float64Array(n);
+  const e = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const gRe = rec.dZdMRe[i];
+    const gIm = rec.dZdMIm[i];
+    const g2 = gRe * gRe + gIm * gIm;
+    if (!(g2 > 0) || !Number.isFinite(g2)) {
+      modelM2[i] = rec.re[i] * rec.re[i] + rec.im[i] * rec.im[i];
+      continue;
+    }
+    // δM = ΔZ/g = ΔZ·conj(g)/|g|²
+    const dRe = (residuals.re[i] * gRe + residuals.im[i] * gIm) / g2;
+    const dIm = (residuals.im[i] * gRe - residuals.re[i] * gIm) / g2;
+    const mRe = rec.re[i] - dRe;
+    const mIm = rec.im[i] - dIm;
+    modelM2[i] = mRe * mRe + mIm * mIm;
+    e[i] = (dRe * dRe + dIm * dIm) * residuals.leverageFactor[i];
+  }
+  return { noise: toNoise(fitVariances(modelM2, e, null), modelM2, 'residuals'), modelM2 };
+}
+
+/**
+ * Standard deviation of each impedance point (per component), Ω: |dZ/dM|·√(floor² + trace²·|M|²).
+ * @param m2 |M|² per point to use (default the measured values; after a fit, the model's)
+ */
+export function impedanceSigmaOhm(rec: RecordedQuantity, noise: RecordedNoise, m2?: Float64Array): Float64Array {
   const n = rec.re.length;
   const out = new Float64Array(n);
   const a = noise.floor * noise.floor;
   const b = noise.trace * noise.trace;
   for (let i = 0; i < n; i++) {
-    const m2 = rec.re[i] * rec.re[i] + rec.im[i] * rec.im[i];
-    out[i] = rec.zPerUnit[i] * Math.sqrt(a + b * m2);
+    const mag2 = m2 ? m2[i] : rec.re[i] * rec.re[i] + rec.im[i] * rec.im[i];
+    out[i] = Math.hypot(rec.dZdMRe[i], rec.dZdMIm[i]) * Math.sqrt(a + b * mag2);
   }
   return out;
 }

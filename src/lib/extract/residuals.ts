@@ -90,8 +90,8 @@ export interface BvdResiduals extends LeastSquaresProblem {
    * whose noise is at most NOISY_POINT_RELATIVE of |Zmeas| (all points when σZ is not given).
    */
   relativeRms(x: Float64Array): number;
-  /** |Zmeas − Zmod|² per point at x, Ω². */
-  impedanceResiduals(x: Float64Array): Float64Array;
+  /** Zmeas − Zmod per point at x, Ω. */
+  impedanceResiduals(x: Float64Array): { re: Float64Array; im: Float64Array };
 }
 
 /**
@@ -354,12 +354,13 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     return model;
   };
 
-  const impedanceResiduals = (x: Float64Array): Float64Array => {
+  const impedanceResiduals = (x: Float64Array): { re: Float64Array; im: Float64Array } => {
     loadBranches(x);
     const c0 = map.c0 >= 0 ? Math.exp(x[map.c0]) : 0;
     const rs = rsFixed + (map.rs >= 0 ? x[map.rs] : 0);
     const lsH = map.ls >= 0 ? x[map.ls] * NANO : 0;
-    const out = new Float64Array(np);
+    const outRe = new Float64Array(np);
+    const outIm = new Float64Array(np);
     for (let i = 0; i < np; i++) {
       const f = freq[i];
       let yRe = fixYRe[i];
@@ -373,9 +374,10 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
       const yd = yRe * yRe + yIm * yIm;
       const dRe = zmRe[i] - (rs + yRe / yd);
       const dIm = zmIm[i] - (fixZsIm[i] + omega[i] * lsH - yIm / yd);
-      out[i] = dRe * dRe + dIm * dIm;
+      outRe[i] = dRe;
+      outIm[i] = dIm;
     }
-    return out;
+    return { re: outRe, im: outIm };
   };
 
   // Points whose own noise is a large part of |Z| say nothing about whether the model's shape
@@ -392,12 +394,12 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     if (kept <= n) shapePoint.fill(1);
   }
   const relativeRms = (x: Float64Array): number => {
-    const d2 = impedanceResiduals(x);
+    const d = impedanceResiduals(x);
     let s = 0;
     let count = 0;
     for (let i = 0; i < np; i++) {
       if (!shapePoint[i]) continue;
-      s += d2[i] / (zmRe[i] * zmRe[i] + zmIm[i] * zmIm[i]);
+      s += (d.re[i] * d.re[i] + d.im[i] * d.im[i]) / (zmRe[i] * zmRe[i] + zmIm[i] * zmIm[i]);
       count++;
     }
     return Math.sqrt(s / count);

@@ -40,7 +40,7 @@ export interface ImpedanceSweep {
 }
 
 /**
- * What an instrument recorded at each point (S11, S21, Z or Y) and |dZ/dM|, the factor by
+ * What an instrument recorded at each point (S11, S21, Z or Y) and dZ/dM, the factor by
  * which a small error of the recorded value M reaches the device impedance Z through the
  * fixture conversion and any compensation. The receiver's noise lives in M: a floor
  * independent of the signal plus a part proportional to |M|; through this factor it becomes
@@ -51,14 +51,16 @@ export interface RecordedQuantity {
   /** Recorded value per point (unitless for S, Ω for Z, S for Y). */
   re: Float64Array;
   im: Float64Array;
-  /** |dZ/dM| per point: ohm per unit of the recorded quantity. */
-  zPerUnit: Float64Array;
+  /** dZ/dM per point, complex: ohm per unit of the recorded quantity. */
+  dZdMRe: Float64Array;
+  dZdMIm: Float64Array;
 }
 
-/** The recorded quantity of a sweep; a sweep without one recorded Z itself (|dZ/dZ| = 1). */
+/** The recorded quantity of a sweep; a sweep without one recorded Z itself (dZ/dZ = 1). */
 export function recordedOf(sweep: ImpedanceSweep): RecordedQuantity {
   if (sweep.recorded) return sweep.recorded;
-  return { name: 'Z', re: sweep.zRe, im: sweep.zIm, zPerUnit: new Float64Array(sweep.freqHz.length).fill(1) };
+  const n = sweep.freqHz.length;
+  return { name: 'Z', re: sweep.zRe, im: sweep.zIm, dZdMRe: new Float64Array(n).fill(1), dZdMIm: new Float64Array(n) };
 }
 
 /** First index whose frequency is not strictly above its predecessor, or -1. */
