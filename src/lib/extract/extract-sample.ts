@@ -28,6 +28,7 @@ import { fitTemperature } from './temperature.ts';
 import { analyseDriveLevel, DRIVE_RATIO_WARNING } from './drive-level.ts';
 import { mainMode } from '../osc/main-mode.ts';
 import { formatFrequency } from './format-frequency.ts';
+import { parallelResonanceOf } from './closed-form.ts';
 import { timed, type TimingCollector } from './timing.ts';
 import { antiResonanceEvidence, FA_VISIBLE_SNR, type NoisySweep } from './fa-visibility.ts';
 import { impedanceSigmaOhm } from './measurement-noise.ts';
@@ -238,19 +239,20 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
       const m = candidates[k];
       const source = sources[k]!;
       const mainK = m.mainIndex !== undefined ? kept.indexOf(m.mainIndex) : -1;
+      const evidence = m.spurious ? undefined : antiResonanceEvidence(model, kk, parallelResonanceOf(model, kk) ?? 0, unloadedNoisy);
       const mode = reportMode({
         k: kk, mode: m, model, source,
         c0: { value: c0.value, uncertainty: c0.uncertainty, heldInFit: !source.fit?.parameterNames?.includes('lnC0F') },
         peak: peaks[k], reference: refMethods[k], perMode: fits.perMode[k],
         flagged: flagged[k], mainR1Ohm: mainK >= 0 ? model.branches[mainK].r1Ohm : undefined,
         sweeps: [...new Set(m.observations.map((o) => o.source))],
+        faEvidence: evidence?.snr,
       });
       modes.push(mode);
       const res = m.best.resonance;
       const d1 = resolutionDiagnostic({ source: m.best.source, fsHz: mode.fsHz, bandwidthHz: mode.fsHz / mode.q, stepHz: res.stepHz, pointsPerBandwidth: res.pointsPerBandwidth });
       if (d1) diagnostics.push(d1);
       if (!m.spurious) {
-        const evidence = antiResonanceEvidence(model, kk, mode.fpHz, unloadedNoisy);
         if (!evidence) diagnostics.push(spanMissingFaDiagnostic(mode.fsHz, mode.fpHz));
         else if (evidence.snr < FA_VISIBLE_SNR) {
           diagnostics.push({

@@ -16,8 +16,9 @@ import type { PeakMethods, ReferenceMethods } from './mode-methods.ts';
 import type { FitBvdResult } from './fit-bvd.ts';
 import { parallelResonanceOf, zeroPhaseOf } from './closed-form.ts';
 import { fpUncertaintyOf } from './fp-uncertainty.ts';
-import { crossCheck } from './cross-check.ts';
 import { MIN_POINTS_PER_BANDWIDTH } from './diagnostics.ts';
+import { settleQuantity, type Credibility, type SettledQuantity } from './settle-methods.ts';
+import { FA_VISIBLE_SNR } from './fa-visibility.ts';
 
 /** Points per bandwidth below which the fs uncertainty includes step/√12. */
 export const FEW_POINTS_PER_BANDWIDTH = 3;
@@ -53,6 +54,8 @@ export interface ModeReportInput {
   mainR1Ohm?: number;
   /** Source names of the sweeps the mode was seen in. */
   sweeps: string[];
+  /** Evidence for the anti-resonance above the noise (fa-visibility.ts); undefined when no sweep reaches it. */
+  faEvidence?: number;
 }
 
 function branchValues(fit: FitBvdResult, k: number) {
@@ -74,11 +77,21 @@ function causeFor(quantity: CrossCheck['quantity'], ppbw: number, values: Method
 /** Build the published result of mode k. */
 export function reportMode(input: ModeReportInput): ModeResult {
   const { k, mode, model, source, c0, peak, reference } = input;
+  const lists = methodLists(input);
+  const ppbw = mode.best.resonance.pointsPerBandwidth;
+  const credibility = credibilityOf(input);
+  const settled = Object.fromEntries(
+    (Object.keys(lists) as Array<keyof typeof lists>).map((key) => [key, settleQuantity(key, lists[key], credibility, causeFor(key, ppbw, lists[key]))]),
+  ) as Record<keyof typeof lists, SettledQuantity | undefined>;
+  // The rule picks the value of the first credible method: fs, R1 and C1 of the branch follow it
+  // (L1 and Q derive from them), so the model, its netlists and the page tell one story.
   const br = model.branches[k];
+  if (settled.fsHz && settled.fsHz.method !== source.method) br.fsHz = settled.fsHz.value;
+  if (settled.r1Ohm && settled.r1Ohm.method !== source.method) br.r1Ohm = settled.r1Ohm.value;
+  if (settled.c1F && settled.c1F.method !== source.method) br.c1F = settled.c1F.value;
   const l1H = 1 / ((2 * Math.PI * br.fsHz) ** 2 * br.c1F);
   const q = 1 / (2 * Math.PI * br.fsHz * br.r1Ohm * br.c1F);
   const res = mode.best.resonance;
-  const ppbw = res.pointsPerBandwidth;
   const uRes = ppbw < FEW_POINTS_PER_BANDWIDTH ? res.stepHz / Math.sqrt(12) : 0;
   const u = source.uncertainty;
   const fpHz = parallelResonanceOf(model, k) ?? br.fsHz * Math.sqrt(1 + br.c1F / model.c0F);
@@ -96,7 +109,15 @@ export function reportMode(input: ModeReportInput): ModeResult {
     l1H,
     c1F: br.c1F,
     q,
-    uncertainty: { fsHz: Math.hypot(u.fsHz, uRes), fpHz: uFp, r1Ohm: u.r1Ohm, l1H: u.l1H, c1F: u.c1F, c0F: c0.uncertainty, q: u.q },
+    uncertainty: {
+      fsHz: settled.fsHz?.uncertainty ?? Math.hypot(u.fsHz, uRes),
+      fpHz: uFp,
+      r1Ohm: settled.r1Ohm?.uncertainty ?? u.r1Ohm,
+      l1H: settled.l1H?.uncertainty ?? u.l1H,
+      c1F: settled.c1F?.uncertainty ?? u.c1F,
+      c0F: c0.uncertainty,
+      q: settled.q?.uncertainty ?? u.q,
+    },
     m: q / r,
     r,
     crossCheck: [],
@@ -110,6 +131,41 @@ export function reportMode(input: ModeReportInput): ModeResult {
   }
   if (input.flagged) result.flagged = true;
 
+  result.crossCheck = (Object.keys(lists) as Array<keyof typeof lists>).flatMap((key) => (settled[key] ? [settled[key].check] : []));
+  return result;
+}
+
+/** Why a method's assumptions fail for this mode (settle-methods.ts), or undefined. */
+function credibilityOf(input: ModeReportInput): Credibility {
+  const ppbw = input.mode.best.resonance.pointsPerBandwidth;
+  const structured = (fit?: FitBvdResult) => (fit?.structure?.inflation ?? 1) > 1;
+  return (method) => {
+    switch (method) {
+      case 'closed-form':
+        return input.faEvidence === undefined || input.faEvidence < FA_VISIBLE_SNR ? 'the anti-resonance is not seen above the noise' : undefined;
+      case 'conductance-peak':
+      case 'half-power':
+        return ppbw < MIN_POINTS_PER_BANDWIDTH ? `${ppbw.toFixed(1)} points per bandwidth (want ≥ ${MIN_POINTS_PER_BANDWIDTH})` : undefined;
+      case 'joint-fit':
+      case 'complex-fit': {
+        const fit = method === input.source.method ? input.source.fit : input.perMode;
+        return structured(fit) ? 'its residuals show structure the model does not explain' : undefined;
+      }
+      default:
+        return undefined;
+    }
+  };
+}
+
+/** Every method's values of the branch quantities, the published source first. */
+function methodLists(input: ModeReportInput): Record<'fsHz' | 'r1Ohm' | 'c1F' | 'l1H' | 'q', MethodValue[]> {
+  const { k, mode, model, source, peak, reference } = input;
+  const br = model.branches[k];
+  const l1H = 1 / ((2 * Math.PI * br.fsHz) ** 2 * br.c1F);
+  const q = 1 / (2 * Math.PI * br.fsHz * br.r1Ohm * br.c1F);
+  const res = mode.best.resonance;
+  const uRes = res.pointsPerBandwidth < FEW_POINTS_PER_BANDWIDTH ? res.stepHz / Math.sqrt(12) : 0;
+  const u = source.uncertainty;
   // Method values, preferred first.
   const lists: Record<'fsHz' | 'r1Ohm' | 'c1F' | 'l1H' | 'q', MethodValue[]> = { fsHz: [], r1Ohm: [], c1F: [], l1H: [], q: [] };
   const add = (method: MethodName, v: { fsHz?: number; r1Ohm?: number; c1F?: number; l1H?: number; q?: number }, unc?: Partial<BranchUncertainty>, note?: string) => {
@@ -140,6 +196,5 @@ export function reportMode(input: ModeReportInput): ModeResult {
     const t = reference.threeLoad;
     add('two-load', { fsHz: t.fsHz }, undefined, t.note);
   }
-  result.crossCheck = (Object.keys(lists) as Array<keyof typeof lists>).map((key) => crossCheck(key, lists[key], causeFor(key, ppbw, lists[key])));
-  return result;
+  return lists;
 }

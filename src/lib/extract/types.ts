@@ -24,6 +24,8 @@ export interface MethodValue {
   uncertainty?: number;
   /** Which sweep(s) it came from, or why it is special. */
   note?: string;
+  /** Why this method's assumptions fail for this mode (it is shown, but neither votes nor is published). */
+  notCredible?: string;
 }
 
 export type Verdict = 'agree' | 'disagree' | 'single';
