@@ -40,6 +40,8 @@ export interface FitSweep {
    * length as freqHz. Absent: the relative residual (σZ = |Zmeas|).
    */
   sigmaZOhm?: Float64Array;
+  /** Impedance at which each point's weight is evaluated, Ω (default the measured one; after a fit, the model's). */
+  zForWeight?: { re: Float64Array; im: Float64Array };
 }
 
 /** Which parameters the fit may change. */
@@ -279,6 +281,7 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
     parallelCapF: new Float64Array(count),
     seriesCapF: new Float64Array(count),
     sigmaZOhm: sweeps.some((s) => s.sigmaZOhm) ? new Float64Array(count) : undefined,
+    zForWeight: sweeps.some((s) => s.zForWeight) ? { re: new Float64Array(count), im: new Float64Array(count) } : undefined,
     starts: [],
   };
   let j = 0;
@@ -294,6 +297,10 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
       p.zRe[j] = zRe[i];
       p.zIm[j] = zIm[i];
       if (p.sigmaZOhm) p.sigmaZOhm[j] = s.sigmaZOhm ? s.sigmaZOhm[i] : Math.hypot(zRe[i], zIm[i]);
+      if (p.zForWeight) {
+        p.zForWeight.re[j] = s.zForWeight ? s.zForWeight.re[i] : zRe[i];
+        p.zForWeight.im[j] = s.zForWeight ? s.zForWeight.im[i] : zIm[i];
+      }
       p.weight[j] = weight;
       p.parallelCapF[j] = addedParallelF;
       p.seriesCapF[j] = cSer;

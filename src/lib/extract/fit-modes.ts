@@ -70,7 +70,7 @@ function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): SelectedS
     zRe: pick(s.impedance.zRe),
     zIm: pick(s.impedance.zIm),
     sigmaZOhm: pick(s.sigmaZOhm),
-    recorded: { name: r.name, re: pick(r.re), im: pick(r.im), dZdMRe: pick(r.dZdMRe), dZdMIm: pick(r.dZdMIm) },
+    recorded: { name: r.name, re: pick(r.re), im: pick(r.im), map: Float64Array.from({ length: 8 * idx.length }, (_, j) => r.map[8 * idx[j >> 3] + (j & 7)]) },
     ...base,
   };
 }
@@ -85,13 +85,15 @@ export const NOISE_ROUNDS = 2;
 /** Refit with each sweep's noise taken from the residuals of `fit`; returns the last converged fit and the noise used. */
 function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedSweep[], start: BvdModel) => FitBvdResult): { fit: FitBvdResult; noise: RecordedNoise[] } {
   let current = fit;
-  let estimates = data.map((d, s) => noiseFromResiduals(d.recorded, current.residualsBySweep![s]));
+  const estimate = (fitted: FitBvdResult) => data.map((d, s) => noiseFromResiduals(d.recorded, d, fitted.residualsBySweep![s]));
+  let estimates = estimate(current);
   for (let round = 0; round < NOISE_ROUNDS; round++) {
-    const next = data.map((d, s) => ({ ...d, sigmaZOhm: impedanceSigmaOhm(d.recorded, estimates[s].noise, estimates[s].modelM2) }));
+    // Weights at the model's values, so no point's weight depends on its own noise.
+    const next = data.map((d, s) => ({ ...d, sigmaZOhm: impedanceSigmaOhm(d.recorded, estimates[s].noise, estimates[s].modelM), zForWeight: estimates[s].modelZ }));
     const refit = run(next, current.model);
     if (!refit.converged || !refit.residualsBySweep) break;
     current = refit;
-    if (round + 1 < NOISE_ROUNDS) estimates = data.map((d, s) => noiseFromResiduals(d.recorded, current.residualsBySweep![s]));
+    if (round + 1 < NOISE_ROUNDS) estimates = estimate(current);
   }
   return { fit: current, noise: estimates.map((e) => e.noise) };
 }

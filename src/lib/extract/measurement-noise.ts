@@ -5,7 +5,7 @@
  * A receiver adds a floor independent of the signal and a trace noise proportional to it, so
  * the recorded quantity M (S11, S21, or Z/Y of an impedance analyser) carries, per real and
  * imaginary component, σ_M² = floor² + (trace·|M|)². Through the fixture conversion that
- * becomes σ_Z = |dZ/dM|·σ_M at each point (`RecordedQuantity.dZdMRe/Im`). Near the
+ * becomes σ_Z = |dZ/dM|·σ_M at each point (the sweep's map, src/lib/sweep/recorded.ts). Near the
  * anti-resonance of a reflection record, for example, |dZ/dS11| = |Z + Z0|²/(2·Z0) reaches
  * 10¹⁰ Ω, and a point there says almost nothing about Z; weighting by 1/σ_Z lets the fit use
  * each point for what it holds.
@@ -16,11 +16,12 @@
  * - before any fit, from normalised second differences of M over frequency (they remove any
  *   locally linear trend; near a resonance the curve's own bend dominates, so deviations far
  *   above the current model are set aside as signal, not noise);
- * - after a fit, from the residuals carried back into M ((Zmeas − Zmod)/(dZ/dM)), with the
+ * - after a fit, from the residuals carried back into M through the sweep's map, with the
  *   leverage of each point accounted for (fit-bvd.ts). This is the estimate the published uncertainties
  *   rest on.
  */
-import { recordedOf, type ImpedanceSweep, type RecordedQuantity } from '../sweep/sweep.ts';
+import { recordedOf, type ImpedanceSweep } from '../sweep/sweep.ts';
+import { dZdMAbs, recordedFor, type RecordedQuantity } from '../sweep/recorded.ts';
 
 /** Noise of one sweep's recorded quantity, per real and imaginary component. */
 export interface RecordedNoise {
@@ -189,56 +190,62 @@ export function noiseFromDifferences(sweep: ImpedanceSweep): RecordedNoise {
  */
 const LOWER_HALF_MEAN = 1 - Math.LN2;
 
-/** Noise of a sweep from a fit, and |M|² of the fitted model at each point. */
+/** Noise of a sweep from a fit, and the fitted model at each point. */
 export interface NoiseFromFit {
   noise: RecordedNoise;
-  /** |M_model|² per point: the recorded value the model predicts (M − ΔZ/(dZ/dM)). */
-  modelM2: Float64Array;
+  /** The recorded value the model predicts at each point (the map's inverse of Zmod). */
+  modelM: { re: Float64Array; im: Float64Array };
+  /** The model's impedance at each point, Ω. */
+  modelZ: { re: Float64Array; im: Float64Array };
 }
 
 /**
- * Noise of the recorded quantity from a fit's residuals. Each residual is carried back into M,
- * δM = (Zmeas − Zmod)/(dZ/dM), and the variance model is fitted against the model's |M|, not
- * the measured one: where the signal sits in the floor the measured |M| is itself noise and
- * would pass the floor off as trace noise.
+ * Noise of the recorded quantity from a fit's residuals. The model's impedance Zmod = Zmeas − ΔZ
+ * is carried back through the sweep's map to the recorded value it predicts, M_mod, and the
+ * variance model is fitted to δM = Mmeas − M_mod against |M_mod|, not the measured |M|: where
+ * the signal sits in the floor the measured |M| is itself noise and would pass the floor off
+ * as trace noise.
+ * @param measured the sweep's measured impedance, Ω
  * @param residuals Zmeas − Zmod per point, Ω, with each point's leverage factor (fit-bvd.ts),
  *   so that |δM|²·factor has expected value 2σ_M²
  */
-export function noiseFromResiduals(rec: RecordedQuantity, residuals: { re: Float64Array; im: Float64Array; leverageFactor: Float64Array }): NoiseFromFit {
+export function noiseFromResiduals(rec: RecordedQuantity, measured: { zRe: Float64Array; zIm: Float64Array }, residuals: { re: Float64Array; im: Float64Array; leverageFactor: Float64Array }): NoiseFromFit {
   const n = residuals.re.length;
-  const modelM2 = new Float64Array(n);
+  const modelM = { re: new Float64Array(n), im: new Float64Array(n) };
+  const modelZ = { re: new Float64Array(n), im: new Float64Array(n) };
+  const m2 = new Float64Array(n);
   const e = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    const gRe = rec.dZdMRe[i];
-    const gIm = rec.dZdMIm[i];
-    const g2 = gRe * gRe + gIm * gIm;
-    if (!(g2 > 0) || !Number.isFinite(g2)) {
-      modelM2[i] = rec.re[i] * rec.re[i] + rec.im[i] * rec.im[i];
-      continue;
-    }
-    // δM = ΔZ/g = ΔZ·conj(g)/|g|²
-    const dRe = (residuals.re[i] * gRe + residuals.im[i] * gIm) / g2;
-    const dIm = (residuals.im[i] * gRe - residuals.re[i] * gIm) / g2;
-    const mRe = rec.re[i] - dRe;
-    const mIm = rec.im[i] - dIm;
-    modelM2[i] = mRe * mRe + mIm * mIm;
+    const z = { re: measured.zRe[i] - residuals.re[i], im: measured.zIm[i] - residuals.im[i] };
+    let m = recordedFor(rec, i, z);
+    if (!Number.isFinite(m.re) || !Number.isFinite(m.im)) m = { re: rec.re[i], im: rec.im[i] };
+    modelZ.re[i] = z.re;
+    modelZ.im[i] = z.im;
+    modelM.re[i] = m.re;
+    modelM.im[i] = m.im;
+    m2[i] = m.re * m.re + m.im * m.im;
+    const dRe = rec.re[i] - m.re;
+    const dIm = rec.im[i] - m.im;
     e[i] = (dRe * dRe + dIm * dIm) * residuals.leverageFactor[i];
   }
-  return { noise: toNoise(fitVariances(modelM2, e, null), modelM2, 'residuals'), modelM2 };
+  return { noise: toNoise(fitVariances(m2, e, null), m2, 'residuals'), modelM, modelZ };
 }
 
 /**
- * Standard deviation of each impedance point (per component), Ω: |dZ/dM|·√(floor² + trace²·|M|²).
- * @param m2 |M|² per point to use (default the measured values; after a fit, the model's)
+ * Standard deviation of each impedance point (per component), Ω: |dZ/dM|·√(floor² + trace²·|M|²),
+ * both at the recorded value M.
+ * @param at M per point to evaluate at (default the measured values; after a fit, the model's)
  */
-export function impedanceSigmaOhm(rec: RecordedQuantity, noise: RecordedNoise, m2?: Float64Array): Float64Array {
+export function impedanceSigmaOhm(rec: RecordedQuantity, noise: RecordedNoise, at?: { re: Float64Array; im: Float64Array }): Float64Array {
   const n = rec.re.length;
   const out = new Float64Array(n);
   const a = noise.floor * noise.floor;
   const b = noise.trace * noise.trace;
+  const mRe = at ? at.re : rec.re;
+  const mIm = at ? at.im : rec.im;
   for (let i = 0; i < n; i++) {
-    const mag2 = m2 ? m2[i] : rec.re[i] * rec.re[i] + rec.im[i] * rec.im[i];
-    out[i] = Math.hypot(rec.dZdMRe[i], rec.dZdMIm[i]) * Math.sqrt(a + b * mag2);
+    const mag2 = mRe[i] * mRe[i] + mIm[i] * mIm[i];
+    out[i] = dZdMAbs(rec, i, mRe[i], mIm[i]) * Math.sqrt(a + b * mag2);
   }
   return out;
 }

@@ -12,8 +12,10 @@
  * frequency fk0, so no digits are lost near resonance.
  *
  * Residuals — in admittance form, weighted by the noise of each point. Per point
- *   r = w·(Ym − Y),   Ym = 1/(Zmeas − Zs),   w = √weight·|Zmeas − Zs0|²/σZ,
- * stacked [re, im], with Zs0 the series elements at the start values and σZ the standard
+ *   r = w·(Ym − Y),   Ym = 1/(Zmeas − Zs),   w = √weight·|Zw − Zs0|²/σZ,
+ * stacked [re, im], with Zs0 the series elements at the start values, Zw the impedance the
+ * weight is evaluated at (Zmeas, or after a first fit the model's, so that no point's weight
+ * depends on its own noise), and σZ the standard
  * deviation of the measured impedance per component (measurement-noise.ts: the noise of the
  * recorded S11, S21, Z or Y carried through the fixture conversion); w stays fixed during the
  * fit. Since Ym − Y = (Zmod − Zmeas)/((Zmeas − Zs)(Zmod − Zs)),
@@ -51,6 +53,8 @@ export interface BvdFitPoints {
    * Absent: |Zmeas|, i.e. the relative impedance residual.
    */
   sigmaZOhm?: Float64Array;
+  /** Impedance at which each point's weight is evaluated, Ω (default the measured one). */
+  zForWeight?: { re: Float64Array; im: Float64Array };
   /** Known capacitor across the part during the measurement, F (0 when none). */
   parallelCapF: Float64Array;
   /** Known capacitor in series with the part, F (0 when none). */
@@ -196,8 +200,10 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     const zr = zmRe[i];
     const zi = zmIm[i];
     // Weight from the series elements at the start values.
-    const uRe = zr - rsStart;
-    const uIm = zi - om * lsStart - capX;
+    const zwr = points.zForWeight ? points.zForWeight.re[i] : zr;
+    const zwi = points.zForWeight ? points.zForWeight.im[i] : zi;
+    const uRe = zwr - rsStart;
+    const uIm = zwi - om * lsStart - capX;
     const sigma = points.sigmaZOhm ? points.sigmaZOhm[i] : Math.sqrt(zr * zr + zi * zi);
     w[i] = (Math.sqrt(weight[i]) * (uRe * uRe + uIm * uIm)) / sigma;
     const vRe = zr - rsFixed;
