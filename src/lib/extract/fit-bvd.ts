@@ -80,8 +80,8 @@ export interface FitBvdResult extends FitSummary {
   parameterNames?: string[];
   /** Which stopping rule ended the iteration (levenberg-marquardt.ts StopRule). */
   stop?: string;
-  /** Residuals of each input sweep (points inside the window, in order), when converged. */
-  residualsBySweep?: SweepResiduals[];
+  /** Residuals of each input sweep (points inside the window, in order), when converged; computed on demand. */
+  residualsBySweep?: () => SweepResiduals[];
   /**
    * Residual structure (converged fits): lag-1 autocorrelation of the weighted residuals along
    * frequency within each sweep, its significance limit 3/√N, and the factor the uncertainties
@@ -459,12 +459,16 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     for (let q = 0; q < n; q++) row.push(cov(p, q));
     covariance.push(row);
   }
-  const dz = problem.impedanceResiduals(lm.x);
-  const lev = leverageFactors(problem, lm.x, lm.inverseNormal, np);
-  const residualsBySweep: SweepResiduals[] = points.starts.slice(0, -1).map((start, s) => {
-    const end = points.starts[s + 1];
-    return { re: dz.re.slice(start, end), im: dz.im.slice(start, end), leverageFactor: lev.slice(start, end) };
-  });
+  const xFinal = lm.x;
+  const inverseNormal = lm.inverseNormal;
+  const residualsBySweep = (): SweepResiduals[] => {
+    const dz = problem.impedanceResiduals(xFinal);
+    const lev = leverageFactors(problem, xFinal, inverseNormal, np);
+    return points.starts.slice(0, -1).map((start, s) => {
+      const end = points.starts[s + 1];
+      return { re: dz.re.slice(start, end), im: dz.im.slice(start, end), leverageFactor: lev.slice(start, end) };
+    });
+  };
   return {
     converged: true,
     reason: lm.reason,

@@ -80,12 +80,15 @@ function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): SelectedS
  * the fit's residuals (measurement-noise.ts) and fits again with the new weights. Two rounds
  * settle the weights (the second changes the parameters by a small part of their uncertainty).
  */
-export const NOISE_ROUNDS = 2;
+export const NOISE_ROUNDS = 1;
 
 /** Refit with each sweep's noise taken from the residuals of `fit`; returns the last converged fit and the noise used. */
 function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedSweep[], start: BvdModel) => FitBvdResult): { fit: FitBvdResult; noise: RecordedNoise[] } {
   let current = fit;
-  const estimate = (fitted: FitBvdResult) => data.map((d, s) => noiseFromResiduals(d.recorded, d, fitted.residualsBySweep![s]));
+  const estimate = (fitted: FitBvdResult) => {
+    const residuals = fitted.residualsBySweep!();
+    return data.map((d, s) => noiseFromResiduals(d.recorded, d, residuals[s]));
+  };
   let estimates = estimate(current);
   for (let round = 0; round < NOISE_ROUNDS; round++) {
     // Weights at the model's values, so no point's weight depends on its own noise.

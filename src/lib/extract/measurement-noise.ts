@@ -22,6 +22,7 @@
  */
 import { recordedOf, type ImpedanceSweep } from '../sweep/sweep.ts';
 import { dZdMAbs, recordedFor, type RecordedQuantity } from '../sweep/recorded.ts';
+import { select } from './sweep-noise.ts';
 
 /** Noise of one sweep's recorded quantity, per real and imaginary component. */
 export interface RecordedNoise {
@@ -50,6 +51,9 @@ const SIGNAL_FACTOR = 40;
 /** IRLS rounds of the variance fit (it converges in a few). */
 const VARIANCE_FIT_ROUNDS = 12;
 
+/** The variance fit stops when both variances move by less than this fraction. */
+const VARIANCE_TOLERANCE = 1e-3;
+
 /**
  * σ_M² = floor² + trace²·|M|² fitted to e with E[e] = 2σ_M²: returns the two variances (a, b).
  * Maximum likelihood for exponential e (deviance Σ y/μ + ln μ, y = e/2, μ = a + b·|M|²) by
@@ -58,43 +62,61 @@ const VARIANCE_FIT_ROUNDS = 12;
  * from the quarter of the points with the smallest |M| and b from the quarter with the largest,
  * each as median/ln 2 (the median of an exponential is its mean·ln 2).
  */
-function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null, rounds = VARIANCE_FIT_ROUNDS): { a: number; b: number } {
-  const idx: number[] = [];
-  for (let i = 0; i < m2.length; i++) if (!use || use[i]) idx.push(i);
-  if (idx.length === 0) return { a: 0, b: 0 };
+function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null, start?: { a: number; b: number }): { a: number; b: number } {
+  let count = 0;
+  for (let i = 0; i < m2.length; i++) if (!use || use[i]) count++;
+  if (count === 0) return { a: 0, b: 0 };
+  const xs = new Float64Array(count);
+  const ys = new Float64Array(count);
   let maxM2 = 0;
-  for (const i of idx) if (m2[i] > maxM2) maxM2 = m2[i];
+  for (let i = 0, j = 0; i < m2.length; i++) {
+    if (use && !use[i]) continue;
+    xs[j] = m2[i];
+    ys[j] = e[i] / 2;
+    if (m2[i] > maxM2) maxM2 = m2[i];
+    j++;
+  }
   const aMin = (MIN_RELATIVE_NOISE * MIN_RELATIVE_NOISE) * Math.max(maxM2, Number.MIN_VALUE);
   const bMin = MIN_RELATIVE_NOISE * MIN_RELATIVE_NOISE;
-  const byM = [...idx].sort((p, q) => m2[p] - m2[q]);
-  const quarter = Math.max(1, byM.length >> 2);
-  const medianOf = (xs: number[]) => {
-    const v = xs.sort((p, q) => p - q);
-    return v[v.length >> 1];
-  };
-  let a = Math.max(medianOf(byM.slice(0, quarter).map((i) => e[i] / 2)) / Math.LN2, aMin);
-  let b = Math.max(medianOf(byM.slice(-quarter).map((i) => e[i] / (2 * Math.max(m2[i], Number.MIN_VALUE)))) / Math.LN2, bMin);
-  // Only one of the two is free when |M| barely varies: keep the start's split then.
+  let a: number;
+  let b: number;
+  if (start) {
+    a = Math.max(start.a, aMin);
+    b = Math.max(start.b, bMin);
+  } else {
+    const q = Math.max(0, (count >> 2) - 1);
+    const lowM = select(Float64Array.from(xs), q);
+    const highM = select(Float64Array.from(xs), count - 1 - q);
+    const low: number[] = [];
+    const high: number[] = [];
+    for (let j = 0; j < count; j++) {
+      if (xs[j] <= lowM) low.push(ys[j]);
+      if (xs[j] >= highM) high.push(ys[j] / Math.max(xs[j], Number.MIN_VALUE));
+    }
+    const median = (v: number[]) => select(Float64Array.from(v), v.length >> 1);
+    a = Math.max(median(low) / Math.LN2, aMin);
+    b = Math.max(median(high) / Math.LN2, bMin);
+  }
   const deviance = (va: number, vb: number): number => {
     let d = 0;
-    for (const i of idx) {
-      const mu = va + vb * m2[i];
-      d += e[i] / 2 / mu + Math.log(mu);
+    for (let j = 0; j < count; j++) {
+      const mu = va + vb * xs[j];
+      d += ys[j] / mu + Math.log(mu);
     }
     return d;
   };
   let dev = deviance(a, b);
-  for (let round = 0; round < rounds; round++) {
+  for (let round = 0; round < VARIANCE_FIT_ROUNDS; round++) {
     let s00 = 0;
     let s01 = 0;
     let s11 = 0;
     let t0 = 0;
     let t1 = 0;
-    for (const i of idx) {
-      const mu = a + b * m2[i];
+    for (let j = 0; j < count; j++) {
+      const x = xs[j];
+      const y = ys[j];
+      const mu = a + b * x;
       const w = 1 / (mu * mu);
-      const y = e[i] / 2;
-      const x = m2[i];
       s00 += w;
       s01 += w * x;
       s11 += w * x * x;
@@ -113,7 +135,11 @@ function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null,
       const ta = Math.max(a + step * (na - a), aMin);
       const tb = Math.max(b + step * (nb - b), bMin);
       const td = deviance(ta, tb);
-      if (td <= dev) { a = ta; b = tb; dev = td; accepted = true; break; }
+      if (td <= dev) {
+        const settled = Math.abs(ta - a) <= VARIANCE_TOLERANCE * ta && Math.abs(tb - b) <= VARIANCE_TOLERANCE * tb;
+        a = ta; b = tb; dev = td; accepted = !settled;
+        break;
+      }
       step /= 2;
     }
     if (!accepted) break;
@@ -166,8 +192,7 @@ export function noiseFromDifferences(sweep: ImpedanceSweep): RecordedNoise {
   // Start from the lower half of the deviations (robust to the resonance), then set aside
   // what stands far above the model and refit.
   const use = new Uint8Array(e.length);
-  const sorted = Float64Array.from(e).sort();
-  const median = sorted[sorted.length >> 1];
+  const median = select(Float64Array.from(e), e.length >> 1);
   for (let i = 0; i < e.length; i++) use[i] = e[i] <= median ? 1 : 0;
   let v = fitVariances(m2, e, use);
   v = { a: v.a / LOWER_HALF_MEAN, b: v.b / LOWER_HALF_MEAN };
@@ -179,7 +204,7 @@ export function noiseFromDifferences(sweep: ImpedanceSweep): RecordedNoise {
       kept += use[i];
     }
     if (kept < 3) break;
-    v = fitVariances(m2, e, use);
+    v = fitVariances(m2, e, use, v);
   }
   return toNoise(v, all, 'differences');
 }
