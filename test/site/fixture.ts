@@ -4,6 +4,7 @@
  * data and the site without depending on the extractor. Invented reference resonators
  * (X1: 10 mH, 10 fF, 20 Ω, 3 pF) and typical parameter ranges (from memory).
  */
+import { mainMode } from '../../src/lib/extract/main-mode.ts';
 import { impedanceOver, inductanceOf, qualityOf, type BvdModel } from '../../src/lib/models/bvd.ts';
 import type { ModeResult, PartResult, SampleResult } from '../../src/lib/extract/types.ts';
 import type { Part } from '../../src/lib/schema/part.ts';
@@ -116,6 +117,8 @@ export function makeFixturePart(spec: FixturePartSpec): { loaded: LoadedPart; re
       sample: `S${i + 1}`,
       c0F: model.c0F,
       modes,
+      mainMode: mainMode(modes, { frequency: spec.datasheet?.frequency, overtone: spec.datasheet?.overtone }),
+      referenceSweeps: part.samples[i].sweeps.map((s) => s.file),
       warnings: [],
       model,
       temperatureC: 25,

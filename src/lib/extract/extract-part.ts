@@ -18,6 +18,7 @@ function failedSample(sample: Sample, error: unknown): SampleResult {
     c0CrossCheck: { quantity: 'c0F', values: [], verdict: 'single', rule: 'no estimate' },
     fit: { converged: false, reason: 'extraction failed', iterations: 0, rmsResidual: 0, points: 0 },
     diagnostics: [{ code: 'other', severity: 'error', message }], otherConditions: [], spanHz: { min: 0, max: 0 },
+    mainMode: { index: -1, rule: 'no modes' }, referenceSweeps: [],
   };
 }
 

@@ -26,7 +26,7 @@ import { instrumentRangeDiagnostic, noiseDiagnostic, plausibilityDiagnostics, re
 import { mainModeAtConditions, type ConditionPoint } from './other-conditions.ts';
 import { fitTemperature } from './temperature.ts';
 import { analyseDriveLevel, DRIVE_RATIO_WARNING } from './drive-level.ts';
-import { mainMode } from '../osc/main-mode.ts';
+import { mainMode } from './main-mode.ts';
 import { formatFrequency } from './format-frequency.ts';
 import { parallelResonanceOf } from './closed-form.ts';
 import { timed, type TimingCollector } from './timing.ts';
@@ -57,7 +57,7 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
   const empty = (c0F = 0): SampleResult => ({
     sample: sample.id, c0F, modes: [], warnings: warningsOf(diagnostics), model: { c0F, branches: [] },
     c0CrossCheck: { quantity: 'c0F', values: [], verdict: 'single', rule: 'no estimate' }, fit: NO_FIT, diagnostics,
-    otherConditions: [], spanHz: spanOf(),
+    otherConditions: [], spanHz: spanOf(), mainMode: { index: -1, rule: 'no modes' }, referenceSweeps: referenceSweeps(),
   });
   const spanOf = () => prepared.length
     ? { min: Math.min(...prepared.map((s) => s.minHz)), max: Math.max(...prepared.map((s) => s.maxHz)) }
@@ -67,6 +67,9 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     return empty();
   }
   const split = referenceConditions(prepared, sample.temperature);
+  function referenceSweeps(): string[] {
+    return split.reference.map((s) => s.source);
+  }
   const trustedMax = sample.instrumentMaxFrequency;
   for (const s of prepared) {
     const d = instrumentRangeDiagnostic(s.source, s.maxHz, trustedMax);
@@ -301,6 +304,8 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
       diagnostics,
       otherConditions: [],
       spanHz: spanOf(),
+      mainMode: mainPick,
+      referenceSweeps: referenceSweeps(),
     };
 
     // Other conditions: temperature and drive.

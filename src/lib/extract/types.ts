@@ -163,6 +163,13 @@ export interface SampleResult {
   otherConditions: Array<{ sweep: string; temperatureC?: number; driveW?: number; fsHz: number; r1Ohm: number }>;
   /** Frequency span covered by the sample's sweeps, Hz. */
   spanHz: { min: number; max: number };
+  /**
+   * The part's main (wanted) mode, picked once here (main-mode.ts): its index in `modes` (−1 when
+   * there is none) and the rule that picked it. `modes[k]` is `model.branches[k]`.
+   */
+  mainMode: { index: number; rule: string };
+  /** The sweeps (as written in the record) taken at the reference conditions of `modes`. */
+  referenceSweeps: string[];
 }
 
 export interface PartResult {

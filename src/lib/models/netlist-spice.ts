@@ -13,7 +13,7 @@
  */
 import { inductanceOf, qualityOf, type BvdModel } from './bvd.ts';
 import type { SampleResult } from '../extract/types.ts';
-import { mainMode, type MainModeHints, type ModeLike } from '../osc/main-mode.ts';
+import { mainMode, type MainModeHints, type ModeLike } from '../extract/main-mode.ts';
 import { sampleModel } from '../osc/sample-model.ts';
 import { median } from '../osc/lot-stats.ts';
 
@@ -212,7 +212,7 @@ export interface ModelWithLabels {
 /**
  * The part-alone model of a sample with its branch labels, after selection. Main mode: the
  * datasheet overtone's mode (nearest the datasheet frequency first), else the strongest
- * non-spurious mode (see osc/main-mode.ts).
+ * non-spurious mode (see extract/main-mode.ts).
  */
 export function modelFromResult(sample: { c0F: number; modes: Array<ModeLike & { c1F: number }> }, options: ModelFromResultOptions = {}): ModelWithLabels {
   const main = mainMode(sample.modes, options.hints);

@@ -17,7 +17,7 @@
 import type { Datasheet } from '../schema/part.ts';
 import type { SampleResult } from '../extract/types.ts';
 import { loadFrequencyHz, loadResonanceWithLoss } from './load.ts';
-import { mainMode } from './main-mode.ts';
+import { mainMode } from '../extract/main-mode.ts';
 import { sampleModel } from './sample-model.ts';
 
 export type ComplianceVerdict = 'pass' | 'fail' | 'unknown';

@@ -11,7 +11,7 @@
 import type { Datasheet } from '../schema/part.ts';
 import type { SampleResult } from '../extract/types.ts';
 import { frequencyAtDatasheetLoad } from './compliance.ts';
-import { mainMode } from './main-mode.ts';
+import { mainMode } from '../extract/main-mode.ts';
 
 /** Parameters summarised per lot. */
 export const LOT_PARAMETERS = ['fsHz', 'r1Ohm', 'c1F', 'l1H', 'c0F', 'q', 'loadFreqHz'] as const;

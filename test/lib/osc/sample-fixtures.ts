@@ -2,6 +2,7 @@
  * Builders of SampleResult objects for tests of the design modules: modes from known BVD branches
  * (synthetic reference resonators X1, TF1, OT100; invented), with the bookkeeping fields the extraction would fill left neutral.
  */
+import { mainMode, type MainModeHints } from '../../../src/lib/extract/main-mode.ts';
 import type { ModeResult, SampleResult } from '../../../src/lib/extract/types.ts';
 import { inductanceOf, qualityOf, type BvdModel, type MotionalBranch } from '../../../src/lib/models/bvd.ts';
 
@@ -15,11 +16,14 @@ export function modeOf(b: MotionalBranch, c0F: number, overtone = 1, spurious = 
   };
 }
 
-export function sampleOf(id: string, model: BvdModel, modes?: ModeResult[], extra: Partial<SampleResult> = {}): SampleResult {
+export function sampleOf(id: string, model: BvdModel, modes?: ModeResult[], extra: Partial<SampleResult> = {}, hints: MainModeHints = {}): SampleResult {
+  const all = modes ?? model.branches.map((b) => modeOf(b, model.c0F));
   return {
     sample: id,
     c0F: model.c0F,
-    modes: modes ?? model.branches.map((b) => modeOf(b, model.c0F)),
+    modes: all,
+    mainMode: mainMode(all, hints),
+    referenceSweeps: ['synthetic.s1p'],
     warnings: [],
     model,
     c0CrossCheck: { quantity: 'c0F', values: [], verdict: 'single', rule: 'none' },

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { mainMode } from '../../../src/lib/osc/main-mode.ts';
+import { mainMode } from '../../../src/lib/extract/main-mode.ts';
 
 // Synthetic third-overtone part: fundamental (strong), main 3rd overtone, spurious mode above it.
 const modes = [
