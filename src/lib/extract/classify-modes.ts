@@ -9,15 +9,16 @@
  * - Main or spurious: taken strongest first (lowest R1); a mode within `spuriousWindow`
  *   (relative frequency) of a stronger main mode is spurious (an unwanted mode near a main
  *   mode, weaker: higher R), else it is a main mode.
- * - Overtone order is physical (CONTRACT §3): thickness-shear plates respond near odd
- *   multiples n = 1, 3, 5, … of the fundamental, not exactly at them (f3/(3f1) ≈ 1.0028 for
- *   AT, FIELD.md §5). The reference is the datasheet frequency and overtone when given (so a
+ * - Overtone order is physical (as `extract --json` reports `overtone`, README: Commands):
+ *   thickness-shear plates respond near odd multiples n = 1, 3, 5, … of the fundamental, not
+ *   exactly at them (f3/(3f1) ≈ 1.0028 for AT-cut, a piezoelectric stiffening estimate from
+ *   memory). The reference is the datasheet frequency and overtone when given (so a
  *   third-overtone part's mode near its datasheet frequency is n = 3 and a mode near a third of
  *   it is n = 1), else the lowest main mode is the fundamental. A main mode not near an odd
  *   multiple, or a second one at the same order, is reclassified as spurious. Tuning forks
  *   have no such series: every mode but the fundamental is spurious.
- * - Spurious strength: resistance ratio Rspur/Rmain and 20·log10 of it, dB (FIELD.md §5;
- *   IEC 60444-9 specifies spurious response by resistance ratio).
+ * - Spurious strength: resistance ratio Rspur/Rmain and 20·log10 of it, dB (IEC 60444-9
+ *   specifies spurious response by resistance ratio).
  */
 import type { Diagnostic } from './types.ts';
 import type { Resonance } from './find-resonances.ts';
@@ -66,7 +67,7 @@ export interface ClassifyModesOptions {
   overtoneTolerance?: number;
 }
 
-/** Spurious attenuation in a fixture of loop resistance RT: 20·log10((RT + Rspur)/(RT + Rmain)), dB (FIELD.md §5). */
+/** Spurious attenuation in a fixture of loop resistance RT: 20·log10((RT + Rspur)/(RT + Rmain)), dB (derived from the circuit). */
 export function spuriousAttenuationDb(rSpurOhm: number, rMainOhm: number, rtOhm = 0): number {
   return 20 * Math.log10((rtOhm + rSpurOhm) / (rtOhm + rMainOhm));
 }

@@ -3,7 +3,8 @@
  *
  * Two values agree when they differ by at most 3 combined standard uncertainties
  * (√(u1² + u2²)), or by at most the quantity's tolerance below, which allows for the known
- * biases of the methods (FIELD.md §2g) that their statistical uncertainties do not cover.
+ * biases of the methods (typical disagreements between methods, derived from the BVD model;
+ * IEC 60444-1/-3 accuracy claims) that their statistical uncertainties do not cover.
  * Every method is compared with the first (preferred) value; one disagreement makes the
  * verdict 'disagree', with a message naming the methods and the likely cause.
  *
@@ -14,9 +15,9 @@
  * - r1Ohm 1 %: 1/Gmax and the fits share one definition; fixture series resistance moves all
  *   of them, so what remains is sampling and drive.
  * - c1F, l1H 2 %: load shift depends on CL, whose fixture stray is tens of fF; fs–fa on C0
- *   (FIELD.md §2c–d); the older methods claim 3–7 % (IEC 60444-3 per §2g), ours do better.
+ *   (derived from the BVD model); the older methods claim 3–7 % (IEC 60444-3 accuracy claim), ours do better.
  * - c0F 2 %: capacitive region vs fit; fixture capacitance and far modes (+ΣCk) shift the
- *   former (§2a, §2g).
+ *   former (derived from the BVD model).
  * - q 2 %: follows from R1 and L1.
  */
 import type { CrossCheck, MethodValue } from './types.ts';

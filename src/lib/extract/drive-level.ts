@@ -1,7 +1,7 @@
 /**
  * R1 against drive level (drive-level dependence, DLD): the max/min resistance ratio γ over
  * the levels measured and the frequency change from the lowest to the highest level
- * (FIELD.md §3.4; IEC 60444-6 computes γ over levels from well below to the rated level).
+ * (IEC 60444-6 computes γ over levels from well below to the rated level).
  */
 import type { DriveLevelResult } from './types.ts';
 

@@ -1,5 +1,5 @@
 /**
- * Extraction of a whole part: every sample from its own sweeps (CONTRACT §3). Sweeps are
+ * Extraction of a whole part: every sample from its own sweeps (the `extract --json` result, README: Commands). Sweeps are
  * matched to samples by `sampleId`; sweeps that could not be read (no `impedance`) are skipped.
  * An unexpected failure inside one sample becomes that sample's error, not an exception.
  */

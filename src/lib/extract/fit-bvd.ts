@@ -1,6 +1,7 @@
 /**
  * Full complex least-squares fit of the BVD model to one or several impedance sweeps
- * (FIELD.md §2f, Levenberg–Marquardt; model FIELD.md §1.1).
+ * (Levenberg–Marquardt; model of IEEE Std 177 / IEC 60444-5; crystal fitting as in Tsuzuki & Toki
+ * 1976 and Byrne, Dyer, Peach & Doherty 1982).
  *
  * One parameter set explains every sweep given: a joint fit is a call with several sweeps
  * (narrow, wide, with a known capacitor across or in series with the part). Residuals are the
@@ -55,6 +56,11 @@ export interface FitBvdOptions {
   fitLs?: boolean;
   /** Only use points within this distance of the start fs of any free branch, Hz (default: all points). */
   windowHz?: number;
+  /**
+   * Stop when the remaining step is below this many standard errors (default the optimiser's
+   * 1e-6). A fit whose weights are refined and which is run again may stop earlier.
+   */
+  offsetTolerance?: number;
   /** Maximum Levenberg–Marquardt iterations (default 200). */
   maxIterations?: number;
 }
@@ -363,7 +369,7 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
   if (n === 0) return fail('no free parameters', { points: np }, o);
   if (m <= n) return fail(`${np} points (${m} residuals) for ${n} parameters: need more residuals than parameters`, { points: np }, o);
 
-  const lm = levenbergMarquardt(problem, problem.x0, { maxIterations: o.maxIterations });
+  const lm = levenbergMarquardt(problem, problem.x0, { maxIterations: o.maxIterations, ...(options.offsetTolerance !== undefined ? { offsetTolerance: options.offsetTolerance } : {}) });
   const rmsFinal = problem.relativeRms(lm.x);
   const summary = {
     iterations: lm.iterations,

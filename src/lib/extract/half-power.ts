@@ -1,7 +1,7 @@
 /**
  * Half-power (±45°) bandwidth method on the conductance G = Re Y.
  *
- * The motional arm's reactance is ±R1 exactly where G = Gmax/2, so (FIELD.md §2e, [DERIVED];
+ * The motional arm's reactance is ±R1 exactly where G = Gmax/2, so (derived from the BVD model;
  * IEC 60444-5 admittance-circle analysis):
  *   f+ − f− = Δf = R1/(2πL1),  f+·f− = fs²,  L1 = R1/(2πΔf),  C1 = 1/((2πfs)²L1),  Q = fs/Δf.
  * No C0 compensation is needed on G (C0 only adds susceptance). Each crossing is located by

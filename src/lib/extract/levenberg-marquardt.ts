@@ -1,7 +1,7 @@
 /**
  * Levenberg–Marquardt for small, dense nonlinear least squares: minimise SSR(x) = ‖r(x)‖².
  *
- * Classic damping (Levenberg 1944, Marquardt 1963; FIELD.md §2f), no geodesic acceleration:
+ * Classic damping (K. Levenberg 1944; D. W. Marquardt, SIAM J. Appl. Math. 1963), no geodesic acceleration:
  * each iteration solves (JᵀJ + λ·diag(JᵀJ)) δ = −Jᵀr. The system is scaled to unit diagonal
  * first (Â = D⁻¹JᵀJD⁻¹, D = column norms of J), which makes the step independent of parameter
  * units and lets a plain Cholesky factorisation work for n up to a few dozen. A step is taken

@@ -39,7 +39,7 @@ export function peakMethodsOf(mode: ModeCandidate, sweeps: PreparedSweep[]): Pea
   return { conductance: cond, halfPower: hp.ok ? hp : undefined, branch };
 }
 
-/** Lossless capacitance the other branches add across the part at f, F (FIELD.md §2a). */
+/** Lossless capacitance the other branches add across the part at f, F (lossless Ceff, derived from the BVD model). */
 export function otherBranchesCF(model: BvdModel, k: number, freqHz: number): number {
   let c = 0;
   model.branches.forEach((br, j) => {

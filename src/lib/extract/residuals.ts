@@ -1,8 +1,9 @@
 /**
- * Residual vector and analytic Jacobian of the BVD model for least-squares fitting (FIELD.md §2f),
- * as a {@link LeastSquaresProblem}, so the optimiser can be swapped.
+ * Residual vector and analytic Jacobian of the BVD model for least-squares fitting (complex least
+ * squares as in Tsuzuki & Toki, Proc. IEEE 64(8), 1976), as a {@link LeastSquaresProblem}, so the
+ * optimiser can be swapped.
  *
- * Model of one measured point (FIELD.md §1.1, §2f):
+ * Model of one measured point (IEEE Std 177 / IEC 60444-5 multi-resonance equivalent circuit):
  *   Y     = jω(C0 + Cp + Cadd) + Σk Yk,   Yk = 1/(Rk + jXk),   Xk = (f − fk)(f + fk)/(2π f fk² Ck)
  *   Zs    = Rs + jωLs − j/(ωCser)          (series elements; the capacitor term only when present)
  *   Zmod  = Zs + 1/Y
@@ -30,7 +31,7 @@
  * still converges quickly. The weights are fixed, so this is ordinary weighted least squares:
  * no weight-derivative term in J, and (JᵀJ)⁻¹·s² is the usual covariance.
  *
- * Parameters (FIELD.md §2f: not L1 and C1, which are almost perfectly anti-correlated):
+ * Parameters (not L1 and C1, which are almost perfectly anti-correlated; derived from the model):
  *   per free branch k: pk = (fk − fk0)/fk0·1e6 (ppm offset from the start), ln R1k, ln C1k;
  *   then ln C0 (if fitted), Rs in Ω (if fitted), Ls in nH (if fitted).
  * Jacobian (J = w·(∂Ym/∂p − ∂Y/∂p)):

@@ -7,7 +7,7 @@
  *   and its main/overtone role, if any, passes to the one kept.
  * - Spurious modes: reported only when (a) the mode's own least-squares fit converged with a
  *   finite, positive R1, and (b) it is at most {@link MAX_SPURIOUS_DB} dB weaker than its main
- *   mode by the resistance ratio 20·log10(Rspur/Rmain) (FIELD.md §5; IEC 60444-9 states
+ *   mode by the resistance ratio 20·log10(Rspur/Rmain) (IEC 60444-9 states
  *   spurious response as a resistance ratio). A response 40 dB down (R ratio 100) has no
  *   practical effect on an oscillator, and at that level a "mode" found in a sweep is far more
  *   likely noise or fixture ripple than a resonance, so it is not published.

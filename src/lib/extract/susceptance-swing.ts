@@ -1,7 +1,7 @@
 /**
  * Is a conductance peak shaped like a resonance? Its susceptance must swing with it.
  *
- * The motional admittance 1/(R1 + jX) traces a circle through the origin (FIELD.md §2b): with
+ * The motional admittance 1/(R1 + jX) traces a circle through the origin (derived from the BVD model): with
  * u = X/R1 = (f − fs²/f)/bandwidth, G = G0/(1 + u²) and B = −G0·u/(1 + u²), so across the peak
  * B falls by G0 between the half-power points. The measured B over ±3 bandwidths (at least
  * ±3.5 steps) is fitted by least squares as a + c·(f − fs) + γ·Bm(f), the line taking up C0 and

@@ -2,10 +2,11 @@
  * Frequency against temperature.
  *
  * - quartz-at: cubic Δf/f = a1(T−T0) + a2(T−T0)² + a3(T−T0)³ with T0 = 25 °C; turning points
- *   solve a1 + 2a2t + 3a3t² = 0 (FIELD.md §6; coefficients as quoted from Gerber & Ballato
- *   1985 in Haney 2001). Needs four temperatures; with three the quadratic is used instead.
- * - quartz-tuning-fork: parabola Δf/f = β(T − T0)² with the turnover T0 free (FIELD.md §6,
- *   β ≈ −0.034 ppm/°C²): fitted as a quadratic in T, T0 = vertex.
+ *   solve a1 + 2a2t + 3a3t² = 0 (coefficients of Gerber & Ballato (eds.), Precision Frequency
+ *   Control, Academic Press 1985, as quoted in M. Haney's 2001 thesis). Needs four
+ *   temperatures; with three the quadratic is used instead.
+ * - quartz-tuning-fork: parabola Δf/f = β(T − T0)² with the turnover T0 free (β ≈ −0.034
+ *   ppm/°C², from memory): fitted as a quadratic in T, T0 = vertex.
  * - anything else: quadratic about 25 °C.
  * The span is the peak-to-peak of the fitted curve over the datasheet operating range, else
  * over the measured range (turning points inside the range included).
