@@ -29,6 +29,7 @@ import { findPartFiles } from './check-paths.ts';
 import { nodeFileSource } from './file-source.ts';
 import { createBuildTaskRunner, createRecordLookup, linkFiles, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
 import { loadFingerprintMemo, pruneCache, sha256 } from './cache.ts';
+import { extractionCodeHash } from './code-hash.ts';
 import type { IndexEntry } from '../site/types.ts';
 import { PAGES_ENV, belongsTo, formatManifest, linkTree, overlayTree, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
@@ -198,6 +199,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     await mkdir(scratchDir, { recursive: true });
     const context: BuildTaskContext = {
       cacheDir,
+      // the code that makes each part's files keys its cache entries (once per build)
+      codeHash: cacheDir ? await extractionCodeHash(PROJECT_ROOT) : '',
       // a bad circuits file fails the build; the records are still validated to list their problems
       oscillators: oscillatorsBad ? undefined : oscillators,
       basePath,

@@ -13,7 +13,6 @@
 import { copyFile, link, mkdir, readdir, rename, rm } from 'node:fs/promises';
 import { dirname, join, relative, sep } from 'node:path';
 import type { Issue } from '../lib/issues.ts';
-import { EXTRACTOR_VERSION } from '../lib/extract/version.ts';
 import type { OscillatorCircuit } from '../lib/schema/oscillators.ts';
 import { PART_DATA_VERSION, type IndexEntry } from '../site/types.ts';
 import { cacheKey, hashPartFolder, openCache, type BuildCache, type FingerprintMemo } from './cache.ts';
@@ -22,6 +21,8 @@ import { cacheKey, hashPartFolder, openCache, type BuildCache, type FingerprintM
 export interface BuildTaskContext {
   /** Cache folder; undefined = no cache. */
   cacheDir?: string;
+  /** Fingerprint of the code that makes a part's files (code-hash.ts), computed once per build. */
+  codeHash: string;
   /** Oscillator circuits file: display name, text and sha256; undefined = none. */
   oscillators?: { file: string; text: string; hash: string };
   /** Site base path, e.g. `/` or `/tools/crystals/`. */
@@ -107,7 +108,7 @@ function cacheAccess(context: BuildTaskContext): CacheAccess | undefined {
   const options = `partData=${PART_DATA_VERSION};base=${context.basePath}`;
   return {
     cache: openCache(context.cacheDir),
-    keyOf: (folderHash) => cacheKey({ folderHash, extractorVersion: EXTRACTOR_VERSION, oscillatorsHash: context.oscillators?.hash ?? '', options }),
+    keyOf: (folderHash) => cacheKey({ folderHash, codeHash: context.codeHash, oscillatorsHash: context.oscillators?.hash ?? '', options }),
   };
 }
 

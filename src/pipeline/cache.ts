@@ -4,7 +4,8 @@
  * result depends on:
  * - every file in the part folder and its sub-folders (names, link targets and bytes): this
  *   covers the record, each sweep it names and its compensation files, wherever they sit;
- * - the extractor version ({@link EXTRACTOR_VERSION}, raised whenever results change);
+ * - the code that made the result (code-hash.ts: every module the build task reaches, the
+ *   package lock and Node's version), so a code change can never leave stale numbers;
  * - the oscillator circuits file;
  * - build options that reach the result (the site base path).
  *
@@ -146,7 +147,8 @@ export function sha256(data: string | Uint8Array): string {
 /** Everything a cached result depends on. */
 export interface CacheKeyInputs {
   folderHash: string;
-  extractorVersion: string;
+  /** Fingerprint of the code that makes the result (code-hash.ts). */
+  codeHash: string;
   /** sha256 of the oscillator circuits file ('' when none). */
   oscillatorsHash: string;
   /** Build options that change the result, as a stable string. */
@@ -155,7 +157,7 @@ export interface CacheKeyInputs {
 
 /** The cache key of a part: sha256 over its inputs. */
 export function cacheKey(inputs: CacheKeyInputs): string {
-  return sha256(['motional-cache-1', inputs.folderHash, inputs.extractorVersion, inputs.oscillatorsHash, inputs.options].join('\0'));
+  return sha256(['motional-cache-2', inputs.folderHash, inputs.codeHash, inputs.oscillatorsHash, inputs.options].join('\0'));
 }
 
 /** A folder of cache entries: a header text per key, optionally with a folder of files. */

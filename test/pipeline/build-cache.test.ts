@@ -80,17 +80,17 @@ describe('build cache', () => {
   });
 
   it('keys on every input', () => {
-    const base = { folderHash: 'f', extractorVersion: '1', oscillatorsHash: 'o', options: 'base=/' };
+    const base = { folderHash: 'f', codeHash: '1', oscillatorsHash: 'o', options: 'base=/' };
     const k = cacheKey(base);
     expect(k).toMatch(/^[0-9a-f]{64}$/);
-    for (const change of [{ folderHash: 'g' }, { extractorVersion: '2' }, { oscillatorsHash: 'p' }, { options: 'base=/x/' }]) {
+    for (const change of [{ folderHash: 'g' }, { codeHash: '2' }, { oscillatorsHash: 'p' }, { options: 'base=/x/' }]) {
       expect(cacheKey({ ...base, ...change })).not.toBe(k);
     }
   });
 
   it('moves a folder of files into an entry', async () => {
     const cache = openCache(join(tmp, 'cache'));
-    const key = cacheKey({ folderHash: 'g', extractorVersion: '1', oscillatorsHash: '', options: '' });
+    const key = cacheKey({ folderHash: 'g', codeHash: '1', oscillatorsHash: '', options: '' });
     const files = join(tmp, 'files');
     await mkdir(join(files, 'parts'), { recursive: true });
     await writeFile(join(files, 'parts', 'X.json'), '{}');
@@ -106,7 +106,7 @@ describe('build cache', () => {
 
   it('stores and returns entries, and prunes old ones', async () => {
     const cache = openCache(join(tmp, 'cache'));
-    const key = cacheKey({ folderHash: 'f', extractorVersion: '1', oscillatorsHash: '', options: '' });
+    const key = cacheKey({ folderHash: 'f', codeHash: '1', oscillatorsHash: '', options: '' });
     expect(await cache.get(key)).toBeUndefined();
     await cache.put(key, '{"a":1}');
     expect(await cache.get(key)).toBe('{"a":1}');
