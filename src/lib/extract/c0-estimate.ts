@@ -1,7 +1,7 @@
 /**
  * C0 from the capacitive region, away from every resonance.
  *
- * Lossless, Ceff(f) = Im Y/ω = C0 + Σk Ck/(1 − (f/fk)²) (FIELD.md §2a, [DERIVED]; IEC 60444-5
+ * Lossless, Ceff(f) = Im Y/ω = C0 + Σk Ck/(1 − (f/fk)²) (derived from the BVD model; IEC 60444-5
  * has a dedicated C0 clause). A plain low-frequency reading gives C0 + ΣCk, and readings near
  * a mode are biased, so the mode terms are kept: each Ck is fitted when the kept points lie
  * on both sides of its mode (the terms are then well separated from the constant), else it is
@@ -10,7 +10,8 @@
  * (Im Yk/ω = Ck/(1 − (f/fk)²)·X²/(X² + R1²), exact for the branch), and the weights follow the
  * noise, which grows with |Y| toward the resonance, so C0 rests on the capacitive points.
  * Input sweeps are of the part alone (added capacitors already removed, see part-alone.ts);
- * a remaining fixture stray capacitance cannot be told from C0 here (FIELD.md §2f).
+ * a remaining fixture stray capacitance cannot be told from C0 here (C0 and a parallel stray are
+ * inseparable in one sweep).
  */
 import { invertSmall } from './small-linalg.ts';
 

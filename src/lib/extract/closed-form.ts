@@ -2,16 +2,16 @@
  * Closed forms and exact characteristic frequencies of the BVD model.
  *
  * - C1 = C0((fp/fs)² − 1), L1 = 1/((2πfs)²C1): exact for a lossless single branch
- *   (FIELD.md §1.2, §2c; IEEE 177 fp).
+ *   (IEEE Std 177 fp; derived from the BVD model).
  * - fp of a multi-branch model: lossless anti-resonance just above branch k, i.e. the root of
- *   Ceff(f) = C0 + Σj Cj/(1 − (f/fj)²) (FIELD.md §2a) between fk and the next branch above;
- *   Ceff rises monotonically from −∞ to +∞ (or to C0) there, so the root is unique.
+ *   Ceff(f) = C0 + Σj Cj/(1 − (f/fj)²) (derived from the BVD model) between fk and the next
+ *   branch above; Ceff rises monotonically from −∞ to +∞ (or to C0) there, so the root is unique.
  * - fr, fa: lower/upper zero-phase frequencies (Im Y = 0) of the lossy model, exact by root
- *   finding; Rr, Ra the impedance there (FIELD.md §1.3, IEEE 177 symbols).
+ *   finding; Rr, Ra the impedance there (IEEE Std 177 symbols).
  * - From a measured upper zero-phase fa: for one branch, Im Y = 0 reads
  *   ωCt(R1² + X²) = X, a quadratic in X whose upper root is X = (1 + √(1 − 4ω²Ct²R1²))/(2ωCt);
  *   with X = L1(ω² − ωs²)/ω = u/(ωC1), u = (fa/fs)² − 1, this gives C1 = u/(ωX) exactly
- *   (FIELD.md §1.3, [DERIVED]); R1 → 0 gives back C0((fa/fs)² − 1).
+ *   (derived from the BVD model); R1 → 0 gives back C0((fa/fs)² − 1).
  */
 import { admittanceAt, type BvdModel } from '../models/bvd.ts';
 
@@ -40,7 +40,7 @@ function ceffAt(model: BvdModel, k: number, d: number): number {
 
 /**
  * Lossless effective capacitance of the part alone, Ceff(f) = Im Y/ω = C0 + Σk Ck/(1 − (f/fk)²), F
- * (FIELD.md §2a); near a mode it is biased, at low frequency it tends to C0 + ΣCk.
+ * (derived from the BVD model); near a mode it is biased, at low frequency it tends to C0 + ΣCk.
  */
 export function effectiveCapacitanceOf(model: BvdModel, freqHz: number): number {
   let c = model.c0F;
@@ -98,7 +98,7 @@ export interface ZeroPhase {
 
 /**
  * Exact zero-phase frequencies of branch `k` of the part alone (fixture terms ignored), or
- * undefined when the phase never reaches zero (M below about 2, FIELD.md §1.3).
+ * undefined when the phase never reaches zero (M below 2, derived from the BVD model).
  */
 export function zeroPhaseOf(model: BvdModel, k: number): ZeroPhase | undefined {
   const br = model.branches[k];

@@ -1,13 +1,15 @@
 /**
  * Conductance-peak method: fs, R1 and L1 from the shape of G = Re Y around a resonance.
  *
- * C0 only adds susceptance, so G is exactly the motional branch's conductance (FIELD.md §2b):
+ * C0 only adds susceptance, so G is exactly the motional branch's conductance (derived from the
+ * BVD model):
  *   G = R1/(R1² + X²),  X = 2πL1·(f − fs²/f)
  * hence h = 1/G = R1 + K·v² with v = f − fs²/f and K = (2πL1)²/R1: a parabola in v whose
- * vertex is (fs, R1) and whose curvature gives L1. Gmax = 1/R1 sits exactly at fs [DERIVED;
- * QCM usage R1 = 1/Gmax, Sensors 21(10):3490, 2021]. The model is fitted by Gauss–Newton
- * on the points with G above a fraction of the peak, weighted for noise proportional to |Y|.
- * Other branches' conductance tails are neglected (they are many orders smaller at a peak).
+ * vertex is (fs, R1) and whose curvature gives L1. Gmax = 1/R1 sits exactly at fs (derived from
+ * the BVD model; QCM usage R1 = 1/Gmax, Sensors 21(10):3490, 2021). The model is fitted by
+ * Gauss–Newton on the points with G above a fraction of the peak, weighted for noise
+ * proportional to |Y|. Other branches' conductance tails are neglected (they are many orders
+ * smaller at a peak).
  */
 import { invertSmall, propagate } from './small-linalg.ts';
 

@@ -4,12 +4,14 @@
  * human-readable `warnings`.
  *
  * Limits and their sources:
- * - ≥ 10 points per half-power bandwidth fs/Q (FIELD.md §3.3: 10–20 inside Δf, DERIVED practice);
- * - a sweep around fa as well as fs (FIELD.md §3.3) for the fs–fa and load cross-checks;
- * - data above the sample's instrumentMaxFrequency are flagged, not trusted (CONTRACT §1, §3);
- * - M ≥ 4 (IEC 60444-11 limits its fL method to M > 4; FIELD.md §1.3, §10);
+ * - ≥ 10 points per half-power bandwidth fs/Q (10–20 inside Δf: common practice, not from a
+ *   standard);
+ * - a sweep around fa as well as fs (common practice) for the fs–fa and load cross-checks;
+ * - data above the sample's instrumentMaxFrequency are flagged, not trusted (README: The part
+ *   record; README: Commands);
+ * - M ≥ 4 (IEC 60444-11 limits its fL method to M > 4);
  * - AT-cut plausibility: r ≥ n²π²/(8k²) with k = 8.8 % (Vig; C1n = 8k²C0/(nπ)², Sensors 2021)
- *   and Q·f ≲ 1.6×10¹³ Hz (from memory, FIELD.md §1.4).
+ *   and Q·f ≲ 1.6×10¹³ Hz (from memory).
  */
 import type { Diagnostic } from './types.ts';
 import { formatSi } from '../units/si.ts';
@@ -19,9 +21,12 @@ import { formatFrequency } from './format-frequency.ts';
 export const MIN_POINTS_PER_BANDWIDTH = 10;
 /** Figure of merit M = Q/r below which the zero-phase and load methods degrade. */
 export const MIN_FIGURE_OF_MERIT = 4;
-/** AT-cut piezoelectric coupling (Vig's tutorial, FIELD.md §1.4). */
+/**
+ * AT-cut piezoelectric coupling (J. R. Vig, Quartz Crystal Resonators and Oscillators for Frequency
+ * Control and Timing Applications — A Tutorial).
+ */
 export const AT_COUPLING = 0.088;
-/** Upper plausible Q·f for AT-cut quartz, Hz (from memory, FIELD.md §1.4). */
+/** Upper plausible Q·f for AT-cut quartz, Hz (from memory). */
 export const AT_MAX_Q_TIMES_F = 1.6e13;
 /** Fit residual (relative) above which the data are called noisy: −40 dB. */
 export const NOISY_RESIDUAL = 0.01;
@@ -31,7 +36,7 @@ export function minimumCapacitanceRatio(overtone: number, coupling = AT_COUPLING
   return (overtone * overtone * Math.PI * Math.PI) / (8 * coupling * coupling);
 }
 
-/** A sweep reaching above the instrument's trusted range (CONTRACT §3 wording). */
+/** A sweep reaching above the instrument's trusted range (wording fixed by `extract --json`, README: Commands). */
 export function instrumentRangeDiagnostic(source: string, sweepMaxHz: number, instrumentMaxHz: number | undefined): Diagnostic | undefined {
   if (instrumentMaxHz === undefined || !(sweepMaxHz > instrumentMaxHz)) return undefined;
   return {

@@ -2,24 +2,24 @@
  * Finding the resonances of one sweep of the part alone.
  *
  * A series resonance is a peak of the conductance G = Re Y (Gmax = 1/R1 exactly at fs; C0 only
- * adds susceptance — FIELD.md §2b). Peaks are accepted by topographic prominence against the
- * noise estimated from the data in a window around each peak (sweep-noise.ts), whichever of
- * these is higher, times `prominenceSigmas`:
+ * adds susceptance — derived from the BVD model). Peaks are accepted by topographic prominence
+ * against the noise estimated from the data in a window around each peak (sweep-noise.ts),
+ * whichever of these is higher, times `prominenceSigmas`:
  * - the relative noise of Y times |Y| (relative noise on Z is relative noise on Y), so noise
  *   wiggles on a resonance's flanks are not taken for modes;
  * - the absolute noise of G. A fixture converts its own noise into Z with the sensitivity
  *   |dZ/dS|, so where the part is far from the fixture's accurate range (reflection or
- *   shunt-through near the anti-resonance, FIELD.md §3.2) the noise of Y is many times the
- *   sweep's typical relative noise and roughly constant in absolute terms.
+ *   shunt-through near the anti-resonance, derived from the fixture conversions) the noise of Y
+ *   is many times the sweep's typical relative noise and roughly constant in absolute terms.
  * Being local, the estimates also keep a resonance in the fixture's accurate range from being
  * judged by the noise of a worse region elsewhere in the same sweep.
  * A peak must also be shaped like a resonance: the motional admittance traces a circle, so the
  * susceptance swings down by about Gmax across the peak; noise that happens to peak in G does
  * not. Each peak is then refined by the conductance-peak fit; two maxima refined onto the same
  * resonance (fs closer than half a bandwidth) are one, the higher kept. Finally the
- * zero-phase crossings above it (fr: B falls through 0, fa: B rises through 0; FIELD.md §1.3)
- * and the |Z| maximum fn are located. Works unchanged for Q from a few hundred (ceramic) to
- * 10⁵ and for tuning forks: nothing depends on the absolute frequency or bandwidth.
+ * zero-phase crossings above it (fr: B falls through 0, fa: B rises through 0; IEEE Std 177
+ * symbols) and the |Z| maximum fn are located. Works unchanged for Q from a few hundred
+ * (ceramic) to 10⁵ and for tuning forks: nothing depends on the absolute frequency or bandwidth.
  */
 import type { Diagnostic } from './types.ts';
 import type { AdmittanceSweep } from './part-alone.ts';

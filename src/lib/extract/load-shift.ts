@@ -1,9 +1,9 @@
 /**
- * Load-capacitance shift method (FIELD.md §2d).
+ * Load-capacitance shift method (IEC 60444-11 terms fL, CLeff; forms derived from the BVD model).
  *
  * Lossless, a capacitor CL in series with the part (load resonance) or across it (load
  * anti-resonance) moves the zero-phase frequency to fL = fs·√(1 + C1/(C0 + CL)) — the same fL
- * either way [DERIVED; fL and CLeff per IEC 60444-11]. With u = (fL/fs)² − 1:
+ * either way (derived from the BVD model; fL and CLeff per IEC 60444-11). With u = (fL/fs)² − 1:
  *   one load, C0 known:   C1 = u·(C0 + CL)
  *   two or more loads:    1/u = C0/C1 + CL/C1, a line in CL (slope 1/C1, intercept C0/C1),
  *                         so C1 and C0 come without an independent C0
@@ -13,7 +13,7 @@
  *   across (parallel): X = (1 + √(1 − 4ct²R1²))/(2ct), ct = ω(C0 + CL)   (upper zero phase)
  *   in series:         c0(c0 + cl)X² − (cl + 2c0)X + 1 + c0(c0 + cl)R1² = 0, lower root,
  *                      c0 = ωC0, cl = ωCL                                    (lower zero phase)
- * [DERIVED from Im Y = 0, resp. Im Z_part = 1/(ωCL)]; both give X = 1/(ω(C0 + CL)) for R1 = 0.
+ * (derived from Im Y = 0, resp. Im Z_part = 1/(ωCL)); both give X = 1/(ω(C0 + CL)) for R1 = 0.
  * Writing κ = ω(C0 + CL)·X (1 when lossless), u = κ·C1/(C0 + CL) and κ/u is the exact line.
  */
 import type { AddedConnection } from './part-alone.ts';

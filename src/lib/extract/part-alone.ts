@@ -5,7 +5,7 @@
  * - Capacitor in parallel with the part: it adds jωC to the admittance, so Y_part = Y − jωC.
  * - Capacitor in series with the part: it adds 1/(jωC) to the impedance, so
  *   Z_part = Z − 1/(jωC) = Z + j/(ωC).
- * (FIELD.md §2a: capacitance across the part adds directly; §2d: series and parallel load.)
+ * (Derived from the circuit: capacitance across the part adds directly; series and parallel load.)
  * The fixture itself has already been converted by the fixture code; this module only undoes
  * the capacitor the record says was added on purpose.
  */
@@ -23,7 +23,7 @@ export interface AdmittanceSweep {
   source: string;
 }
 
-/** How a known capacitor was added during a sweep (CONTRACT §1 `addedConnection`). */
+/** How a known capacitor was added during a sweep (README: The part record, `addedConnection`). */
 export type AddedConnection = 'parallel' | 'series';
 
 /**

@@ -1,9 +1,9 @@
 /**
- * Preparing a sample's sweeps and choosing its reference conditions (CONTRACT §3): the
- * sample's own `temperature`, else the sweep temperature nearest 25 °C (when no sweep was taken at
- * the sample's temperature, the nearest one to it); at that temperature
- * the lowest drive level. Sweeps without a stated temperature or drive count as taken at the
- * reference. Results at other conditions go to extra fields.
+ * Preparing a sample's sweeps and choosing its reference conditions (as the `extract --json`
+ * interface fixes them, README: Commands): the sample's own `temperature`, else the sweep
+ * temperature nearest 25 °C (when no sweep was taken at the sample's temperature, the nearest
+ * one to it); at that temperature the lowest drive level. Sweeps without a stated temperature
+ * or drive count as taken at the reference. Results at other conditions go to extra fields.
  */
 import type { SweepRef } from '../schema/part.ts';
 import { recordedOf, type ImpedanceSweep, type RecordedQuantity } from '../sweep/sweep.ts';

@@ -11,10 +11,10 @@
  *   median of the smaller magnitude is 0.3755·s.
  * - Absolute noise of G: median |d²G|; the median of |N(0, s)| is 0.6745·s.
  * The local estimates matter where the fixture converts its own noise into Z with a large
- * sensitivity |dZ/dS| (reflection or shunt-through far from Z0, FIELD.md §3.2): there the
- * noise of Y is many times the sweep's typical relative noise, and a sweep-wide estimate
- * both hides it locally and, when most of the sweep is such a region, overstates it at the
- * resonance.
+ * sensitivity |dZ/dS| (reflection or shunt-through far from Z0; derived from the fixture
+ * conversions): there the noise of Y is many times the sweep's typical relative noise, and a
+ * sweep-wide estimate both hides it locally and, when most of the sweep is such a region,
+ * overstates it at the resonance.
  */
 
 /** The local window reaches this many points beyond the block of the point asked about. */

@@ -1,6 +1,7 @@
 /**
- * Result types of the extraction engine. Everything in SI base units; keys of CONTRACT §3
- * (`part`, `samples[].sample`, `c0F`, `modes[]`, `warnings`) plus the project's own extras.
+ * Result types of the extraction engine. Everything in SI base units; keys of the `extract --json`
+ * output (README: Commands): `part`, `samples[].sample`, `c0F`, `modes[]`, `warnings`, plus the
+ * project's own extras.
  */
 import type { BvdModel } from '../models/bvd.ts';
 
