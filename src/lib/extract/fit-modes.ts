@@ -2,7 +2,7 @@
  * The least-squares fits of a sample: one per mode on a window of its best-resolved sweep
  * (that branch free, the others held at their quick estimates), then one joint fit over every
  * reference-condition sweep (narrow, loaded, wide; trusted frequencies only) with every
- * well-fitted, unflagged branch and C0 free. The fitter itself is fit-bvd.ts (FIELD.md §2f).
+ * well-fitted, unflagged branch and C0 free. The fitter itself is fit-bvd.ts (Levenberg–Marquardt).
  *
  * A per-mode window only holds C0 when it reaches away from the resonance (or covers the
  * anti-resonance); otherwise C0 is held at the capacitive-region estimate, since a window of a
@@ -43,7 +43,7 @@ export interface ModeFits {
   jointNoise: Array<{ source: string; noise: RecordedNoise }>;
 }
 
-/** Bandwidth fs/Q = 2π·fs²·R1·C1 of a branch, Hz (FIELD.md §3.3). */
+/** Bandwidth fs/Q = 2π·fs²·R1·C1 of a branch, Hz (derived from the BVD model). */
 function bandwidthOf(b: { fsHz: number; r1Ohm: number; c1F: number }): number {
   return 2 * Math.PI * b.fsHz * b.fsHz * b.r1Ohm * b.c1F;
 }
