@@ -82,6 +82,9 @@ function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): SelectedS
  */
 export const NOISE_ROUNDS = 1;
 
+/** Stopping rule of the first joint fit, in standard errors (the refit uses the optimiser's default). */
+const FIRST_FIT_OFFSET_TOLERANCE = 0.01;
+
 /** Refit with each sweep's noise taken from the residuals of `fit`; returns the last converged fit and the noise used. */
 function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedSweep[], start: BvdModel) => FitBvdResult): { fit: FitBvdResult; noise: RecordedNoise[] } {
   let current = fit;
@@ -151,8 +154,11 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
     .map((s) => selectPoints(s, (f) => trustedMaxHz === undefined || f <= trustedMaxHz))
     .filter((d): d is SelectedSweep => d !== undefined);
   if (data.length === 0) return none;
-  const fitJoint = (d: SelectedSweep[], from: BvdModel, ks: number[]) => timed(timing, 'fit-joint', () => fitBvd(d, from, { freeBranches: ks.map((k) => jointIndex[k]), fitC0: true }));
-  const run = (ks: number[]) => fitJoint(data, start, ks);
+  const fitJoint = (d: SelectedSweep[], from: BvdModel, ks: number[], offsetTolerance?: number) =>
+    timed(timing, 'fit-joint', () => fitBvd(d, from, { freeBranches: ks.map((k) => jointIndex[k]), fitC0: true, offsetTolerance }));
+  // The first joint fit only has to come close enough for the noise estimate: its weights are
+  // refined and the fit run again from its result to full precision.
+  const run = (ks: number[]) => fitJoint(data, start, ks, FIRST_FIT_OFFSET_TOLERANCE);
   let joint = run(free);
   // A branch the data do not determine is held at its window-fit value and the rest refitted.
   while (!joint.converged && joint.failedBranch !== undefined && free.length > 1) {
