@@ -1,6 +1,6 @@
 /**
  * Forward fixture formulas: the network parameters an instrument records for a device of
- * impedance Z in a given fixture (Z0 real, calibrated to the device plane). FIELD.md §3.2:
+ * impedance Z in a given fixture (Z0 real, calibrated to the device plane). Derived from the circuit:
  *
  *   reflection     S11 = (Z − Z0)/(Z + Z0)
  *   series-thru    S11 = S22 = Z/(Z + 2Z0),      S21 = S12 = 2Z0/(Z + 2Z0)
@@ -62,7 +62,7 @@ export function sParametersOf(z: Complex | null, fixture: Exclude<Fixture, 'impe
 /**
  * Device impedance implied by recorded S-parameters (inverse of {@link sParametersOf}), ohm:
  * reflection Z = Z0(1 + S11)/(1 − S11); series-thru Z = 2Z0(1 − S21)/S21;
- * shunt-thru Z = Z0·S21/(2(1 − S21)) (FIELD.md §3.2).
+ * shunt-thru Z = Z0·S21/(2(1 − S21)) (derived from the circuit).
  * @param s row-major S matrix of one point (only S11 or S21 is used)
  */
 export function impedanceFromS(s: SMatrix, fixture: Exclude<Fixture, 'impedance'>, z0Ohm: number): Complex {

@@ -1,6 +1,6 @@
 /**
  * Synthetic open and short compensation sweeps of a fixture with frequency-independent
- * residuals (FIELD.md §3.1): with the part removed the instrument sees Zom = Zs + 1/(jωCp)
+ * residuals (derived from the circuit): with the part removed the instrument sees Zom = Zs + 1/(jωCp)
  * (the strays, behind the series parts); with the part replaced by a short it sees Zsm = Zs
  * (the series parts only), Zs = Rs + jωLs. The exact open/short correction
  * Zdut = (Zm − Zsm)/(1 − (Zm − Zsm)/(Zom − Zsm)) then returns the part's impedance.

@@ -2,11 +2,11 @@
  * Synthetic sweeps from a known BVD model, as an instrument would record them.
  *
  * Chain (each stage noiseless, noise added last to the recorded quantity):
- *   part Z(f) from the model (FIELD.md §1.1, including the model's own rs/ls/cp)
+ *   part Z(f) from the model (IEEE Std 177 BVD model, including the model's own rs/ls/cp)
  *   → added capacitor: parallel Z' = 1/(1/Z + jωCa) or series Z' = Z + 1/(jωCa)
- *   → fixture parasitics: Zm = Zs + 1/(1/Z' + jωCp), Zs = Rs + jωLs (FIELD.md §3.1: series parts
+ *   → fixture parasitics: Zm = Zs + 1/(1/Z' + jωCp), Zs = Rs + jωLs (series parts
  *     toward the instrument, stray admittance across the device; open/short compensation removes them)
- *   → fixture: S-parameters (FIELD.md §3.2) or Z directly
+ *   → fixture: S-parameters (conversions derived from the circuit) or Z directly
  *   → seeded complex Gaussian noise on each recorded entry, as a receiver adds it: a floor
  *     independent of the signal (`floorDb`) plus a trace term proportional to it (`traceNoise`);
  *     or the older relative-only form x + |x|·σ·(g1 + j·g2), σ = 10^(dB/20)/√2 (`noiseDb`).
@@ -202,7 +202,7 @@ export function withAdded(z: Complex, freqHz: number, added: AddedCapacitor | un
 }
 
 /**
- * Impedance at the instrument plane: Zs + 1/(1/Z + jωCp), ohm (FIELD.md §3.1).
+ * Impedance at the instrument plane: Zs + 1/(1/Z + jωCp), ohm (derived from the circuit).
  * @param z device impedance; `null` = open circuit (then only the strays remain)
  * @returns `null` when the result is an open circuit (open device, no stray capacitance)
  */
