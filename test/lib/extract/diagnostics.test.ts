@@ -3,20 +3,20 @@ import { instrumentRangeDiagnostic, minimumCapacitanceRatio, noiseDiagnostic, pl
 
 describe('diagnostics', () => {
   it('uses the minimum AT capacitance ratio 159.31 (n = 1) and 1433.8 (n = 3)', () => {
-    // FIELD.md §1.4: r ≥ n²π²/(8k²), k = 8.8 % (Vig), C1n = 8k²C0/(nπ)² (Sensors 21(10):3490)
+    // r ≥ n²π²/(8k²), k = 8.8 % (J. R. Vig's tutorial), C1n = 8k²C0/(nπ)² (Sensors 21(10):3490)
     expect(minimumCapacitanceRatio(1)).toBeCloseTo(159.31, 2);
     expect(minimumCapacitanceRatio(3)).toBeCloseTo(1433.8, 1);
   });
 
-  it('words the instrument-range warning as CONTRACT §3 does', () => {
-    // CONTRACT §3 example warning
+  it('words the instrument-range warning as the extract JSON example does', () => {
+    // example warning of the `extract --json` interface
     expect(instrumentRangeDiagnostic('a1-wide.csv', 12e6, 10e6)!.message).toBe('sweep a1-wide.csv: above instrumentMaxFrequency from 10 MHz; modes there are flagged');
     expect(instrumentRangeDiagnostic('a1-wide.csv', 9e6, 10e6)).toBeUndefined();
     expect(instrumentRangeDiagnostic('a1-wide.csv', 9e6, undefined)).toBeUndefined();
   });
 
   it('warns below 10 points per bandwidth and says which step to use', () => {
-    // FIELD.md §3.3: ≥ 10–20 points inside Δf; X1 Δf = 318.31 Hz
+    // ≥ 10–20 points inside Δf (common practice); X1 Δf = 318.31 Hz
     const d = resolutionDiagnostic({ source: 'w.s1p', fsHz: 15_915_494.3, bandwidthHz: 318.31, stepHz: 80, pointsPerBandwidth: 3.98 })!;
     expect(d.severity).toBe('warning');
     expect(d.message).toBe('mode near 15.915494 MHz: only 4.0 points per resonance bandwidth (318 Hz) in the best sweep w.s1p; use a step of at most 32 Hz');
@@ -29,7 +29,7 @@ describe('diagnostics', () => {
   });
 
   it('flags low M and AT values outside physics, but not OT100-like parts', () => {
-    // FIELD.md §1.4/§10: M < 4 flagged; OT100 (M = 8.84, r = 3000 at n = 3) is plausible
+    // M < 4 flagged (IEC 60444-11 limit); OT100 (M = 8.84, r = 3000 at n = 3) is plausible
     expect(plausibilityDiagnostics({ fsHz: 100e6, q: 26_525.82, r: 3000, m: 8.84, overtone: 3, spurious: false }, 'quartz-at')).toEqual([]);
     const low = plausibilityDiagnostics({ fsHz: 100e6, q: 9000, r: 3000, m: 3, overtone: 3, spurious: false }, 'quartz-at');
     expect(low.map((d) => d.code)).toEqual(['low-m']);

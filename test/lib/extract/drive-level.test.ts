@@ -3,7 +3,7 @@ import { analyseDriveLevel } from '../../../src/lib/extract/drive-level.ts';
 
 describe('analyseDriveLevel', () => {
   it('gives the max/min resistance ratio γ and the frequency shift from lowest to highest drive', () => {
-    // IEC 60444-6 drive-level dependence: γ = max/min resistance over the levels (FIELD.md §3.4)
+    // IEC 60444-6 drive-level dependence: γ = max/min resistance over the levels
     const r = analyseDriveLevel([
       { driveW: 100e-6, r1Ohm: 28.8, fsHz: 20e6 + 9, sweep: 'd100' },
       { driveW: 0.5e-6, r1Ohm: 33.5, fsHz: 20e6, sweep: 'd05' },

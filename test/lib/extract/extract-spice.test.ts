@@ -1,8 +1,9 @@
 /**
  * Outside check: sweeps simulated by SPICE (eecircuit-engine in every run; Debian ngspice as well
  * where installed), seeded noise added afterwards, then extracted. The circuit is written here
- * by hand (C0 across the part, one series R–L–C per mode: FIELD.md §4.7), so neither the model
- * code (bvd.ts) nor the netlist writer stands between the truth and the simulated data.
+ * by hand (C0 across the part, one series R–L–C per mode: the usual SPICE crystal model), so
+ * neither the model code (bvd.ts) nor the netlist writer stands between the truth and the
+ * simulated data.
  */
 import { describe, expect, it } from 'vitest';
 import { extractPart } from '../../../src/lib/extract/extract-part.ts';
@@ -49,14 +50,14 @@ interface SpiceCase { name: string; model: BvdModel; sweeps: Array<[string, AcSw
 const FS = 1e8 / (2 * Math.PI);
 const CASES: SpiceCase[] = [
   {
-    // FIELD.md §1.1 two-branch check: X1 plus L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF at fs + 100 kHz
+    // Two-branch reference part: X1 plus L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF at fs + 100 kHz
     name: 'X1 with its spurious branch',
     model: { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }, { fsHz: FS + 100e3, r1Ohm: 150, c1F: 2.468878e-15 }] },
     sweeps: [['n.s1p', { startHz: FS - 1600, stopHz: FS + 1600, points: 801 }], ['w.s1p', { startHz: FS - 50e3, stopHz: FS + 150e3, points: 5001 }]],
     kind: 'quartz-at',
   },
   {
-    // FIELD.md §0 TF1, 32.768 kHz tuning fork
+    // Reference tuning fork TF1 (invented), 32.768 kHz
     name: 'TF1',
     model: { c0F: 1.2e-12, branches: [{ fsHz: 32768, r1Ohm: 35e3, c1F: 3e-15 }] },
     sweeps: [['n.csv', { startHz: 32764, stopHz: 32772, points: 801 }], ['w.csv', { startHz: 32600, stopHz: 32900, points: 3001 }]],

@@ -3,7 +3,7 @@ import { c1FromLoadShift, loadFrequency, lossFactor, solveThreeLoad, solveTwoLoa
 import { zeroPhaseOf } from '../../../src/lib/extract/closed-form.ts';
 import { impedanceAt, type BvdModel } from '../../../src/lib/models/bvd.ts';
 
-// FIELD.md §0 X1 (IEEE 177 model).
+// Reference resonator X1 (invented; IEEE Std 177 model).
 const FS = 1e8 / (2 * Math.PI);
 const C1 = 10e-15;
 const C0 = 3e-12;
@@ -28,7 +28,7 @@ function parallelLoadAntiresonance(clF: number): number {
 
 describe('load-capacitance shift', () => {
   it('solves two lossless loads exactly: C1 = 10.000000 fF, C0 = 3.000000 pF', () => {
-    // FIELD.md §2d check X1 (lossless fL at 10 and 20 pF as data), exact 1/u line
+    // check X1 (mpmath; lossless fL at 10 and 20 pF as data), exact 1/u line
     const loads: LoadPoint[] = [10e-12, 20e-12].map((clF) => ({ clF, connection: 'parallel', fLHz: loadFrequency(FS, C1, C0, clF) }));
     const r = solveTwoLoad(FS, loads)!;
     expect(r.c1F * 1e15).toBeCloseTo(10, 6);
@@ -36,7 +36,7 @@ describe('load-capacitance shift', () => {
   });
 
   it('recovers fs, C1 and C0 from three lossless loads (8, 12, 20 pF)', () => {
-    // FIELD.md §2d: three loads also give fs
+    // three loads also give fs (derived from the BVD model)
     const loads: LoadPoint[] = [8e-12, 12e-12, 20e-12].map((clF) => ({ clF, connection: 'series', fLHz: loadFrequency(FS, C1, C0, clF) }));
     const r = solveThreeLoad(loads)!;
     expect(r.fsHz).toBeCloseTo(FS, 4);
@@ -45,7 +45,7 @@ describe('load-capacitance shift', () => {
   });
 
   it('is exact with R1 for a capacitor across the part, where the lossless form is 0.07 % off', () => {
-    // FIELD.md §2d: fL is the zero phase of the loaded part; loss correction [DERIVED] in load-shift.ts
+    // fL is the zero phase of the loaded part (IEC 60444-11 term); loss correction derived in load-shift.ts
     const fL = parallelLoadAntiresonance(10e-12);
     const load: LoadPoint = { clF: 10e-12, connection: 'parallel', fLHz: fL };
     const exact = c1FromLoadShift({ fsHz: FS, load, c0F: C0, r1Ohm: 20 })!;
@@ -55,14 +55,14 @@ describe('load-capacitance shift', () => {
   });
 
   it('is exact with R1 for a capacitor in series with the part', () => {
-    // FIELD.md §2d: with R1, fL is the lower zero phase of crystal + series CL
+    // with R1 (derived from the BVD model), fL is the lower zero phase of crystal + series CL
     const fL = seriesLoadResonance(10e-12);
     const exact = c1FromLoadShift({ fsHz: FS, load: { clF: 10e-12, connection: 'series', fLHz: fL }, c0F: C0, r1Ohm: 20 })!;
     expect(Math.abs(exact / C1 - 1)).toBeLessThan(1e-8);
   });
 
   it('gives loss factor 1 without R1 and one within 0.1 % of 1 for X1 with its 20 Ω', () => {
-    // κ = ω(C0 + CL)X equals 1 for R1 = 0 (both connections, FIELD.md §2d lossless fL);
+    // κ = ω(C0 + CL)X equals 1 for R1 = 0 (both connections, lossless fL);
     // the correction is of order (ω(C0 + CL)R1)² ≈ 4e-4 here
     expect(lossFactor(16e6, 0, C0, 10e-12, 'series')).toBe(1);
     expect(lossFactor(16e6, 0, C0, 10e-12, 'parallel')).toBe(1);
@@ -74,7 +74,7 @@ describe('load-capacitance shift', () => {
   });
 
   it('solves mixed lossy loads (part alone, across, in series) exactly, C0 not needed', () => {
-    // FIELD.md §2d exact two-load variant; the part's own anti-resonance is a load of 0 F across it
+    // exact two-load variant (derived from the BVD model); the part's own anti-resonance is a load of 0 F across it
     const loads: LoadPoint[] = [
       { clF: 0, connection: 'parallel', fLHz: zeroPhaseOf(X1, 0)!.faHz },
       { clF: 10e-12, connection: 'parallel', fLHz: parallelLoadAntiresonance(10e-12) },

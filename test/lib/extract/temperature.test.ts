@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { fitTemperature, relativeOffsetAt, spanPpmOver, turningPointsOf, type TemperaturePoint } from '../../../src/lib/extract/temperature.ts';
 
-// FIELD.md §6: AT-cut cubic, a1 = −0.0847 ppm/°C per arc-minute of Δθ, a2 = −0.45e-9/°C²,
+// AT-cut cubic, a1 = −0.0847 ppm/°C per arc-minute of Δθ, a2 = −0.45e-9/°C²,
 // a3 = +108.6e-12/°C³, T0 = 25 °C (Gerber & Ballato 1985 as quoted in Haney 2001).
 const A2 = -0.45e-9;
 const A3 = 108.6e-12;
@@ -19,7 +19,7 @@ function atPoints(arcmin: number): TemperaturePoint[] {
 
 describe('fitTemperature, AT cut (cubic)', () => {
   const rows: Array<[number, number[], number[], number]> = [
-    // FIELD.md §6 table: Δθ, ppm at −40/0/50/85 °C, turning points, p-p −40…85 °C
+    // check table (mpmath): Δθ, ppm at −40/0/50/85 °C, turning points, p-p −40…85 °C
     [0, [-31.7255, -1.9781, 1.4156, 21.8376], [25.0, 27.76], 53.5631],
     [2, [-20.7189, 2.2552, -2.8177, 11.6776], [3.541, 49.221], 32.3965],
     [5, [-4.2089, 8.6052, -9.1677, -3.5624], [-9.692, 62.454], 20.3912],
@@ -42,7 +42,7 @@ describe('fitTemperature, AT cut (cubic)', () => {
   }
 
   it('gives 16.5432 ppm peak-to-peak at +4′ and the inflection at 26.381 °C', () => {
-    // FIELD.md §6: +4′ smallest p-p over −40…85 °C among whole minutes; Ti = T0 − a2/(3a3)
+    // +4′ smallest p-p (mpmath) over −40…85 °C among whole minutes; Ti = T0 − a2/(3a3)
     const r = fitTemperature(atPoints(4), 'quartz-at', { min: -40, max: 85 });
     if (!r.ok) throw new Error(r.reason);
     expect(spanPpmOver(r.fit, -40, 85)).toBeCloseTo(16.5432, 3);
@@ -59,8 +59,8 @@ describe('fitTemperature, AT cut (cubic)', () => {
 });
 
 describe('fitTemperature, tuning fork (parabola with free turnover)', () => {
-  it('recovers β = −0.034 ppm/°C² and the turnover, and the FIELD.md §6 offsets', () => {
-    // FIELD.md §6: β = −0.034 ppm/°C², T0 = 25 °C: −40 °C −143.65 ppm, 0 °C −21.25, 60 °C −41.65, 85 °C −122.40
+  it('recovers β = −0.034 ppm/°C² and the turnover, and the tabulated offsets', () => {
+    // β = −0.034 ppm/°C² (from memory), T0 = 25 °C: −40 °C −143.65 ppm, 0 °C −21.25, 60 °C −41.65, 85 °C −122.40
     const pts = [-40, -10, 10, 25, 40, 60, 85].map((t) => ({ temperatureC: t, fsHz: 32768 * (1 - 0.034e-6 * (t - 25) ** 2) }));
     const r = fitTemperature(pts, 'quartz-tuning-fork', { min: -40, max: 85 });
     if (!r.ok) throw new Error(r.reason);
@@ -89,7 +89,7 @@ describe('fitTemperature, tuning fork (parabola with free turnover)', () => {
 
 describe('fitTemperature, other kinds', () => {
   it('fits a quadratic about 25 °C for a ceramic resonator', () => {
-    // common practice: no physical form assumed; tens of ppm/°C (FIELD.md §6, from memory there)
+    // common practice: no physical form assumed; tens of ppm/°C (from memory)
     const pts = [-20, 0, 25, 50, 80].map((t) => ({ temperatureC: t, fsHz: 4e6 * (1 + 3e-6 * (t - 25) - 0.05e-6 * (t - 25) ** 2) }));
     const r = fitTemperature(pts, 'ceramic');
     if (!r.ok) throw new Error(r.reason);
