@@ -18,8 +18,8 @@ function observe(model: BvdModel, grids: Float64Array[], loaded: Array<number | 
 const AT: ClassifyModesOptions = { kind: 'quartz-at' };
 
 describe('spuriousAttenuationDb', () => {
-  it('reproduces the fixture attenuation values of FIELD.md §5', () => {
-    // FIELD.md §5: R1 = 20 Ω, Rspur = 150 Ω: 6.37518 dB with RT = 100 Ω, 11.7965 dB with RT = 25 Ω
+  it('reproduces the fixture attenuation values of a fixture\'s loop resistance', () => {
+    // check values (mpmath): R1 = 20 Ω, Rspur = 150 Ω: 6.37518 dB with RT = 100 Ω, 11.7965 dB with RT = 25 Ω
     expect(spuriousAttenuationDb(150, 20, 100)).toBeCloseTo(6.37518, 5);
     expect(spuriousAttenuationDb(150, 20, 25)).toBeCloseTo(11.7965, 4);
     // and the resistance ratio itself in dB (RT = 0): 20·log10(7.5)
@@ -40,7 +40,7 @@ describe('classifyModes', () => {
   });
 
   it('names the weaker mode 100 kHz above X1 spurious, with its resistance ratio and dB', () => {
-    // FIELD.md §1.1 two-branch check: X1 plus L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF; §5 strength 20·log10(R ratio)
+    // two-branch reference part: X1 plus L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF; strength 20·log10(R ratio)
     const two: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }, { fsHz: FS + 100e3, r1Ohm: 150, c1F: 2.468878e-15 }] };
     const { modes } = classifyModes(observe(two, [linGrid(FS - 50e3, FS + 150e3, 8001)]), AT);
     expect(modes.map((m) => [m.overtone, m.spurious])).toEqual([[1, false], [1, true]]);
@@ -50,7 +50,8 @@ describe('classifyModes', () => {
   });
 
   it('gives a third-overtone part its fundamental as overtone 1 and its main mode as 3', () => {
-    // FIELD.md §5: 10 MHz plate, n = 1 C1 20 fF, n = 3 C1 2.222222 fF; f3/(3f1) ≈ 1.0028 (stiffening)
+    // 10 MHz plate (C1n ≈ C1/n², QCM review, Sensors 21(10):3490, 2021), n = 1 C1 20 fF, n = 3 C1 2.222222 fF;
+    // f3/(3f1) ≈ 1.0028 (stiffening estimate, from memory)
     const f1 = 10e6;
     const f3 = 3.0084 * f1;
     const plate: BvdModel = { c0F: 4e-12, branches: [{ fsHz: f1, r1Ohm: 10, c1F: 20e-15 }, { fsHz: f3, r1Ohm: 40, c1F: 2.222222e-15 }] };
@@ -66,7 +67,7 @@ describe('classifyModes', () => {
   });
 
   it('calls a strong mode far from any odd multiple of a tuning fork spurious', () => {
-    // FIELD.md §5/§7: forks have no odd-overtone series; extra modes are unwanted
+    // forks have no odd-overtone series; extra modes are unwanted (from memory)
     const fork: BvdModel = { c0F: 1.2e-12, branches: [{ fsHz: 32768, r1Ohm: 35e3, c1F: 3e-15 }, { fsHz: 6.3 * 32768, r1Ohm: 80e3, c1F: 0.2e-15 }] };
     const grids = [linGrid(32_700, 32_850, 3001), linGrid(6.3 * 32768 - 300, 6.3 * 32768 + 300, 3001)];
     const { modes } = classifyModes(observe(fork, grids), { kind: 'quartz-tuning-fork', datasheetFrequencyHz: 32768 });

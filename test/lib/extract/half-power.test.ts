@@ -5,7 +5,7 @@ import { partAlone } from '../../../src/lib/extract/part-alone.ts';
 import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import { linGrid, synthSweep } from './synthetic.ts';
 
-// FIELD.md §0 X1 (IEEE 177 model): fs = 1e8/2π Hz, R1 20 Ω, L1 10 mH, C1 10 fF, C0 3 pF.
+// Reference resonator X1 (invented; IEEE Std 177 model): fs = 1e8/2π Hz, R1 20 Ω, L1 10 mH, C1 10 fF, C0 3 pF.
 const FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 
@@ -19,7 +19,7 @@ function gOf(model: BvdModel, f: Float64Array, noiseDb?: number, seed = 1) {
 
 describe('halfPower', () => {
   it('finds the X1 half-power points f− = 15 915 335.155 Hz and f+ = 15 915 653.465 Hz', () => {
-    // FIELD.md §2e check X1: f+ = 15 915 653.465 Hz, f− = 15 915 335.155 Hz, Δf = 318.30989 Hz, √(f+f−) = fs
+    // check X1 (mpmath): f+ = 15 915 653.465 Hz, f− = 15 915 335.155 Hz, Δf = 318.30989 Hz, √(f+f−) = fs
     const f = linGrid(FS - 1600, FS + 1600, 1601);
     const d = gOf(X1, f);
     const r = halfPower(f, d.gS, d.peak);
@@ -34,7 +34,7 @@ describe('halfPower', () => {
   });
 
   it('stays within 0.1 % on L1 with only 8 points per bandwidth (quadratic interpolation of 1/G)', () => {
-    // FIELD.md §2e relations; sampling at 40 Hz steps (common practice limit ≥ 10 points, §3.3)
+    // half-power relations (derived from the BVD model); sampling at 40 Hz steps (common practice limit ≥ 10 points)
     const f = linGrid(FS - 2000, FS + 2000, 101);
     const d = gOf(X1, f);
     const r = halfPower(f, d.gS, d.peak);
@@ -53,7 +53,7 @@ describe('halfPower', () => {
 
 describe('fitConductancePeak', () => {
   it('recovers fs, R1 and L1 of X1 exactly from noiseless data', () => {
-    // FIELD.md §2b: Gmax = 1/R1 exactly at fs; §2e: L1 = R1/(2πΔf)
+    // Gmax = 1/R1 exactly at fs; L1 = R1/(2πΔf) (derived from the BVD model)
     const f = linGrid(FS - 1600, FS + 1600, 1601);
     const d = gOf(X1, f);
     const r = fitConductancePeak(f, d.gS, d.yAbs, d.peak);

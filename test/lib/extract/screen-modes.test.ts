@@ -6,7 +6,7 @@ import { partAlone } from '../../../src/lib/extract/part-alone.ts';
 import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import { linGrid, synthSweep } from './synthetic.ts';
 
-// FIELD.md §0 reference resonator X1 (IEEE 177 model): fs = 10⁸/2π Hz, R1 20 Ω, bandwidth 318.31 Hz (§3.3).
+// Reference resonator X1 (invented; IEEE Std 177 model): fs = 10⁸/2π Hz, R1 20 Ω, bandwidth 318.31 Hz (fs/Q).
 const FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 const SIGHTING: Observation = {
@@ -22,7 +22,7 @@ function candidate(fsHz: number, r1Ohm: number, spurious = false, mainIndex?: nu
 const fitted = (fsHz: number, r1Ohm: number, bandwidthHz = 318.31): ModeEstimate => ({ fsHz, r1Ohm, bandwidthHz, fitted: true });
 
 describe('spuriousStrengthDb', () => {
-  it('is 20·log10 of the resistance ratio (FIELD.md §5: 150 Ω against 20 Ω is 17.5012 dB)', () => {
+  it('is 20·log10 of the resistance ratio (150 Ω against 20 Ω is 17.5012 dB)', () => {
     expect(spuriousStrengthDb(150, 20)).toBeCloseTo(17.5012, 4);
     expect(spuriousStrengthDb(2000, 20)).toBeCloseTo(40, 10);
     expect(spuriousStrengthDb(NaN, 20)).toBe(Infinity);
