@@ -6,7 +6,7 @@ import { linGrid, syntheticPart } from './synthetic.ts';
 
 describe('formatExtractText', () => {
   it('shows C0, one row per mode with its kind, the cross-check verdicts and the spurious strength', () => {
-    // FIELD.md §1.1 two-branch check part (X1 plus a 150 Ω branch 100 kHz above), synthetic
+    // two-branch reference part (X1 plus a 150 Ω branch 100 kHz above), synthetic
     const fs = 1e8 / (2 * Math.PI);
     const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: fs, r1Ohm: 20, c1F: 10e-15 }, { fsHz: fs + 100e3, r1Ohm: 150, c1F: 2.468878e-15 }] };
     const { part, inputs } = syntheticPart(model, [{ file: 'w.s1p', freqHz: linGrid(fs - 50e3, fs + 150e3, 20_001) }], { noiseDb: -75, seed: 4 });
