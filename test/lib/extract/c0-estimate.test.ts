@@ -4,7 +4,7 @@ import { partAlone } from '../../../src/lib/extract/part-alone.ts';
 import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import { fsOf, linGrid, synthSweep } from './synthetic.ts';
 
-// FIELD.md §0 X1 and the §7 ceramic example (illustrative values).
+// Reference resonator X1 and an illustrative ceramic resonator (values from memory).
 const FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 const CER_FS = fsOf(0.385e-3, 4.1e-12);
@@ -13,7 +13,7 @@ const hint = (m: BvdModel) => m.branches.map((b) => ({ fsHz: b.fsHz, q: 1 / (2 *
 
 describe('estimateC0', () => {
   it('recovers C0 of X1 from a ±1 % sweep at −65 dB within its uncertainty and 0.05 %', () => {
-    // FIELD.md §2a: Ceff = C0 + ΣCk/(1 − (f/fk)²) fitted on both sides of the mode
+    // Ceff = C0 + ΣCk/(1 − (f/fk)²) (derived from the BVD model), fitted on both sides of the mode
     const f = linGrid(0.99 * FS, 1.01 * FS, 2001);
     const r = estimateC0([partAlone(synthSweep(X1, f, { noiseDb: -65, seed: 3 }))], hint(X1));
     expect(r.ok).toBe(true);
@@ -23,7 +23,7 @@ describe('estimateC0', () => {
   });
 
   it('removes a capacitor added across or in series with the part', () => {
-    // FIELD.md §2a/§2d: parallel C adds to Im Y; series C adds 1/(jωC) to Z (removed by partAlone)
+    // parallel C adds to Im Y; series C adds 1/(jωC) to Z (derived from the circuit; removed by partAlone)
     const f = linGrid(0.99 * FS, 1.01 * FS, 2001);
     for (const connection of ['parallel', 'series'] as const) {
       const s = partAlone(synthSweep(X1, f, { noiseDb: -70, seed: 5, addedCF: 10e-12, connection }), 10e-12, connection);
@@ -34,7 +34,7 @@ describe('estimateC0', () => {
   });
 
   it('keeps the mode term for a ceramic resonator, where a low-frequency reading is 20 % high', () => {
-    // FIELD.md §2g: a single low-f reading errs by +ΣCk/C0 (~20 % ceramic); §2a fit removes it
+    // a single low-f reading errs by +ΣCk/C0 (~20 % ceramic); the Ceff fit removes it
     const f = linGrid(0.5 * CER_FS, 1.3 * CER_FS, 3001);
     const s = partAlone(synthSweep(CERAMIC, f, { noiseDb: -65, seed: 7 }));
     const lowReading = s.bS[0] / (2 * Math.PI * f[0]);

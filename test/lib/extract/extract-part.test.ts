@@ -6,7 +6,7 @@ import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import type { PartKind } from '../../../src/lib/schema/part.ts';
 import { fsOf, linGrid, syntheticPart, type SweepPlan } from './synthetic.ts';
 
-// Parts from FIELD.md §0, §1.1, §5 and §7 (synthetic, IEEE 177 model), seeded complex noise.
+// Invented reference parts (synthetic, IEEE Std 177 model; typical ranges from memory), seeded complex noise.
 const FS_X1 = 1e8 / (2 * Math.PI);
 const bandwidth = (b: BvdModel['branches'][number]) => 2 * Math.PI * b.fsHz * b.fsHz * b.r1Ohm * b.c1F;
 
@@ -59,7 +59,7 @@ function cases(): Case[] {
     ] });
   }
   {
-    // 4 MHz HC-49/U-class fundamental (FIELD.md §7 ranges)
+    // 4 MHz HC-49/U-class fundamental (typical ranges, from memory)
     const c1 = 19.8e-15;
     const fs = fsOf(80e-3, c1);
     const b = { fsHz: fs, r1Ohm: 50, c1F: c1 };
@@ -70,7 +70,7 @@ function cases(): Case[] {
     ] });
   }
   {
-    // 25 MHz 3225-class fundamental with an 8 pF series load (FIELD.md §7: 4 fF → 10.1321 mH)
+    // 25 MHz 3225-class fundamental with an 8 pF series load (L1 = 1/((2πfs)²C1): 4 fF → 10.1321 mH)
     const fs = fsOf(10.1321e-3, 4e-15);
     const b = { fsHz: fs, r1Ohm: 25, c1F: 4e-15 };
     const bw = bandwidth(b);
@@ -90,7 +90,7 @@ function cases(): Case[] {
     ] });
   }
   {
-    // Third-overtone part with its fundamental present: FIELD.md §5 10 MHz plate, n = 3 at 3.0084·f1
+    // Third-overtone part with its fundamental present: 10 MHz plate, n = 3 at 3.0084·f1 (stiffening estimate, from memory)
     const f1 = 10e6;
     const f3 = 3.0084 * f1;
     const b1 = { fsHz: f1, r1Ohm: 10, c1F: 20e-15 };
@@ -104,7 +104,7 @@ function cases(): Case[] {
     ] });
   }
   {
-    // Ceramic resonator, FIELD.md §7 example: L1 0.385 mH, C1 4.1 pF, C0 20.6 pF, R1 8 Ω
+    // Illustrative ceramic resonator (values from memory): L1 0.385 mH, C1 4.1 pF, C0 20.6 pF, R1 8 Ω
     const fs = fsOf(0.385e-3, 4.1e-12);
     const b = { fsHz: fs, r1Ohm: 8, c1F: 4.1e-12 };
     const bw = bandwidth(b);
@@ -114,7 +114,7 @@ function cases(): Case[] {
     ] });
   }
   {
-    // Spurious mode: FIELD.md §1.1 two-branch check, L2 40 mH, R2 150 Ω, C2 2.468878 fF at fs + 100 kHz
+    // Spurious mode: two-branch reference part, L2 40 mH, R2 150 Ω, C2 2.468878 fF at fs + 100 kHz
     const f2 = FS_X1 + 100e3;
     const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS_X1, r1Ohm: 20, c1F: 10e-15 }, { fsHz: f2, r1Ohm: 150, c1F: 2.468878e-15 }] };
     out.push({ name: 'X1 with a spurious mode at −70 dB', model, noiseDb: -70, modes: [[1, false], [1, true]], plans: [
@@ -126,7 +126,7 @@ function cases(): Case[] {
   return out;
 }
 
-describe('extractPart recovers seeded synthetic parts across FIELD.md', () => {
+describe('extractPart recovers seeded synthetic reference parts', () => {
   for (const c of cases()) {
     it(`recovers ${c.name} within the issue tolerances`, () => {
       const { part, inputs } = syntheticPart(c.model, c.plans, { noiseDb: c.noiseDb, seed: 11, kind: c.kind, datasheet: c.datasheet });
@@ -142,7 +142,7 @@ describe('extractPart recovers seeded synthetic parts across FIELD.md', () => {
   }
 
   it('reports the spurious mode\'s strength from the resistance ratio', () => {
-    // FIELD.md §5: strength 20·log10(Rspur/Rmain) = 20·log10(150/20) = 17.50 dB
+    // strength 20·log10(Rspur/Rmain) = 20·log10(150/20) = 17.50 dB (derived from the circuit)
     const c = cases().find((x) => x.name.includes('spurious'))!;
     const { part, inputs } = syntheticPart(c.model, c.plans, { noiseDb: c.noiseDb, seed: 3 });
     const spur = extractPart(part, inputs).samples[0].modes[1];
@@ -152,8 +152,8 @@ describe('extractPart recovers seeded synthetic parts across FIELD.md', () => {
 });
 
 describe('extractPart reports spurious modes down to 40 dB below the main mode', () => {
-  // FIELD.md §1.1 two-branch part with R2 raised: X1 plus a branch of L2 = 40 mH (C2 = 2.468878 fF)
-  // at fs + 100 kHz; strength 20·log10(R2/R1) (FIELD.md §5); the rule of screen-modes.ts
+  // two-branch reference part with R2 raised: X1 plus a branch of L2 = 40 mH (C2 = 2.468878 fF)
+  // at fs + 100 kHz; strength 20·log10(R2/R1) (derived from the circuit); the rule of screen-modes.ts
   function spurious(r2Ohm: number) {
     const f2 = FS_X1 + 100e3;
     const b2 = { fsHz: f2, r1Ohm: r2Ohm, c1F: 2.468878e-15 };
@@ -231,7 +231,7 @@ describe('extractPart uncertainties are honest', () => {
 });
 
 describe('extractPart diagnostics', () => {
-  it('flags modes above instrumentMaxFrequency with the CONTRACT §3 warning', () => {
+  it('flags modes above instrumentMaxFrequency with the extract JSON\'s instrument-range warning', () => {
     // 40 MHz fundamental and its third overtone at 120.3 MHz; instrument trusted to 100 MHz
     const b1 = { fsHz: 40e6, r1Ohm: 24, c1F: 2.8e-15 };
     const b3 = { fsHz: 120.3e6, r1Ohm: 72, c1F: 0.33e-15 };
@@ -257,8 +257,8 @@ describe('extractPart diagnostics', () => {
   });
 
   it('refuses an addedCapacitance larger than the whole shunt capacitance: an error, no C0 and no modes', () => {
-    // X1 (FIELD.md §0, IEEE 177 model) measured alone, the record claiming 10 pF added in
-    // parallel: the part alone would have C0 = 3 − 10 = −7 pF (FIELD.md §2a: parallel C adds)
+    // X1 (invented reference resonator, IEEE Std 177 model) measured alone, the record claiming 10 pF added in
+    // parallel: the part alone would have C0 = 3 − 10 = −7 pF (parallel C adds, derived from the circuit)
     const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS_X1, r1Ohm: 20, c1F: 10e-15 }] };
     const { part, inputs } = syntheticPart(model, [{ file: 'x1.s1p', freqHz: linGrid(0.9995 * FS_X1, 1.0025 * FS_X1, 2001) }], { noiseDb: -80, seed: 6 });
     inputs[0].ref.addedCapacitance = 10e-12;
@@ -272,7 +272,7 @@ describe('extractPart diagnostics', () => {
   });
 
   it('warns about too few points across the resonance, and widens the fs uncertainty to the step when very few', () => {
-    // FIELD.md §3.3: ≥ 10 points per bandwidth; X1 bandwidth 318.31 Hz, 80 Hz steps give 4
+    // ≥ 10 points per bandwidth (common practice); X1 bandwidth 318.31 Hz, 80 Hz steps give 4
     const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS_X1, r1Ohm: 20, c1F: 10e-15 }] };
     const run = (points: number) => {
       const { part, inputs } = syntheticPart(model, [{ file: 'coarse.s1p', freqHz: linGrid(0.997 * FS_X1, 1.003 * FS_X1, points) }], { noiseDb: -70, seed: 2 });
@@ -288,7 +288,7 @@ describe('extractPart diagnostics', () => {
   });
 
   it('describes the reference conditions and fits fs against temperature and R1 against drive', () => {
-    // Tuning fork, FIELD.md §6 parabola β = −0.034 ppm/°C², turnover 25 °C; R1 falling with drive
+    // Tuning fork, parabola β = −0.034 ppm/°C² (from memory), turnover 25 °C; R1 falling with drive
     const base: BvdModel = { c0F: 1.2e-12, branches: [{ fsHz: 32768, r1Ohm: 35e3, c1F: 3e-15 }] };
     const at = (t: number, r1 = 35e3): BvdModel => ({ c0F: 1.2e-12, branches: [{ fsHz: 32768 * (1 - 0.034e-6 * (t - 25) ** 2), r1Ohm: r1, c1F: 3e-15 }] });
     const grid = (t: number) => { const f = 32768 * (1 - 0.034e-6 * (t - 25) ** 2); return linGrid(f - 4, f + 4, 801); };
@@ -308,14 +308,14 @@ describe('extractPart diagnostics', () => {
     expect(t.form).toBe('parabola');
     expect(t.t0C).toBeCloseTo(25, 1);
     expect(t.coeffs[1] * 1e6).toBeCloseTo(-0.034, 3);
-    expect(t.spanPpm).toBeCloseTo(143.65, 0); // FIELD.md §6: −143.65 ppm at −40 °C
+    expect(t.spanPpm).toBeCloseTo(143.65, 0); // −143.65 ppm at −40 °C (mpmath)
     expect(s.drive!.resistanceRatio).toBeCloseTo(35 / 30, 2);
     expect(s.warnings).toEqual([]);
   });
 });
 
 describe('extractPart output', () => {
-  it('keeps every CONTRACT §3 key and per-sample results per sample', () => {
+  it('keeps every key of the extract JSON and per-sample results per sample', () => {
     const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS_X1, r1Ohm: 20, c1F: 10e-15 }] };
     const { part, inputs } = syntheticPart(model, [{ file: 'w.s1p', freqHz: linGrid(0.995 * FS_X1, 1.005 * FS_X1, 5001) }], { noiseDb: -70 });
     const r: PartResult = extractPart(part, inputs);
@@ -324,7 +324,7 @@ describe('extractPart output', () => {
     expect(Object.keys(s)).toEqual(expect.arrayContaining(['sample', 'c0F', 'modes', 'warnings']));
     expect(Object.keys(s.modes[0])).toEqual(expect.arrayContaining(['overtone', 'spurious', 'fsHz', 'fpHz', 'r1Ohm', 'l1H', 'c1F', 'q', 'uncertainty']));
     expect(Object.keys(s.modes[0].uncertainty)).toEqual(expect.arrayContaining(['fsHz', 'r1Ohm', 'l1H', 'c1F', 'c0F']));
-    // fp of the part alone: fs·√(1 + C1/C0) for a single mode (CONTRACT §3, FIELD.md §1.2)
+    // fp of the part alone: fs·√(1 + C1/C0) for a single mode (IEEE Std 177's fp; the `fpHz` of `extract --json`)
     const m = s.modes[0];
     expect(m.fpHz / (m.fsHz * Math.sqrt(1 + m.c1F / s.c0F)) - 1).toBeLessThan(1e-12);
   });

@@ -5,7 +5,7 @@ import { admittanceAt, type BvdModel } from '../../../src/lib/models/bvd.ts';
 import { gaussian } from '../../support/rng.ts';
 import { linGrid, synthSweep } from './synthetic.ts';
 
-// FIELD.md §0 reference resonator X1 (IEEE 177 model) and its C0 alone as a plain capacitor.
+// Reference resonator X1 (invented; IEEE Std 177 model) and its C0 alone as a plain capacitor.
 const FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 const CAP: BvdModel = { c0F: 3e-12, branches: [] };
@@ -76,7 +76,7 @@ describe('sweepNoise', () => {
   });
 
   it('is not fooled by a resonance\'s own curvature: 8 local deviations stay below a tenth of the peak', () => {
-    // noiseless X1 (FIELD.md §3.3: half-power width 318.31 Hz) sampled at 1 to 100 points per bandwidth
+    // noiseless X1 (half-power width fs/Q = 318.31 Hz) sampled at 1 to 100 points per bandwidth
     for (const perBw of [1, 2, 4, 8, 16, 32, 100]) {
       const step = 318.31 / perBw;
       const s = partAlone(synthSweep(X1, linGrid(FS - 1000 * step, FS + 1000 * step, 2001)));

@@ -1,6 +1,6 @@
 /**
  * Seeded synthetic sweeps for the extraction tests: impedance of a known BVD model
- * (src/lib/models/bvd.ts, FIELD.md §1.1), optionally with a known capacitor across or in
+ * (src/lib/models/bvd.ts, IEEE Std 177 model), optionally with a known capacitor across or in
  * series with the part, plus complex Gaussian noise relative to |Z|:
  * Z + |Z|·σ·(g1 + j·g2), σ = 10^(dB/20)/√2 (so the noise power is dB below the signal).
  */
