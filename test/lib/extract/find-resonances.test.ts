@@ -6,7 +6,8 @@ import { admittanceAt, type BvdModel } from '../../../src/lib/models/bvd.ts';
 import { gaussian } from '../../support/rng.ts';
 import { fsOf, linGrid, synthSweep } from './synthetic.ts';
 
-// FIELD.md §0 reference resonators X1 and TF1, §7 ceramic example (IEEE 177 model).
+// Reference resonators X1 and TF1 and an illustrative ceramic resonator (invented, values from
+// memory; IEEE Std 177 model).
 const FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 const TF1: BvdModel = { c0F: 1.2e-12, branches: [{ fsHz: 32768, r1Ohm: 35e3, c1F: 3e-15 }] };
@@ -23,7 +24,7 @@ interface Bump { fHz: number; g0S: number; bandwidthHz: number; swing: boolean }
 /**
  * Admittance of the model plus complex noise of constant absolute size `sigmaS` on Y: what a
  * reflection or shunt-through record gives where |Z| ≫ Z0, since there dY/dS is about constant
- * (FIELD.md §3.2: Y = (1 − S11)/(Z0(1 + S11)), dY/dS11 → −1/(2Z0) as S11 → 1).
+ * (reflection, Y = (1 − S11)/(Z0(1 + S11)), dY/dS11 → −1/(2Z0) as S11 → 1).
  */
 function admittanceSweep(model: BvdModel, f: Float64Array, sigmaS: number, seed: number, bump?: Bump): AdmittanceSweep {
   const n = f.length;
@@ -50,7 +51,8 @@ function admittanceSweep(model: BvdModel, f: Float64Array, sigmaS: number, seed:
 
 describe('findResonances', () => {
   it('finds X1 at fs with R1 = 1/Gmax and its zero-phase and |Z|-maximum frequencies', () => {
-    // FIELD.md §2b (Gmax = 1/R1 at fs), §1.3 (fr, fa, fn of X1: fn − fp = +0.953308 Hz)
+    // Gmax = 1/R1 at fs (derived from the BVD model); fr, fa, fn of X1 (IEEE Std 177 symbols;
+    // mpmath: fn − fp = +0.953308 Hz)
     const f = linGrid(FS - 2000, FS + 30_000, 32_001);
     const r = find(X1, f);
     expect(r.resonances).toHaveLength(1);
@@ -87,7 +89,7 @@ describe('findResonances', () => {
 
   it('takes no noise near the anti-resonance for a mode when the noise of Y is constant, not proportional to |Y|', () => {
     // X1 over 0.999…1.004 fs with 1 µS to 100 µS of absolute noise on Y: near fa (|Y| ≈ 2 µS) the
-    // relative noise is hundreds of per cent (FIELD.md §3.2), at fs (|Y| ≈ 50 mS) it stays small
+    // relative noise is hundreds of per cent (derived from the fixture conversions), at fs (|Y| ≈ 50 mS) it stays small
     const f = linGrid(0.999 * FS, 1.004 * FS, 2001);
     for (const sigmaS of [1e-6, 1e-5, 3e-5, 1e-4]) {
       for (let seed = 1; seed <= 5; seed++) {
@@ -100,7 +102,7 @@ describe('findResonances', () => {
   });
 
   it('ignores a conductance bump without the susceptance swing of a resonance, and finds it with the swing', () => {
-    // a bump 10 noise deviations high and 150 Hz wide on a plain capacitor (FIELD.md §2b: a mode's
+    // a bump 10 noise deviations high and 150 Hz wide on a plain capacitor (derived from the BVD model: a mode's
     // admittance traces a circle, so B swings by Gmax across it); 20 seeded trials each
     const f = linGrid(FS - 20_000, FS + 20_000, 2001);
     const cap: BvdModel = { c0F: 3e-12, branches: [] };
@@ -168,7 +170,7 @@ describe('findResonances', () => {
   });
 
   it('counts points per bandwidth of a coarse sweep', () => {
-    // FIELD.md §3.3: X1 half-power width 318.31 Hz; 50 Hz steps give 6.4 points
+    // X1 half-power width fs/Q = 318.31 Hz; 50 Hz steps give 6.4 points
     const r = find(X1, linGrid(FS - 5000, FS + 5000, 201));
     expect(r.resonances[0].stepHz).toBeCloseTo(50, 6);
     expect(r.resonances[0].pointsPerBandwidth).toBeCloseTo(318.30989 / 50, 3);

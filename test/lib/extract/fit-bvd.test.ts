@@ -5,8 +5,8 @@ import { admittanceAt, impedanceAt, inductanceOf, qualityOf, type BvdModel } fro
 import { gaussian, mulberry32 } from '../../support/rng.ts';
 
 // ---------------------------------------------------------------------------------------------
-// Reference resonators. FIELD.md §0 synthetic parts (IEEE 177 BVD model) and the FIELD.md §7
-// ceramic example ([MEM] illustrative values: L1 0.385 mH, C1 4.1 pF, C0 20.6 pF, R1 8 Ω).
+// Reference resonators. Invented synthetic parts (IEEE Std 177 BVD model) and an illustrative
+// ceramic example (values from memory: L1 0.385 mH, C1 4.1 pF, C0 20.6 pF, R1 8 Ω).
 // ---------------------------------------------------------------------------------------------
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: 1e8 / (2 * Math.PI), r1Ohm: 20, c1F: 10e-15 }] };
 const TF1: BvdModel = { c0F: 1.2e-12, branches: [{ fsHz: 32768, r1Ohm: 35e3, c1F: 3e-15 }] };
@@ -15,7 +15,7 @@ const CERAMIC: BvdModel = {
   c0F: 20.6e-12,
   branches: [{ fsHz: 1 / (2 * Math.PI * Math.sqrt(0.385e-3 * 4.1e-12)), r1Ohm: 8, c1F: 4.1e-12 }],
 };
-// FIELD.md §1.1 two-branch check: X1 plus L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF (f2 = fs + 100 kHz).
+// Two-branch reference part: X1 plus L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF (f2 = fs + 100 kHz).
 const TWO_BRANCH: BvdModel = {
   c0F: 3e-12,
   branches: [
@@ -119,7 +119,7 @@ function allFinite(value: unknown): boolean {
   return true;
 }
 
-// Start values of FIELD.md §2f-style recoveries: fs ±20 ppm, C1 ±20 %, R1 ±30 %, C0 ±5 %.
+// Start values of poor-start recoveries: fs ±20 ppm, C1 ±20 %, R1 ±30 %, C0 ±5 %.
 const STARTS: Array<[number, number, number, number]> = [
   [+20, 1.3, 1.2, 1.05],
   [-20, 0.7, 0.8, 0.95],
@@ -128,15 +128,15 @@ const STARTS: Array<[number, number, number, number]> = [
 ];
 
 describe('synthetic data generator', () => {
-  it('reproduces the FIELD.md §1.1 check impedances of X1 and of the two-branch part', () => {
-    // FIELD.md §1.1 check X1: Z(fs) = 19.99928 − j0.119996 Ω; Z(fs + 1 kHz) = 21.59695 + j130.4481 Ω
+  it('reproduces the mpmath check impedances of X1 and of the two-branch part', () => {
+    // check X1 (mpmath): Z(fs) = 19.99928 − j0.119996 Ω; Z(fs + 1 kHz) = 21.59695 + j130.4481 Ω
     const fs = X1.branches[0].fsHz;
     const z0 = synth(X1, Float64Array.of(fs, fs + 1e3));
     expect(z0.zRe[0]).toBeCloseTo(19.99928, 5);
     expect(z0.zIm[0]).toBeCloseTo(-0.119996, 6);
     expect(z0.zRe[1]).toBeCloseTo(21.59695, 5);
     expect(z0.zIm[1]).toBeCloseTo(130.4481, 4);
-    // FIELD.md §1.1 two-branch check: Z(f2) = 149.8309 − j4.990588 Ω
+    // two-branch check (mpmath): Z(f2) = 149.8309 − j4.990588 Ω
     const f2 = TWO_BRANCH.branches[1].fsHz;
     const z2 = synth(TWO_BRANCH, Float64Array.of(f2));
     expect(z2.zRe[0]).toBeCloseTo(149.8309, 4);
@@ -224,7 +224,7 @@ describe('fitBvd on noisy sweeps', () => {
 describe('fitBvd with two branches', () => {
   const freq = grid(TWO_BRANCH.branches[0].fsHz - 10e3, TWO_BRANCH.branches[1].fsHz + 10e3, 5001);
 
-  it('fits the FIELD.md §1.1 two-branch part with both branches free (noiseless, 1e-9)', () => {
+  it('fits the two-branch reference part with both branches free (noiseless, 1e-9)', () => {
     const start: BvdModel = {
       c0F: 3e-12 * 1.03,
       branches: [
@@ -271,7 +271,7 @@ describe('fitBvd with two branches', () => {
 describe('joint fit over several sweeps', () => {
   const freq = spanOf(X1);
   const narrow = (o: SynthOptions = {}) => synth(X1, freq, { ...o, source: 'x1-narrow.s1p' });
-  // Known capacitors: 10 pF across the part, 12 pF in series (load-capacitance practice, FIELD.md §2d).
+  // Known capacitors: 10 pF across the part, 12 pF in series (load-capacitance practice).
   const parallel = (o: SynthOptions = {}) => synth(X1, freq, { ...o, addedCapacitanceF: 10e-12, addedConnection: 'parallel', source: 'x1-par10p.s1p' });
   const series = (o: SynthOptions = {}) => synth(X1, grid(X1.branches[0].fsHz - 8e3, X1.branches[0].fsHz + 40e3, 1601), { ...o, addedCapacitanceF: 12e-12, addedConnection: 'series', source: 'x1-ser12p.s1p' });
 
@@ -323,7 +323,7 @@ describe('joint fit over several sweeps', () => {
 });
 
 describe('fitBvd options', () => {
-  it('fits fixture Rs and Ls when asked (FIELD.md §3.1 fixture: Rs 0.5 Ω, Ls 5 nH)', () => {
+  it('fits fixture Rs and Ls when asked (check fixture: Rs 0.5 Ω, Ls 5 nH)', () => {
     const truth: BvdModel = { ...X1, rsOhm: 0.5, lsH: 5e-9 };
     const wide = grid(14e6, 18e6, 1601);
     const fit = fitBvd([synth(truth, spanOf(truth)), synth(truth, wide)], perturb({ ...X1, rsOhm: 0, lsH: 0 }, 5, 1.1, 0.9, 1.02), {

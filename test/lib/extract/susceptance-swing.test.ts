@@ -5,14 +5,14 @@ import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import { gaussian } from '../../support/rng.ts';
 import { linGrid, synthSweep } from './synthetic.ts';
 
-// FIELD.md §0 reference resonator X1 (IEEE 177 model); half-power width 318.31 Hz (FIELD.md §3.3).
+// Reference resonator X1 (invented; IEEE Std 177 model); half-power width 318.31 Hz (fs/Q).
 const FS = 1e8 / (2 * Math.PI);
 const BW = 2 * Math.PI * FS * FS * 20 * 10e-15;
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 
 describe('susceptanceSwing', () => {
   it('measures exactly the swing of a resonance, whatever C0 adds (noiseless X1, 10 points per bandwidth)', () => {
-    // the motional circle (FIELD.md §2b) plus ωC0, which the fitted line takes up
+    // the motional circle (derived from the BVD model) plus ωC0, which the fitted line takes up
     const f = linGrid(FS - 20 * BW, FS + 20 * BW, 401);
     for (const c0F of [3e-12, 300e-12]) {
       const s = partAlone(synthSweep({ ...X1, c0F }, f));
