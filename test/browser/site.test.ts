@@ -308,4 +308,13 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     expect(consoleErrors).toEqual([]);
     expect(server.requests.filter((r) => r.status >= 400)).toEqual([]);
   });
+  // Runs after the check above: its own 404 is deliberate.
+  it("an unknown address answers with the site's own 404 page, status 404", async () => {
+    expect(existsSync(join(site, '404.html'))).toBe(true);
+    const res = await fetch(`${server.url}parts/no-such-part/`);
+    expect(res.status).toBe(404);
+    const html = await res.text();
+    expect(html).toContain('Page not found');
+    expect(html).toContain(`href="${BASE}"`);
+  });
 });
