@@ -8,7 +8,7 @@ const FILE = 'parts/XO-0012/part.yaml';
  * A full example record: the example of README: The part record with every optional field filled
  * in (invented supplier and part names).
  */
-const CONTRACT_EXAMPLE = `id: XO-0012
+const FULL_EXAMPLE = `id: XO-0012
 title: 12 MHz crystal, 3225 SMD
 kind: quartz-at
 package: "3225"
@@ -73,7 +73,7 @@ function only(text: string): Issue {
 
 describe('parsePartYaml: valid records', () => {
   it('reads the full example record into SI base units with no issue', () => {
-    const r = parsePartYaml(CONTRACT_EXAMPLE, FILE);
+    const r = parsePartYaml(FULL_EXAMPLE, FILE);
     expect(r.issues).toEqual([]);
     const part = r.part!;
     expect(part.id).toBe('XO-0012');
@@ -107,7 +107,7 @@ describe('parsePartYaml: valid records', () => {
   });
 
   it('locates any field of the record for later checks', () => {
-    const r = parsePartYaml(CONTRACT_EXAMPLE, FILE);
+    const r = parsePartYaml(FULL_EXAMPLE, FILE);
     expect(r.locate(['samples', 0, 'sweeps', 1, 'file'])).toEqual({ line: 34, col: 15 });
     expect(r.locate(['samples', 0, 'compensation', 'open'])).toEqual({ line: 28, col: 13 });
     expect(r.locate(['id'])).toEqual({ line: 1, col: 5 });

@@ -3,7 +3,7 @@
  * (and with open/short compensation) are read by the real loader and extracted; the result
  * must give back the generating model within the tolerances of the extraction issue
  * (fs 0.1 ppm, fp 1 ppm, R1 1 %, C1 and L1 0.5 %, C0 1 %), at −80 dB and −60 dB noise.
- * Model: FIELD.md §0 reference resonator X1 (synthetic: L1 = 10 mH, C1 = 10 fF, R1 = 20 Ω, C0 = 3 pF).
+ * Model: reference resonator X1 (invented, synthetic: L1 = 10 mH, C1 = 10 fF, R1 = 20 Ω, C0 = 3 pF).
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -77,7 +77,7 @@ async function recover(dir: string): Promise<string[]> {
 }
 
 // Reflection is accurate near Z0 and shunt-through at very low Z, series-through at high Z
-// (FIELD.md §3.2): at X1's anti-resonance (|Z| ≈ 550 kΩ) a reflection or shunt-through record turns
+// (derived from the fixture conversions): at X1's anti-resonance (|Z| ≈ 550 kΩ) a reflection or shunt-through record turns
 // −60 dB of noise into errors of several hundred per cent in Z, so with those fixtures the wide
 // sweep (C0 and fp) is taken in series-through, as a practitioner would.
 const WIDE_FIXTURE: Record<Fixture, Fixture> = {
@@ -95,7 +95,7 @@ describe('generator → files → loader → extraction', () => {
       });
     }
     it(`recovers X1 through a fixture with residuals and open/short compensation at ${noiseDb} dB noise`, async () => {
-      // Residuals of the FIELD.md §3.1 check: Rs = 0.5 Ω, Ls = 5 nH, Cp = 1 pF.
+      // Residuals of the check fixture: Rs = 0.5 Ω, Ls = 5 nH, Cp = 1 pF.
       const dir = writePart(`compensated${noiseDb}`, 'series-thru', 'series-thru', noiseDb, { rsOhm: 0.5, lsH: 5e-9, cpF: 1e-12 });
       expect(await recover(dir)).toEqual([]);
     });

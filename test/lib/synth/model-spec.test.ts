@@ -13,7 +13,7 @@ describe('parseModelSpec', () => {
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.model.branches).toHaveLength(2);
-    // C1 = 1/((2πfs)²L1) (FIELD.md §1.4 / §7 consistency check form).
+    // C1 = 1/((2πfs)²L1) (derived from the BVD model).
     expect(r.model.branches[0].c1F).toBeCloseTo(1 / ((2 * Math.PI * 10e6) ** 2 * 10e-3), 25);
     expect(r.model.rsOhm).toBe(0.5);
   });

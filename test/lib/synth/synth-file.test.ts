@@ -7,7 +7,7 @@ import { networkToImpedance } from '../../../src/lib/fixture/to-impedance.ts';
 import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import type { ImpedanceSweep } from '../../../src/lib/sweep/sweep.ts';
 
-// FIELD.md §0 reference resonator X1 (synthetic).
+// Reference resonator X1 (synthetic, invented).
 const X1_FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: X1_FS, r1Ohm: 20, c1F: 10e-15 }] };
 

@@ -8,7 +8,7 @@ import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import type { ImpedanceSweep, NetworkData } from '../../../src/lib/sweep/sweep.ts';
 import type { Fixture } from '../../../src/lib/schema/part.ts';
 
-// FIELD.md §0 reference resonator X1 (synthetic, not a real part): L1 = 10 mH, C1 = 10 fF,
+// Reference resonator X1 (synthetic, not a real part): L1 = 10 mH, C1 = 10 fF,
 // R1 = 20 Ω, C0 = 3 pF, ωs = 1e8 rad/s exactly.
 const X1_FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: X1_FS, r1Ohm: 20, c1F: 10e-15 }] };
@@ -52,7 +52,7 @@ describe('synthesizeSweep, noiseless', () => {
     const name = `${c.fixture}${c.ports ? ` ${c.ports}-port` : ''}${c.parameter ? ` ${c.parameter}` : ''}`;
     it(`${name}: the recorded network converts back to the model impedance within 1e-12 around fs`, () => {
       const s = synthesizeSweep({ model: X1, grid: { kind: 'centered', centerHz: X1_FS, spanHz: 3000, points: 301 }, ...c });
-      // Inverse conversion written independently (src/lib/fixture/to-impedance.ts, FIELD.md §3.2 formulas).
+      // Inverse conversion written independently (src/lib/fixture/to-impedance.ts, conversions derived from the circuit).
       const back = networkToImpedance(s.network, c.fixture, 'x');
       expect(maxRelativeError(back, s.part)).toBeLessThan(1e-12);
       expect(maxRelativeError(s.measured, s.part)).toBeLessThan(1e-12);
@@ -63,15 +63,15 @@ describe('synthesizeSweep, noiseless', () => {
       const back = networkToImpedance(s.network, c.fixture, 'x');
       for (let i = 0; i < back.freqHz.length; i++) {
         const err = Math.hypot(back.zRe[i] - s.part.zRe[i], back.zIm[i] - s.part.zIm[i]) / Math.hypot(s.part.zRe[i], s.part.zIm[i]);
-        // Relative condition number of Z(S) (derived from FIELD.md §3.2): reflection 2|S|/|1 − S²|,
+        // Relative condition number of Z(S) (derived from the fixture conversions): reflection 2|S|/|1 − S²|,
         // series-thru 1/|1 − S21|, shunt-thru 1/|1 − S21|; 1 for Z/Y records.
         expect(err).toBeLessThan(32 * Number.EPSILON * (1 + conditionOf(s.network, c.fixture, i)));
       }
     });
   }
 
-  it('reproduces the FIELD.md §1.1 X1 impedance at fs (19.99928 − j0.119996 Ω) and at 16 MHz', () => {
-    // FIELD.md §1.1 check X1 (IEEE 177 model, mpmath values rounded to 7 digits).
+  it('reproduces the mpmath X1 impedance at fs (19.99928 − j0.119996 Ω) and at 16 MHz', () => {
+    // check X1 (IEEE Std 177 model, mpmath values rounded to 7 digits).
     const s = synthesizeSweep({ model: X1, grid: { kind: 'explicit', freqHz: [X1_FS, 16e6] }, fixture: 'impedance' });
     expect(s.network.re[0][0]).toBeCloseTo(19.99928, 5);
     expect(s.network.im[0][0]).toBeCloseTo(-0.119996, 6);
@@ -79,8 +79,8 @@ describe('synthesizeSweep, noiseless', () => {
     expect(s.network.im[0][1]).toBeCloseTo(-4826.817, 3);
   });
 
-  it('gives the FIELD.md §3.2 S-parameters of a 20 Ω device in each fixture', () => {
-    // FIELD.md §3.2 check Z = 20 Ω: S11 = −0.428571, series S21 = 0.833333, shunt S21 = 0.444444.
+  it('gives the mpmath check S-parameters of a 20 Ω device in each fixture', () => {
+    // check values (mpmath), Z = 20 Ω: S11 = −0.428571, series S21 = 0.833333, shunt S21 = 0.444444.
     const f = 16e6;
     const grid = { kind: 'explicit' as const, freqHz: [f] };
     const refl = synthesizeSweep({ model: resistorAt(f, 20), grid, fixture: 'reflection' });
@@ -93,8 +93,8 @@ describe('synthesizeSweep, noiseless', () => {
     expect(shunt.network.re[2][0]).toBeCloseTo(0.444444, 6);
   });
 
-  it('gives the FIELD.md §3.2 S-parameters of 20 + j30 Ω (resistor plus series fixture inductance)', () => {
-    // FIELD.md §3.2 check Z = 20 + j30 Ω: S11 = −0.206897 + j0.517241; series S21 = 0.784314 − j0.196078;
+  it('gives the mpmath check S-parameters of 20 + j30 Ω (resistor plus series fixture inductance)', () => {
+    // check values (mpmath), Z = 20 + j30 Ω: S11 = −0.206897 + j0.517241; series S21 = 0.784314 − j0.196078;
     // shunt S21 = 0.615385 + j0.256410.
     const f = 16e6;
     const grid = { kind: 'explicit' as const, freqHz: [f] };
@@ -115,7 +115,7 @@ describe('synthesizeSweep, noiseless', () => {
   });
 
   it('sParametersOf takes the open-circuit limits when the impedance is infinite', () => {
-    // Limits of the FIELD.md §3.2 forms for Z → ∞ (derived).
+    // Limits of the fixture conversions for Z → ∞ (derived).
     expect(sParametersOf(null, 'reflection', 50, 1)[0]).toEqual({ re: 1, im: 0 });
     expect(sParametersOf(null, 'series-thru', 50, 2)[2]).toEqual({ re: 0, im: 0 });
     expect(sParametersOf(null, 'shunt-thru', 50, 2)[2]).toEqual({ re: 1, im: 0 });
@@ -123,8 +123,8 @@ describe('synthesizeSweep, noiseless', () => {
 });
 
 describe('synthesizeSweep, fixture parasitics and added capacitors', () => {
-  it('puts series Rs, Ls toward the instrument and Cp across the part (FIELD.md §3.1 check)', () => {
-    // FIELD.md §3.1 check: 16 MHz, Rs = 0.5 Ω, Ls = 5 nH, Cp = 1 pF, DUT 20 Ω → Zm = 20.499919 + j0.462443 Ω.
+  it('puts series Rs, Ls toward the instrument and Cp across the part (mpmath check value)', () => {
+    // check value (mpmath): 16 MHz, Rs = 0.5 Ω, Ls = 5 nH, Cp = 1 pF, DUT 20 Ω → Zm = 20.499919 + j0.462443 Ω.
     const f = 16e6;
     const s = synthesizeSweep({
       model: resistorAt(f, 20),
@@ -137,7 +137,7 @@ describe('synthesizeSweep, fixture parasitics and added capacitors', () => {
     expect(s.part.zRe[0]).toBeCloseTo(20, 12);
   });
 
-  it('open/short sweeps of the same fixture compensate back to the part (exact O/S, FIELD.md §3.1)', () => {
+  it('open/short sweeps of the same fixture compensate back to the part (exact O/S)', () => {
     const parasitics = { rsOhm: 0.5, lsH: 5e-9, cpF: 1e-12 };
     for (const fixture of ['reflection', 'series-thru', 'shunt-thru', 'impedance'] as const) {
       const s = synthesizeSweep({ model: X1, grid: { kind: 'centered', centerHz: X1_FS, spanHz: 60e3, points: 401 }, fixture, parasitics });
@@ -155,8 +155,8 @@ describe('synthesizeSweep, fixture parasitics and added capacitors', () => {
   });
 
   it('a series or a parallel added capacitor moves the lossless resonance to fs·√(1 + C1/(C0 + CL))', () => {
-    // FIELD.md §2(d): series CL (load resonance) and parallel CL (load antiresonance) give the same
-    // lossless fL (derived). Nearly lossless X1 (R1 = 1 µΩ), CL = 10 pF.
+    // series CL (load resonance) and parallel CL (load antiresonance) give the same
+    // lossless fL (derived from the BVD model). Nearly lossless X1 (R1 = 1 µΩ), CL = 10 pF.
     const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: X1_FS, r1Ohm: 1e-6, c1F: 10e-15 }] };
     const cl = 10e-12;
     const fl = X1_FS * Math.sqrt(1 + 10e-15 / (3e-12 + cl));
