@@ -19,6 +19,7 @@ import { parseQuantity } from '../../src/lib/units/si.ts';
 import { netlistInfoOf } from '../../src/lib/models/netlist-info.ts';
 import { inductanceOf, qualityOf } from '../../src/lib/models/bvd.ts';
 import { loadPart } from '../../src/pipeline/load-part.ts';
+import type { MainModeResult } from '../../src/lib/extract/main-mode.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
 
 const USAGE = `usage: motional netlist PART [options]
@@ -92,17 +93,18 @@ export async function loadChosenModel(path: string, opts: ChooseOptions, io: Cli
     io.err(`${loaded.yamlFile}: sample ${sample.sample} of ${part.id}: no mode could be extracted, no model\n`);
     return EXIT_BAD_INPUT;
   }
-  const model = modelFromResult(sample, { hints });
+  const model = modelFromResult(sample);
   const info = netlistInfoOf(part, sample, model.labels);
   return { part, sample, samples: result.samples, model, info };
 }
 
 /** The median model as an export sample (no uncertainties, derived L1 and Q). */
-function medianExport(chosen: ChosenModel): ExportSample {
-  const { model, labels } = chosen.model;
+function medianExport(chosen: ChosenModel): ExportSample & { mainMode: MainModeResult } {
+  const { model, labels, mainIndex, mainRule } = chosen.model;
   return {
     sample: 'lot-median',
     c0F: model.c0F,
+    mainMode: { index: mainIndex, rule: mainRule },
     modes: model.branches.map((b, i) => ({
       overtone: labels[i].overtone, spurious: labels[i].spurious, fsHz: b.fsHz, r1Ohm: b.r1Ohm, c1F: b.c1F,
       l1H: inductanceOf(b), q: qualityOf(b),
@@ -166,8 +168,7 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
       io.out(formatNetlist(chosen.model.model, chosen.info, selection));
       return EXIT_OK;
     case 'touchstone': {
-      const hints = { frequency: chosen.part.datasheet?.frequency, overtone: chosen.part.datasheet?.overtone };
-      const picked = modelFromResult(chosen.sample ?? medianExport(chosen), { ...selection, hints });
+      const picked = modelFromResult(chosen.sample ?? medianExport(chosen), selection);
       const r = formatModelTouchstone(picked.model, chosen.info, { startHz, stopHz, points });
       if (!r.ok) return usageError(r.reason);
       io.out(r.text);

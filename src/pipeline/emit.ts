@@ -42,8 +42,7 @@ export interface EmitPart {
  * every mode, or the main mode only.
  */
 export function sampleNetlist(part: Part, sample: SampleResult, options: { mainModeOnly?: boolean } = {}): string {
-  const hints = { frequency: part.datasheet?.frequency, overtone: part.datasheet?.overtone };
-  const { model, labels } = modelFromResult(sample, { hints });
+  const { model, labels } = modelFromResult(sample);
   return formatNetlist(model, netlistInfoOf(part, sample, labels), { mainModeOnly: options.mainModeOnly });
 }
 
@@ -93,10 +92,9 @@ export function makeDownloads(loaded: LoadedPart, result: PartResult, options: M
   const first = defaultSample(result);
   const withModes = result.samples.filter((s) => s.modes.length > 0);
   if (first && first.modes.length > 0) {
-    const hints = { frequency: part.datasheet?.frequency, overtone: part.datasheet?.overtone };
     files.push({ name: `${id}.cir`, label: `SPICE netlist, all modes (sample ${first.sample})`, content: sampleNetlist(part, first) });
     files.push({ name: `${id}-main.cir`, label: `SPICE netlist, main mode only (sample ${first.sample})`, content: sampleNetlist(part, first, { mainModeOnly: true }) });
-    const { model, labels } = modelFromResult(first, { hints });
+    const { model, labels } = modelFromResult(first);
     const ts = formatModelTouchstone(model, netlistInfoOf(part, first, labels));
     if (ts.ok) files.push({ name: `${id}-model.s1p`, label: `Model as Touchstone S-parameters (sample ${first.sample})`, content: ts.text });
     const date = part.samples.find((s) => s.id === first.sample)?.measured;

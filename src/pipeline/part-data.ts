@@ -11,7 +11,7 @@ import type { ModeResult, PartResult, SampleResult } from '../lib/extract/types.
 import { impedanceAt, type BvdModel, type MotionalBranch } from '../lib/models/bvd.ts';
 import type { Part, Sample } from '../lib/schema/part.ts';
 import type { OscillatorCircuit } from '../lib/schema/oscillators.ts';
-import { mainMode } from '../lib/osc/main-mode.ts';
+import { modeLabel } from '../lib/models/mode-label.ts';
 import { loadCapacitanceForHz, loadFrequencyHz } from '../lib/osc/load.ts';
 import { excerptMarkdown } from '../site/markdown.ts';
 import { decimateCurve, MAX_CURVE_POINTS, roundSig } from '../site/decimate.ts';
@@ -67,7 +67,7 @@ export function makePartData(loaded: LoadedPart, result: PartResult, circuits: O
     return sampleData(sample, res, loaded.sweeps.filter((s) => s.sampleId === sample.id), part, datasheet, i < MAX_DETAILED_SAMPLES, options);
   });
   const first = result.samples.find((s) => s.modes.length > 0);
-  const main = first ? mainOf(first, datasheet) : undefined;
+  const main = first ? mainOf(first) : undefined;
   const compliance = buildCompliance(part, result);
   const state = summariseState(compliance, part.samples.map((s) => result.samples.find((r) => r.sample === s.id)));
   const summary: PartSummary = main && first ? summaryOf(first, main, datasheet, state) : { state };
@@ -93,10 +93,10 @@ export function makePartData(loaded: LoadedPart, result: PartResult, circuits: O
   };
 }
 
-/** The main mode of a sample with its index in `modes`. */
-export function mainOf(sample: SampleResult, ds: DatasheetData | undefined): { mode: ModeResult; index: number } | undefined {
-  const pick = mainMode(sample.modes, { frequency: ds?.frequencyHz, overtone: ds?.overtone });
-  return pick.index >= 0 ? { mode: sample.modes[pick.index], index: pick.index } : undefined;
+/** The main mode of a sample (as the extraction recorded it) with its index in `modes`. */
+export function mainOf(sample: SampleResult): { mode: ModeResult; index: number } | undefined {
+  const index = sample.mainMode.index;
+  return index >= 0 ? { mode: sample.modes[index], index } : undefined;
 }
 
 /** Index of the model branch that belongs to a mode (nearest fs). */
@@ -192,7 +192,7 @@ function sampleData(sample: Sample, res: SampleResult | undefined, sweeps: Loade
   if (!res) {
     return { id: sample.id, provenance, ok: false, modes: [], warnings: ['no extraction result for this sample'], diagnostics: [], otherConditions: [], plots: { modes: [] } };
   }
-  const main = mainOf(res, ds);
+  const main = mainOf(res);
   return {
     id: sample.id,
     provenance,
@@ -208,8 +208,9 @@ function sampleData(sample: Sample, res: SampleResult | undefined, sweeps: Loade
     temperature: res.temperature,
     drive: res.drive,
     otherConditions: res.otherConditions,
+    mainMode: res.mainMode,
     plots: {
-      modes: modePlots(res, sweeps, sample, main?.index, detailed),
+      modes: modePlots(res, sweeps, main?.index, detailed),
       // Wide sweep and pulling curve for the detailed sample only: others look the same (page size).
       wide: main && detailed ? widePlot(res, sweeps, main.mode) : undefined,
       pulling: main && detailed ? pullingPlot(res, main.mode, ds, part) : undefined,
@@ -218,28 +219,26 @@ function sampleData(sample: Sample, res: SampleResult | undefined, sweeps: Loade
   };
 }
 
-/** Sweeps measured at the sample's reference conditions with nothing added: what the model describes. */
-function referenceSweeps(res: SampleResult, sweeps: LoadedSweep[], sample: Sample): LoadedSweep[] {
+/**
+ * Sweeps with nothing added taken at the sample's reference conditions (the extraction's
+ * `referenceSweeps`): what the model describes; all sweeps with nothing added when none is.
+ */
+function plotSweeps(res: SampleResult, sweeps: LoadedSweep[]): LoadedSweep[] {
   const usable = sweeps.filter((s) => s.impedance && s.impedance.freqHz.length > 1 && s.ref.addedCapacitance === undefined);
-  const atRef = usable.filter((s) => {
-    const t = s.ref.temperature ?? sample.temperature;
-    const tempOk = res.temperatureC === undefined || t === undefined || Math.abs(t - res.temperatureC) < 0.5;
-    const driveOk = res.driveW === undefined || s.ref.drive === undefined || Math.abs(s.ref.drive / res.driveW - 1) < 1e-6;
-    return tempOk && driveOk;
-  });
+  const atRef = usable.filter((s) => res.referenceSweeps.includes(s.ref.file));
   return atRef.length ? atRef : usable;
 }
 
-function modePlots(res: SampleResult, sweeps: LoadedSweep[], sample: Sample, mainIndex: number | undefined, detailed: boolean): ModePlot[] {
-  const refSweeps = referenceSweeps(res, sweeps, sample);
+function modePlots(res: SampleResult, sweeps: LoadedSweep[], mainIndex: number | undefined, detailed: boolean): ModePlot[] {
+  const refSweeps = plotSweeps(res, sweeps);
   const order = res.modes
     .map((m, i) => ({ m, i }))
     .filter(({ m, i }) => (detailed ? true : i === mainIndex) && !m.flagged)
     .sort((a, b) => (a.i === mainIndex ? -1 : b.i === mainIndex ? 1 : Number(a.m.spurious) - Number(b.m.spurious) || a.m.r1Ohm - b.m.r1Ohm));
   const plots: ModePlot[] = [];
-  for (const { m } of order) {
+  for (const { m, i } of order) {
     if (plots.length >= MAX_MODE_PLOTS_PER_SAMPLE) break;
-    const p = modePlot(res.model, m, refSweeps);
+    const p = modePlot(res.model, m, i, refSweeps);
     if (p) plots.push(p);
   }
   return plots.sort((a, b) => a.fsHz - b.fsHz);
@@ -255,7 +254,7 @@ function magPhase(re: number, im: number): [number, number] {
   return [Math.hypot(re, im), (Math.atan2(im, re) * 180) / Math.PI];
 }
 
-function modePlot(model: BvdModel, m: ModeResult, sweeps: LoadedSweep[]): ModePlot | undefined {
+function modePlot(model: BvdModel, m: ModeResult, modeIndex: number, sweeps: LoadedSweep[]): ModePlot | undefined {
   const [lo, hi] = modeWindow(m);
   let best: { sweep: LoadedSweep; from: number; to: number } | undefined;
   for (const s of sweeps) {
@@ -299,6 +298,7 @@ function modePlot(model: BvdModel, m: ModeResult, sweeps: LoadedSweep[]): ModePl
   let maxIdx = 0;
   for (let k = 0; k < n; k++) if (mag[k] > mag[maxIdx]) maxIdx = k;
   return {
+    modeIndex,
     overtone: m.overtone,
     spurious: m.spurious,
     fsHz: m.fsHz,
@@ -351,12 +351,6 @@ function widePlot(res: SampleResult, sweeps: LoadedSweep[], main: ModeResult): W
     phase: decimateCurve(z.freqHz, ph, { keep, maxPoints: 300, yDigits: 4 }),
     modes: res.modes.map((m) => ({ fsHz: m.fsHz, spurious: m.spurious, overtone: m.overtone, label: modeLabel(m) })),
   };
-}
-
-/** Short name of a mode: "fundamental", "3rd overtone", "spurious (near 3rd)". */
-export function modeLabel(m: { overtone: number; spurious: boolean }): string {
-  const order = m.overtone === 1 ? 'fundamental' : `${m.overtone}${m.overtone === 3 ? 'rd' : 'th'} overtone`;
-  return m.spurious ? `spurious (near ${m.overtone === 1 ? 'fundamental' : order})` : order;
 }
 
 function nearestIndex(f: ArrayLike<number>, x: number): number {
@@ -448,7 +442,7 @@ export function makeIndexEntry(data: PartData): IndexEntry {
 /** The compare page's data of a part: summary and the first sample's main-mode plot. */
 export function makeCompareData(data: PartData): CompareData {
   const first = data.samples.find((s) => s.ok);
-  const mode = first?.plots.modes.find((p) => p.fsHz === data.summary.fsHz) ?? first?.plots.modes[0];
+  const mode = first?.plots.modes.find((p) => p.modeIndex === first.mainMode?.index) ?? first?.plots.modes[0];
   const thin = (c: Curve, n: number): Curve => decimateCurve(c.x, c.y, { maxPoints: n });
   return {
     id: data.id,

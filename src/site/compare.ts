@@ -1,6 +1,7 @@
 /** Compare page helpers: the selection in the URL and the aligned parameter rows. */
 import { formatHz, formatNumber, formatQty, STATE_LABEL } from './format.ts';
 import type { CompareData } from './types.ts';
+import { overtoneLabel } from '../lib/models/mode-label.ts';
 
 /** Most parts on one compare page. */
 export const MAX_COMPARE = 4;
@@ -25,7 +26,7 @@ export function compareRows(parts: CompareData[]): Array<{ label: string; values
     row('C1', (p) => formatQty(p.summary.c1F, 'F', 5)),
     row('C0', (p) => formatQty(p.summary.c0F, 'F', 4)),
     row('Q', (p) => formatNumber(p.summary.q, 4)),
-    row('Mode', (p) => (p.summary.overtone === undefined ? '—' : p.summary.overtone === 1 ? 'fundamental' : `overtone ${p.summary.overtone}`)),
+    row('Mode', (p) => (p.summary.overtone === undefined ? '—' : overtoneLabel(p.summary.overtone))),
     row('CL for nominal', (p) => formatQty(p.summary.clForNominalF, 'F', 3)),
     row('Datasheet frequency', (p) => formatHz(p.datasheet?.frequencyHz, 9)),
     row('Datasheet CL', (p) => (p.datasheet?.loadCapacitanceF === 'series' ? 'series' : formatQty(p.datasheet?.loadCapacitanceF, 'F', 3))),

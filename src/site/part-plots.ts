@@ -5,13 +5,9 @@
 import type { PanelSpec, PlotSpec, SeriesStyle } from './plot.ts';
 import type { CompareData, Curve, ModePlot, PullingPlot, TemperaturePlot, WidePlot } from './types.ts';
 import { formatHz, formatPpm, formatQty } from './format.ts';
+import { modeLabel } from '../lib/models/mode-label.ts';
 
 const PHASE_PANEL = { yName: 'Phase', yUnit: '°', yScale: 'linear' as const, yDomain: [-95, 95] as [number, number], yTicks: [-90, -45, 0, 45, 90], weight: 0.7 };
-
-function modeName(p: { overtone: number; spurious: boolean }): string {
-  const order = p.overtone === 1 ? 'fundamental' : `overtone ${p.overtone}`;
-  return p.spurious ? `spurious mode near the ${order}` : order;
-}
 
 function maxOf(c: Curve): number {
   return c.y.reduce((a, b) => (Number.isFinite(b) && b > a ? b : a), 0);
@@ -42,8 +38,8 @@ export function modePlotSpec(p: ModePlot, id: string): PlotSpec {
   ];
   return {
     id,
-    title: `${modeName(p)} at ${formatHz(p.fsHz, 9)}`,
-    description: `Impedance magnitude and phase against frequency around the ${modeName(p)} (fs ${formatHz(p.fsHz, 10)}, fp ${formatHz(p.fpHz, 10)}), measured (sweep ${p.sweep}) and model, with the relative residual; the largest residual is ${resMax.toPrecision(2)} %.`,
+    title: `${modeLabel(p)} at ${formatHz(p.fsHz, 9)}`,
+    description: `Impedance magnitude and phase against frequency around the mode ${modeLabel(p)} (fs ${formatHz(p.fsHz, 10)}, fp ${formatHz(p.fpHz, 10)}), measured (sweep ${p.sweep}) and model, with the relative residual; the largest residual is ${resMax.toPrecision(2)} %.`,
     xName: 'Frequency', xUnit: 'Hz', xScale: 'linear',
     panels,
     markers: [{ x: p.fsHz, label: 'fs' }, { x: p.fpHz, label: 'fp' }],

@@ -8,6 +8,7 @@ import { layoutPlot, type PlotLayout } from './plot.ts';
 import { modePlotSpec, pullingPlotSpec, temperaturePlotSpec, widePlotSpec } from './part-plots.ts';
 import { formatBytes, formatHz, formatNumber, formatPpm, formatQty, formatWithUncertainty, KIND_LABEL, STATE_LABEL, DISPLAY_DIGITS } from './format.ts';
 import { renderMarkdown } from './markdown.ts';
+import { modeLabel, overtoneLabel } from '../lib/models/mode-label.ts';
 import type { PartData, SampleData } from './types.ts';
 
 export interface Row {
@@ -109,10 +110,6 @@ const METHOD_LABEL: Record<string, string> = {
   'zero-phase': 'zero-phase points',
 };
 
-function modeLabel(m: { overtone: number; spurious: boolean }): string {
-  const order = m.overtone === 1 ? 'fundamental' : `overtone ${m.overtone}`;
-  return m.spurious ? `spurious (near ${order})` : order;
-}
 
 function valueOf(q: CrossCheck['quantity'], v: number): string {
   const [, unit] = QUANTITY_LABEL[q];
@@ -282,7 +279,7 @@ export function makePartView(d: PartData, base: string): PartView {
       { label: 'Motional capacitance C1', value: formatQty(s.c1F, 'F', DISPLAY_DIGITS.c1F), si: s.c1F },
       { label: 'Shunt capacitance C0', value: formatQty(s.c0F, 'F', DISPLAY_DIGITS.c0F), si: s.c0F },
       { label: 'Quality factor Q', value: formatNumber(s.q, DISPLAY_DIGITS.q), si: s.q },
-      { label: 'Mode', value: s.overtone === undefined ? '—' : s.overtone === 1 ? 'fundamental' : `overtone ${s.overtone}` },
+      { label: 'Mode', value: s.overtone === undefined ? '—' : overtoneLabel(s.overtone) },
       { label: 'CL for the nominal frequency', value: formatQty(s.clForNominalF, 'F', DISPLAY_DIGITS.clF), si: s.clForNominalF, note: ds?.frequencyHz === undefined ? 'no datasheet frequency' : s.clForNominalF === undefined ? 'not reachable with a positive load' : undefined },
     ],
     datasheet: ds

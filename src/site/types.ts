@@ -19,7 +19,7 @@ export type { ComplianceResult } from '../lib/osc/compliance.ts';
 export type { LotStatistics } from '../lib/osc/lot-stats.ts';
 
 /** Bump when the shape changes, so stale cached data is rebuilt. */
-export const PART_DATA_VERSION = 3;
+export const PART_DATA_VERSION = 4;
 
 /** Compliance with the datasheet, summarised. */
 export type ComplianceState = 'pass' | 'fail' | 'unknown' | 'warnings';
@@ -32,6 +32,8 @@ export interface Curve {
 
 /** |Z| and phase around one mode: measured, model and the relative complex residual. */
 export interface ModePlot {
+  /** Index of the mode in its sample's `modes`. */
+  modeIndex: number;
   overtone: number;
   spurious: boolean;
   fsHz: number;
@@ -121,6 +123,8 @@ export interface SampleData {
   temperature?: TemperatureFit;
   drive?: DriveLevelResult;
   otherConditions: Array<{ sweep: string; temperatureC?: number; driveW?: number; fsHz: number; r1Ohm: number }>;
+  /** The main mode as the extraction recorded it (index in `modes`, −1 when none). */
+  mainMode?: { index: number; rule: string };
   plots: {
     modes: ModePlot[];
     wide?: WidePlot;

@@ -44,7 +44,7 @@ describe('motional netlist', () => {
     const r = await run(['netlist', part]);
     const loaded = await loadPart(part);
     const result = extractPart(loaded.part!, loaded.sweeps);
-    const chosen = modelFromResult(result.samples[0], { hints: { frequency: 15.9208e6, overtone: 1 } });
+    const chosen = modelFromResult(result.samples[0]);
     // The extraction recovers X1 and the second branch of design-part.ts (loose: the extractor's own tests are strict).
     expect(Math.abs(chosen.model.branches[0].fsHz / FS_X1 - 1)).toBeLessThan(1e-6);
     expect(Math.abs(chosen.model.branches[1].fsHz / FS_SPUR - 1)).toBeLessThan(1e-6);
@@ -96,7 +96,7 @@ describe('motional netlist', () => {
   it('matches formatNetlist of the extracted sample (the command adds nothing of its own)', async () => {
     const loaded = await loadPart(part);
     const s = extractPart(loaded.part!, loaded.sweeps).samples[0];
-    const chosen = modelFromResult(s, { hints: { frequency: 15.9208e6, overtone: 1 } });
+    const chosen = modelFromResult(s);
     const r = await run(['netlist', part]);
     const body = (t: string) => t.split('\n').filter((l) => !l.startsWith('*')).join('\n');
     expect(body(r.out)).toBe(body(formatNetlist(chosen.model, { partId: 'dsn-16m', sample: 'S1', labels: chosen.labels })));

@@ -104,4 +104,17 @@ describe('makeIndexEntry', () => {
     expect(c.mode!.measuredMag.x.length).toBeLessThanOrEqual(252);
     expect(JSON.stringify(c).length).toBeLessThan(40_000);
   });
+
+  it('shows on the compare page the plot of the main mode the extraction recorded, found by its index', () => {
+    const { data } = x1Part();
+    const first = data.samples[0];
+    expect(first.mainMode?.index).toBe(0);
+    expect(first.plots.modes[0].modeIndex).toBe(0);
+    // A decoy plot of another mode at exactly the summary's fs must not be taken for the main mode.
+    const decoy = { ...first.plots.modes[0], modeIndex: 1, fsHz: data.summary.fsHz! };
+    const main = { ...first.plots.modes[0], fsHz: data.summary.fsHz! + 1 };
+    const c = makeCompareData({ ...data, samples: [{ ...first, plots: { ...first.plots, modes: [decoy, main] } }] });
+    expect(c.mode?.modeIndex).toBe(0);
+    expect(c.mode?.fsHz).toBe(data.summary.fsHz! + 1);
+  });
 });

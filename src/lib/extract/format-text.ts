@@ -5,6 +5,7 @@
  */
 import type { CrossCheck, ModeResult, PartResult, SampleResult } from './types.ts';
 import { formatSi } from '../units/si.ts';
+import { modeLabel } from '../models/mode-label.ts';
 
 function pm(value: number, u: number, unit: string, digits = 6): string {
   return `${formatSi(value, unit, digits)} ± ${formatSi(u, unit, 2)}`;
@@ -16,11 +17,6 @@ function hz(value: number): string {
 
 function pad(s: string, n: number): string {
   return s.length >= n ? s : s + ' '.repeat(n - s.length);
-}
-
-function modeName(m: ModeResult): string {
-  if (m.spurious) return `spurious (near n=${m.overtone})`;
-  return m.overtone === 1 ? 'fundamental' : `overtone ${m.overtone}`;
 }
 
 function verdicts(list: CrossCheck[]): string {
@@ -46,7 +42,7 @@ function sampleText(s: SampleResult): string[] {
       if (m.spurious && m.strengthDb !== undefined) notes.push(`${m.strengthDb.toFixed(1)} dB (R ratio ${m.resistanceRatio!.toFixed(2)})`);
       if (m.flagged) notes.push('FLAGGED: above instrument range');
       rows.push([
-        `  ${modeName(m)}`,
+        `  ${modeLabel(m)}`,
         `${hz(m.fsHz)} ± ${m.uncertainty.fsHz.toPrecision(2)}`,
         `${hz(m.fpHz)} ± ${m.uncertainty.fpHz.toPrecision(2)}`,
         pm(m.r1Ohm, m.uncertainty.r1Ohm, 'Ω', 5),
@@ -59,7 +55,7 @@ function sampleText(s: SampleResult): string[] {
     }
     out.push(...table(rows));
     out.push('  cross-checks:');
-    for (const m of s.modes) out.push(`    ${modeName(m)} at ${formatSi(m.fsHz, 'Hz', 8)}: ${verdicts(m.crossCheck)}`);
+    for (const m of s.modes) out.push(`    ${modeLabel(m)} at ${formatSi(m.fsHz, 'Hz', 8)}: ${verdicts(m.crossCheck)}`);
   }
   out.push(`  fit: ${s.fit.converged ? 'converged' : 'not converged'} (${s.fit.reason}), ${s.fit.points} points, rms residual ${s.fit.rmsResidual.toExponential(2)}`);
   if (s.temperature) {

@@ -25,6 +25,9 @@ export interface MainModeHints {
   overtone?: number;
 }
 
+/** The rule of the mode nearest the datasheet frequency (the overtone check relies on it). */
+export const NEAREST_NOMINAL_RULE = 'mode nearest the datasheet frequency';
+
 /** A mode counts as "at the nominal frequency" within this relative distance (5 %). */
 export const NEAR_NOMINAL = 0.05;
 
@@ -56,7 +59,7 @@ export function mainMode<T extends ModeLike>(modes: T[], hints: MainModeHints = 
         best = i;
       }
     });
-    if (best >= 0 && bestDist <= NEAR_NOMINAL) return { index: best, rule: 'mode nearest the datasheet frequency' };
+    if (best >= 0 && bestDist <= NEAR_NOMINAL) return { index: best, rule: NEAREST_NOMINAL_RULE };
   }
   if (hints.overtone !== undefined) {
     const i = strongest(modes, (m) => !m.spurious && m.overtone === hints.overtone);

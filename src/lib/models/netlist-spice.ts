@@ -13,7 +13,7 @@
  */
 import { inductanceOf, qualityOf, type BvdModel } from './bvd.ts';
 import type { SampleResult } from '../extract/types.ts';
-import { mainMode, type MainModeHints, type ModeLike } from '../extract/main-mode.ts';
+import { mainMode, type MainModeHints, type MainModeResult, type ModeLike } from '../extract/main-mode.ts';
 import { sampleModel } from '../osc/sample-model.ts';
 import { median } from '../osc/lot-stats.ts';
 
@@ -54,7 +54,7 @@ export interface NetlistInfo {
 }
 
 export interface FormatNetlistOptions {
-  /** Only the main mode's branch (label.main, else the strongest non-spurious). Default false. */
+  /** Only the main mode's branch (the branch labelled `main`; a lone branch needs no label). Default false. */
   mainModeOnly?: boolean;
   /** Keep branches labelled spurious. Default true. */
   includeSpurious?: boolean;
@@ -107,10 +107,10 @@ function selectBranches(model: BvdModel, labels: BranchLabel[] | undefined, opti
   const keepSpurious = options.includeSpurious ?? true;
   let chosen = all.filter((i) => keepSpurious || !labels?.[i]?.spurious);
   if (options.mainModeOnly) {
-    let main = labels ? labels.findIndex((l) => l.main) : -1;
-    if (main < 0) {
-      const modes = model.branches.map((b, i) => ({ ...b, overtone: labels?.[i]?.overtone ?? 1, spurious: labels?.[i]?.spurious ?? false }));
-      main = mainMode(modes).index;
+    // The main mode is decided once, by the extraction (SampleResult.mainMode): the labels carry it.
+    const main = labels ? labels.findIndex((l) => l.main) : model.branches.length === 1 ? 0 : -1;
+    if (main < 0 && model.branches.length > 0) {
+      throw new Error(`formatNetlist: main mode only, but no branch of ${model.branches.length} is labelled main (label the branch of SampleResult.mainMode)`);
     }
     chosen = main >= 0 ? [main] : [];
   }
@@ -197,8 +197,6 @@ export interface ModelFromResultOptions {
   mainModeOnly?: boolean;
   /** Keep spurious modes (default true). */
   includeSpurious?: boolean;
-  /** Datasheet hints for the main mode (frequency, overtone). */
-  hints?: MainModeHints;
 }
 
 export interface ModelWithLabels {
@@ -210,12 +208,11 @@ export interface ModelWithLabels {
 }
 
 /**
- * The part-alone model of a sample with its branch labels, after selection. Main mode: the
- * datasheet overtone's mode (nearest the datasheet frequency first), else the strongest
- * non-spurious mode (see extract/main-mode.ts).
+ * The part-alone model of a sample with its branch labels, after selection. The main mode is the
+ * one the extraction recorded (`mainMode`, picked by extract/main-mode.ts).
  */
-export function modelFromResult(sample: { c0F: number; modes: Array<ModeLike & { c1F: number }> }, options: ModelFromResultOptions = {}): ModelWithLabels {
-  const main = mainMode(sample.modes, options.hints);
+export function modelFromResult(sample: { c0F: number; modes: Array<ModeLike & { c1F: number }>; mainMode: MainModeResult }, options: ModelFromResultOptions = {}): ModelWithLabels {
+  const main = sample.mainMode;
   const full = sampleModel(sample);
   let keep = sample.modes.map((_, i) => i);
   if (options.includeSpurious === false) keep = keep.filter((i) => !sample.modes[i].spurious || i === main.index);

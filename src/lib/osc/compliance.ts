@@ -17,7 +17,7 @@
 import type { Datasheet } from '../schema/part.ts';
 import type { SampleResult } from '../extract/types.ts';
 import { loadFrequencyHz, loadResonanceWithLoss } from './load.ts';
-import { mainMode } from '../extract/main-mode.ts';
+import { NEAREST_NOMINAL_RULE } from '../extract/main-mode.ts';
 import { sampleModel } from './sample-model.ts';
 
 export type ComplianceVerdict = 'pass' | 'fail' | 'unknown';
@@ -48,7 +48,7 @@ export interface ComplianceResult {
 }
 
 /** Sample fields compliance needs (SampleResult satisfies it). */
-export type ComplianceSample = Pick<SampleResult, 'sample' | 'c0F' | 'modes' | 'temperatureC'>;
+export type ComplianceSample = Pick<SampleResult, 'sample' | 'c0F' | 'modes' | 'temperatureC' | 'mainMode'>;
 
 function fmt(x: number, digits = 4): string {
   return Number(x.toPrecision(digits)).toString();
@@ -77,9 +77,12 @@ export function frequencyAtDatasheetLoad(
   return { freqHz: loadFrequencyHz(model.branches[main], model.c0F, load), basis: `lossless load resonance at CL ${fmt(load * 1e12)} pF (${solved.reason})` };
 }
 
-/** Check one sample against its datasheet. */
+/**
+ * Check one sample against its datasheet. The main mode is the one the extraction recorded
+ * (`sample.mainMode`, picked with this datasheet's frequency and overtone).
+ */
 export function checkCompliance(sample: ComplianceSample, datasheet: Datasheet = {}): ComplianceResult {
-  const main = mainMode(sample.modes, { frequency: datasheet.frequency, overtone: datasheet.overtone });
+  const main = sample.mainMode;
   const mode = sample.modes[main.index];
   const items: ComplianceItem[] = [];
   const result: ComplianceResult = { sample: sample.sample, mainMode: main.index, mainModeRule: main.rule, items };
@@ -126,7 +129,7 @@ export function checkCompliance(sample: ComplianceSample, datasheet: Datasheet =
   if (!mode) items.push({ check: 'overtone', unit: '', verdict: 'unknown', reason: 'no main mode' });
   else if (datasheet.overtone === undefined) {
     items.push({ check: 'overtone', value: mode.overtone, unit: '', verdict: 'unknown', reason: `main mode is overtone ${mode.overtone}; no datasheet overtone` });
-  } else if (main.rule !== 'mode nearest the datasheet frequency') {
+  } else if (main.rule !== NEAREST_NOMINAL_RULE) {
     items.push({ check: 'overtone', value: mode.overtone, limit: datasheet.overtone, unit: '', verdict: 'unknown', reason: 'no mode near the datasheet frequency to locate the main mode' });
   } else {
     const same = mode.overtone === datasheet.overtone;

@@ -11,7 +11,6 @@
 import type { Datasheet } from '../schema/part.ts';
 import type { SampleResult } from '../extract/types.ts';
 import { frequencyAtDatasheetLoad } from './compliance.ts';
-import { mainMode } from '../extract/main-mode.ts';
 
 /** Parameters summarised per lot. */
 export const LOT_PARAMETERS = ['fsHz', 'r1Ohm', 'c1F', 'l1H', 'c0F', 'q', 'loadFreqHz'] as const;
@@ -91,14 +90,14 @@ function summarise(parameter: LotParameter, rows: Array<{ sample: string; value:
   return stats;
 }
 
-/** Lot statistics over a part's samples (main mode of each, chosen with the datasheet hints). */
-export function lotStatistics(samples: Array<Pick<SampleResult, 'sample' | 'c0F' | 'modes'>>, datasheet: Datasheet = {}): LotStatistics {
+/** Lot statistics over a part's samples (the main mode each sample's extraction recorded). */
+export function lotStatistics(samples: Array<Pick<SampleResult, 'sample' | 'c0F' | 'modes' | 'mainMode'>>, datasheet: Datasheet = {}): LotStatistics {
   const rows = new Map<LotParameter, Array<{ sample: string; value: number }>>(LOT_PARAMETERS.map((p) => [p, []]));
   const notes: string[] = [];
   let n = 0;
   let loadBasis: string | undefined;
   for (const s of samples) {
-    const main = mainMode(s.modes, { frequency: datasheet.frequency, overtone: datasheet.overtone });
+    const main = s.mainMode;
     const m = s.modes[main.index];
     if (!m) {
       notes.push(`sample ${s.sample}: no modes, left out`);

@@ -4,6 +4,7 @@ import {
   formatNetlist, formatSpiceNumber, medianModel, modelFromResult, sanitizeCommentText, sanitizeSubcktName,
 } from '../../../src/lib/models/netlist-spice.ts';
 import { modeOf, sampleOf } from '../osc/sample-fixtures.ts';
+import type { MainModeHints } from '../../../src/lib/extract/main-mode.ts';
 import { OT3, OT3_LABELS, X1 } from './spice-cases.ts';
 
 const ELEMENT = /^[RLC]\d+ \S+ \S+ -?\d\.\d{14}e[+-]\d+$/;
@@ -15,8 +16,8 @@ function expectOnlySafeLines(text: string): void {
   }
 }
 
-function ot3Sample(id = 'B1') {
-  return sampleOf(id, OT3, OT3.branches.map((b, i) => modeOf(b, OT3.c0F, OT3_LABELS[i].overtone, OT3_LABELS[i].spurious)));
+function ot3Sample(id = 'B1', hints: MainModeHints = {}) {
+  return sampleOf(id, OT3, OT3.branches.map((b, i) => modeOf(b, OT3.c0F, OT3_LABELS[i].overtone, OT3_LABELS[i].spurious)), {}, hints);
 }
 
 describe('formatNetlist', () => {
@@ -105,6 +106,11 @@ describe('formatNetlist', () => {
     expect(noSpur).not.toContain('spurious mode near');
   });
 
+  it('refuses main-mode-only when no branch is labelled main (it never picks one itself)', () => {
+    expect(() => formatNetlist(OT3, { partId: 'OT3', labels: OT3_LABELS.map((l) => ({ ...l, main: false })) }, { mainModeOnly: true })).toThrow(/no branch of 3 is labelled main/);
+    expect(formatNetlist(X1, { partId: 'X1' }, { mainModeOnly: true }).match(/^L\d /gm)).toHaveLength(1);
+  });
+
   it('flags a low figure of merit and an r below the AT-cut minimum (ideal-plate r, k = 8.8 %)', () => {
     const ceramicLike = { c0F: 20.6e-12, branches: [{ fsHz: 4.005879e6, r1Ohm: 8, c1F: 4.1e-12 }] };
     expect(formatNetlist(ceramicLike, { partId: 'C1', kind: 'quartz-at' })).toMatch(/CAUTION: .* r = C0\/C1 = 5\.024 below the AT-cut minimum 159\.3/);
@@ -116,7 +122,7 @@ describe('formatNetlist', () => {
 
 describe('modelFromResult', () => {
   it('labels the datasheet overtone\'s mode as main and keeps every mode by default', () => {
-    const m = modelFromResult(ot3Sample(), { hints: { overtone: 3 } });
+    const m = modelFromResult(ot3Sample('B1', { overtone: 3 }));
     expect(m.model.branches).toHaveLength(3);
     expect(m.mainIndex).toBe(1);
     expect(m.labels[1]).toEqual({ overtone: 3, spurious: false, main: true });
@@ -127,8 +133,15 @@ describe('modelFromResult', () => {
     expect(m.mainIndex).toBe(0);
     expect(m.mainRule).toMatch(/strongest non-spurious/);
   });
+  it('takes the main mode the extraction recorded, never picking again', () => {
+    // The picker would take the fundamental (strongest); the recorded choice is the spurious branch.
+    const s = { ...ot3Sample(), mainMode: { index: 2, rule: 'recorded' } };
+    const m = modelFromResult(s, { mainModeOnly: true });
+    expect(m.model.branches).toEqual([OT3.branches[2]]);
+    expect(m.mainRule).toBe('recorded');
+  });
   it('keeps only the main mode, or drops spurious modes, when asked', () => {
-    expect(modelFromResult(ot3Sample(), { hints: { frequency: 100e6 }, mainModeOnly: true }).model.branches).toEqual([OT3.branches[1]]);
+    expect(modelFromResult(ot3Sample('B1', { frequency: 100e6 }), { mainModeOnly: true }).model.branches).toEqual([OT3.branches[1]]);
     expect(modelFromResult(ot3Sample(), { includeSpurious: false }).model.branches).toEqual(OT3.branches.slice(0, 2));
   });
 });
