@@ -165,12 +165,13 @@ export interface BuildTaskRunner {
  * @throws Error when the oscillator circuits file has errors (the caller validates it first)
  */
 export async function createBuildTaskRunner(context: BuildTaskContext): Promise<BuildTaskRunner> {
-  const [{ parseOscillatorsYaml }, { loadPart }, { extractPart }, { makePartData, makeIndexEntry }, { makeDownloads, writeCatalogueData }] =
+  const [{ parseOscillatorsYaml }, { loadPart }, { extractPart }, { makePartData }, { makeIndexEntry }, { makeDownloads, writeCatalogueData }] =
     await Promise.all([
       import('../lib/osc/oscillators-yaml.ts'),
       import('./load-part.ts'),
       import('../lib/extract/extract-part.ts'),
-      import('./part-data.ts'),
+      import('../lib/report/part-data.ts'),
+      import('../lib/report/catalogue-entries.ts'),
       import('./emit.ts'),
     ]);
   let circuits: OscillatorCircuit[] = [];

@@ -7,55 +7,24 @@
  *   <out>/downloads/<id>/<name>      the downloads: netlists, model Touchstone, parameters,
  *                                    and the raw record and sweeps under raw/
  *
- * `makeDownloads` builds the download files of one part with the model exporters of
- * src/lib/models; the netlists are produced by {@link sampleNetlist}, the same function the
- * `netlist` command should print with, so the two are byte-identical.
+ * `makeDownloads` adds the raw record to the model downloads of src/lib/report/downloads.ts
+ * (the netlists come from the same function the `netlist` command prints with).
  */
 import { readFileSync } from 'node:fs';
 import { mkdir, writeFile } from 'node:fs/promises';
 import { dirname, join, posix } from 'node:path';
-import type { PartResult, SampleResult } from '../lib/extract/types.ts';
-import type { Part } from '../lib/schema/part.ts';
-import { formatNetlist, modelFromResult } from '../lib/models/netlist-spice.ts';
-import { netlistInfoOf } from '../lib/models/netlist-info.ts';
-import { formatModelTouchstone } from '../lib/models/model-touchstone.ts';
-import { formatParametersCsv, formatParametersJson } from '../lib/models/parameters-export.ts';
+import type { PartResult } from '../lib/extract/types.ts';
+import { modelDownloads, type DownloadFile } from '../lib/report/downloads.ts';
 import type { LoadedPart } from './load-part.ts';
-import { makeCompareData, makeIndexEntry } from './part-data.ts';
-import type { IndexEntry, PartData } from '../site/types.ts';
+import { makeCompareData, makeIndexEntry } from '../lib/report/catalogue-entries.ts';
+import type { IndexEntry, PartData } from '../lib/report/types.ts';
 
-/** One download file: its name under downloads/<id>/, a label for the page, and its text. */
-export interface DownloadFile {
-  name: string;
-  label: string;
-  content: string;
-}
+export type { DownloadFile } from '../lib/report/downloads.ts';
 
 /** What `writeCatalogueData` takes per part. */
 export interface EmitPart {
   data: PartData;
   downloads: Array<{ name: string; label?: string; content: string | Uint8Array }>;
-}
-
-/**
- * The SPICE subcircuit of one sample, as `motional netlist PART [--sample ID]` prints it:
- * every mode, or the main mode only.
- */
-export function sampleNetlist(part: Part, sample: SampleResult, options: { mainModeOnly?: boolean } = {}): string {
-  const { model, labels } = modelFromResult(sample);
-  return formatNetlist(model, netlistInfoOf(part, sample, labels), { mainModeOnly: options.mainModeOnly });
-}
-
-/**
- * The sample the downloads describe by default: the first sample, as `netlist` and `advise`
- * take it; when it has no modes, the first one that has.
- */
-export function defaultSample(result: PartResult): SampleResult | undefined {
-  return result.samples[0]?.modes.length ? result.samples[0] : (result.samples.find((s) => s.modes.length > 0) ?? result.samples[0]);
-}
-
-function safeName(text: string): string {
-  return text.replace(/[^A-Za-z0-9._-]/g, '_');
 }
 
 /** Files of the record itself (part.yaml, sweeps, compensation sweeps), relative to its folder. */
@@ -87,28 +56,8 @@ export function makeDownloads(loaded: LoadedPart, result: PartResult, options: M
   const part = loaded.part;
   if (!part) return [];
   const read = options.readText ?? ((p: string) => readFileSync(p, 'utf8'));
-  const id = part.id;
   const files: DownloadFile[] = [];
-  const first = defaultSample(result);
-  const withModes = result.samples.filter((s) => s.modes.length > 0);
-  if (first && first.modes.length > 0) {
-    files.push({ name: `${id}.cir`, label: `SPICE netlist, all modes (sample ${first.sample})`, content: sampleNetlist(part, first) });
-    files.push({ name: `${id}-main.cir`, label: `SPICE netlist, main mode only (sample ${first.sample})`, content: sampleNetlist(part, first, { mainModeOnly: true }) });
-    const { model, labels } = modelFromResult(first);
-    const ts = formatModelTouchstone(model, netlistInfoOf(part, first, labels));
-    if (ts.ok) files.push({ name: `${id}-model.s1p`, label: `Model as Touchstone S-parameters (sample ${first.sample})`, content: ts.text });
-    const date = part.samples.find((s) => s.id === first.sample)?.measured;
-    files.push({ name: `${id}-parameters.json`, label: `Parameters, JSON (sample ${first.sample})`, content: formatParametersJson(first, { partId: id, date }) });
-    files.push({ name: `${id}-parameters.csv`, label: `Parameters, CSV (sample ${first.sample})`, content: formatParametersCsv(first) });
-    for (const s of withModes) {
-      if (s === first) continue;
-      const tag = `${id}-${safeName(s.sample)}`;
-      const d = part.samples.find((x) => x.id === s.sample)?.measured;
-      files.push({ name: `${tag}.cir`, label: `SPICE netlist, all modes (sample ${s.sample})`, content: sampleNetlist(part, s) });
-      files.push({ name: `${tag}-parameters.json`, label: `Parameters, JSON (sample ${s.sample})`, content: formatParametersJson(s, { partId: id, date: d }) });
-      files.push({ name: `${tag}-parameters.csv`, label: `Parameters, CSV (sample ${s.sample})`, content: formatParametersCsv(s) });
-    }
-  }
+  files.push(...modelDownloads(part, result));
   for (const f of recordFiles(loaded)) {
     let content: string;
     try {

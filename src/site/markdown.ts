@@ -7,6 +7,10 @@
  * `set:html`, so every character of user text passes through {@link escapeHtml} first.
  */
 
+import { MARKDOWN_LINK as LINK } from '../lib/report/notes-excerpt.ts';
+
+export { excerptMarkdown } from '../lib/report/notes-excerpt.ts';
+
 const HTML_ESCAPES: Record<string, string> = {
   '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;', '`': '&#96;', '=': '&#61;',
 };
@@ -36,7 +40,6 @@ function renderInline(text: string): string {
   return parts.map((part, i) => (i % 2 === 1 ? `<code>${escapeHtml(part.slice(1, -1))}</code>` : renderLinks(part))).join('');
 }
 
-const LINK = /\[([^\]\n]{1,500})\]\(([^()\s]{1,2000})\)/g;
 
 function renderLinks(text: string): string {
   let out = '';
@@ -104,17 +107,4 @@ export function renderMarkdown(source: string): string {
   flushPara();
   flushList();
   return blocks.join('\n');
-}
-
-/** Plain-text excerpt of a note (Markdown markers removed), at most `maxChars` characters. */
-export function excerptMarkdown(source: string, maxChars = 160): string {
-  const text = source
-    .replace(/`([^`\n]+)`/g, '$1')
-    .replace(LINK, '$1')
-    .replace(/\*\*?/g, '')
-    .replace(/(^|[^\w])_(?=\S)([^_]*?\S)_(?!\w)/g, '$1$2')
-    .replace(/^\s*(?:[-+]|\d+[.)])\s+/gm, '')
-    .replace(/\s+/g, ' ')
-    .trim();
-  return text.length > maxChars ? `${text.slice(0, maxChars - 1).trimEnd()}…` : text;
 }

@@ -6,7 +6,7 @@
 import { spawnSync } from 'node:child_process';
 import { join, resolve } from 'node:path';
 import { makeDownloads, writeCatalogueData } from '../../src/pipeline/emit.ts';
-import { makePartData } from '../../src/pipeline/part-data.ts';
+import { makePartData } from '../../src/lib/report/part-data.ts';
 import { DEMO_CIRCUIT, fixtureCatalogue, makeFixturePart } from '../site/fixture.ts';
 
 /** The environment without the variables a test runner sets for its own vite (BASE_URL, MODE, …). */

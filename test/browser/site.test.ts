@@ -17,7 +17,7 @@ import { startStaticServer, type TestServer } from '../support/static-server.ts'
 import { buildFixtureSite } from './fixture-site.ts';
 import type { CompareData, IndexEntry } from '../../src/site/types.ts';
 import { advisePierce } from '../../src/lib/osc/pierce.ts';
-import { sampleNetlist } from '../../src/pipeline/emit.ts';
+import { sampleNetlist } from '../../src/lib/report/downloads.ts';
 import { DEMO_CIRCUIT, fixtureCatalogue, makeFixturePart } from '../site/fixture.ts';
 
 const ROOT = resolve(import.meta.dirname, '..', '..');

@@ -19,7 +19,7 @@ import type { BvdModel } from '../../src/lib/models/bvd.ts';
 import { formatNetlist, type NetlistInfo } from '../../src/lib/models/netlist-spice.ts';
 import { makeDownloads, type DownloadFile } from '../../src/pipeline/emit.ts';
 import { loadPart, type LoadedPart } from '../../src/pipeline/load-part.ts';
-import { makePartData } from '../../src/pipeline/part-data.ts';
+import { makePartData } from '../../src/lib/report/part-data.ts';
 import { isSafeUrl, renderMarkdown } from '../../src/site/markdown.ts';
 import { main } from '../../scripts/motional.ts';
 import { requireTool } from '../support/tools.ts';

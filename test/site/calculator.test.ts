@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { loadPart } from '../../src/pipeline/load-part.ts';
 import { extractPart } from '../../src/lib/extract/extract-part.ts';
 import { parseOscillatorsYaml } from '../../src/lib/osc/oscillators-yaml.ts';
-import { makePartData } from '../../src/pipeline/part-data.ts';
+import { makePartData } from '../../src/lib/report/part-data.ts';
 import { formFromCircuit, runCalculator } from '../../src/site/calculator.ts';
 import { run as runAdvise } from '../../scripts/cli/advise.ts';
 

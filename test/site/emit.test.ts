@@ -5,7 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { loadPart } from '../../src/pipeline/load-part.ts';
 import { extractPart } from '../../src/lib/extract/extract-part.ts';
 import { makeDownloads, writeCatalogueData } from '../../src/pipeline/emit.ts';
-import { makePartData } from '../../src/pipeline/part-data.ts';
+import { makePartData } from '../../src/lib/report/part-data.ts';
 import { run as runNetlist } from '../../scripts/cli/netlist.ts';
 import { DEMO_CIRCUIT } from './fixture.ts';
 

@@ -4,7 +4,7 @@
  */
 import type { SampleResult } from '../extract/types.ts';
 import type { Part } from '../schema/part.ts';
-import type { NetlistInfo } from './netlist-spice.ts';
+import type { NetlistInfo } from '../models/netlist-spice.ts';
 
 /** How a sample's parameters were obtained, as the netlist header says it. */
 export function methodOf(s: SampleResult): string {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { decimateCurve, decimateIndices } from '../../src/site/decimate.ts';
-import { impedanceOver } from '../../src/lib/models/bvd.ts';
-import { X1 } from './fixture.ts';
+import { decimateCurve, decimateIndices } from '../../../src/lib/report/decimate.ts';
+import { impedanceOver } from '../../../src/lib/models/bvd.ts';
+import { X1 } from '../../site/fixture.ts';
 
 describe('decimateCurve', () => {
   // Reference resonator X1 (IEEE Std 177 BVD model): minimum |Z| near fs = 15 915 494.309 Hz; check values

@@ -3,13 +3,13 @@
  * Pierce advice per circuit and the calculator inputs. Pure; it calls the oscillator code of
  * src/lib/osc so the page and the command line give the same numbers for the same inputs.
  */
-import type { PartResult, SampleResult } from '../lib/extract/types.ts';
-import type { Part } from '../lib/schema/part.ts';
-import type { OscillatorCircuit } from '../lib/schema/oscillators.ts';
-import { advisePierce, type PierceAdvice } from '../lib/osc/pierce.ts';
-import { sampleModel } from '../lib/osc/sample-model.ts';
-import { checkCompliance, type ComplianceResult } from '../lib/osc/compliance.ts';
-import { lotStatistics, type LotStatistics } from '../lib/osc/lot-stats.ts';
+import type { PartResult, SampleResult } from '../extract/types.ts';
+import type { Part } from '../schema/part.ts';
+import type { OscillatorCircuit } from '../schema/oscillators.ts';
+import { advisePierce, type PierceAdvice } from '../osc/pierce.ts';
+import { sampleModel } from '../osc/sample-model.ts';
+import { checkCompliance, type ComplianceResult } from '../osc/compliance.ts';
+import { lotStatistics, type LotStatistics } from '../osc/lot-stats.ts';
 import type { CalculatorData, ComplianceState } from './types.ts';
 
 /** Compliance of every sample that has modes; empty when the record has no datasheet. */

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { formatParametersCsv, formatParametersJson } from '../../../src/lib/models/parameters-export.ts';
+import { formatParametersCsv, formatParametersJson } from '../../../src/lib/report/parameters-export.ts';
 import { modeOf, sampleOf } from '../osc/sample-fixtures.ts';
-import { OT3, OT3_LABELS, X1 } from './spice-cases.ts';
+import { OT3, OT3_LABELS, X1 } from '../models/spice-cases.ts';
 
 const ot3 = sampleOf('B1', OT3, OT3.branches.map((b, i) => modeOf(b, OT3.c0F, OT3_LABELS[i].overtone, OT3_LABELS[i].spurious)), { temperatureC: 25 });
 

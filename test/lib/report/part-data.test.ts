@@ -1,8 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { makeCompareData, makeIndexEntry, makePartData, modeWindow } from '../../src/pipeline/part-data.ts';
-import { makeDownloads } from '../../src/pipeline/emit.ts';
-import { advisePierce } from '../../src/lib/osc/pierce.ts';
-import { DEMO_CIRCUIT, X1, fixtureCatalogue, makeFixturePart } from './fixture.ts';
+import { makePartData } from '../../../src/lib/report/part-data.ts';
+import { makeCompareData, makeIndexEntry } from '../../../src/lib/report/catalogue-entries.ts';
+import { modeWindow } from '../../../src/lib/report/plots.ts';
+import { makeDownloads } from '../../../src/pipeline/emit.ts';
+import { advisePierce } from '../../../src/lib/osc/pierce.ts';
+import { DEMO_CIRCUIT, X1, fixtureCatalogue, makeFixturePart } from '../../site/fixture.ts';
 
 function x1Part() {
   const spec = fixtureCatalogue().find((s) => s.id === 'XT-0001')!;
