@@ -30,7 +30,7 @@ import { nodeFileSource } from './file-source.ts';
 import { createBuildTaskRunner, createRecordLookup, linkFiles, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
 import { loadFingerprintMemo, pruneCache, sha256 } from './cache.ts';
 import { extractionCodeHash } from './code-hash.ts';
-import type { IndexEntry } from '../site/types.ts';
+import type { IndexEntry } from '../lib/report/types.ts';
 import { PAGES_ENV, belongsTo, formatManifest, linkTree, overlayTree, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
 import { createWorkerPool, defaultJobs, runLanes } from './worker-pool.ts';

@@ -14,7 +14,7 @@ import { copyFile, link, mkdir, readdir, rename, rm } from 'node:fs/promises';
 import { dirname, join, relative, sep } from 'node:path';
 import type { Issue } from '../lib/issues.ts';
 import type { OscillatorCircuit } from '../lib/schema/oscillators.ts';
-import { PART_DATA_VERSION, type IndexEntry } from '../site/types.ts';
+import { PART_DATA_VERSION, type IndexEntry } from '../lib/report/types.ts';
 import { cacheKey, hashPartFolder, openCache, type BuildCache, type FingerprintMemo } from './cache.ts';
 
 /** Settings shared by every task of one build (sent once to each thread). */

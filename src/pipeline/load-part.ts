@@ -25,8 +25,6 @@ import type { ImpedanceSweep, NetworkData } from '../lib/sweep/sweep.ts';
 import { nodeFileSource, type FileSource } from './file-source.ts';
 import { badExtensionMessage, findCaseCollisions, resolveInPartFolder, sweepFormatOf } from './safe-path.ts';
 
-export { checkPaths, type CheckPathsResult } from './check-paths.ts';
-
 /** One measurement sweep of a sample, as read. */
 export interface LoadedSweep {
   /** Id of the sample the sweep belongs to. */

@@ -77,11 +77,15 @@ export async function siteCodeHash(projectRoot: string): Promise<string> {
   return h.digest('hex');
 }
 
-/** True when the site can render a subset of part pages (see module doc). */
+/**
+ * True when the site can render a subset of part pages (see module doc). Read from the site's
+ * code as text, like the fingerprint: the pipeline builds the site but imports none of it
+ * (DEVELOPERS.md: Layers).
+ */
 export async function siteSupportsPartialPages(): Promise<boolean> {
   try {
-    const site = (await import('../site/catalogue.ts')) as Record<string, unknown>;
-    return typeof site.partPageIds === 'function';
+    const code = await readFile(new URL('../site/catalogue.ts', import.meta.url), 'utf8');
+    return /^export function partPageIds\(/m.test(code);
   } catch {
     return false;
   }

@@ -2,7 +2,7 @@ import { mkdirSync, mkdtempSync, rmSync, symlinkSync, writeFileSync } from 'node
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { checkPaths } from '../../src/pipeline/load-part.ts';
+import { checkPaths } from '../../src/pipeline/check-paths.ts';
 import { formatIssue } from '../../src/lib/issues.ts';
 
 const CSV = 'f (Hz),r (ohm),x (ohm)\n1000,10,0\n2000,10,1\n';

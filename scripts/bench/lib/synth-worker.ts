@@ -3,14 +3,6 @@
  * the benchmark's catalogues of thousands of parts are generated on every core.
  */
 import { serveTasks } from '../../../src/pipeline/worker-pool.ts';
-import { writeSyntheticCatalogue, type SyntheticCatalogueOptions } from './synthetic-catalogue.ts';
-
-/** One slice: parts `first` … `first + count − 1` into `dir`. */
-export interface SynthSliceTask {
-  dir: string;
-  first: number;
-  count: number;
-  options: SyntheticCatalogueOptions;
-}
+import { writeSyntheticCatalogue, type SynthSliceTask } from './synthetic-catalogue.ts';
 
 serveTasks<SynthSliceTask, number>(async (task) => (await writeSyntheticCatalogue(task.dir, task.count, { ...task.options, first: task.first })).length);

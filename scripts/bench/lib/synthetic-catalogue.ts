@@ -16,7 +16,14 @@ import { createRng } from '../../../src/lib/synth/rng.ts';
 import { formatSynthFile } from '../../../src/lib/synth/synth-file.ts';
 import { synthesizeSweep } from '../../../src/lib/synth/synth-sweep.ts';
 import { createWorkerPool, defaultJobs } from '../../../src/pipeline/worker-pool.ts';
-import type { SynthSliceTask } from './synth-worker.ts';
+
+/** One slice for the worker thread (synth-worker.ts): parts `first` … `first + count − 1` into `dir`. */
+export interface SynthSliceTask {
+  dir: string;
+  first: number;
+  count: number;
+  options: SyntheticCatalogueOptions;
+}
 
 export interface SyntheticCatalogueOptions {
   /** Units per part (default 3). */

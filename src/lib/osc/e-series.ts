@@ -10,8 +10,9 @@
  * neighbours sit at their geometric mean. Functions are scale-free: give farads, get farads.
  */
 
-/** Series names this module knows. */
-export type ESeriesName = 'E6' | 'E12' | 'E24';
+import { E_SERIES_NAMES, type ESeriesName } from '../schema/oscillators.ts';
+
+export { E_SERIES_NAMES, type ESeriesName };
 
 /** One decade of each series, IEC 60063:2015. */
 export const E_SERIES: Readonly<Record<ESeriesName, readonly number[]>> = Object.freeze({
@@ -22,9 +23,6 @@ export const E_SERIES: Readonly<Record<ESeriesName, readonly number[]>> = Object
     3.3, 3.6, 3.9, 4.3, 4.7, 5.1, 5.6, 6.2, 6.8, 7.5, 8.2, 9.1,
   ]),
 });
-
-/** Names accepted by {@link isESeriesName}. */
-export const E_SERIES_NAMES: readonly ESeriesName[] = ['E6', 'E12', 'E24'];
 
 /** True when `name` is one of E6, E12, E24. */
 export function isESeriesName(name: string): name is ESeriesName {

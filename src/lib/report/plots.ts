@@ -13,7 +13,7 @@ import type { Curve, DatasheetData, ModePlot, PullingPlot, TemperaturePlot, Wide
 
 /** At most this many mode plots per sample (main modes first, then spurious by strength). */
 export const MAX_MODE_PLOTS_PER_SAMPLE = 4;
-/** A mode plot needs at least this many measured points in its window. */
+/** A mode plot needs at least this many measured points inside its frequency window (per plot). */
 const MIN_WINDOW_POINTS = 12;
 
 /** Last component of a path. */
@@ -138,7 +138,7 @@ export function widePlot(res: SampleResult, sweeps: RecordSweep[], main: ModeRes
     }
   }
   if (!best) return undefined;
-  // Only worth a plot when it shows more than the main mode's own window.
+  // Only worth a plot when it shows more than the main mode's own frequency window (below).
   const [lo, hi] = modeWindow(main);
   if (bestSpan < 3 * (hi - lo) && res.modes.length < 2) return undefined;
   const z = best.impedance!;

@@ -23,7 +23,12 @@
  */
 import { z } from 'zod';
 import { parseQuantity, parseQuantityRange, type UnitKind } from '../units/si.ts';
-import { E_SERIES_NAMES } from '../osc/e-series.ts';
+
+/** Preferred-value series a circuit's load capacitors may come from (IEC 60063:2015). */
+export type ESeriesName = 'E6' | 'E12' | 'E24';
+
+/** The series names the record accepts; osc/e-series.ts holds their values. */
+export const E_SERIES_NAMES: readonly ESeriesName[] = ['E6', 'E12', 'E24'];
 
 /** A quantity string of the given kind, parsed to SI, with a sign rule. */
 function quantity(kind: UnitKind, sign: 'positive' | 'non-negative') {
@@ -101,7 +106,7 @@ export const OscillatorCircuitSchema = z.object({
   /** Load capacitor tolerance, fraction (0.05 = 5 %). */
   capacitorTolerance: tolerance,
   /** Preferred-value series of the load capacitors. */
-  series: z.enum(E_SERIES_NAMES as unknown as ['E6', 'E12', 'E24'], { message: `expected one of ${E_SERIES_NAMES.join(', ')}` }),
+  series: z.enum(E_SERIES_NAMES as unknown as [ESeriesName, ...ESeriesName[]], { message: `expected one of ${E_SERIES_NAMES.join(', ')}` }),
   /** Parts this circuit is meant for, Hz. */
   frequencyRange: frequencyRange.optional(),
 });
