@@ -31,6 +31,7 @@ import { createBuildTaskRunner, createRecordLookup, linkFiles, type BuildTask, t
 import { loadFingerprintMemo, pruneCache, sha256 } from './cache.ts';
 import { extractionCodeHash } from './code-hash.ts';
 import type { IndexEntry } from '../lib/report/types.ts';
+import { sortById } from '../lib/report/index-order.ts';
 import { PAGES_ENV, belongsTo, formatManifest, linkTree, overlayTree, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
 import { createWorkerPool, defaultJobs, runLanes } from './worker-pool.ts';
@@ -426,12 +427,10 @@ async function runRecords(
 }
 
 /**
- * The search index: every part's row, in the order emit.ts's writeCatalogueData uses (by id,
- * numbers in ids compared as numbers).
+ * The search index: every part's row, in catalogue order (index-order.ts).
  */
 async function writeIndex(dataDir: string, entries: IndexEntry[]): Promise<void> {
-  const sorted = [...entries].sort((a, b) => a.id.localeCompare(b.id, 'en', { numeric: true }));
-  await writeFile(join(dataDir, 'index.json'), JSON.stringify(sorted));
+  await writeFile(join(dataDir, 'index.json'), JSON.stringify(sortById(entries)));
 }
 
 /** Errors for every record whose id an earlier record (in path order) already uses. */

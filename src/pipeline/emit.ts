@@ -18,6 +18,7 @@ import { modelDownloads, type DownloadFile } from '../lib/report/downloads.ts';
 import type { LoadedPart } from './load-part.ts';
 import { makeCompareData, makeIndexEntry } from '../lib/report/catalogue-entries.ts';
 import type { IndexEntry, PartData } from '../lib/report/types.ts';
+import { sortById } from '../lib/report/index-order.ts';
 
 export type { DownloadFile } from '../lib/report/downloads.ts';
 
@@ -107,10 +108,8 @@ export async function writeCatalogueData(outDir: string, parts: EmitPart[]): Pro
     for (const d of p.downloads) jobs.push({ path: join(outDir, 'downloads', id, ...checkedName(d.name).split('/')), content: d.content });
     index.push(makeIndexEntry(p.data));
   }
-  const collator = new Intl.Collator('en', { numeric: true });
-  index.sort((a, b) => collator.compare(a.id, b.id));
   await mkdir(outDir, { recursive: true });
   await writeAll(jobs);
-  await writeFile(join(outDir, 'index.json'), JSON.stringify(index));
+  await writeFile(join(outDir, 'index.json'), JSON.stringify(sortById(index)));
 }
 

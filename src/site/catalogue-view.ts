@@ -5,6 +5,9 @@
 import { layoutPlot, type PlotLayout } from './plot.ts';
 import { formatHz, formatNumber, formatQty, KIND_LABEL, STATE_LABEL } from './format.ts';
 import type { IndexEntry } from './types.ts';
+import { PART_KINDS, type PartKind } from '../lib/schema/part.ts';
+import { CATALOGUE_COLUMNS } from './catalogue-columns.ts';
+import { ID_COLLATOR, sortById } from '../lib/report/index-order.ts';
 
 export interface CatalogueRow {
   id: string;
@@ -26,18 +29,17 @@ export interface CatalogueView {
   count: number;
 }
 
-/** Column headers with their sort keys (the key names of IndexEntry / filters.ts SortKey). */
-export const COLUMNS = [
-  { key: 'id', label: 'Part' },
-  { key: 'fsHz', label: 'fs' },
-  { key: 'r1Ohm', label: 'R1' },
-  { key: 'c0F', label: 'C0' },
-  { key: 'c1F', label: 'C1' },
-  { key: 'q', label: 'Q' },
-  { key: 'clForNominalF', label: 'CL for nominal' },
-  { key: 'samples', label: 'Samples' },
-  { key: 'state', label: 'State' },
-] as const;
+/** Column headers with their sort keys (catalogue-columns.ts). */
+export const COLUMNS = CATALOGUE_COLUMNS;
+
+/** Short kind names for the overview chart's legend, one per schema kind. */
+const OVERVIEW_KIND_LABEL: Record<PartKind, string> = {
+  'quartz-at': 'quartz AT-cut',
+  'quartz-tuning-fork': 'tuning fork',
+  ceramic: 'ceramic',
+  saw: 'SAW',
+  other: 'other',
+};
 
 /** Href of a part page under the base path. */
 export function partHref(base: string, id: string): string {
@@ -45,27 +47,18 @@ export function partHref(base: string, id: string): string {
 }
 
 export function makeCatalogueView(entries: IndexEntry[], base: string): CatalogueView {
-  const collator = new Intl.Collator('en', { numeric: true });
-  const sorted = [...entries].sort((a, b) => collator.compare(a.id, b.id));
+  const sorted = sortById(entries);
   const rows = sorted.map((e): CatalogueRow => ({
     id: e.id,
     href: partHref(base, e.id),
     title: e.title,
-    cells: [
-      { text: formatHz(e.fsHz, 9) },
-      { text: formatQty(e.r1Ohm, 'Ω', 4) },
-      { text: formatQty(e.c0F, 'F', 3) },
-      { text: formatQty(e.c1F, 'F', 4) },
-      { text: formatNumber(e.q, 3) },
-      { text: formatQty(e.clForNominalF, 'F', 3) },
-      { text: String(e.samples) },
-    ],
+    cells: CATALOGUE_COLUMNS.flatMap((c) => ('cell' in c ? [{ text: c.cell(e) }] : [])),
     state: e.state,
     stateLabel: STATE_LABEL[e.state],
     synthetic: !!e.synthetic,
   }));
   const kinds = [...new Set(entries.map((e) => e.kind))].sort().map((k) => ({ value: k, label: KIND_LABEL[k] ?? k }));
-  const packages = [...new Set(entries.map((e) => e.package).filter((p): p is string => !!p))].sort(collator.compare);
+  const packages = [...new Set(entries.map((e) => e.package).filter((p): p is string => !!p))].sort(ID_COLLATOR.compare);
   const overtones = [...new Set(entries.map((e) => e.overtone).filter((o): o is number => o !== undefined))].sort((a, b) => a - b);
   const states = (['pass', 'warnings', 'fail', 'unknown'] as const).map((s) => ({ value: s, label: STATE_LABEL[s] }));
   const plotted = sorted.filter((e) => e.fsHz && e.r1Ohm);
@@ -76,8 +69,8 @@ export function makeCatalogueView(entries: IndexEntry[], base: string): Catalogu
         description: `Motional resistance R1 against series resonance fs on logarithmic axes for ${plotted.length} parts; each point links to its part page.`,
         xName: 'Series resonance fs', xUnit: 'Hz', xScale: 'log',
         panels: [{ yName: 'R1', yUnit: 'Ω', yScale: 'log', series: [] }],
-        links: plotted.map((e) => ({ x: e.fsHz!, y: e.r1Ohm!, href: partHref(base, e.id), label: `${e.id}: ${formatHz(e.fsHz, 7)}, R1 ${formatQty(e.r1Ohm, 'Ω', 3)}`, group: ['quartz-at', 'quartz-tuning-fork', 'ceramic', 'saw', 'other'].indexOf(e.kind), id: e.id })),
-        groupLabels: ['quartz AT-cut', 'tuning fork', 'ceramic', 'SAW', 'other'],
+        links: plotted.map((e) => ({ x: e.fsHz!, y: e.r1Ohm!, href: partHref(base, e.id), label: `${e.id}: ${formatHz(e.fsHz, 7)}, R1 ${formatQty(e.r1Ohm, 'Ω', 3)}`, group: (PART_KINDS as readonly string[]).indexOf(e.kind), id: e.id })),
+        groupLabels: PART_KINDS.map((k) => OVERVIEW_KIND_LABEL[k]),
         height: 360,
       })
     : undefined;

@@ -10,6 +10,8 @@
  * A bare number has the field's default scale: capacitance fields read `8` as 8 pF.
  */
 import type { ComplianceState, IndexEntry } from './types.ts';
+import { SORT_KEYS, type SortKey } from './catalogue-columns.ts';
+import { ID_COLLATOR } from '../lib/report/index-order.ts';
 
 /** Relative half-width of the window a single value stands for (1 %). */
 export const SINGLE_VALUE_TOLERANCE = 0.01;
@@ -121,8 +123,7 @@ export interface FilterState {
   dir: 'asc' | 'desc';
 }
 
-export const SORT_KEYS = ['id', 'fsHz', 'r1Ohm', 'c0F', 'c1F', 'q', 'clForNominalF', 'samples', 'state'] as const;
-export type SortKey = (typeof SORT_KEYS)[number];
+export { SORT_KEYS, type SortKey };
 
 const FIELDS = ['q', 'f', 'esr', 'cl', 'kind', 'pkg', 'ot', 'state', 'sort', 'dir'] as const;
 
@@ -193,8 +194,7 @@ export function compileFilters(state: FilterState): CompiledFilters {
   return { test, errors };
 }
 
-/** One collator for every comparison (`localeCompare` with options builds one per call: slow). */
-const COLLATOR = new Intl.Collator('en', { numeric: true });
+const COLLATOR = ID_COLLATOR;
 
 /** Compare two entries by a sort key; missing values sort last in either direction. */
 export function compareEntries(a: IndexEntry, b: IndexEntry, key: SortKey, dir: 'asc' | 'desc'): number {

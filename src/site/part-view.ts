@@ -2,7 +2,7 @@
  * View model of a part page: PartData turned into the rows, labels and plot layouts the
  * components print. Everything here is text or numbers; components compute nothing.
  */
-import type { CrossCheck, Diagnostic, ModeResult } from '../lib/extract/types.ts';
+import type { CrossCheck, Diagnostic, MethodName, ModeResult } from '../lib/extract/types.ts';
 import type { CapacitorPair } from '../lib/osc/pierce.ts';
 import { layoutPlot, type PlotLayout } from './plot.ts';
 import { modePlotSpec, pullingPlotSpec, temperaturePlotSpec, widePlotSpec } from './part-plots.ts';
@@ -98,7 +98,7 @@ const QUANTITY_LABEL: Record<CrossCheck['quantity'], [string, string]> = {
   fsHz: ['fs', 'Hz'], r1Ohm: ['R1', 'Ω'], c1F: ['C1', 'F'], l1H: ['L1', 'H'], c0F: ['C0', 'F'], q: ['Q', ''],
 };
 
-const METHOD_LABEL: Record<string, string> = {
+const METHOD_LABEL: Record<MethodName, string> = {
   'complex-fit': 'complex least squares, one sweep',
   'joint-fit': 'joint least squares, all sweeps',
   'closed-form': 'closed form from fs, fp and C0',
@@ -126,7 +126,7 @@ function crossCheckView(c: CrossCheck): CrossCheckView {
     rule: c.rule,
     message: c.message,
     values: c.values.map((v) => ({
-      method: METHOD_LABEL[v.method] ?? v.method,
+      method: METHOD_LABEL[v.method],
       value: v.uncertainty !== undefined ? `${valueOf(c.quantity, v.value)} ± ${c.quantity === 'q' ? formatNumber(v.uncertainty, 2) : formatQty(v.uncertainty, QUANTITY_LABEL[c.quantity][1], 2)}` : valueOf(c.quantity, v.value),
       note: v.note,
     })),
