@@ -18,7 +18,9 @@ async function run(args: string[]): Promise<string> {
   let out = '';
   let err = '';
   const code = await main(args, { out: (t) => void (out += t), err: (t) => void (err += t) });
-  return `$ motional ${args.map((a) => a.replace(ROOT + '/', '')).join(' ')}\nexit ${code}\n${out}${err ? `--- stderr\n${err}` : ''}`;
+  const text = `$ motional ${args.join(' ')}\nexit ${code}\n${out}${err ? `--- stderr\n${err}` : ''}`;
+  // Paths relative to the checkout, so the copy holds wherever the repository is cloned.
+  return text.split(ROOT + '/').join('');
 }
 
 /** The commands' output for one demo part, as one text. */
