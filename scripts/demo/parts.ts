@@ -260,9 +260,9 @@ const parts: DemoPart[] = [];
   const sweeps: DemoSweep[] = temps.map((t) => {
     const m = shifted(model, 0, atCutOffset(t, coeffs) * 1e6);
     const name = t < 0 ? `m${-t}` : `${t}`;
-    return { file: `a1-t${name}c.ts`, fixture: 'series-thru', format: ts2('MA', 'MHz'), grid: narrowAround(m), noiseDb: -70, temperatureC: t, driveW: 10 * uW, model: t === 25 ? undefined : m };
+    return { file: `a1-t${name}c.s2p`, fixture: 'series-thru', format: ts2('MA', 'MHz'), grid: narrowAround(m), noiseDb: -70, temperatureC: t, driveW: 10 * uW, model: t === 25 ? undefined : m };
   });
-  sweeps.push({ file: 'a1-wide-25c.ts', fixture: 'series-thru', format: ts2('MA', 'MHz'), grid: wideGrid(model), noiseDb: -70, temperatureC: 25, driveW: 10 * uW });
+  sweeps.push({ file: 'a1-wide-25c.s2p', fixture: 'series-thru', format: ts2('MA', 'MHz'), grid: wideGrid(model), noiseDb: -70, temperatureC: 25, driveW: 10 * uW });
   parts.push({
     id: 'xt-16m-2520-temp',
     title: '16 MHz crystal, 2520 SMD, over temperature',
@@ -292,7 +292,7 @@ const parts: DemoPart[] = [];
     const uw = l.driveW / uW;
     return { file: `a1-drive-${String(uw).replace('.', 'p')}uw.s2p`, fixture: 'shunt-thru', format: ts1('DB', 'GHz'), grid: narrowAround(m), noiseDb: -70, driveW: l.driveW, model: i === 0 ? undefined : m };
   });
-  sweeps.push({ file: 'a1-wide.ts', fixture: 'series-thru', format: ts2('RI', 'Hz'), grid: wideGrid(model), noiseDb: -70, driveW: levels[0].driveW });
+  sweeps.push({ file: 'a1-wide.s2p', fixture: 'series-thru', format: ts2('RI', 'Hz'), grid: wideGrid(model), noiseDb: -70, driveW: levels[0].driveW });
   parts.push({
     id: 'xt-20m-2520-dld',
     title: '20 MHz crystal, 2520 SMD, drive-level sweep',
@@ -481,7 +481,7 @@ const parts: DemoPart[] = [];
       sweeps: [
         { file: 'a1-ot3-narrow.s1p', fixture: 'reflection', format: ts1('RI', 'MHz'), grid: narrowAround(model, 1), noiseDb: -70, driveW: 20 * uW },
         { file: 'a1-fund-narrow.s1p', fixture: 'reflection', format: ts1('RI', 'MHz'), grid: narrowAround(model, 0), noiseDb: -70, driveW: 20 * uW },
-        { file: 'a1-wide.ts', fixture: 'series-thru', format: ts2('RI', 'MHz'), grid: wide, noiseDb: -70, driveW: 20 * uW },
+        { file: 'a1-wide.s2p', fixture: 'series-thru', format: ts2('RI', 'MHz'), grid: wide, noiseDb: -70, driveW: 20 * uW },
       ],
     }],
   });
@@ -565,8 +565,8 @@ const parts: DemoPart[] = [];
     return {
       id: id as string, measured: '2026-02-24', by: 'AJ', instrument: INSTRUMENT.network, temperatureC: 24, model, modes: MAIN,
       sweeps: [
-        { file: `${lower}-narrow.ts`, fixture: 'reflection', format: ts2('RI', 'Hz'), grid: narrowAround(model), noiseDb: -72, driveW: 20 * uW },
-        { file: `${lower}-wide.ts`, fixture: 'impedance', parameter: 'Z', format: ts2('MA', 'Hz'), grid: wideGrid(model), noiseDb: -72, driveW: 20 * uW },
+        { file: `${lower}-narrow.s1p`, fixture: 'reflection', format: ts2('RI', 'Hz'), grid: narrowAround(model), noiseDb: -72, driveW: 20 * uW },
+        { file: `${lower}-wide.s1p`, fixture: 'impedance', parameter: 'Z', format: ts2('MA', 'Hz'), grid: wideGrid(model), noiseDb: -72, driveW: 20 * uW },
       ],
     };
   });

@@ -53,7 +53,7 @@ describe('demo catalogue content', () => {
       if (f.kind === 'csv') return `csv ${f.form} ${JSON.stringify(f.delimiter)}`;
       return `ts${f.version} ${s.file.split('.').pop()} ${f.format}`;
     }));
-    for (const k of ['ts1 s1p RI', 'ts1 s1p MA', 'ts1 s1p DB', 'ts1 s2p RI', 'ts1 s2p MA', 'ts1 s2p DB', 'ts2 ts RI', 'ts2 ts MA',
+    for (const k of ['ts1 s1p RI', 'ts1 s1p MA', 'ts1 s1p DB', 'ts1 s2p RI', 'ts1 s2p MA', 'ts1 s2p DB', 'ts2 s1p RI', 'ts2 s1p MA', 'ts2 s2p RI', 'ts2 s2p MA',
       'csv rx ","', 'csv magphase ","', 'csv rx "\\t"', 'csv magphase "\\t"', 'csv rx ";"']) {
       expect(kinds, k).toContain(k);
     }
