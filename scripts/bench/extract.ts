@@ -88,12 +88,12 @@ export async function benchExtract(options: { quick?: boolean } = {}): Promise<B
   const fL = fs * Math.sqrt(1 + 10e-15 / 13e-12);
   const refs: SweepRef[] = [
     { file: 'a1-narrow.s1p', fixture: 'impedance' },
-    { file: 'a1-cl10.s1p', fixture: 'impedance', addedCapacitance: 10e-12, addedConnection: 'parallel' },
+    { file: 'a1-cl10.s1p', fixture: 'impedance', addedCapacitanceF: 10e-12, addedConnection: 'parallel' },
     { file: 'a1-wide.s1p', fixture: 'impedance' },
   ];
   const grids = [grid(fs - 1600, fs + 1600, 1601), grid(fL - 1600, fL + 1600, 1601), grid(fs * 0.995, fs * 1.005, 5001)];
   const part: Part = { id: 'BENCH-X1', title: 'benchmark part (synthetic)', kind: 'quartz-at', samples: [{ id: 'A1', sweeps: refs }] };
-  const inputs = refs.map((ref, i) => ({ sampleId: 'A1', ref, file: ref.file, impedance: sweep(model, grids[i], 100 + i, ref.file, ref.addedCapacitance) }));
+  const inputs = refs.map((ref, i) => ({ sampleId: 'A1', ref, file: ref.file, impedance: sweep(model, grids[i], 100 + i, ref.file, ref.addedCapacitanceF) }));
   const points = grids.reduce((n, g) => n + g.length, 0);
 
   // Warm-up: let the JIT compile the hot paths first, so the median is the steady state.

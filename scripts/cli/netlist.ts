@@ -64,7 +64,7 @@ export async function loadChosenModel(path: string, opts: ChooseOptions, io: Cli
   if (!loaded.part || loaded.issues.some((i) => i.severity === 'error')) return EXIT_BAD_INPUT;
   const part = loaded.part;
   const result = extractPart(part, loaded.sweeps);
-  const hints = { frequency: part.datasheet?.frequency, overtone: part.datasheet?.overtone };
+  const hints = { frequencyHz: part.datasheet?.frequencyHz, overtone: part.datasheet?.overtone };
 
   if (opts.lotMedian) {
     const med = medianModel(result.samples, hints);

@@ -107,10 +107,10 @@ export async function loadPart(pathToYamlOrFolder: string, fs: FileSource = node
       const sweepPath: FieldPath = ['samples', i, 'sweeps', j];
       const read = await reader.read(ref.file, ref.fixture, [...sweepPath, 'file'], [...sweepPath, 'fixture']);
       const sweep: LoadedSweep = { sampleId: sample.id, index: j, ref, file: read.file, network: read.network, impedance: read.impedance };
-      if (read.network && ref.referenceImpedance !== undefined) {
+      if (read.network && ref.referenceImpedanceOhm !== undefined) {
         const fileZ0 = read.network.z0Ohm[0];
-        if (Math.abs(fileZ0 - ref.referenceImpedance) > Z0_REL_TOL * fileZ0) {
-          at([...sweepPath, 'referenceImpedance'], `referenceImpedance ${ref.referenceImpedance} ohm differs from the reference ${fileZ0} ohm in ${ref.file}; the file's value is used`, 'reference-impedance', 'warning');
+        if (Math.abs(fileZ0 - ref.referenceImpedanceOhm) > Z0_REL_TOL * fileZ0) {
+          at([...sweepPath, 'referenceImpedance'], `referenceImpedance ${ref.referenceImpedanceOhm} ohm differs from the reference ${fileZ0} ohm in ${ref.file}; the file's value is used`, 'reference-impedance', 'warning');
         }
       }
       const comp = sample.compensation;
@@ -127,8 +127,8 @@ export async function loadPart(pathToYamlOrFolder: string, fs: FileSource = node
         if (sweep.impedance && open.impedance && short.impedance && (!load || load.impedance)) {
           const z = sweep.impedance;
           sweep.impedance = reader.guard(() =>
-            load?.impedance && comp.loadResistance !== undefined
-              ? compensateOpenShortLoad(z, open.impedance!, short.impedance!, load.impedance, comp.loadResistance)
+            load?.impedance && comp.loadResistanceOhm !== undefined
+              ? compensateOpenShortLoad(z, open.impedance!, short.impedance!, load.impedance, comp.loadResistanceOhm)
               : compensateOpenShort(z, open.impedance!, short.impedance!),
           read.file, { path: compPath, name: '' });
         } else {

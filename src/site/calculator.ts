@@ -40,7 +40,7 @@ export function formFromCircuit(data: CalculatorData, circuit: OscillatorCircuit
     pinOut: pf(circuit.outputCapacitance),
     pinToPin: pf(circuit.pinToPinStray),
     gm: String(Number((circuit.gm * 1e3).toPrecision(6))),
-    target: String(data.datasheet?.frequency ?? main?.fsHz ?? ''),
+    target: String(data.datasheet?.frequencyHz ?? main?.fsHz ?? ''),
   };
 }
 
@@ -73,7 +73,7 @@ export function runCalculator(data: CalculatorData, form: CalculatorForm): Calcu
     pinToPinStray: pinToPin as number,
     gm: gm.value * 1e-3,
   };
-  const advice = advisePierce({ partId: data.partId, datasheet: { ...(data.datasheet ?? {}), frequency: target.value }, model: data.model, mainBranch: data.mainBranch, circuit: c });
+  const advice = advisePierce({ partId: data.partId, datasheet: { ...(data.datasheet ?? {}), frequencyHz: target.value }, model: data.model, mainBranch: data.mainBranch, circuit: c });
   if (!advice.ok) return { ok: false, message: advice.reason, advice };
   const b = advice.best;
   const e = advice.equal;

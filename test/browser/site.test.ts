@@ -248,7 +248,7 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     const rows = await page.locator('#calc-table tr').evaluateAll((trs) => trs.map((tr) => [tr.querySelector('th')?.textContent ?? '', tr.querySelector('td')?.textContent ?? '']));
     const got = Object.fromEntries(rows);
     const circuit = { ...data.circuits[0], boardStray: 2.5e-12 };
-    const advice = advisePierce({ partId: data.partId, datasheet: { ...(data.datasheet ?? {}), frequency: target }, model: data.model, mainBranch: data.mainBranch, circuit });
+    const advice = advisePierce({ partId: data.partId, datasheet: { ...(data.datasheet ?? {}), frequencyHz: target }, model: data.model, mainBranch: data.mainBranch, circuit });
     expect(advice.ok).toBe(true);
     if (!advice.ok) return;
     const pair = got['Closest pair (input / output)'];

@@ -144,9 +144,9 @@ describe('generated valid records', () => {
       expect(res.part.notes).toBe(r.notes);
       expect(res.part.samples.map((s) => [s.id, s.by, s.sweeps[0].file])).toEqual(r.samples.map((s) => [s.id, s.by, s.file]));
       // 9 significant digits written: relative error below 5e-9
-      expect(Math.abs(res.part.datasheet!.frequency! / r.frequencyHz - 1)).toBeLessThan(5e-9);
-      expect(Math.abs((res.part.datasheet!.c0Max as number) / r.c0F - 1)).toBeLessThan(5e-9);
-      expect(Math.abs(res.part.datasheet!.esrMax! / r.esrOhm - 1)).toBeLessThan(5e-9);
+      expect(Math.abs(res.part.datasheet!.frequencyHz! / r.frequencyHz - 1)).toBeLessThan(5e-9);
+      expect(Math.abs((res.part.datasheet!.c0MaxF as number) / r.c0F - 1)).toBeLessThan(5e-9);
+      expect(Math.abs(res.part.datasheet!.esrMaxOhm! / r.esrOhm - 1)).toBeLessThan(5e-9);
     }), { seed: FUZZ_SEED, numRuns: 600 });
   });
 });

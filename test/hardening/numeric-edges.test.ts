@@ -109,7 +109,7 @@ describe('extraction never publishes a bad number', () => {
 
   it('an added capacitor larger than the whole shunt capacitance (C0 of the part alone would be negative): no negative C0, an error', () => {
     const z = synthSweep(X1, linGrid(FS - 20 * BW, FP + 20 * BW, 2001), { noiseDb: -80, seed: 6 });
-    const s = run([{ z, ref: { addedCapacitance: 10e-12, addedConnection: 'parallel' } }]);
+    const s = run([{ z, ref: { addedCapacitanceF: 10e-12, addedConnection: 'parallel' } }]);
     // the part alone has C0 = 3 pF − 10 pF < 0: the record's addedCapacitance cannot be right, and
     // no C0 may be published as if it were measured
     const w = warningMatching(s, /negative|added ?capacit/i);

@@ -117,7 +117,7 @@ export function makeFixturePart(spec: FixturePartSpec): { loaded: LoadedPart; re
       sample: `S${i + 1}`,
       c0F: model.c0F,
       modes,
-      mainMode: mainMode(modes, { frequency: spec.datasheet?.frequency, overtone: spec.datasheet?.overtone }),
+      mainMode: mainMode(modes, { frequencyHz: spec.datasheet?.frequencyHz, overtone: spec.datasheet?.overtone }),
       referenceSweeps: part.samples[i].sweeps.map((s) => s.file),
       warnings: [],
       model,
@@ -156,11 +156,11 @@ export const DEMO_CIRCUIT: OscillatorCircuit = {
 export function fixtureCatalogue(): FixturePartSpec[] {
   const at = (fs: number, c1: number, r1: number, c0: number): BvdModel => ({ c0F: c0, branches: [{ fsHz: fs, r1Ohm: r1, c1F: c1 }] });
   return [
-    { id: 'XT-0001', title: '16 MHz reference resonator', kind: 'quartz-at', package: '3225', supplier: 'Example Crystals', notes: 'Reference part **X1**. See [the guide](https://example.invalid/guide).', datasheet: { frequency: 15.92e6, tolerance: 20, loadCapacitance: 8e-12, esrMax: 60, c0Max: 5e-12, overtone: 1 }, samples: [X1, { ...X1, branches: [{ ...X1.branches[0], r1Ohm: 22, fsHz: X1.branches[0].fsHz * (1 + 3e-6) }] }] },
-    { id: 'XT-0002', title: '12 MHz crystal, HC-49/S', kind: 'quartz-at', package: 'HC-49/S', supplier: 'Sample Quartz Works', datasheet: { frequency: 12e6, tolerance: 30, loadCapacitance: 18e-12, esrMax: 50 }, samples: [at(11.9985e6, 14e-15, 28, 4.2e-12)] },
-    { id: 'XT-0003', title: '12 MHz crystal, 2520 SMD <b>bold</b>', kind: 'quartz-at', package: '2520', supplier: 'Example Crystals', notes: '<script>alert(1)</script> second source', datasheet: { frequency: 12e6, tolerance: 10, loadCapacitance: 8e-12, esrMax: 60 }, samples: [at(11.9982e6, 6e-15, 45, 1.8e-12)] },
-    { id: 'XT-0004', title: '25 MHz crystal, 2016 SMD', kind: 'quartz-at', package: '2016', supplier: 'Sample Quartz Works', datasheet: { frequency: 25e6, tolerance: 10, loadCapacitance: 10e-12, esrMax: 40 }, samples: [at(24.9975e6, 4e-15, 55, 1.5e-12)] },
-    { id: 'XT-0005', title: '32.768 kHz tuning fork', kind: 'quartz-tuning-fork', package: '3215', supplier: 'Example Crystals', datasheet: { frequency: 32768, tolerance: 20, loadCapacitance: 12.5e-12, esrMax: 70e3 }, samples: [{ c0F: 1.2e-12, branches: [{ fsHz: 32764.4, r1Ohm: 35e3, c1F: 3e-15 }] }] },
-    { id: 'XT-0006', title: '4 MHz ceramic resonator', kind: 'ceramic', package: '3-pin', supplier: 'Sample Ceramics', datasheet: { frequency: 4e6 }, samples: [{ c0F: 20.6e-12, branches: [{ fsHz: 4.005879e6, r1Ohm: 8, c1F: 4.1e-12 }] }] },
+    { id: 'XT-0001', title: '16 MHz reference resonator', kind: 'quartz-at', package: '3225', supplier: 'Example Crystals', notes: 'Reference part **X1**. See [the guide](https://example.invalid/guide).', datasheet: { frequencyHz: 15.92e6, tolerancePpm: 20, loadCapacitanceF: 8e-12, esrMaxOhm: 60, c0MaxF: 5e-12, overtone: 1 }, samples: [X1, { ...X1, branches: [{ ...X1.branches[0], r1Ohm: 22, fsHz: X1.branches[0].fsHz * (1 + 3e-6) }] }] },
+    { id: 'XT-0002', title: '12 MHz crystal, HC-49/S', kind: 'quartz-at', package: 'HC-49/S', supplier: 'Sample Quartz Works', datasheet: { frequencyHz: 12e6, tolerancePpm: 30, loadCapacitanceF: 18e-12, esrMaxOhm: 50 }, samples: [at(11.9985e6, 14e-15, 28, 4.2e-12)] },
+    { id: 'XT-0003', title: '12 MHz crystal, 2520 SMD <b>bold</b>', kind: 'quartz-at', package: '2520', supplier: 'Example Crystals', notes: '<script>alert(1)</script> second source', datasheet: { frequencyHz: 12e6, tolerancePpm: 10, loadCapacitanceF: 8e-12, esrMaxOhm: 60 }, samples: [at(11.9982e6, 6e-15, 45, 1.8e-12)] },
+    { id: 'XT-0004', title: '25 MHz crystal, 2016 SMD', kind: 'quartz-at', package: '2016', supplier: 'Sample Quartz Works', datasheet: { frequencyHz: 25e6, tolerancePpm: 10, loadCapacitanceF: 10e-12, esrMaxOhm: 40 }, samples: [at(24.9975e6, 4e-15, 55, 1.5e-12)] },
+    { id: 'XT-0005', title: '32.768 kHz tuning fork', kind: 'quartz-tuning-fork', package: '3215', supplier: 'Example Crystals', datasheet: { frequencyHz: 32768, tolerancePpm: 20, loadCapacitanceF: 12.5e-12, esrMaxOhm: 70e3 }, samples: [{ c0F: 1.2e-12, branches: [{ fsHz: 32764.4, r1Ohm: 35e3, c1F: 3e-15 }] }] },
+    { id: 'XT-0006', title: '4 MHz ceramic resonator', kind: 'ceramic', package: '3-pin', supplier: 'Sample Ceramics', datasheet: { frequencyHz: 4e6 }, samples: [{ c0F: 20.6e-12, branches: [{ fsHz: 4.005879e6, r1Ohm: 8, c1F: 4.1e-12 }] }] },
   ];
 }

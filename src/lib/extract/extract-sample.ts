@@ -73,15 +73,15 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
   const diagnostics: Diagnostic[] = [];
 
   // 1. Prepare and split.
-  const prepared = timed(timing, 'prepare', () => prepareSweeps(inputs, sample.temperature));
+  const prepared = timed(timing, 'prepare', () => prepareSweeps(inputs, sample.temperatureC));
   if (prepared.length === 0) {
     diagnostics.push({ code: 'other', severity: 'error', message: `sample ${sample.id}: no readable sweep with at least 3 points` });
     return noModes(sample.id, prepared, [], diagnostics);
   }
-  const split = referenceConditions(prepared, sample.temperature);
+  const split = referenceConditions(prepared, sample.temperatureC);
   const referenceSweeps = split.reference.map((s) => s.source);
   const empty = (c0F = 0) => noModes(sample.id, prepared, referenceSweeps, diagnostics, c0F);
-  const trustedMax = sample.instrumentMaxFrequency;
+  const trustedMax = sample.instrumentMaxFrequencyHz;
   for (const s of prepared) {
     const d = instrumentRangeDiagnostic(s.source, s.maxHz, trustedMax);
     if (d) diagnostics.push(d);
@@ -121,7 +121,7 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     const results = reportModes(kept, model, c0, unloadedNoisySweeps(split.reference, fits.jointNoise), part.kind, diagnostics);
 
     // 6. C0 cross-check, with the main mode's own estimates.
-    const mainPick = mainMode(results, { frequency: part.datasheet?.frequency, overtone: part.datasheet?.overtone });
+    const mainPick = mainMode(results, { frequencyHz: part.datasheet?.frequencyHz, overtone: part.datasheet?.overtone });
     const main = mainPick.index >= 0 ? kept[mainPick.index] : undefined;
     const c0CrossCheck = c0CrossCheckOf(c0, c0Est, main, diagnostics);
 

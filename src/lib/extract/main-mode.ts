@@ -20,7 +20,7 @@ export interface ModeLike {
 /** What the datasheet says, in SI (Datasheet satisfies it). */
 export interface MainModeHints {
   /** Nominal frequency, Hz. */
-  frequency?: number;
+  frequencyHz?: number;
   /** Intended overtone order. */
   overtone?: number;
 }
@@ -49,11 +49,11 @@ function strongest<T extends ModeLike>(modes: T[], keep: (m: T) => boolean): num
 /** Pick the main mode of a sample (see module doc for the rules). */
 export function mainMode<T extends ModeLike>(modes: T[], hints: MainModeHints = {}): MainModeResult {
   if (modes.length === 0) return { index: -1, rule: 'no modes' };
-  if (hints.frequency !== undefined && hints.frequency > 0) {
+  if (hints.frequencyHz !== undefined && hints.frequencyHz > 0) {
     let best = -1;
     let bestDist = Infinity;
     modes.forEach((m, i) => {
-      const dist = Math.abs(m.fsHz / hints.frequency! - 1);
+      const dist = Math.abs(m.fsHz / hints.frequencyHz! - 1);
       if (!m.spurious && dist < bestDist) {
         bestDist = dist;
         best = i;

@@ -57,7 +57,7 @@ export function prepareSweeps(inputs: ExtractSweepInput[], sampleTemperatureC?: 
   for (const s of inputs) {
     const z = s.impedance;
     if (!z || z.freqHz.length < 3) continue;
-    const addedCF = s.ref.addedCapacitance;
+    const addedCF = s.ref.addedCapacitanceF;
     const connection: AddedConnection = s.ref.addedConnection ?? 'parallel';
     const n = z.freqHz.length;
     const recorded = recordedOf(z);
@@ -71,8 +71,8 @@ export function prepareSweeps(inputs: ExtractSweepInput[], sampleTemperatureC?: 
       noise,
       sigmaZOhm: impedanceSigmaOhm(recorded, noise),
       part: { ...partAlone(z, addedCF, connection), source: s.ref.file },
-      temperatureC: s.ref.temperature ?? sampleTemperatureC,
-      driveW: s.ref.drive,
+      temperatureC: s.ref.temperatureC ?? sampleTemperatureC,
+      driveW: s.ref.driveW,
       addedCF,
       connection,
       loaded: addedCF !== undefined && addedCF > 0,

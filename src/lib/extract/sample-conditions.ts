@@ -36,7 +36,7 @@ export function addOtherConditions(result: SampleResult, split: ReferenceSplit, 
     if (lower || (same && p.pointsPerBandwidth > q.pointsPerBandwidth)) byTemp[i] = p;
   }
   if (byTemp.length >= 3) {
-    const t = fitTemperature(byTemp.map((p) => ({ temperatureC: p.temperatureC!, fsHz: p.fsHz })), part.kind, part.datasheet?.operatingRange);
+    const t = fitTemperature(byTemp.map((p) => ({ temperatureC: p.temperatureC!, fsHz: p.fsHz })), part.kind, part.datasheet?.operatingRangeC);
     if (t.ok) {
       result.temperature = t.fit;
       if (t.note) result.diagnostics.push({ code: 'other', severity: 'info', message: `temperature fit: ${t.note}` });

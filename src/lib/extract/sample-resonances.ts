@@ -28,7 +28,7 @@ export function findSweepResonances(prepared: PreparedSweep[], diagnostics: Diag
 /** The modes seen in the reference sweeps, labelled fundamental / overtone / spurious. */
 export function classifyReferenceModes(part: Part, split: ReferenceSplit, found: ResonancesBySweep, diagnostics: Diagnostic[]): ModeCandidate[] {
   const observations: Observation[] = split.reference.flatMap((s) => (found.get(s.index) ?? []).map((resonance) => ({ sweepIndex: s.index, source: s.source, resonance, loaded: s.loaded })));
-  const classified = classifyModes(observations, { kind: part.kind, datasheetFrequencyHz: part.datasheet?.frequency, datasheetOvertone: part.datasheet?.overtone });
+  const classified = classifyModes(observations, { kind: part.kind, datasheetFrequencyHz: part.datasheet?.frequencyHz, datasheetOvertone: part.datasheet?.overtone });
   diagnostics.push(...classified.diagnostics);
   return classified.modes;
 }

@@ -61,7 +61,7 @@ function fmt(x: number, digits = 4): string {
 export function frequencyAtDatasheetLoad(
   sample: Pick<SampleResult, 'c0F' | 'modes'>,
   main: number,
-  load: Datasheet['loadCapacitance'],
+  load: Datasheet['loadCapacitanceF'],
 ): { freqHz: number; basis: string } | { reason: string } {
   const mode = sample.modes[main];
   if (!mode) return { reason: 'no main mode' };
@@ -88,19 +88,19 @@ export function checkCompliance(sample: ComplianceSample, datasheet: Datasheet =
   const result: ComplianceResult = { sample: sample.sample, mainMode: main.index, mainModeRule: main.rule, items };
 
   // Frequency.
-  const f = mode ? frequencyAtDatasheetLoad(sample, main.index, datasheet.loadCapacitance) : { reason: 'no main mode' };
+  const f = mode ? frequencyAtDatasheetLoad(sample, main.index, datasheet.loadCapacitanceF) : { reason: 'no main mode' };
   if ('freqHz' in f) {
     result.frequencyHz = f.freqHz;
     result.frequencyBasis = f.basis;
   }
-  if (!('freqHz' in f) || datasheet.frequency === undefined) {
+  if (!('freqHz' in f) || datasheet.frequencyHz === undefined) {
     const why = !('freqHz' in f) ? f.reason : 'no datasheet frequency';
     items.push({ check: 'frequency', unit: 'ppm', verdict: 'unknown', reason: why });
   } else {
-    const offset = (f.freqHz / datasheet.frequency - 1) * 1e6;
-    const tol = datasheet.tolerance;
+    const offset = (f.freqHz / datasheet.frequencyHz - 1) * 1e6;
+    const tol = datasheet.tolerancePpm;
     const temp = sample.temperatureC !== undefined && Math.abs(sample.temperatureC - 25) > 5 ? `; measured at ${fmt(sample.temperatureC, 3)} °C, the tolerance holds at 25 °C` : '';
-    const what = `${f.basis}: ${fmt(f.freqHz, 12)} Hz, ${offset >= 0 ? '+' : ''}${offset.toFixed(3)} ppm from nominal ${fmt(datasheet.frequency, 12)} Hz`;
+    const what = `${f.basis}: ${fmt(f.freqHz, 12)} Hz, ${offset >= 0 ? '+' : ''}${offset.toFixed(3)} ppm from nominal ${fmt(datasheet.frequencyHz, 12)} Hz`;
     if (tol === undefined) {
       items.push({ check: 'frequency', value: offset, unit: 'ppm', verdict: 'unknown', reason: `${what}; no datasheet tolerance${temp}` });
     } else {
@@ -119,11 +119,11 @@ export function checkCompliance(sample: ComplianceSample, datasheet: Datasheet =
     const useRr = mode.rrOhm !== undefined;
     const value = useRr ? mode.rrOhm! : mode.r1Ohm;
     const which = useRr ? 'resistance at fr (Rr)' : `R1 (Rr not available; they differ by about 1/M² = ${fmt(100 / (mode.m * mode.m), 2)} %)`;
-    items.push(limitItem('esr', value, datasheet.esrMax, 'ohm', `${which} ${fmt(value)} Ω`, 'esrMax'));
+    items.push(limitItem('esr', value, datasheet.esrMaxOhm, 'ohm', `${which} ${fmt(value)} Ω`, 'esrMax'));
   }
 
   // C0.
-  items.push(limitItem('c0', sample.c0F, datasheet.c0Max, 'F', `C0 ${fmt(sample.c0F * 1e12)} pF`, 'c0Max'));
+  items.push(limitItem('c0', sample.c0F, datasheet.c0MaxF, 'F', `C0 ${fmt(sample.c0F * 1e12)} pF`, 'c0Max'));
 
   // Overtone.
   if (!mode) items.push({ check: 'overtone', unit: '', verdict: 'unknown', reason: 'no main mode' });

@@ -113,7 +113,7 @@ export function lotStatistics(samples: Array<Pick<SampleResult, 'sample' | 'c0F'
     push('l1H', m.l1H);
     push('c0F', s.c0F);
     push('q', m.q);
-    const f = frequencyAtDatasheetLoad(s, main.index, datasheet.loadCapacitance);
+    const f = frequencyAtDatasheetLoad(s, main.index, datasheet.loadCapacitanceF);
     if ('freqHz' in f) {
       push('loadFreqHz', f.freqHz);
       loadBasis ??= f.basis.replace(/ \(.*\)$/, '');

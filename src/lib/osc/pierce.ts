@@ -168,7 +168,7 @@ function evaluatePair(input: PierceAdviceInput, targetHz: number, swingVpp: numb
   const rl = br.r1Ohm * (1 + c0Eff / nominal.cs) ** 2;
   const gmCrit = criticalGmS(br.r1Ohm, c0Eff, nominal.ca, nominal.cb, freqHz);
   const gainMargin = circuit.gm / gmCrit;
-  const esrMax = datasheet?.esrMax;
+  const esrMax = datasheet?.esrMaxOhm;
   const gmCritDs = esrMax !== undefined ? criticalGmS(esrMax, c0Eff, nominal.ca, nominal.cb, freqHz) : undefined;
   const marginDs = gmCritDs !== undefined ? circuit.gm / gmCritDs : undefined;
   const rneg = negativeResistanceOhm(circuit.gm, nominal.ca, nominal.cb, freqHz);
@@ -192,10 +192,10 @@ function evaluatePair(input: PierceAdviceInput, targetHz: number, swingVpp: numb
     negativeResistanceOhm: rneg,
     driveW,
     checks: {
-      frequency: frequencyCheck(offsetPpm, min, max, datasheet?.tolerance, circuit),
+      frequency: frequencyCheck(offsetPpm, min, max, datasheet?.tolerancePpm, circuit),
       gainMargin: gainCheck(gainMargin, marginDs),
       negativeResistance: negativeResistanceCheck(rneg, rl, br.r1Ohm),
-      drive: driveCheck(driveW, datasheet?.driveMax, circuit.maxDrive),
+      drive: driveCheck(driveW, datasheet?.driveMaxW, circuit.maxDrive),
     },
   };
 }
@@ -262,17 +262,17 @@ export function advisePierce(input: PierceAdviceInput): PierceAdvice {
   const fail = (reason: string, target?: PierceTarget): PierceAdvice => ({ ...base, ok: false, reason, target });
   if (!br) return fail('no main mode in the extracted model');
 
-  const dsLoad = typeof datasheet?.loadCapacitance === 'number' ? datasheet.loadCapacitance : undefined;
+  const dsLoad = typeof datasheet?.loadCapacitanceF === 'number' ? datasheet.loadCapacitanceF : undefined;
   const givenLoad = input.targetLoadF ?? dsLoad;
   let targetHz: number;
   let targetBasis: PierceTarget['targetBasis'];
   let idealLoadF: number;
-  if (datasheet?.frequency !== undefined) {
-    targetHz = datasheet.frequency;
+  if (datasheet?.frequencyHz !== undefined) {
+    targetHz = datasheet.frequencyHz;
     targetBasis = 'datasheet frequency';
     const cl = loadCapacitanceForHz(br, model.c0F, targetHz);
     if (!cl.ok) {
-      const why = datasheet.loadCapacitance === 'series' ? 'the datasheet calibrates this part at series resonance, which a Pierce circuit never reaches; order the part for a load capacitance' : cl.reason;
+      const why = datasheet.loadCapacitanceF === 'series' ? 'the datasheet calibrates this part at series resonance, which a Pierce circuit never reaches; order the part for a load capacitance' : cl.reason;
       return fail(`this sample cannot reach the datasheet frequency in a Pierce circuit: ${why}`);
     }
     idealLoadF = cl.clF;
@@ -283,7 +283,7 @@ export function advisePierce(input: PierceAdviceInput): PierceAdvice {
   } else {
     return fail('no datasheet frequency or load capacitance: give a target load capacitance');
   }
-  if (datasheet?.frequency === undefined) {
+  if (datasheet?.frequencyHz === undefined) {
     assumptions.push('no datasheet frequency: offsets are from the sample\'s own frequency at the load capacitance, so they measure only the error in CL');
   }
 

@@ -16,7 +16,6 @@ import type { RecordInput, RecordSweep } from './record-input.ts';
 import {
   PART_DATA_VERSION,
   type ComplianceState,
-  type DatasheetData,
   type DownloadEntry,
   type PartData,
   type PartSummary,
@@ -45,7 +44,7 @@ export function byteLength(content: string | Uint8Array): number {
 export function makePartData(loaded: RecordInput, result: PartResult, circuits: OscillatorCircuit[], options: MakePartDataOptions = {}): PartData {
   const part = loaded.part;
   if (!part) throw new Error(`makePartData: ${loaded.yamlFile} has no valid record`);
-  const datasheet = datasheetData(part);
+  const datasheet = part.datasheet;
   const samples = part.samples.map((sample, i) => {
     const res = result.samples.find((s) => s.sample === sample.id);
     return sampleData(sample, res, loaded.sweeps.filter((s) => s.sampleId === sample.id), part, datasheet, i < MAX_DETAILED_SAMPLES, options);
@@ -83,7 +82,7 @@ export function mainOf(sample: SampleResult): { mode: ModeResult; index: number 
   return index >= 0 ? { mode: sample.modes[index], index } : undefined;
 }
 
-function summaryOf(sample: SampleResult, main: { mode: ModeResult }, ds: DatasheetData | undefined, state: ComplianceState): PartSummary {
+function summaryOf(sample: SampleResult, main: { mode: ModeResult }, ds: Datasheet | undefined, state: ComplianceState): PartSummary {
   const m = main.mode;
   return {
     fsHz: m.fsHz,
@@ -100,26 +99,10 @@ function summaryOf(sample: SampleResult, main: { mode: ModeResult }, ds: Datashe
 }
 
 /** Load capacitance that brings the main mode to the datasheet frequency (lossless form), F. */
-function clForNominal(m: ModeResult, c0F: number, ds: DatasheetData | undefined): number | undefined {
+function clForNominal(m: ModeResult, c0F: number, ds: Datasheet | undefined): number | undefined {
   if (!ds?.frequencyHz) return undefined;
   const solved = loadCapacitanceForHz({ fsHz: m.fsHz, r1Ohm: m.r1Ohm, c1F: m.c1F }, c0F, ds.frequencyHz);
   return solved.ok ? solved.clF : undefined;
-}
-
-function datasheetData(part: Part): DatasheetData | undefined {
-  const d = part.datasheet;
-  if (!d) return undefined;
-  return {
-    frequencyHz: d.frequency,
-    tolerancePpm: d.tolerance,
-    stabilityPpm: d.stability,
-    loadCapacitanceF: d.loadCapacitance,
-    esrMaxOhm: d.esrMax,
-    c0MaxF: d.c0Max,
-    driveMaxW: d.driveMax,
-    overtone: d.overtone,
-    operatingRangeC: d.operatingRange,
-  };
 }
 
 function provenanceOf(sample: Sample, sweeps: RecordSweep[], options: MakePartDataOptions): SampleProvenance {
@@ -128,10 +111,10 @@ function provenanceOf(sample: Sample, sweeps: RecordSweep[], options: MakePartDa
     by: sample.by,
     measured: sample.measured,
     instrument: sample.instrument,
-    instrumentMaxFrequencyHz: sample.instrumentMaxFrequency,
-    temperatureC: sample.temperature,
+    instrumentMaxFrequencyHz: sample.instrumentMaxFrequencyHz,
+    temperatureC: sample.temperatureC,
     compensation: sample.compensation
-      ? { open: sample.compensation.open, short: sample.compensation.short, load: sample.compensation.load, loadResistanceOhm: sample.compensation.loadResistance, fixture: sample.compensation.fixture }
+      ? { open: sample.compensation.open, short: sample.compensation.short, load: sample.compensation.load, loadResistanceOhm: sample.compensation.loadResistanceOhm, fixture: sample.compensation.fixture }
       : undefined,
     sweeps: sample.sweeps.map((ref, i) => {
       const loaded = sweeps.find((s) => s.index === i);
@@ -139,11 +122,11 @@ function provenanceOf(sample: Sample, sweeps: RecordSweep[], options: MakePartDa
       return {
         file: ref.file,
         fixture: ref.fixture,
-        referenceImpedanceOhm: ref.referenceImpedance ?? loaded?.network?.z0Ohm[0],
-        addedCapacitanceF: ref.addedCapacitance,
-        addedConnection: ref.addedCapacitance !== undefined ? (ref.addedConnection ?? 'parallel') : undefined,
-        temperatureC: ref.temperature ?? sample.temperature,
-        driveW: ref.drive,
+        referenceImpedanceOhm: ref.referenceImpedanceOhm ?? loaded?.network?.z0Ohm[0],
+        addedCapacitanceF: ref.addedCapacitanceF,
+        addedConnection: ref.addedCapacitanceF !== undefined ? (ref.addedConnection ?? 'parallel') : undefined,
+        temperatureC: ref.temperatureC ?? sample.temperatureC,
+        driveW: ref.driveW,
         points: f?.length,
         startHz: f && f.length ? f[0] : undefined,
         stopHz: f && f.length ? f[f.length - 1] : undefined,
@@ -158,7 +141,7 @@ function downloadBytes(options: MakePartDataOptions, file: string): number {
   return d ? byteLength(d.content) : 0;
 }
 
-function sampleData(sample: Sample, res: SampleResult | undefined, sweeps: RecordSweep[], part: Part, ds: DatasheetData | undefined, detailed: boolean, options: MakePartDataOptions): SampleData {
+function sampleData(sample: Sample, res: SampleResult | undefined, sweeps: RecordSweep[], part: Part, ds: Datasheet | undefined, detailed: boolean, options: MakePartDataOptions): SampleData {
   const provenance = provenanceOf(sample, sweeps, options);
   if (!res) {
     return { id: sample.id, provenance, ok: false, modes: [], warnings: ['no extraction result for this sample'], diagnostics: [], otherConditions: [], plots: { modes: [] } };

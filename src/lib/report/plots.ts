@@ -9,7 +9,8 @@ import { modeLabel } from '../models/mode-label.ts';
 import { loadFrequencyHz } from '../osc/load.ts';
 import { decimateCurve, roundSig } from './decimate.ts';
 import type { RecordSweep } from './record-input.ts';
-import type { Curve, DatasheetData, ModePlot, PullingPlot, TemperaturePlot, WidePlot } from './types.ts';
+import type { Curve, ModePlot, PullingPlot, TemperaturePlot, WidePlot } from './types.ts';
+import type { Datasheet } from '../schema/part.ts';
 
 /** At most this many mode plots per sample (main modes first, then spurious by strength). */
 export const MAX_MODE_PLOTS_PER_SAMPLE = 4;
@@ -26,7 +27,7 @@ export function baseName(path: string): string {
  * `referenceSweeps`): what the model describes; all sweeps with nothing added when none is.
  */
 function plotSweeps(res: SampleResult, sweeps: RecordSweep[]): RecordSweep[] {
-  const usable = sweeps.filter((s) => s.impedance && s.impedance.freqHz.length > 1 && s.ref.addedCapacitance === undefined);
+  const usable = sweeps.filter((s) => s.impedance && s.impedance.freqHz.length > 1 && s.ref.addedCapacitanceF === undefined);
   const atRef = usable.filter((s) => res.referenceSweeps.includes(s.ref.file));
   return atRef.length ? atRef : usable;
 }
@@ -172,7 +173,7 @@ export function pullingRange(clF: number | undefined): [number, number] {
   return [Math.max(1e-12, clF / 3), Math.min(100e-12, clF * 3)];
 }
 
-export function pullingPlot(res: SampleResult, m: ModeResult, ds: DatasheetData | undefined): PullingPlot | undefined {
+export function pullingPlot(res: SampleResult, m: ModeResult, ds: Datasheet | undefined): PullingPlot | undefined {
   const branch: MotionalBranch = { fsHz: m.fsHz, r1Ohm: m.r1Ohm, c1F: m.c1F };
   const clDs = typeof ds?.loadCapacitanceF === 'number' ? ds.loadCapacitanceF : undefined;
   const [lo, hi] = pullingRange(clDs);

@@ -127,19 +127,6 @@ export interface SampleData extends SampleResultAlways, Partial<Omit<SampleResul
   };
 }
 
-/** Datasheet promises in SI units (what the record states). */
-export interface DatasheetData {
-  frequencyHz?: number;
-  tolerancePpm?: number;
-  stabilityPpm?: number;
-  loadCapacitanceF?: number | 'series';
-  esrMaxOhm?: number;
-  c0MaxF?: number;
-  driveMaxW?: number;
-  overtone?: number;
-  operatingRangeC?: { min: number; max: number };
-}
-
 /** Summary of the part: the first sample's main mode. */
 export interface PartSummary {
   fsHz?: number;
@@ -187,7 +174,7 @@ export interface PartData {
   /** Raw Markdown as written; the page renders it through src/site/markdown.ts. */
   notes?: string;
   synthetic: boolean;
-  datasheet?: DatasheetData;
+  datasheet?: Datasheet;
   summary: PartSummary;
   /** Datasheet compliance per sample (empty without a datasheet). */
   compliance: ComplianceResult[];
@@ -230,7 +217,7 @@ export interface CompareData {
   title: string;
   kind: PartKind;
   summary: PartSummary;
-  datasheet?: DatasheetData;
+  datasheet?: Datasheet;
   mode?: ModePlot;
   pulling?: PullingPlot;
 }

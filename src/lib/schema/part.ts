@@ -1,9 +1,10 @@
 /**
  * The part record (`part.yaml`, README: The part record) as a zod 4 schema.
  *
- * Keys are exactly the record's keys. Quantities are written as strings with units in the
- * record (`12 MHz`) and come out of the schema as numbers in SI base units:
- * Hz, F, Ω, W, °C, ppm (plain number of ppm). Types are derived from the schema.
+ * Input keys are exactly the record's keys. Quantities are written as strings with units in the
+ * record (`12 MHz`) and come out of the schema as numbers in SI base units under names that carry
+ * the unit (`frequency: 12 MHz` → `frequencyHz: 12e6`; Hz, F, Ω, W, °C, ppm): one name per number
+ * from here to the page. Types are derived from the schema's output.
  */
 import { z } from 'zod';
 import { parseQuantity, parseQuantityRange, type UnitKind } from '../units/si.ts';
@@ -51,7 +52,7 @@ export const FIXTURES = ['reflection', 'series-thru', 'shunt-thru', 'impedance']
 
 const freeText = (max: number) => z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(z.string().max(max, `expected at most ${max} characters`));
 
-export const DatasheetSchema = z.object({
+const DatasheetInput = z.object({
   /** Nominal frequency, Hz. */
   frequency: quantity('frequency', { positive: true }).optional(),
   /** Frequency tolerance at 25 °C and the stated load capacitance, ppm. */
@@ -72,7 +73,32 @@ export const DatasheetSchema = z.object({
   operatingRange: temperatureRange().optional(),
 });
 
-export const SweepRefSchema = z.object({
+/** Datasheet promises in SI units, names carrying the unit. */
+export interface Datasheet {
+  frequencyHz?: number;
+  tolerancePpm?: number;
+  stabilityPpm?: number;
+  loadCapacitanceF?: number | 'series';
+  esrMaxOhm?: number;
+  c0MaxF?: number;
+  driveMaxW?: number;
+  overtone?: number;
+  operatingRangeC?: { min: number; max: number };
+}
+
+export const DatasheetSchema = DatasheetInput.transform((d): Datasheet => ({
+  frequencyHz: d.frequency,
+  tolerancePpm: d.tolerance,
+  stabilityPpm: d.stability,
+  loadCapacitanceF: d.loadCapacitance,
+  esrMaxOhm: d.esrMax,
+  c0MaxF: d.c0Max,
+  driveMaxW: d.driveMax,
+  overtone: d.overtone,
+  operatingRangeC: d.operatingRange,
+}));
+
+const SweepRefInput = z.object({
   file: fileName,
   fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }),
   /** Reference impedance, Ω (Touchstone files carry their own). */
@@ -90,7 +116,28 @@ export const SweepRefSchema = z.object({
   }
 });
 
-export const CompensationSchema = z.object({
+/** One sweep of a sample, quantities in SI units under unit-carrying names. */
+export interface SweepRef {
+  file: string;
+  fixture: Fixture;
+  referenceImpedanceOhm?: number;
+  addedCapacitanceF?: number;
+  addedConnection?: 'parallel' | 'series';
+  temperatureC?: number;
+  driveW?: number;
+}
+
+export const SweepRefSchema = SweepRefInput.transform((s): SweepRef => ({
+  file: s.file,
+  fixture: s.fixture,
+  referenceImpedanceOhm: s.referenceImpedance,
+  addedCapacitanceF: s.addedCapacitance,
+  addedConnection: s.addedConnection,
+  temperatureC: s.temperature,
+  driveW: s.drive,
+}));
+
+const CompensationInput = z.object({
   open: fileName.optional(),
   short: fileName.optional(),
   /** Optional load standard sweep and its true impedance (open/short/load correction). */
@@ -107,6 +154,23 @@ export const CompensationSchema = z.object({
   }
 });
 
+/** Open/short(/load) compensation sweeps of a sample. */
+export interface Compensation {
+  open?: string;
+  short?: string;
+  load?: string;
+  loadResistanceOhm?: number;
+  fixture?: Fixture;
+}
+
+export const CompensationSchema = CompensationInput.transform((c): Compensation => ({
+  open: c.open,
+  short: c.short,
+  load: c.load,
+  loadResistanceOhm: c.loadResistance,
+  fixture: c.fixture,
+}));
+
 const isoDate = z.union([z.string(), z.date()]).transform((v, ctx) => {
   const text = v instanceof Date ? v.toISOString().slice(0, 10) : v;
   // Date.parse rolls 2026-02-30 over to March: require the date to survive a round trip.
@@ -118,7 +182,7 @@ const isoDate = z.union([z.string(), z.date()]).transform((v, ctx) => {
   return text;
 });
 
-export const SampleSchema = z.object({
+const SampleInput = z.object({
   id: idString('sample id'),
   lot: freeText(200).optional(),
   measured: isoDate.optional(),
@@ -131,6 +195,31 @@ export const SampleSchema = z.object({
   compensation: CompensationSchema.optional(),
   sweeps: z.array(SweepRefSchema).min(1, 'expected at least one sweep'),
 });
+
+/** One measured sample: its conditions and sweeps. */
+export interface Sample {
+  id: string;
+  lot?: string;
+  measured?: string;
+  by?: string;
+  instrument?: string;
+  instrumentMaxFrequencyHz?: number;
+  temperatureC?: number;
+  compensation?: Compensation;
+  sweeps: SweepRef[];
+}
+
+export const SampleSchema = SampleInput.transform((s): Sample => ({
+  id: s.id,
+  lot: s.lot,
+  measured: s.measured,
+  by: s.by,
+  instrument: s.instrument,
+  instrumentMaxFrequencyHz: s.instrumentMaxFrequency,
+  temperatureC: s.temperature,
+  compensation: s.compensation,
+  sweeps: s.sweeps,
+}));
 
 export const PartSchema = z.object({
   id: idString('part id'),
@@ -153,17 +242,14 @@ export const PartSchema = z.object({
 });
 
 export type Part = z.output<typeof PartSchema>;
-export type Sample = z.output<typeof SampleSchema>;
-export type SweepRef = z.output<typeof SweepRefSchema>;
-export type Datasheet = z.output<typeof DatasheetSchema>;
 export type PartKind = (typeof PART_KINDS)[number];
 export type Fixture = (typeof FIXTURES)[number];
 
 /** Keys the schema knows, per object level, for unknown-key warnings. */
 export const KNOWN_KEYS = {
   part: ['id', 'title', 'kind', 'package', 'supplier', 'supplierPart', 'notes', 'synthetic', 'datasheet', 'samples'],
-  datasheet: Object.keys(DatasheetSchema.shape),
-  sample: Object.keys(SampleSchema.shape),
-  sweep: ['file', 'fixture', 'referenceImpedance', 'addedCapacitance', 'addedConnection', 'temperature', 'drive'],
-  compensation: ['open', 'short', 'load', 'loadResistance', 'fixture'],
+  datasheet: Object.keys(DatasheetInput.shape),
+  sample: Object.keys(SampleInput.shape),
+  sweep: Object.keys(SweepRefInput.shape),
+  compensation: Object.keys(CompensationInput.shape),
 } as const;

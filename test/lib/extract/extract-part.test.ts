@@ -41,7 +41,7 @@ interface Case {
   plans: SweepPlan[];
   noiseDb: number;
   kind?: PartKind;
-  datasheet?: { frequency: number; overtone: number };
+  datasheet?: { frequencyHz: number; overtone: number };
   /** [overtone, spurious] of the modes in order. */
   modes: Array<[number, boolean]>;
 }
@@ -96,7 +96,7 @@ function cases(): Case[] {
     const b1 = { fsHz: f1, r1Ohm: 10, c1F: 20e-15 };
     const b3 = { fsHz: f3, r1Ohm: 40, c1F: 2.222222e-15 };
     const [bw1, bw3] = [bandwidth(b1), bandwidth(b3)];
-    out.push({ name: 'third-overtone part at −70 dB', model: { c0F: 4e-12, branches: [b1, b3] }, noiseDb: -70, datasheet: { frequency: 30.084e6, overtone: 3 }, modes: [[1, false], [3, false]], plans: [
+    out.push({ name: 'third-overtone part at −70 dB', model: { c0F: 4e-12, branches: [b1, b3] }, noiseDb: -70, datasheet: { frequencyHz: 30.084e6, overtone: 3 }, modes: [[1, false], [3, false]], plans: [
       { file: 'n1.s1p', freqHz: linGrid(f1 - 6 * bw1, f1 + 6 * bw1, 801) },
       { file: 'w1.s1p', freqHz: linGrid(0.99 * f1, 1.01 * f1, 2001) },
       { file: 'n3.s1p', freqHz: linGrid(f3 - 6 * bw3, f3 + 6 * bw3, 1601) },
@@ -261,7 +261,7 @@ describe('extractPart diagnostics', () => {
     // parallel: the part alone would have C0 = 3 − 10 = −7 pF (parallel C adds, derived from the circuit)
     const model: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS_X1, r1Ohm: 20, c1F: 10e-15 }] };
     const { part, inputs } = syntheticPart(model, [{ file: 'x1.s1p', freqHz: linGrid(0.9995 * FS_X1, 1.0025 * FS_X1, 2001) }], { noiseDb: -80, seed: 6 });
-    inputs[0].ref.addedCapacitance = 10e-12;
+    inputs[0].ref.addedCapacitanceF = 10e-12;
     inputs[0].ref.addedConnection = 'parallel';
     const result = extractPart(part, inputs);
     const s = result.samples[0];
@@ -298,7 +298,7 @@ describe('extractPart diagnostics', () => {
       ...[-40, -10, 60, 85].map((t) => ({ file: `t${t}.csv`, freqHz: grid(t), temperatureC: t, driveW: 0.05e-6, model: at(t) })),
       { file: 'd1.csv', freqHz: grid(25), temperatureC: 25, driveW: 1e-6, model: at(25, 30e3) },
     ];
-    const { part, inputs } = syntheticPart(base, plans, { noiseDb: -70, seed: 8, kind: 'quartz-tuning-fork', datasheet: { frequency: 32768 } });
+    const { part, inputs } = syntheticPart(base, plans, { noiseDb: -70, seed: 8, kind: 'quartz-tuning-fork', datasheet: { frequencyHz: 32768 } });
     const s = extractPart(part, inputs).samples[0];
     expect(s.temperatureC).toBe(25);
     expect(s.driveW).toBe(0.05e-6);

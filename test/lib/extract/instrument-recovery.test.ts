@@ -139,11 +139,11 @@ describe('recovery from bench-like sweeps', () => {
     runs.forEach((run, i) => {
       const f0 = run.model.branches[0].fsHz;
       const s = synthesizeSweep({ model: run.model, grid: { kind: 'linear', startHz: f0 - 3000, stopHz: f0 + 24000, points: 2001 }, fixture: 'reflection', z0Ohm: 50, floorDb: -75, traceNoise: 1e-4, seed: 400 + i, source: run.file });
-      const ref: SweepRef = { file: run.file, fixture: 'reflection', temperature: run.t, drive: run.d };
+      const ref: SweepRef = { file: run.file, fixture: 'reflection', temperatureC: run.t, driveW: run.d };
       refs.push(ref);
       inputs.push({ sampleId: 'A', ref, file: run.file, impedance: networkToImpedance(s.network, 'reflection', run.file) });
     });
-    const part: Part = { id: 'TEMP-1', title: 'temperature run', kind: 'quartz-at', samples: [{ id: 'A', sweeps: refs, temperature: 25 }] };
+    const part: Part = { id: 'TEMP-1', title: 'temperature run', kind: 'quartz-at', samples: [{ id: 'A', sweeps: refs, temperatureC: 25 }] };
     const r = extractPart(part, inputs).samples[0];
     expect(r.temperature, r.warnings.join('; ')).toBeDefined();
     for (const p of r.temperature!.points) expect(Math.abs(p.fsHz / base.fsHz - 1 - offset(p.temperatureC)) * 1e6).toBeLessThan(0.05);

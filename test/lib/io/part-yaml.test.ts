@@ -77,13 +77,13 @@ describe('parsePartYaml: valid records', () => {
     expect(r.issues).toEqual([]);
     const part = r.part!;
     expect(part.id).toBe('XO-0012');
-    expect(part.datasheet?.frequency).toBe(12e6);
-    expect(part.datasheet?.loadCapacitance).toBe(8e-12);
-    expect(part.datasheet?.driveMax).toBe(1e-4);
-    expect(part.datasheet?.operatingRange).toEqual({ min: -40, max: 85 });
+    expect(part.datasheet?.frequencyHz).toBe(12e6);
+    expect(part.datasheet?.loadCapacitanceF).toBe(8e-12);
+    expect(part.datasheet?.driveMaxW).toBe(1e-4);
+    expect(part.datasheet?.operatingRangeC).toEqual({ min: -40, max: 85 });
     expect(part.samples[0].measured).toBe('2026-05-02');
-    expect(part.samples[0].sweeps[1]).toMatchObject({ file: 'a1-narrow-cl10.s2p', addedCapacitance: 1e-11, addedConnection: 'parallel' });
-    expect(part.samples[0].sweeps[2].drive).toBe(1e-5);
+    expect(part.samples[0].sweeps[1]).toMatchObject({ file: 'a1-narrow-cl10.s2p', addedCapacitanceF: 1e-11, addedConnection: 'parallel' });
+    expect(part.samples[0].sweeps[2].driveW).toBe(1e-5);
   });
 
   it('keeps text fields as written even when they look like numbers', () => {

@@ -46,7 +46,7 @@ describe('lot statistics', () => {
   });
 
   it('includes the frequency at the datasheet load capacitance (mpmath check value: 15 922 728.295 Hz at 8 pF)', () => {
-    const s = lotStatistics(lot([20, 20, 20]), { loadCapacitance: 8e-12 });
+    const s = lotStatistics(lot([20, 20, 20]), { loadCapacitanceF: 8e-12 });
     const f = s.parameters.find((p) => p.parameter === 'loadFreqHz')!;
     expect(f.median).toBeCloseTo(15922728.295, 3);
     expect(s.loadBasis).toBe('load resonance with R1 at CL 8 pF');

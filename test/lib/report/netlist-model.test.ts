@@ -29,7 +29,7 @@ describe('modelFromResult', () => {
     expect(m.mainRule).toBe('recorded');
   });
   it('keeps only the main mode, or drops spurious modes, when asked', () => {
-    expect(modelFromResult(ot3Sample('B1', { frequency: 100e6 }), { mainModeOnly: true }).model.branches).toEqual([OT3.branches[1]]);
+    expect(modelFromResult(ot3Sample('B1', { frequencyHz: 100e6 }), { mainModeOnly: true }).model.branches).toEqual([OT3.branches[1]]);
     expect(modelFromResult(ot3Sample(), { includeSpurious: false }).model.branches).toEqual(OT3.branches.slice(0, 2));
   });
 });
