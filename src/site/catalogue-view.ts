@@ -57,7 +57,7 @@ export function makeCatalogueView(entries: IndexEntry[], base: string): Catalogu
     stateLabel: STATE_LABEL[e.state],
     synthetic: !!e.synthetic,
   }));
-  const kinds = [...new Set(entries.map((e) => e.kind))].sort().map((k) => ({ value: k, label: KIND_LABEL[k] ?? k }));
+  const kinds = [...new Set(entries.map((e) => e.kind))].sort().map((k) => ({ value: k, label: KIND_LABEL[k] }));
   const packages = [...new Set(entries.map((e) => e.package).filter((p): p is string => !!p))].sort(ID_COLLATOR.compare);
   const overtones = [...new Set(entries.map((e) => e.overtone).filter((o): o is number => o !== undefined))].sort((a, b) => a - b);
   const states = (['pass', 'warnings', 'fail', 'unknown'] as const).map((s) => ({ value: s, label: STATE_LABEL[s] }));

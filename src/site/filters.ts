@@ -12,13 +12,10 @@
 import type { ComplianceState, IndexEntry } from './types.ts';
 import { SORT_KEYS, type SortKey } from './catalogue-columns.ts';
 import { ID_COLLATOR } from '../lib/report/index-order.ts';
+import { PREFIX_SCALE } from '../lib/units/si.ts';
 
 /** Relative half-width of the window a single value stands for (1 %). */
 export const SINGLE_VALUE_TOLERANCE = 0.01;
-
-const PREFIX: Record<string, number> = {
-  f: 1e-15, p: 1e-12, n: 1e-9, u: 1e-6, 'µ': 1e-6, 'μ': 1e-6, m: 1e-3, '': 1, k: 1e3, K: 1e3, M: 1e6, MEG: 1e6, meg: 1e6, G: 1e9,
-};
 
 /** Unit words a field accepts after the prefix (case-insensitive); the empty unit is always allowed. */
 export type FilterUnit = 'Hz' | 'F' | 'ohm';
@@ -47,11 +44,11 @@ export function parseEngValue(text: string, unit: FilterUnit): ParsedValue {
   const words = UNIT_WORDS[unit];
   // Try the longest prefix first so "MEG" wins over "M"; a bare unit ("F") wins over a prefix ("f").
   if (words.test(rest)) return { ok: true, value };
-  for (const p of ['MEG', 'meg', ...Object.keys(PREFIX)]) {
+  for (const p of ['MEG', 'meg', ...Object.keys(PREFIX_SCALE)]) {
     if (p === '' || !rest.startsWith(p)) continue;
     const after = rest.slice(p.length).trim();
     if (after === '' || words.test(after)) {
-      value *= PREFIX[p];
+      value *= PREFIX_SCALE[p.toUpperCase() === 'MEG' ? 'MEG' : p];
       return { ok: true, value };
     }
   }

@@ -3,6 +3,8 @@
  * build-time pages and the client scripts so both print the same text.
  */
 import { formatSi } from '../lib/units/si.ts';
+import { formatMeasured } from '../lib/units/measured.ts';
+import type { PartKind } from '../lib/schema/part.ts';
 import type { ComplianceState } from './types.ts';
 
 /** Significant digits shown per quantity (the displayed digits the browser tests compare). */
@@ -42,14 +44,12 @@ export function formatPpm(v: number | undefined, decimals = 2): string {
 }
 
 /**
- * A value with its standard uncertainty, digits chosen so the uncertainty shows two significant
- * digits: (24.8123, 0.05) → "24.812 Ω ± 50 mΩ".
+ * A value with its standard uncertainty in the GUM's concise form (one rule for pages, CLI text
+ * and CSV: src/lib/units/measured.ts): (24.8123, 0.05, 'Ω') → "24.812(50) Ω". Without an
+ * uncertainty the value alone with at least `minDigits` (and four) significant digits.
  */
 export function formatWithUncertainty(v: number | undefined, u: number | undefined, unit: string, minDigits = 3): string {
-  if (v === undefined || !Number.isFinite(v)) return '—';
-  if (u === undefined || !Number.isFinite(u) || u <= 0) return si(v, unit, Math.max(minDigits, 4));
-  const digits = Math.max(minDigits, Math.min(12, Math.floor(Math.log10(Math.abs(v))) - Math.floor(Math.log10(u)) + 2));
-  return `${si(v, unit, digits, true)} ± ${si(u, unit, 2)}`;
+  return formatMeasured(v, u, unit, { minus: '−', fallbackDigits: Math.max(minDigits, 4), prefixed: unit !== '' && unit !== 'ppm' && unit !== '°C' });
 }
 
 /** Words for the compliance states. */
@@ -68,7 +68,7 @@ export function formatBytes(n: number): string {
 }
 
 /** Kind names for display. */
-export const KIND_LABEL: Record<string, string> = {
+export const KIND_LABEL: Record<PartKind, string> = {
   'quartz-at': 'quartz, AT-cut',
   'quartz-tuning-fork': 'quartz tuning fork',
   ceramic: 'ceramic',

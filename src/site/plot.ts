@@ -6,6 +6,7 @@
  */
 import { line, scaleLinear, scaleLog, type ScaleContinuousNumeric } from 'd3';
 import type { Curve } from './types.ts';
+import { prefixFor as siPrefixFor } from '../lib/units/si.ts';
 
 export type SeriesStyle = 'measured' | 'model' | 'residual' | 'fit' | 'points' | 'c0' | 'c1' | 'c2' | 'c3';
 
@@ -108,13 +109,10 @@ const MARGIN = { left: 70, right: 18, top: 30, bottom: 44, gap: 14 };
 const DEFAULT_WIDTH = 720;
 const DEFAULT_HEIGHT = 380;
 
-const PREFIXES: Array<[number, string]> = [[1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''], [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'], [1e-18, 'a']];
-
-/** Engineering prefix for a magnitude: 1.2e7 → [1e6, 'M']. */
+/** Engineering prefix for a magnitude as [scale, symbol]: 1.2e7 → [1e6, 'M'] (the shared SI table). */
 export function prefixFor(abs: number): [number, string] {
-  if (!(abs > 0) || !Number.isFinite(abs)) return [1, ''];
-  for (const p of PREFIXES) if (abs >= p[0] * 0.999999) return p;
-  return PREFIXES[PREFIXES.length - 1];
+  const p = siPrefixFor(abs);
+  return [p.scale, p.symbol];
 }
 
 /** Decimals needed to tell ticks `step` apart when shown in units of `scale`. */

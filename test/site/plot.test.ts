@@ -47,9 +47,11 @@ describe('small formatters', () => {
     expect(siTickLabel(2.2e-12)).toBe('2.2p');
     expect(siTickLabel(1000)).toBe('1k');
   });
+  // GUM concise form, one unit per pair (JCGM 100:2008 §7.2.2; the rule is tested in test/lib/units/measured.test.ts).
   it('shows a value to the digits of its uncertainty', () => {
-    expect(formatWithUncertainty(24.8123, 0.05, 'Ω')).toBe('24.812 Ω ± 50 mΩ');
-    expect(formatWithUncertainty(15_915_494.309, 0.02, 'Hz', 9)).toBe('15.915494309 MHz ± 20 mHz');
+    expect(formatWithUncertainty(24.8123, 0.05, 'Ω')).toBe('24.812(50) Ω');
+    expect(formatWithUncertainty(15_915_494.309, 0.02, 'Hz', 9)).toBe('15.915494309(20) MHz');
+    expect(formatWithUncertainty(-1.5, 0.25, 'Ω')).toBe('−1.50(25) Ω');
   });
   it('parseCompareSelection reads ?parts=A,B and repeated parts, de-duplicated, at most four', () => {
     expect(parseCompareSelection(new URLSearchParams('parts=A,B'))).toEqual(['A', 'B']);
@@ -63,6 +65,6 @@ describe('si', () => {
   it('never prints an exponent inside an engineering-notation value', async () => {
     const { si, formatWithUncertainty: fwu } = await import('../../src/site/format.ts');
     expect(si(610e-6, 'Ω', 2)).toBe('610 µΩ');
-    expect(fwu(13.99809, 610e-6, 'Ω')).toBe('13.99809 Ω ± 610 µΩ');
+    expect(fwu(13.99809, 610e-6, 'Ω')).toBe('13.99809(61) Ω');
   });
 });

@@ -1,14 +1,21 @@
 /**
  * Readable text form of an extraction result (what `motional extract PART` prints without
  * --json): per sample, C0, one table row per mode, the cross-check verdicts, conditions and
- * warnings. Numbers with engineering prefixes; uncertainties as ± one standard uncertainty.
+ * warnings. Numbers with engineering prefixes; a value with its standard uncertainty in the
+ * GUM's concise form, both rounded together (src/lib/units/measured.ts): "25.79883(96) Ω".
  */
 import type { CrossCheck, ModeResult, PartResult, SampleResult } from './types.ts';
 import { formatSi } from '../units/si.ts';
+import { formatMeasured } from '../units/measured.ts';
 import { modeLabel } from '../models/mode-label.ts';
 
 function pm(value: number, u: number, unit: string, digits = 6): string {
-  return `${formatSi(value, unit, digits)} ± ${formatSi(u, unit, 2)}`;
+  return formatMeasured(value, u, unit, { fallbackDigits: digits });
+}
+
+/** A frequency in Hz (no prefix, so a column of them lines up) with its uncertainty. */
+function hzPm(value: number, u: number): string {
+  return formatMeasured(value, u, 'Hz', { prefixed: false, fallbackDigits: 12 });
 }
 
 function hz(value: number): string {
@@ -43,8 +50,8 @@ function sampleText(s: SampleResult): string[] {
       if (m.flagged) notes.push('FLAGGED: above instrument range');
       rows.push([
         `  ${modeLabel(m)}`,
-        `${hz(m.fsHz)} ± ${m.uncertainty.fsHz.toPrecision(2)}`,
-        `${hz(m.fpHz)} ± ${m.uncertainty.fpHz.toPrecision(2)}`,
+        hzPm(m.fsHz, m.uncertainty.fsHz),
+        hzPm(m.fpHz, m.uncertainty.fpHz),
         pm(m.r1Ohm, m.uncertainty.r1Ohm, 'Ω', 5),
         pm(m.l1H, m.uncertainty.l1H, 'H', 6),
         pm(m.c1F, m.uncertainty.c1F, 'F', 6),

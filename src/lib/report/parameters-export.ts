@@ -1,9 +1,12 @@
 /**
  * Extracted parameters for download: JSON (SI base units, unit-suffixed keys) and CSV (one row
- * per mode, header with units in parentheses, C0 repeated on every row). Numbers keep 15
- * significant digits; missing values are empty CSV cells and absent JSON keys, never NaN.
+ * per mode, header with units in parentheses, C0 repeated on every row). JSON numbers keep full
+ * precision; in the CSV a value with an uncertainty column is rounded with it by the GUM rule
+ * (src/lib/units/measured.ts), other numbers keep 15 significant digits. Missing values are
+ * empty CSV cells and absent JSON keys, never NaN.
  */
 import type { ModeResult, SampleResult } from '../extract/types.ts';
+import { measuredCells } from '../units/measured.ts';
 
 /** What the export needs of a sample (SampleResult satisfies it; a lot median can too). */
 export interface ExportSample {
@@ -20,28 +23,35 @@ export interface ExportInfo {
   date?: string;
 }
 
+type Mode = ExportSample['modes'][number];
+
+/** The CSV cells of a value and its uncertainty, rounded together; undefined when the value is absent. */
+function pair(v: number | undefined, u: number | undefined): [string, string] | undefined {
+  return v === undefined || !Number.isFinite(v) ? undefined : measuredCells(v, u);
+}
+
 /** CSV columns: header text and how to read the value. */
-const COLUMNS: Array<[string, (m: ExportSample['modes'][number], s: ExportSample) => number | string | boolean | undefined]> = [
+const COLUMNS: Array<[string, (m: Mode, s: ExportSample) => number | string | boolean | undefined]> = [
   ['mode', () => undefined],
   ['overtone', (m) => m.overtone],
   ['spurious', (m) => m.spurious],
-  ['fs (Hz)', (m) => m.fsHz],
+  ['fs (Hz)', (m) => pair(m.fsHz, m.uncertainty?.fsHz)?.[0]],
   ['fp (Hz)', (m) => m.fpHz],
   ['fr (Hz)', (m) => m.frHz],
   ['fa (Hz)', (m) => m.faHz],
-  ['R1 (ohm)', (m) => m.r1Ohm],
+  ['R1 (ohm)', (m) => pair(m.r1Ohm, m.uncertainty?.r1Ohm)?.[0]],
   ['Rr (ohm)', (m) => m.rrOhm],
-  ['L1 (H)', (m) => m.l1H],
-  ['C1 (F)', (m) => m.c1F],
-  ['C0 (F)', (_m, s) => s.c0F],
+  ['L1 (H)', (m) => pair(m.l1H, m.uncertainty?.l1H)?.[0]],
+  ['C1 (F)', (m) => pair(m.c1F, m.uncertainty?.c1F)?.[0]],
+  ['C0 (F)', (m, s) => pair(s.c0F, m.uncertainty?.c0F)?.[0]],
   ['Q', (m) => m.q],
   ['r = C0/C1', (m) => m.r],
   ['M = Q/r', (m) => m.m],
-  ['u(fs) (Hz)', (m) => m.uncertainty?.fsHz],
-  ['u(R1) (ohm)', (m) => m.uncertainty?.r1Ohm],
-  ['u(L1) (H)', (m) => m.uncertainty?.l1H],
-  ['u(C1) (F)', (m) => m.uncertainty?.c1F],
-  ['u(C0) (F)', (m) => m.uncertainty?.c0F],
+  ['u(fs) (Hz)', (m) => (m.uncertainty?.fsHz === undefined ? undefined : pair(m.fsHz, m.uncertainty.fsHz)?.[1])],
+  ['u(R1) (ohm)', (m) => (m.uncertainty?.r1Ohm === undefined ? undefined : pair(m.r1Ohm, m.uncertainty.r1Ohm)?.[1])],
+  ['u(L1) (H)', (m) => (m.uncertainty?.l1H === undefined ? undefined : pair(m.l1H, m.uncertainty.l1H)?.[1])],
+  ['u(C1) (F)', (m) => (m.uncertainty?.c1F === undefined ? undefined : pair(m.c1F, m.uncertainty.c1F)?.[1])],
+  ['u(C0) (F)', (m, s) => (m.uncertainty?.c0F === undefined ? undefined : pair(s.c0F, m.uncertainty.c0F)?.[1])],
   ['temperature (C)', (_m, s) => s.temperatureC],
   ['drive (W)', (_m, s) => s.driveW],
 ];

@@ -40,10 +40,42 @@ const UNITS: UnitDef[] = [
   { kind: 'ppm', symbols: ['ppm'], prefixed: false },
 ];
 
-const PREFIXES: Record<string, number> = {
-  a: 1e-18, f: 1e-15, p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, μ: 1e-6, m: 1e-3,
-  '': 1, k: 1e3, K: 1e3, M: 1e6, MEG: 1e6, G: 1e9, T: 1e12,
-};
+/** One SI prefix as printed: its multiplier and symbol. */
+export interface SiPrefix {
+  scale: number;
+  symbol: string;
+}
+
+/**
+ * The one SI prefix table of the project (BIPM SI Brochure, 9th ed., table 7), largest first:
+ * what the pages, plots and command line print, and (with {@link PREFIX_ALIASES}) what the
+ * record reader and the catalogue filters accept.
+ */
+export const SI_PREFIXES: readonly SiPrefix[] = [
+  { scale: 1e12, symbol: 'T' }, { scale: 1e9, symbol: 'G' }, { scale: 1e6, symbol: 'M' }, { scale: 1e3, symbol: 'k' },
+  { scale: 1, symbol: '' }, { scale: 1e-3, symbol: 'm' }, { scale: 1e-6, symbol: 'µ' }, { scale: 1e-9, symbol: 'n' },
+  { scale: 1e-12, symbol: 'p' }, { scale: 1e-15, symbol: 'f' }, { scale: 1e-18, symbol: 'a' },
+];
+
+/** Other spellings read as a prefix: u and Greek mu for micro, K for kilo, MEG (SPICE) for mega (common practice). */
+const PREFIX_ALIASES: Record<string, string> = { u: 'µ', μ: 'µ', K: 'k', MEG: 'M' };
+
+/** Every prefix spelling accepted when reading, with its multiplier. */
+export const PREFIX_SCALE: Readonly<Record<string, number>> = Object.freeze({
+  ...Object.fromEntries(SI_PREFIXES.map((p) => [p.symbol, p.scale])),
+  ...Object.fromEntries(Object.entries(PREFIX_ALIASES).map(([alias, symbol]) => [alias, SI_PREFIXES.find((p) => p.symbol === symbol)!.scale])),
+});
+
+/**
+ * The engineering prefix for a magnitude: 1.2e7 → M. `slack` lets a value a hair below a
+ * power of a thousand (999999.9999995) take the larger prefix.
+ */
+export function prefixFor(abs: number, slack = 1e-6): SiPrefix {
+  const unit = SI_PREFIXES[4];
+  if (!(abs > 0) || !Number.isFinite(abs)) return unit;
+  for (const p of SI_PREFIXES) if (abs >= p.scale * (1 - slack)) return p;
+  return SI_PREFIXES[SI_PREFIXES.length - 1];
+}
 
 /** What a unit kind is called in messages, with an example. */
 export const UNIT_HINT: Record<UnitKind, string> = {
@@ -73,7 +105,7 @@ function resolveUnit(token: string): { mult: number; def: UnitDef } | undefined 
       if (token === sym) return { mult: 1, def };
       if (!def.prefixed || !token.endsWith(sym)) continue;
       const prefix = token.slice(0, token.length - sym.length);
-      if (prefix in PREFIXES) return { mult: PREFIXES[prefix], def };
+      if (prefix in PREFIX_SCALE) return { mult: PREFIX_SCALE[prefix], def };
     }
   }
   // Case-insensitive fall-back for "OHM", "kOhm" and "mhz"-style spellings of unambiguous units.
@@ -81,7 +113,7 @@ function resolveUnit(token: string): { mult: number; def: UnitDef } | undefined 
   for (const [suffix, def] of [['ohms', UNITS[2]], ['ohm', UNITS[2]], ['hz', UNITS[0]]] as const) {
     if (!lower.endsWith(suffix)) continue;
     const prefix = token.slice(0, token.length - suffix.length);
-    const mult = PREFIXES[prefix] ?? (prefix === 'K' || prefix === 'k' ? 1e3 : prefix.toLowerCase() === 'meg' ? 1e6 : undefined);
+    const mult = PREFIX_SCALE[prefix] ?? (prefix === 'K' || prefix === 'k' ? 1e3 : prefix.toLowerCase() === 'meg' ? 1e6 : undefined);
     if (mult !== undefined) return { mult, def };
   }
   return undefined;
@@ -149,10 +181,6 @@ export function parseQuantityRange(text: string, expected: UnitKind): RangeResul
   return { ok: true, min: lo.value, max: hi.value };
 }
 
-const FORMAT_PREFIXES: Array<[number, string]> = [
-  [1e12, 'T'], [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''], [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'], [1e-18, 'a'],
-];
-
 /**
  * Format a value in engineering notation with `digits` significant digits: formatSi(1.2e7, 'Hz') → "12 MHz".
  * Trailing zeros are kept only when `fixed` is true.
@@ -160,17 +188,12 @@ const FORMAT_PREFIXES: Array<[number, string]> = [
 export function formatSi(value: number, unit: string, digits = 4, fixed = false): string {
   if (!Number.isFinite(value)) return `— ${unit}`;
   if (value === 0) return `0 ${unit}`;
-  const abs = Math.abs(value);
-  let [scale, prefix] = FORMAT_PREFIXES[FORMAT_PREFIXES.length - 1];
-  for (const [s, p] of FORMAT_PREFIXES) {
-    if (abs >= s * 0.9999999999) { scale = s; prefix = p; break; }
-  }
-  let mantissa = (value / scale).toPrecision(digits);
-  if (Math.abs(Number(mantissa)) >= 1000 && scale < 1e12) {
-    const idx = FORMAT_PREFIXES.findIndex(([s]) => s === scale);
-    [scale, prefix] = FORMAT_PREFIXES[idx - 1];
-    mantissa = (value / scale).toPrecision(digits);
+  let idx = SI_PREFIXES.indexOf(prefixFor(Math.abs(value), 1e-10));
+  let mantissa = (value / SI_PREFIXES[idx].scale).toPrecision(digits);
+  if (Math.abs(Number(mantissa)) >= 1000 && idx > 0) {
+    idx -= 1;
+    mantissa = (value / SI_PREFIXES[idx].scale).toPrecision(digits);
   }
   if (!fixed && mantissa.includes('.') && !mantissa.includes('e')) mantissa = mantissa.replace(/\.?0+$/, '');
-  return `${mantissa} ${prefix}${unit}`;
+  return `${mantissa} ${SI_PREFIXES[idx].symbol}${unit}`;
 }

@@ -14,10 +14,11 @@ describe('formatExtractText', () => {
     const lines = text.split('\n');
     expect(lines[0]).toBe('part SYN-1');
     expect(lines[2]).toBe('sample A');
-    expect(lines[3]).toMatch(/^ {2}C0 3(\.\d+)? pF ± [\d.]+ aF {3}\[c0F agree \(\d\)\]$/);
+    // Value and standard uncertainty in the GUM's concise form, one unit (JCGM 100:2008 §7.2.2).
+    expect(lines[3]).toMatch(/^ {2}C0 [23]\.\d+\(\d+(\.\d+)?\) pF {3}\[c0F agree \(\d\)\]$/);
     expect(lines[4]).toMatch(/^ {2}mode +fs +fp +R1 +L1 +C1 +Q +M +note$/);
-    expect(lines[5]).toMatch(/^ {2}fundamental +15915494\.\d{3} Hz ± /);
-    expect(lines[6]).toMatch(/^ {2}spurious \(near fundamental\) +16015494\.\d{3} Hz ± .* 17\.5 dB \(R ratio 7\.50\)$/);
+    expect(lines[5]).toMatch(/^ {2}fundamental +15915494\.\d+\(\d+(\.\d+)?\) Hz +/);
+    expect(lines[6]).toMatch(/^ {2}spurious \(near fundamental\) +1601549\d(\.\d+)?\(\d+(\.\d+)?\) Hz .* 17\.5 dB \(R ratio 7\.50\)$/);
     expect(text).toContain('  cross-checks:\n    fundamental at 15.915494 MHz: fsHz agree (4), r1Ohm agree (4)');
     expect(text.endsWith('\n')).toBe(true);
   });
