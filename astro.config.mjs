@@ -5,12 +5,15 @@
 //   MOTIONAL_BASE      base path the site is served under (default '/')
 //   MOTIONAL_SITE_OUT  output folder (default 'dist')
 //   MOTIONAL_DATA      generated catalogue data, read at build time (default '.motional/catalogue')
+//   MOTIONAL_RENDERER_OUT  when set, the server chunks of the build are kept in this folder, so
+//                      later builds can render pages from them (src/pipeline/page-renderer.ts)
 //
 // The generated data folder holds index.json, compare/<id>.json and downloads/<id>/…; the
-// integration below copies them into the output as data/index.json, data/compare/ and
-// downloads/ (byte for byte), and serves them from the data folder in `astro dev`.
+// integration below puts them into the output as data/index.json, data/compare/ and
+// downloads/ (hard links: nothing is copied, a copy only across file systems), and serves them
+// from the data folder in `astro dev`.
 import { defineConfig } from 'astro/config';
-import { cpSync, createReadStream, existsSync, mkdirSync, renameSync, rmSync, statSync } from 'node:fs';
+import { copyFileSync, cpSync, createReadStream, existsSync, linkSync, mkdirSync, readdirSync, renameSync, rmSync, statSync } from 'node:fs';
 import { join, normalize, resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -23,7 +26,7 @@ const insideCwd = siteOut.startsWith(process.cwd() + sep);
 const outDir = insideCwd ? siteOut : resolve('.motional', `site-build-${process.pid}`);
 const dataDir = resolve(process.env.MOTIONAL_DATA || '.motional/catalogue');
 
-/** Site path prefix → folder or file in the data folder. */
+/** Site path prefix → folder or file in the data folder (the same list as SITE_DATA_COPIES in src/pipeline/partial-site.ts). */
 const COPIES = [
   ['data/index.json', 'index.json'],
   ['data/compare', 'compare'],
@@ -42,6 +45,34 @@ function moveFolder(from, to) {
   }
 }
 
+/**
+ * Put every file under `from` at the same place under `to` as a hard link (the data folder's
+ * files are never changed once written), copying only where a link cannot be made.
+ */
+function linkTreeSync(from, to) {
+  if (!statSync(from).isDirectory()) {
+    linkOrCopy(from, to);
+    return;
+  }
+  mkdirSync(to, { recursive: true });
+  for (const e of readdirSync(from, { withFileTypes: true })) {
+    const src = join(from, e.name);
+    const dest = join(to, e.name);
+    if (e.isDirectory()) linkTreeSync(src, dest);
+    else linkOrCopy(src, dest);
+  }
+}
+
+function linkOrCopy(src, dest) {
+  rmSync(dest, { force: true });
+  try {
+    linkSync(src, dest);
+  } catch (err) {
+    if (err.code === 'EXDEV' || err.code === 'EPERM' || err.code === 'EMLINK') copyFileSync(src, dest);
+    else throw err;
+  }
+}
+
 function catalogueData() {
   return {
     name: 'motional-catalogue-data',
@@ -55,7 +86,7 @@ function catalogueData() {
           if (!existsSync(src)) continue;
           const dest = join(out, to);
           mkdirSync(join(dest, '..'), { recursive: true });
-          cpSync(src, dest, { recursive: true });
+          linkTreeSync(src, dest);
         }
         if (resolve(out) !== siteOut) moveFolder(resolve(out), siteOut);
       },
@@ -77,6 +108,25 @@ function catalogueData() {
   };
 }
 
+/** Keep the server chunks of the build (the pages as modules) in MOTIONAL_RENDERER_OUT. */
+function keepServerChunks() {
+  return {
+    name: 'motional-keep-server-chunks',
+    writeBundle(output, bundle) {
+      const keep = process.env.MOTIONAL_RENDERER_OUT;
+      const names = Object.keys(bundle);
+      // the server build is the one whose chunks include the pages
+      if (!keep || !output.dir || !names.some((f) => f.startsWith('pages/'))) return;
+      for (const name of names) {
+        if (!name.endsWith('.mjs')) continue;
+        const dest = join(keep, name);
+        mkdirSync(join(dest, '..'), { recursive: true });
+        copyFileSync(join(output.dir, name), dest);
+      }
+    },
+  };
+}
+
 export default defineConfig({
   publicDir: './src/public',
   output: 'static',
@@ -93,5 +143,6 @@ export default defineConfig({
     build: {
       assetsInlineLimit: 0,
     },
+    plugins: [keepServerChunks()],
   },
 });

@@ -9,6 +9,7 @@ import { mkdir, readFile, readdir, rm } from 'node:fs/promises';
 import { join } from 'node:path';
 import { isProcessAlive } from './atomic-dir.ts';
 import { BuildFailure } from './build-failure.ts';
+import { RENDERER_ENV } from './page-renderer.ts';
 import { PAGES_ENV } from './partial-site.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
 import { PROJECT_ROOT } from './project-root.ts';
@@ -39,6 +40,8 @@ export interface AstroBuildOptions {
   pages: number;
   /** JSON file of the part ids whose pages to render (partial builds); absent = all. */
   pagesFile?: string;
+  /** Keep the build's server chunks in this folder (page-renderer.ts). */
+  keepChunksDir?: string;
   progress: ProgressStream | undefined;
   /** Receives Astro's output when the build fails. */
   log: (text: string) => void;
@@ -104,6 +107,7 @@ export async function runAstroBuild(run: AstroBuildOptions): Promise<AstroUsage>
       MOTIONAL_BASE: run.basePath,
       MOTIONAL_SITE_OUT: run.siteDir,
       ...(run.pagesFile ? { [PAGES_ENV]: run.pagesFile } : {}),
+      ...(run.keepChunksDir ? { [RENDERER_ENV]: run.keepChunksDir } : {}),
       MOTIONAL_USAGE_FILE: usageFile,
       ASTRO_TELEMETRY_DISABLED: '1',
       NO_COLOR: '1',

@@ -28,7 +28,8 @@ import { pruneCache, sha256 } from './cache.ts';
 import { extractionCodeHash } from './code-hash.ts';
 import type { IndexEntry } from '../lib/report/types.ts';
 import { sortById } from '../lib/report/index-order.ts';
-import { belongsTo, formatManifest, linkTree, overlayTree, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
+import { PAGES_ENV, belongsTo, formatManifest, linkTree, overlayTree, placeCatalogueData, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
+import { adoptRenderer, hasRenderer, newRendererDir, renderPages } from './page-renderer.ts';
 import { type ProgressStream } from './progress.ts';
 import { defaultJobs } from './worker-pool.ts';
 import { normalizeBase } from './static-server.ts';
@@ -198,11 +199,13 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       const partial = plan && (await siteSupportsPartialPages()) ? plan : undefined;
       const siteDir = join(staging.root, 'site');
       const astro = { basePath, progress: progressStream, log, signal: options.signal };
-      let astroUsage: AstroUsage;
+      let astroUsage: AstroUsage = { peakRssBytes: 0, cpuSeconds: 0 };
       if (partial) {
-        // Astro renders the changed parts' pages (and the pages over all parts) from a data
-        // folder holding just those parts and the whole index; the rest comes from the
-        // previous site, which stays untouched until the swap.
+        // The changed parts' pages (and the pages over all parts: home, compare) are rendered
+        // from a data folder holding just those parts and the whole index; the rest comes from
+        // the previous site, which stays untouched until the swap. When an earlier full build
+        // left a checked renderer for this site code (page-renderer.ts), the pages are rendered
+        // in a worker thread without starting the site generator.
         const deltaDir = join(staging.root, 'delta');
         const freshDir = join(staging.root, 'site-fresh');
         const changed = new Set(partial.changed);
@@ -210,14 +213,34 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         if (!(await linkFiles(dataDir, deltaFiles, deltaDir))) throw new Error('a part file vanished from the staging folder');
         const pagesFile = join(staging.root, 'pages.json');
         await writeFile(pagesFile, JSON.stringify(partial.changed));
-        astroUsage = await runAstroBuild({ ...astro, dataDir: deltaDir, siteDir: freshDir, pages: partial.changed.length, pagesFile });
+        let renderer: 'pages' | 'generator' = 'generator';
+        if (await hasRenderer(siteHash, basePath)) {
+          try {
+            await renderPages(siteHash, freshDir, { dataDir: deltaDir, basePath, pagesFile, pagesEnvName: PAGES_ENV });
+            await placeCatalogueData(deltaDir, freshDir);
+            renderer = 'pages';
+          } catch (err) {
+            log(`rendering the changed pages without the site generator failed, so it runs: ${err instanceof Error ? err.message : String(err)}\n`);
+            await rm(freshDir, { recursive: true, force: true });
+          }
+        }
+        checkAbort();
+        if (renderer === 'generator') {
+          astroUsage = await runAstroBuild({ ...astro, dataDir: deltaDir, siteDir: freshDir, pages: partial.changed.length, pagesFile });
+        }
         const replaced = new Set([...partial.changed, ...partial.removed]);
         await linkTree(outDir, siteDir, (rel) => rel === OUTPUT_MARKER || belongsTo(rel, replaced));
         await overlayTree(freshDir, siteDir);
-        summary.site = { mode: 'partial', pagesRendered: partial.changed.length, partsRemoved: partial.removed.length };
+        summary.site = { mode: 'partial', pagesRendered: partial.changed.length, partsRemoved: partial.removed.length, renderer };
       } else {
-        astroUsage = await runAstroBuild({ ...astro, dataDir, siteDir, pages: ids.length });
-        summary.site = { mode: 'full', pagesRendered: ids.length, partsRemoved: 0 };
+        // a build with the cache keeps the generator's server chunks for later partial builds
+        const keep = useCache ? newRendererDir() : undefined;
+        astroUsage = await runAstroBuild({ ...astro, dataDir, siteDir, pages: ids.length, keepChunksDir: keep });
+        summary.site = { mode: 'full', pagesRendered: ids.length, partsRemoved: 0, renderer: 'generator' };
+        if (keep) {
+          const refused = await adoptRenderer(keep, siteDir, siteHash, { dataDir, basePath, pagesEnvName: PAGES_ENV }).catch((err: Error) => err.message);
+          if (refused && process.env.MOTIONAL_DEBUG) log(`pages of later partial builds will be rendered by the site generator: ${refused}\n`);
+        }
       }
       summary.peakRssBytes.site = astroUsage.peakRssBytes;
       summary.cpuSeconds.site = astroUsage.cpuSeconds;

@@ -186,3 +186,28 @@ export async function overlayTree(from: string, to: string): Promise<void> {
     }
   }
 }
+
+/** Where astro.config.mjs puts the data folder's files in the site: site path ← data path. */
+export const SITE_DATA_COPIES: ReadonlyArray<readonly [string, string]> = [
+  ['data/index.json', 'index.json'],
+  ['data/compare', 'compare'],
+  ['downloads', 'downloads'],
+];
+
+/**
+ * Put the data folder's published files into a site folder as astro.config.mjs does (hard links),
+ * for pages rendered without the site generator (page-renderer.ts).
+ */
+export async function placeCatalogueData(dataDir: string, siteDir: string): Promise<void> {
+  for (const [to, from] of SITE_DATA_COPIES) {
+    const src = join(dataDir, from);
+    const st = await stat(src).catch(() => undefined);
+    if (!st) continue;
+    const dest = join(siteDir, ...to.split('/'));
+    if (st.isDirectory()) await linkTree(src, dest, () => false);
+    else {
+      await mkdir(dirname(dest), { recursive: true });
+      await link(src, dest);
+    }
+  }
+}
