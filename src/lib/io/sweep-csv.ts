@@ -1,75 +1,66 @@
 /**
- * CSV/TSV impedance sweeps (README: The part record, "Sweep files").
+ * CSV/TSV impedance sweeps (README: The part record, "Sweep files"), read as instruments write them.
  *
- * - Blank lines and lines starting with `#` or `!` are comments. The first other line is the
- *   header; its delimiter (`,`, `;` or tab, whichever occurs most outside quotes) is used for
- *   the whole file. Fields may be quoted with `"` (`""` inside quotes is a quote).
- * - Columns are found by name, case-insensitive, with an optional unit in `()` or `[]`:
- *   frequency `f`, `freq`, `frequency` (Hz, kHz, MHz, GHz; default Hz; `mhz` means MHz);
- *   resistance `r`, `re`, `real`, `resistance` and reactance `x`, `im`, `imag`, `reactance`;
- *   or magnitude `z`, `|z|`, `mag`, `magnitude` and phase `phase`, `theta` (deg by default,
- *   rad when the unit says so). Impedance units: ohm (`ohm`, `ohms`, `Ω`), `kohm`, `Mohm`,
- *   `mohm` (milliohm; the prefix is case-sensitive), default ohm. Other columns are ignored.
- *   When both forms are present, resistance and reactance are used.
+ * - Blank lines and lines starting with `#` or `!` are comments. A preamble (instrument name,
+ *   date, settings) may come before the header: the header is found as the first line that reads
+ *   as column names followed by rows of numbers (src/lib/io/csv-header.ts), or given by the
+ *   record (`headerLine:`). Its delimiter (`,`, `;` or tab, whichever occurs most outside quotes)
+ *   is used for the whole file. Fields may be quoted with `"` (`""` inside quotes is a quote).
+ * - Columns are found by the words in their names (src/lib/io/csv-columns.ts): the frequency and
+ *   either resistance and reactance or magnitude and phase (degrees unless the unit says rad);
+ *   units in the name (any brackets) or in a row of units under the header; defaults Hz, ohm,
+ *   degrees. Other columns are ignored. When both forms are present, resistance and reactance are
+ *   used. A record's `columns:` map says which column is which where names are ambiguous.
  * - Numbers use a decimal point. In `;`-separated files (the usual European spreadsheet export)
  *   a decimal comma is accepted as well (`1,5` = 1.5); thousands separators are not.
+ * - Lines after the last data row whose frequency field is not a number (a summary such as
+ *   `Average,…` or `END`) end the data; the same line between data rows is an error.
  * - Frequencies must be finite, non-negative and strictly rising; magnitudes non-negative.
  */
 import { errorAt, InputError, type Issue } from '../issues.ts';
 import type { ImpedanceSweep } from '../sweep/sweep.ts';
 import { cosSinDeg } from '../sweep/complex.ts';
-import {
-  checkSweepText,
-  MAX_ISSUES_PER_FILE,
-  normalizeSweepLimits,
-  parseScaledDecimal,
-  quoteToken,
-  shiftDecimalText,
-  type SweepReadOptions,
-} from './limits.ts';
+import { checkSweepText, MAX_ISSUES_PER_FILE, normalizeSweepLimits, quoteToken, shiftDecimalText, type SweepReadOptions } from './limits.ts';
+import { looksNumeric, parseField, splitFields, type Delimiter } from './csv-fields.ts';
+import { frequencyUnitExponent, type CsvColumnRole } from './csv-columns.ts';
+import { findHeader, MAX_PREAMBLE_LINES, type CsvLayout, type ResolvedColumn, type TextLine } from './csv-header.ts';
 
-type Role = 'freq' | 'r' | 'x' | 'mag' | 'phase';
-type Delimiter = ',' | ';' | '\t';
+export type { CsvColumnMap, CsvLayout } from './csv-header.ts';
+export { CSV_COLUMN_ROLES, type CsvColumnRole } from './csv-columns.ts';
 
-const ROLE_NAMES: Record<Role, string[]> = {
-  freq: ['f', 'freq', 'frequency'],
-  r: ['r', 're', 'real', 'resistance'],
-  x: ['x', 'im', 'imag', 'reactance'],
-  mag: ['z', '|z|', 'mag', 'magnitude'],
-  phase: ['phase', 'theta'],
-};
-const ROLE_TEXT: Record<Role, string> = {
-  freq: 'frequency',
-  r: 'resistance',
-  x: 'reactance',
-  mag: 'magnitude',
-  phase: 'phase',
-};
-const FREQ_UNITS: Record<string, number> = { hz: 0, khz: 3, mhz: 6, ghz: 9 };
-const OHM_WORDS = new Set(['ohm', 'ohms', 'Ω', 'Ω', 'ω']);
-const OHM_PREFIX: Record<string, number> = { k: 3, K: 3, M: 6, m: -3 };
-/** Phase units: true for radians. */
-const PHASE_UNITS: Record<string, boolean> = { deg: false, degree: false, degrees: false, '°': false, rad: true, radian: true, radians: true };
-// `\d+(\.\d*)?`, not `\d+\.?\d*`: the latter backtracks quadratically on a long run of digits.
-const NUMBER = /^[+-]?(\d+(?:\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
-const NOT_FINITE = /^[+-]?(nan|inf|infinity)$/i;
+/** Options of {@link parseSweepCsv}: limit overrides (tests) and the record's layout hints. */
+export interface SweepCsvOptions extends SweepReadOptions, CsvLayout {}
 
-interface Column {
-  index: number;
-  text: string;
-  /** Power of ten to SI (Hz, ohm), applied on the decimal text; for the phase: 1 = radians, 0 = degrees. */
-  shift: number;
+/** A CSV sweep with what the reader decided about the file. */
+export interface SweepCsvRead {
+  sweep: ImpedanceSweep;
+  /** 1-based line of the header row; lines before it that are not comments were skipped as preamble. */
+  headerLine: number;
+  /** Non-blank, non-comment lines skipped before the header. */
+  preambleLines: number;
+  /** 1-based line of the row of units under the header, when there is one. */
+  unitsLine?: number;
+  delimiter: Delimiter;
+  /** The columns used: name as written, 1-based number, unit as read. */
+  columns: Partial<Record<CsvColumnRole, { name: string; number: number; unit: string }>>;
+  /** Lines after the data that were taken as a summary, not data. */
+  summaryLines: number[];
 }
 
 /**
  * Read an impedance sweep from CSV/TSV text.
  * @param text file contents
  * @param source file name for messages
- * @param opts limit overrides (tests)
+ * @param opts limit overrides (tests) and the record's `headerLine` / `columns`
  * @returns frequencies in Hz and impedance in ohm
  * @throws InputError with every located issue found
  */
-export function parseSweepCsv(text: string, source: string, opts: SweepReadOptions = {}): ImpedanceSweep {
+export function parseSweepCsv(text: string, source: string, opts: SweepCsvOptions = {}): ImpedanceSweep {
+  return readSweepCsv(text, source, opts).sweep;
+}
+
+/** {@link parseSweepCsv} with what the reader found: header line, preamble, columns, summary lines. */
+export function readSweepCsv(text: string, source: string, opts: SweepCsvOptions = {}): SweepCsvRead {
   const limits = normalizeSweepLimits(opts);
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   const pre = checkSweepText(text, source, limits);
@@ -85,10 +76,28 @@ export function parseSweepCsv(text: string, source: string, opts: SweepReadOptio
     return true;
   };
 
-  let header: { line: number; cols: Map<Role, Column>; width: number; delim: Delimiter; names: string[] } | undefined;
+  const search = findHeader(leadingLines(text, limits.maxLineChars, opts.headerLine), opts);
+  if (!search.ok) {
+    // Over-long lines before the header are reported as well: they are why no header was seen.
+    throw new InputError([...longLines(text, source, limits.maxLineChars, search.line), errorAt(source, search.line, search.message, { code: search.code })]);
+  }
+  const found = search.header;
+  if (found.analysis.problems.length) {
+    throw new InputError(found.analysis.problems.map((p) => errorAt(source, p.onUnitsRow ? found.unitsLine!.no : found.line.no, p.message, { code: p.code })));
+  }
+  const header = { line: found.line.no, cols: found.analysis.cols, width: found.names.length, delim: found.delim };
+  const lastHeaderLine = found.unitsLine?.no ?? found.line.no;
+  const useRx = header.cols.has('resistance');
+  const colA = header.cols.get(useRx ? 'resistance' : 'magnitude')!;
+  const colB = header.cols.get(useRx ? 'reactance' : 'phase')!;
+  const colF = header.cols.get('frequency')!;
+
   const freqHz: number[] = [];
   const zRe: number[] = [];
   const zIm: number[] = [];
+  /** Rows whose frequency is not a number: a summary when no data row follows them, else errors. */
+  let pending: Array<{ line: number; message: string }> = [];
+  let preambleLines = 0;
   let pos = 0;
   let lineNo = 0;
   let going = true;
@@ -104,9 +113,8 @@ export function parseSweepCsv(text: string, source: string, opts: SweepReadOptio
     }
     const line = raw.trim();
     if (line === '' || line[0] === '#' || line[0] === '!') continue;
-
-    if (!header) {
-      header = readHeader(line, lineNo, source);
+    if (lineNo <= lastHeaderLine) {
+      if (lineNo < header.line) preambleLines++;
       continue;
     }
     const fields = splitFields(line, header.delim);
@@ -116,25 +124,37 @@ export function parseSweepCsv(text: string, source: string, opts: SweepReadOptio
     }
     if (fields.every((f) => f.trim() === '')) continue;
     while (fields.length > header.width && fields[fields.length - 1].trim() === '') fields.pop();
+    const fText = fields[colF.index];
+    if (fText === undefined || !looksNumeric(fText, header.delim)) {
+      const message =
+        fields.length !== header.width
+          ? `expected ${header.width} fields (as in the header, line ${header.line}), got ${fields.length}`
+          : `column ${quoteToken(colF.text)}: ${parseField(fText, header.delim)}`;
+      pending.push({ line: lineNo, message });
+      if (pending.length > MAX_ISSUES_PER_FILE) pending = pending.slice(0, MAX_ISSUES_PER_FILE);
+      continue;
+    }
+    if (pending.length) {
+      for (const p of pending) if (going) going = add(p.line, p.message, 'csv-row');
+      pending = [];
+      if (!going) continue;
+    }
     if (fields.length !== header.width) {
       going = add(lineNo, `expected ${header.width} fields (as in the header, line ${header.line}), got ${fields.length}`, 'csv-row');
       continue;
     }
-    const get = (role: Role): number | undefined => {
-      const col = header!.cols.get(role)!;
-      const v = parseField(fields[col.index], header!.delim, role === 'phase' ? 0 : col.shift);
+    const get = (col: ResolvedColumn, phase = false): number | undefined => {
+      const v = parseField(fields[col.index], header.delim, phase ? 0 : col.shift);
       if (typeof v === 'string') {
         going = add(lineNo, `column ${quoteToken(col.text)}: ${v}`, 'number');
         return undefined;
       }
       return v;
     };
-    const useRx = header.cols.has('r');
-    const f = get('freq');
-    const a = get(useRx ? 'r' : 'mag');
-    const b = get(useRx ? 'x' : 'phase');
+    const f = get(colF);
+    const a = get(colA);
+    const b = get(colB, !useRx);
     if (f === undefined || a === undefined || b === undefined) continue;
-    const cols = header.cols;
     const fHz = f;
     if (fHz < 0) {
       going = add(lineNo, `negative frequency ${fHz} Hz`, 'frequency');
@@ -156,163 +176,76 @@ export function parseSweepCsv(text: string, source: string, opts: SweepReadOptio
       zIm.push(b);
     } else {
       if (a < 0) {
-        going = add(lineNo, `column ${quoteToken(cols.get('mag')!.text)}: negative magnitude ${a}`, 'number');
+        going = add(lineNo, `column ${quoteToken(colA.text)}: negative magnitude ${a}`, 'number');
         continue;
       }
-      const mag = a;
-      const [c, s] = cols.get('phase')!.shift === 1 ? [Math.cos(b), Math.sin(b)] : cosSinDeg(b);
+      const [c, s] = colB.shift === 1 ? [Math.cos(b), Math.sin(b)] : cosSinDeg(b);
       freqHz.push(fHz);
-      zRe.push(mag * c);
-      zIm.push(mag * s);
+      zRe.push(a * c);
+      zIm.push(a * s);
     }
   }
-  if (!header) {
-    issues.push(errorAt(source, undefined, 'no header row (expected a line naming the columns, e.g. frequency (Hz),r (ohm),x (ohm))', { code: 'empty' }));
-  } else if (freqHz.length === 0 && issues.length === 0) {
-    issues.push(errorAt(source, header.line, 'no data rows after the header', { code: 'empty' }));
+  if (freqHz.length === 0 && issues.length === 0) {
+    if (pending.length) for (const p of pending) add(p.line, p.message, 'csv-row');
+    else issues.push(errorAt(source, header.line, 'no data rows after the header', { code: 'empty' }));
   }
   if (issues.length) throw new InputError(issues);
-  return { freqHz: Float64Array.from(freqHz), zRe: Float64Array.from(zRe), zIm: Float64Array.from(zIm), source };
-}
-
-/** Parse the header line; throws InputError when the columns cannot be used. */
-function readHeader(line: string, lineNo: number, source: string) {
-  const delim = detectDelimiter(line);
-  const names = splitFields(line, delim);
-  const issues: Issue[] = [];
-  const fail = (message: string): never => {
-    issues.push(errorAt(source, lineNo, message, { code: 'csv-header' }));
-    throw new InputError(issues);
+  const columns: SweepCsvRead['columns'] = {};
+  for (const [role, col] of header.cols) columns[role] = { name: col.text, number: col.index + 1, unit: col.unit };
+  return {
+    sweep: { freqHz: Float64Array.from(freqHz), zRe: Float64Array.from(zRe), zIm: Float64Array.from(zIm), source },
+    headerLine: header.line,
+    preambleLines,
+    unitsLine: found.unitsLine?.no,
+    delimiter: header.delim,
+    columns,
+    summaryLines: pending.map((p) => p.line),
   };
-  if (names === undefined) return fail('header: unterminated quoted field');
-  if (names.every((n) => typeof parseField(n, delim) === 'number')) {
-    fail(`expected a header row naming the columns (e.g. frequency (Hz),r (ohm),x (ohm)), got data ${quoteToken(line)}`);
-  }
-  if (names.length === 1) {
-    fail(`header has a single column ${quoteToken(line)}; expected columns separated by ',', ';' or tab`);
-  }
-  const cols = new Map<Role, Column>();
-  names.forEach((raw, index) => {
-    const text = raw.trim();
-    // No `\s*` after the lazy name (quadratic on long runs of spaces); the name is trimmed instead.
-    const m = /^(.*?)(?:\(([^()]*)\)|\[([^[\]]*)\])$/.exec(text);
-    const name = (m ? m[1].trim() : text).toLowerCase().replace(/\s+/g, ' ');
-    const unit = m ? (m[2] ?? m[3]).trim() : '';
-    const role = (Object.keys(ROLE_NAMES) as Role[]).find((r) => ROLE_NAMES[r].includes(name));
-    if (!role) return;
-    const prev = cols.get(role);
-    if (prev) {
-      issues.push(errorAt(source, lineNo, `columns ${quoteToken(prev.text)} and ${quoteToken(text)} both give the ${ROLE_TEXT[role]}`, { code: 'csv-header' }));
-      return;
-    }
-    const shift = unitShift(role, unit);
-    if (typeof shift === 'string') {
-      issues.push(errorAt(source, lineNo, `column ${quoteToken(text)}: ${shift}, got ${unit}`, { code: 'unit' }));
-      return;
-    }
-    cols.set(role, { index, text, shift });
-  });
-  if (!cols.has('freq')) {
-    issues.push(errorAt(source, lineNo, `no frequency column (f, freq or frequency) in the header ${quoteToken(line, 80)}`, { code: 'csv-header' }));
-  }
-  const rx = cols.has('r') && cols.has('x');
-  const mp = cols.has('mag') && cols.has('phase');
-  if (!rx && !mp && !issues.some((i) => i.code === 'unit' || /both give/.test(i.message))) {
-    const have = (['r', 'x', 'mag', 'phase'] as Role[]).filter((r) => cols.has(r)).map((r) => quoteToken(cols.get(r)!.text));
-    const found = have.length ? `; found only ${have.join(', ')}` : '';
-    issues.push(
-      errorAt(source, lineNo, `expected resistance and reactance columns (r, x) or magnitude and phase columns (|z|, phase)${found}`, { code: 'csv-header' }),
-    );
-  }
-  if (issues.length) throw new InputError(issues);
-  if (rx) {
-    cols.delete('mag');
-    cols.delete('phase');
-  }
-  return { line: lineNo, cols, width: names.length, delim, names };
-}
-
-/** Power of ten of a column unit (phase: 1 for radians), or a message saying what was expected. */
-function unitShift(role: Role, unit: string): number | string {
-  if (role === 'freq') {
-    if (unit === '') return 0;
-    return FREQ_UNITS[unit.toLowerCase()] ?? 'expected a frequency unit (Hz, kHz, MHz, GHz)';
-  }
-  if (role === 'phase') {
-    if (unit === '') return 0;
-    const rad = PHASE_UNITS[unit.toLowerCase()];
-    return rad === undefined ? 'expected a phase unit (deg or rad)' : rad ? 1 : 0;
-  }
-  if (unit === '' || OHM_WORDS.has(unit.toLowerCase())) return 0;
-  const prefix = OHM_PREFIX[unit[0]];
-  if (prefix !== undefined && OHM_WORDS.has(unit.slice(1).toLowerCase())) return prefix;
-  return 'expected an impedance unit (ohm, mohm, kohm, Mohm)';
-}
-
-/** The delimiter occurring most often outside quotes (ties: tab, then `;`, then `,`). */
-function detectDelimiter(line: string): Delimiter {
-  const counts: Record<Delimiter, number> = { '\t': 0, ';': 0, ',': 0 };
-  let quoted = false;
-  for (const ch of line) {
-    if (ch === '"') quoted = !quoted;
-    else if (!quoted && (ch === '\t' || ch === ';' || ch === ',')) counts[ch]++;
-  }
-  let best: Delimiter = ',';
-  for (const d of ['\t', ';', ','] as Delimiter[]) if (counts[d] > counts[best] || (counts[d] === counts[best] && counts[d] > 0 && best === ',')) best = d;
-  return best;
 }
 
 /**
- * Split one line into fields; `undefined` when a quote is not closed. Pieces are sliced, not
- * added character by character (a 1 MB quoted field took 0.6 s that way).
+ * The first lines that are neither blank nor comments (enough for the header search), trimmed;
+ * with a record's `headerLine`, that line (a leading `#` or `!` dropped) and the two after it.
  */
-function splitFields(line: string, delim: Delimiter): string[] | undefined {
-  if (line.indexOf('"') < 0) return line.split(delim);
-  const out: string[] = [];
-  let parts: string[] = [];
-  const n = line.length;
-  let i = 0;
-  let quoted = false;
-  for (;;) {
-    if (quoted) {
-      const q = line.indexOf('"', i);
-      if (q < 0) return undefined;
-      parts.push(line.slice(i, q));
-      if (line.charCodeAt(q + 1) === 34) {
-        parts.push('"');
-        i = q + 2;
-      } else {
-        quoted = false;
-        i = q + 1;
-      }
-      continue;
+function leadingLines(text: string, maxLineChars: number, headerLine: number | undefined): TextLine[] {
+  const out: TextLine[] = [];
+  const want = MAX_PREAMBLE_LINES + 3;
+  let pos = 0;
+  let no = 0;
+  while (pos < text.length && out.length < want) {
+    let le = text.indexOf('\n', pos);
+    if (le < 0) le = text.length;
+    const raw = text.slice(pos, le);
+    pos = le + 1;
+    no++;
+    if (raw.length > maxLineChars) continue;
+    let line = raw.trim();
+    if (headerLine !== undefined) {
+      if (no < headerLine) continue;
+      if (no === headerLine && (line[0] === '#' || line[0] === '!')) line = line.slice(1).trim();
+      else if (out.length >= 3) break;
     }
-    let j = i;
-    while (j < n && line[j] !== '"' && line[j] !== delim) j++;
-    parts.push(line.slice(i, j));
-    if (j >= n) {
-      out.push(parts.join(''));
-      return out;
-    }
-    if (line[j] === '"') quoted = true;
-    else {
-      out.push(parts.join(''));
-      parts = [];
-    }
-    i = j + 1;
+    if (line === '' || line[0] === '#' || line[0] === '!') continue;
+    out.push({ no, text: line });
   }
+  return out;
 }
 
-/** A finite number times 10^shift, or a message saying what is wrong. */
-function parseField(field: string, delim: Delimiter, shift = 0): number | string {
-  let s = field.trim();
-  if (s === '') return 'empty value, expected a number';
-  if (delim === ';' && s.indexOf(',') >= 0 && s.indexOf('.') < 0) s = s.replace(',', '.');
-  if (NOT_FINITE.test(s)) return `value ${quoteToken(s)} is not a finite number`;
-  if (!NUMBER.test(s)) return `expected a number, got ${quoteToken(field.trim())}`;
-  const v = parseScaledDecimal(s, shift);
-  if (!Number.isFinite(v)) return `value ${quoteToken(s)} is not a finite number`;
-  return v;
+/** Issues for over-long lines up to a line (all lines when `upTo` is undefined). */
+function longLines(text: string, source: string, maxLineChars: number, upTo: number | undefined): Issue[] {
+  if (text.length <= maxLineChars) return [];
+  const out: Issue[] = [];
+  let pos = 0;
+  let no = 0;
+  while (pos < text.length && out.length < MAX_ISSUES_PER_FILE) {
+    let le = text.indexOf('\n', pos);
+    if (le < 0) le = text.length;
+    no++;
+    if (upTo !== undefined && no >= upTo) break;
+    if (le - pos > maxLineChars) out.push(errorAt(source, no, `line is ${le - pos} characters long, over the limit of ${maxLineChars}`, { code: 'line-length' }));
+    pos = le + 1;
+  }
+  return out;
 }
 
 /** Options of {@link formatSweepCsv}. */
@@ -333,7 +266,7 @@ export function formatSweepCsv(sweep: ImpedanceSweep, opts: FormatSweepCsvOption
   const form = opts.form ?? 'rx';
   const d = opts.delimiter ?? ',';
   const unit = opts.freqUnit ?? 'Hz';
-  const unitExp = FREQ_UNITS[unit.toLowerCase()];
+  const unitExp = frequencyUnitExponent(unit);
   const head = form === 'rx' ? ['r (ohm)', 'x (ohm)'] : ['|z| (ohm)', 'phase (deg)'];
   const out = [[`frequency (${unit})`, ...head].join(d)];
   const num = (x: number) => (Object.is(x, -0) ? '0' : String(x));

@@ -47,7 +47,7 @@ const cases: Case[] = [
   { file: 'oversize.s1p', text: GOOD_S1P, opts: { maxBytes: 40 }, line: 1, message: /^file is 66 bytes, over the limit of 40 bytes$/ },
   { file: 'many-points.s1p', text: GOOD_S1P, opts: { maxPoints: 2 }, line: 5, message: /^more than 2 frequency points$/ },
   { file: 'long-line.s1p', text: '# Hz S RI R 50\n1000 0.1 0.2\n2000 0.1 0.2 ! a longer comment here\n', opts: { maxLineChars: 30 }, line: 3, message: /^line is 36 characters long, over the limit of 30$/ },
-  { file: 'csv-missing-reactance.csv', line: 1, message: /^expected resistance and reactance columns \(r, x\) or magnitude and phase columns \(\|z\|, phase\); found only 'r \(ohm\)'$/ },
+  { file: 'csv-missing-reactance.csv', line: 1, message: /^expected resistance and reactance columns \(r, x\) or magnitude and phase columns \(\|z\|, phase\); found only 'r \(ohm\)'; if a column holds the reactance, say which in the record: columns: \{ reactance: "notes" \}$/ },
   { file: 'csv-no-frequency.csv', line: 2, message: /^no frequency column \(f, freq or frequency\) in the header/ },
   { file: 'csv-wrong-unit.csv', line: 1, message: /^column 'frequency \(pF\)': expected a frequency unit \(Hz, kHz, MHz, GHz\), got pF$/ },
   { file: 'csv-wrong-impedance-unit.csv', line: 1, message: /^column '\|Z\| \(dB\)': expected an impedance unit \(ohm, mohm, kohm, Mohm\), got dB$/ },

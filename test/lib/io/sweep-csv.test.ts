@@ -46,7 +46,7 @@ describe('parseSweepCsv', () => {
   });
 
   it('reads a decimal comma in semicolon-separated files', () => {
-    const s = parseSweepCsv('Frequenz;frequency (kHz);R (Ohm);X (Ohm)\n;32,760;35000,5;-12,25\n;32,768;35001;0\n', 'eu.csv');
+    const s = parseSweepCsv('Messpunkt;frequency (kHz);R (Ohm);X (Ohm)\n;32,760;35000,5;-12,25\n;32,768;35001;0\n', 'eu.csv');
     expect(arr(s.freqHz)).toEqual([32760, 32768]);
     expect(arr(s.zRe)).toEqual([35000.5, 35001]);
     expect(arr(s.zIm)).toEqual([-12.25, 0]);
