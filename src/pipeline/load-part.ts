@@ -16,7 +16,7 @@ import { dirname, join } from 'node:path';
 import { InputError, type Issue } from '../lib/issues.ts';
 import { formatFieldPath, MAX_PART_YAML_BYTES, parsePartYaml, type FieldPath, type FieldPosition } from '../lib/io/part-yaml.ts';
 import { parseTouchstone } from '../lib/io/touchstone.ts';
-import { parseSweepCsv } from '../lib/io/sweep-csv.ts';
+import { parseSweepCsv, type CsvLayout } from '../lib/io/sweep-csv.ts';
 import { MAX_SWEEP_BYTES } from '../lib/io/limits.ts';
 import { networkToImpedance } from '../lib/fixture/to-impedance.ts';
 import { compensateOpenShort, compensateOpenShortLoad } from '../lib/fixture/compensation.ts';
@@ -105,7 +105,8 @@ export async function loadPart(pathToYamlOrFolder: string, fs: FileSource = node
   for (const [i, sample] of samples) {
     for (const [j, ref] of sample.sweeps.entries()) {
       const sweepPath: FieldPath = ['samples', i, 'sweeps', j];
-      const read = await reader.read(ref.file, ref.fixture, [...sweepPath, 'file'], [...sweepPath, 'fixture']);
+      const layout = ref.headerLine !== undefined || ref.columns !== undefined ? { headerLine: ref.headerLine, columns: ref.columns } : undefined;
+      const read = await reader.read(ref.file, ref.fixture, [...sweepPath, 'file'], [...sweepPath, 'fixture'], layout);
       const sweep: LoadedSweep = { sampleId: sample.id, index: j, ref, file: read.file, network: read.network, impedance: read.impedance };
       if (read.network && ref.referenceImpedanceOhm !== undefined) {
         const fileZ0 = read.network.z0Ohm[0];
@@ -187,17 +188,17 @@ class SweepReader {
     private issues: Issue[],
   ) {}
 
-  read(name: string, fixture: Fixture, filePath: FieldPath, fixturePath: FieldPath): Promise<ReadResult> {
-    const key = `${fixture}\u0000${name}`;
+  read(name: string, fixture: Fixture, filePath: FieldPath, fixturePath: FieldPath, layout?: CsvLayout): Promise<ReadResult> {
+    const key = `${fixture}\u0000${name}\u0000${layout ? JSON.stringify(layout) : ''}`;
     let result = this.cache.get(key);
     if (!result) {
-      result = this.readOnce(name, fixture, filePath, fixturePath);
+      result = this.readOnce(name, fixture, filePath, fixturePath, layout);
       this.cache.set(key, result);
     }
     return result;
   }
 
-  private async readOnce(name: string, fixture: Fixture, filePath: FieldPath, fixturePath: FieldPath): Promise<ReadResult> {
+  private async readOnce(name: string, fixture: Fixture, filePath: FieldPath, fixturePath: FieldPath, layout?: CsvLayout): Promise<ReadResult> {
     const fallback = join(this.folder, name);
     const format = sweepFormatOf(name);
     if (!format) {
@@ -225,7 +226,7 @@ class SweepReader {
       if (fixture !== 'impedance') {
         this.at(fixturePath, `${name} is a CSV impedance sweep; expected fixture "impedance", got "${fixture}"`, 'fixture');
       }
-      const impedance = this.guard(() => parseSweepCsv(text, file), file);
+      const impedance = this.guard(() => parseSweepCsv(text, file, layout), file);
       return { file, impedance: fixture === 'impedance' ? impedance : undefined };
     }
     const network = this.guard(() => parseTouchstone(text, file), file);

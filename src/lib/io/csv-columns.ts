@@ -12,9 +12,11 @@
  *   `columns:` map says which column is which.
  */
 
+import { SWEEP_COLUMN_ROLES, type SweepColumnRole } from '../schema/part.ts';
+
 /** What an impedance sweep's columns can hold; the keys of a sweep's `columns:` map in the record. */
-export const CSV_COLUMN_ROLES = ['frequency', 'resistance', 'reactance', 'magnitude', 'phase'] as const;
-export type CsvColumnRole = (typeof CSV_COLUMN_ROLES)[number];
+export const CSV_COLUMN_ROLES = SWEEP_COLUMN_ROLES;
+export type CsvColumnRole = SweepColumnRole;
 
 const FREQ_UNITS: Record<string, number> = { hz: 0, khz: 3, mhz: 6, ghz: 9 };
 const OHM_WORDS = new Set(['ohm', 'ohms', 'Ω', 'Ω', 'ω']);

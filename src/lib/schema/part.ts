@@ -98,6 +98,26 @@ export const DatasheetSchema = DatasheetInput.transform((d): Datasheet => ({
   operatingRangeC: d.operatingRange,
 }));
 
+/** What a CSV/TSV sweep's columns can hold: the keys of a sweep's `columns:` map (README: The part record). */
+export const SWEEP_COLUMN_ROLES = ['frequency', 'resistance', 'reactance', 'magnitude', 'phase'] as const;
+export type SweepColumnRole = (typeof SWEEP_COLUMN_ROLES)[number];
+
+const COLUMN_REF_MESSAGE = 'expected a column name as written in the header, or its number (1 = first column)';
+const columnRef = z.union([z.string().min(1, COLUMN_REF_MESSAGE).max(200, 'expected a column name of at most 200 characters'), z.number().int(COLUMN_REF_MESSAGE).positive(COLUMN_REF_MESSAGE)], {
+  message: COLUMN_REF_MESSAGE,
+});
+/** Which column of a CSV/TSV file holds what, where the names do not say (README: The part record). */
+const ColumnMapInput = z.record(z.string(), columnRef).superRefine((map, ctx) => {
+  for (const key of Object.keys(map)) {
+    if (!(SWEEP_COLUMN_ROLES as readonly string[]).includes(key)) {
+      ctx.addIssue({ code: 'custom', path: [key], message: `unknown column "${key.slice(0, 40)}"; expected ${SWEEP_COLUMN_ROLES.join(', ')}` });
+    }
+  }
+  const rx = 'resistance' in map || 'reactance' in map;
+  const mp = 'magnitude' in map || 'phase' in map;
+  if (rx && mp) ctx.addIssue({ code: 'custom', message: 'expected resistance and reactance, or magnitude and phase, not both' });
+});
+
 const SweepRefInput = z.object({
   file: fileName,
   fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }),
@@ -110,9 +130,17 @@ const SweepRefInput = z.object({
   temperature: quantity('temperature').optional(),
   /** Drive level during this sweep, W. */
   drive: quantity('power', { positive: true }).optional(),
+  /** CSV/TSV only: the 1-based line of the header row, where the reader does not find it. */
+  headerLine: z.number({ message: 'expected a line number (1 = first line)' }).int('expected a whole line number').positive('expected a line number (1 = first line)').optional(),
+  /** CSV/TSV only: which column holds what, where the names do not say. */
+  columns: ColumnMapInput.optional(),
 }).superRefine((sweep, ctx) => {
   if (sweep.addedConnection && sweep.addedCapacitance === undefined) {
     ctx.addIssue({ code: 'custom', path: ['addedConnection'], message: 'addedConnection needs addedCapacitance' });
+  }
+  const csv = /\.(csv|tsv)$/i.test(sweep.file);
+  for (const key of ['headerLine', 'columns'] as const) {
+    if (sweep[key] !== undefined && !csv) ctx.addIssue({ code: 'custom', path: [key], message: `${key} applies to CSV/TSV files only, got "${sweep.file.slice(0, 80)}"` });
   }
 });
 
@@ -125,6 +153,10 @@ export interface SweepRef {
   addedConnection?: 'parallel' | 'series';
   temperatureC?: number;
   driveW?: number;
+  /** CSV/TSV only: 1-based line of the header row. */
+  headerLine?: number;
+  /** CSV/TSV only: column name as written, or number (1 = first), per role. */
+  columns?: Partial<Record<SweepColumnRole, string | number>>;
 }
 
 export const SweepRefSchema = SweepRefInput.transform((s): SweepRef => ({
@@ -135,6 +167,8 @@ export const SweepRefSchema = SweepRefInput.transform((s): SweepRef => ({
   addedConnection: s.addedConnection,
   temperatureC: s.temperature,
   driveW: s.drive,
+  ...(s.headerLine !== undefined ? { headerLine: s.headerLine } : {}),
+  ...(s.columns !== undefined ? { columns: s.columns as Partial<Record<SweepColumnRole, string | number>> } : {}),
 }));
 
 const CompensationInput = z.object({
