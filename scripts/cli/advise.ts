@@ -1,6 +1,7 @@
 /**
  * `motional advise PART [--sample ID | --lot-median] [--circuit NAME] [--circuits FILE]
  *                       [--gm 5mA/V --pin-in 3pF --pin-out 3pF --stray 2pF ...] [--cl 8pF] [--json]`
+ * `motional advise --all [CONTENT] [--circuit NAME] [--circuits FILE] [--format text|csv|json]`
  *
  * Pierce load-capacitor and start-up advice for one part and one or more oscillator circuits:
  * a named circuit of the circuits file (content/oscillators.yaml by default), that circuit with
@@ -11,17 +12,21 @@
 import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
 import { formatIssue } from '../../src/lib/issues.ts';
+import { readdir } from 'node:fs/promises';
+import { join } from 'node:path';
 import { advisePierce, type CapacitorPair, type PierceAdvice } from '../../src/lib/osc/pierce.ts';
 import { parseOscillatorsYaml } from '../../src/lib/osc/oscillators-yaml.ts';
-import { OscillatorCircuitSchema, type OscillatorCircuit } from '../../src/lib/schema/oscillators.ts';
+import { circuitCovers, offerFrequencyHz } from '../../src/lib/report/advice.ts';
+import { circuitFit, fitsCsv, FIT_VERDICT_LABEL, type CircuitFit } from '../../src/lib/report/fits.ts';
+import { CIRCUIT_OUTPUT_NAME, OscillatorCircuitInput, OscillatorCircuitSchema, type CircuitRecordKey, type OscillatorCircuit } from '../../src/lib/schema/oscillators.ts';
 import { formatSi, parseQuantity } from '../../src/lib/units/si.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
 import { loadChosenModel } from './netlist.ts';
 
 const DEFAULT_CIRCUITS = 'content/oscillators.yaml';
 
-/** Circuit flags and the circuit field each sets. */
-const CIRCUIT_FLAGS: Record<string, keyof OscillatorCircuit> = {
+/** Circuit flags and the record key each sets (the circuits file's spelling). */
+const CIRCUIT_FLAGS: Record<string, CircuitRecordKey> = {
   gm: 'gm',
   'pin-in': 'inputCapacitance',
   'pin-out': 'outputCapacitance',
@@ -34,6 +39,9 @@ const CIRCUIT_FLAGS: Record<string, keyof OscillatorCircuit> = {
   'max-drive': 'maxDrive',
   tolerance: 'capacitorTolerance',
   series: 'series',
+  requirement: 'frequencyRequirement',
+  'startup-max': 'startupTimeMax',
+  'current-limit': 'currentLimit',
 };
 
 const USAGE = `usage: motional advise PART [options]
@@ -60,14 +68,33 @@ circuit (default: every circuit in ${DEFAULT_CIRCUITS} suited to the part's freq
   --max-drive P               the circuit's own drive budget, e.g. 100uW
   --tolerance T               load capacitor tolerance (default 5%)
   --series E6|E12|E24         preferred-value series (default E12)
+  --requirement PPM           allowed frequency deviation, all causes, e.g. 50ppm
+  --startup-max T             longest acceptable start-up time, e.g. 2ms
+  --current-limit I           amplifier output current limit, e.g. 200uA
   (a value starting with '-' needs the --flag=VALUE form, e.g. --pin-out=-1pF)
 output:
   --json                      the advice as JSON
   -h, --help                  this text
+
+every part:
+  motional advise --all [CONTENT] [--circuit NAME] [--circuits FILE] [--format text|csv|json]
+  One row per part (first sample) and circuit: recommended pair, offset, gain margin, start-up
+  time and a verdict (fits / check / does not fit / outside range). CONTENT is the content
+  folder (default content; parts in CONTENT/parts/*/part.yaml, circuits in
+  CONTENT/oscillators.yaml unless --circuits is given).
 `;
 
 function pfText(f: number): string {
   return formatSi(f, 'F', 4);
+}
+
+function ppmText(x: number): string {
+  return `${x >= 0 ? '+' : ''}${x.toFixed(3)} ppm`;
+}
+
+function budgetRange(p: CapacitorPair): string {
+  const r = (a: { min: number; max: number }) => `${ppmText(a.min)} … ${ppmText(a.max)}`;
+  return `${r(p.budget.worstCasePpm)}; ${r(p.budget.rssPpm)}`;
 }
 
 function pairColumn(p: CapacitorPair): string[] {
@@ -78,7 +105,10 @@ function pairColumn(p: CapacitorPair): string[] {
     ppm(p.offsetPpm),
     `${ppm(p.bandPpm.min)} … ${ppm(p.bandPpm.max)}`,
     `${p.gainMargin.toFixed(2)}${p.gainMarginDatasheet !== undefined ? ` (${p.gainMarginDatasheet.toFixed(2)} at max ESR)` : ''}`,
-    `${formatSi(p.negativeResistanceOhm, 'Ω', 4)} (RL ${formatSi(p.rlOhm, 'Ω', 4)})`,
+    `${formatSi(p.pinsResistanceOhm, 'Ω', 4)} (RL ${formatSi(p.rlOhm, 'Ω', 4)})`,
+    formatSi(p.motionalResistanceOhm, 'Ω', 4),
+    Number.isFinite(p.startupTauS) ? `τ ${formatSi(p.startupTauS, 's', 3)}, ${formatSi(p.startupTimeS, 's', 3)}` : 'does not start',
+    budgetRange(p),
     formatSi(p.driveW, 'W', 3),
   ];
 }
@@ -93,7 +123,7 @@ export function formatAdvice(a: PierceAdvice, sampleText: string): string {
     out.push(`no advice: ${a.reason}`);
   } else {
     out.push(`ideal equal capacitors ${pfText(a.idealEqualCapF)}`);
-    const labels = ['capacitors in / out', 'load capacitance', 'offset from target', 'band (tolerances)', 'gain margin gm/gm,crit', 'negative resistance', 'drive level'];
+    const labels = ['capacitors in / out', 'load capacitance', 'offset from target', 'band (tolerances)', 'gain margin gm/gm,crit', 'resistance at crystal pins', 'resistance at motional branch', 'start-up', 'budget (worst, rss)', 'drive level'];
     const eq = pairColumn(a.equal);
     const best = pairColumn(a.best);
     const w0 = Math.max(...labels.map((l) => l.length));
@@ -102,8 +132,10 @@ export function formatAdvice(a: PierceAdvice, sampleText: string): string {
     labels.forEach((l, i) => out.push(`${l.padEnd(w0)}  ${eq[i].padEnd(w1)}  ${best[i]}`));
     for (const [name, p] of [['equal pair', a.equal], ['best pair', a.best]] as const) {
       out.push('', `${name}:`);
-      const names: Record<string, string> = { frequency: 'frequency', gainMargin: 'gain margin', negativeResistance: 'negative resistance', drive: 'drive level' };
+      const names: Record<string, string> = { frequency: 'frequency', gainMargin: 'gain margin', negativeResistance: 'negative resistance', startup: 'start-up', budget: 'frequency budget', drive: 'drive level' };
       for (const [what, c] of Object.entries(p.checks)) out.push(`  [${c.verdict}] ${names[what] ?? what}: ${c.reason}`);
+      out.push('  frequency budget terms:');
+      for (const t of p.budget.terms) out.push(`    ${t.name} (${t.source}): ${ppmText(t.minPpm)} … ${ppmText(t.maxPpm)}`);
     }
   }
   out.push('', 'assumptions:', ...a.assumptions.map((s) => `  - ${s}`));
@@ -126,6 +158,8 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
         circuits: { type: 'string' },
         circuit: { type: 'string' },
         json: { type: 'boolean' },
+        all: { type: 'boolean' },
+        format: { type: 'string' },
         help: { type: 'boolean', short: 'h' },
         ...flagOptions,
       },
@@ -141,6 +175,8 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
     return EXIT_OK;
   }
   const usageError = (message: string) => (io.err(`motional advise: ${message}\n\n${USAGE}`), EXIT_USAGE);
+  if (v.all) return runAll(positionals, flags, io, usageError);
+  if (v.format !== undefined) return usageError('--format goes with --all (use --json for one part)');
   if (positionals.length !== 1) return usageError(`expected one PART, got ${positionals.length}`);
   if (v.sample !== undefined && v['lot-median']) return usageError('--sample and --lot-median exclude each other');
   let targetLoadF: number | undefined;
@@ -182,12 +218,12 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
       const problems: string[] = [];
       for (const k of given) {
         const field = CIRCUIT_FLAGS[k];
-        const one = OscillatorCircuitSchema.shape[field].safeParse(flags[k]);
-        if (one.success) circuit[field] = one.data;
+        const one = OscillatorCircuitInput.shape[field].safeParse(flags[k]);
+        if (one.success) circuit[CIRCUIT_OUTPUT_NAME[field]] = one.data;
         else problems.push(`--${k}: ${one.error.issues[0].message}`);
       }
       if (problems.length) return usageError(problems.join('\n'));
-      circuits = [circuit as OscillatorCircuit];
+      circuits = [circuit as unknown as OscillatorCircuit];
     } else {
       const base: Record<string, unknown> = { name: 'command-line', capacitorTolerance: '5 %', series: 'E12' };
       for (const k of given) base[CIRCUIT_FLAGS[k]] = flags[k];
@@ -210,17 +246,96 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
     io.err(`${chosen.part.id}: no main mode to advise on\n`);
     return EXIT_BAD_INPUT;
   }
-  const mainFs = model.branches[mainIndex].fsHz;
+  // Circuits are offered by the part's nominal (or load-resonance) frequency, not the measured fs.
+  const offerHz = offerFrequencyHz(chosen.part.datasheet, model, mainIndex);
   if (fromFile && v.circuit === undefined) {
-    circuits = circuits.filter((c) => !c.frequencyRange || (mainFs >= c.frequencyRange.min && mainFs <= c.frequencyRange.max));
+    circuits = circuits.filter((c) => circuitCovers(c, offerHz));
     if (!circuits.length) {
-      io.err(`${chosen.part.id}: no circuit in the circuits file covers ${formatSi(mainFs, 'Hz', 6)}; name one with --circuit or give its values\n`);
+      io.err(`${chosen.part.id}: no circuit in the circuits file covers ${formatSi(offerHz, 'Hz', 6)}; name one with --circuit or give its values\n`);
       return EXIT_BAD_INPUT;
     }
   }
   const sampleText = chosen.sample ? `sample ${chosen.sample.sample}` : `lot median of ${chosen.info.lotMedianOf} samples`;
-  const advice = circuits.map((circuit) => advisePierce({ partId: chosen.part.id, datasheet: chosen.part.datasheet, model, mainBranch: mainIndex, circuit, targetLoadF }));
+  const temperatureFit = chosen.sample?.temperature;
+  const advice = circuits.map((circuit) => advisePierce({ partId: chosen.part.id, datasheet: chosen.part.datasheet, model, mainBranch: mainIndex, circuit, targetLoadF, temperatureFit }));
   if (v.json) io.out(`${JSON.stringify(advice, null, 2)}\n`);
   else io.out(advice.map((a) => formatAdvice(a, sampleText)).join('\n'));
   return advice.every((a) => a.ok) ? EXIT_OK : EXIT_BAD_INPUT;
+}
+
+const ALL_FORMATS = ['text', 'csv', 'json'] as const;
+
+/** `advise --all`: every part of a content folder against every circuit (or one). */
+async function runAll(positionals: string[], flags: Record<string, string | boolean | undefined>, io: CliIo, usageError: (m: string) => number): Promise<number> {
+  const format = (flags.format ?? 'text') as string;
+  if (!(ALL_FORMATS as readonly string[]).includes(format)) return usageError(`--format: expected one of ${ALL_FORMATS.join(', ')}, got "${format}"`);
+  if (positionals.length > 1) return usageError(`--all takes at most one CONTENT folder, got ${positionals.length}`);
+  const other = ['sample', 'lot-median', 'cl', ...Object.keys(CIRCUIT_FLAGS)].filter((k) => flags[k] !== undefined);
+  if (other.length) return usageError(`--all takes only --circuit, --circuits and --format (not --${other.join(', --')})`);
+  const content = positionals[0] ?? 'content';
+  const file = (flags.circuits as string | undefined) ?? join(content, 'oscillators.yaml');
+  let text: string;
+  try {
+    text = await readFile(file, 'utf8');
+  } catch {
+    io.err(`${file}:1: cannot read the circuits file\n`);
+    return EXIT_BAD_INPUT;
+  }
+  const read = parseOscillatorsYaml(text, file);
+  for (const issue of read.issues) io.err(`${formatIssue(issue)}\n`);
+  if (read.issues.some((i) => i.severity === 'error')) return EXIT_BAD_INPUT;
+  let circuits = read.circuits;
+  if (flags.circuit !== undefined) {
+    circuits = circuits.filter((c) => c.name === flags.circuit);
+    if (!circuits.length) return usageError(`--circuit: no circuit "${flags.circuit}" in ${file} (circuits: ${read.circuits.map((x) => x.name).join(', ')})`);
+  }
+  const partsDir = join(content, 'parts');
+  let folders: string[];
+  try {
+    folders = (await readdir(partsDir, { withFileTypes: true })).filter((d) => d.isDirectory()).map((d) => d.name).sort();
+  } catch {
+    io.err(`${partsDir}: cannot read the parts folder\n`);
+    return EXIT_BAD_INPUT;
+  }
+  const rows: Array<{ part: string } & CircuitFit> = [];
+  let failed = 0;
+  const quiet: CliIo = { out: () => {}, err: (t) => io.err(t) };
+  for (const folder of folders) {
+    const chosen = await loadChosenModel(join(partsDir, folder), {}, quiet);
+    if (typeof chosen === 'number' || chosen.model.mainIndex < 0) {
+      failed++;
+      if (typeof chosen !== 'number') io.err(`${chosen.part.id}: no main mode to advise on\n`);
+      for (const c of circuits) rows.push({ part: folder, circuit: c.name, verdict: 'no', reason: 'no model (see the messages above)' });
+      continue;
+    }
+    const { model, mainIndex } = chosen.model;
+    const offerHz = offerFrequencyHz(chosen.part.datasheet, model, mainIndex);
+    for (const circuit of circuits) {
+      const covers = circuitCovers(circuit, offerHz);
+      const a = advisePierce({ partId: chosen.part.id, datasheet: chosen.part.datasheet, model, mainBranch: mainIndex, circuit, temperatureFit: chosen.sample?.temperature });
+      rows.push({ part: chosen.part.id, ...circuitFit(a, covers) });
+    }
+  }
+  if (format === 'json') io.out(`${JSON.stringify(rows, null, 2)}\n`);
+  else if (format === 'csv') io.out(fitsCsv(rows));
+  else io.out(fitsText(rows));
+  return failed ? EXIT_BAD_INPUT : EXIT_OK;
+}
+
+/** The fits as an aligned text table. */
+function fitsText(rows: Array<{ part: string } & CircuitFit>): string {
+  const head = ['part', 'circuit', 'verdict', 'pair in / out', 'offset', 'gain margin', 'start-up', 'note'];
+  const body = rows.map((r) => [
+    r.part,
+    r.circuit,
+    FIT_VERDICT_LABEL[r.verdict],
+    r.inputCapF !== undefined ? `${pfText(r.inputCapF)} / ${pfText(r.outputCapF!)}` : '',
+    r.offsetPpm !== undefined ? ppmText(r.offsetPpm) : '',
+    r.gainMargin !== undefined ? r.gainMargin.toFixed(2) : '',
+    r.startupTimeS !== undefined ? formatSi(r.startupTimeS, 's', 3) : r.verdict === 'outside' ? '' : r.inputCapF !== undefined ? 'never' : '',
+    r.verdict === 'fits' ? '' : r.reason,
+  ]);
+  const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i].length)));
+  const line = (cells: string[]) => cells.map((c, i) => (i === cells.length - 1 ? c : c.padEnd(widths[i]))).join('  ').trimEnd();
+  return `${[line(head), ...body.map(line)].join('\n')}\n`;
 }

@@ -35,11 +35,11 @@ export function formFromCircuit(data: CalculatorData, circuit: OscillatorCircuit
   const main = data.model.branches[data.mainBranch];
   return {
     circuit: circuit.name,
-    stray: pf(circuit.boardStray),
-    pinIn: pf(circuit.inputCapacitance),
-    pinOut: pf(circuit.outputCapacitance),
-    pinToPin: pf(circuit.pinToPinStray),
-    gm: String(Number((circuit.gm * 1e3).toPrecision(6))),
+    stray: pf(circuit.boardStrayF),
+    pinIn: pf(circuit.inputCapacitanceF),
+    pinOut: pf(circuit.outputCapacitanceF),
+    pinToPin: pf(circuit.pinToPinStrayF),
+    gm: String(Number((circuit.gmS * 1e3).toPrecision(6))),
     target: String(data.datasheet?.frequencyHz ?? main?.fsHz ?? ''),
   };
 }
@@ -67,11 +67,11 @@ export function runCalculator(data: CalculatorData, form: CalculatorForm): Calcu
   if (!target.ok || !(target.value > 0)) return { ok: false, message: `target frequency: expected a frequency such as "12M", got "${form.target}"` };
   const c: OscillatorCircuit = {
     ...circuit,
-    boardStray: stray as number,
-    inputCapacitance: pinIn as number,
-    outputCapacitance: pinOut as number,
-    pinToPinStray: pinToPin as number,
-    gm: gm.value * 1e-3,
+    boardStrayF: stray as number,
+    inputCapacitanceF: pinIn as number,
+    outputCapacitanceF: pinOut as number,
+    pinToPinStrayF: pinToPin as number,
+    gmS: gm.value * 1e-3,
   };
   const advice = advisePierce({ partId: data.partId, datasheet: { ...(data.datasheet ?? {}), frequencyHz: target.value }, model: data.model, mainBranch: data.mainBranch, circuit: c });
   if (!advice.ok) return { ok: false, message: advice.reason, advice };
@@ -86,7 +86,9 @@ export function runCalculator(data: CalculatorData, form: CalculatorForm): Calcu
       { label: 'Frequency offset', value: formatPpm(b.offsetPpm, 3), state: b.checks.frequency.verdict },
       { label: 'Offset band over tolerances', value: `${formatPpm(b.bandPpm.min, 2)} … ${formatPpm(b.bandPpm.max, 2)}` },
       { label: 'Gain margin gm/gm,crit', value: formatNumber(b.gainMargin, 3), state: b.checks.gainMargin.verdict },
-      { label: 'Negative resistance', value: formatQty(b.negativeResistanceOhm, 'Ω', 4) },
+      { label: 'Resistance seen by the crystal pins', value: formatQty(b.pinsResistanceOhm, 'Ω', 4), state: b.checks.negativeResistance.verdict },
+      { label: 'Resistance seen by the motional branch', value: formatQty(b.motionalResistanceOhm, 'Ω', 4) },
+      { label: 'Start-up time constant / time', value: Number.isFinite(b.startupTauS) ? `${formatQty(b.startupTauS, 's', 3)} / ${formatQty(b.startupTimeS, 's', 3)}` : 'does not start', state: b.checks.startup.verdict },
       { label: 'Estimated drive', value: formatQty(b.driveW, 'W', 3), state: b.checks.drive.verdict },
       { label: 'Equal pair', value: `2 × ${formatQty(e.inputCapF, 'F', 3)}: ${formatPpm(e.offsetPpm, 3)}, gain margin ${formatNumber(e.gainMargin, 3)}` },
       { label: 'Frequency with the closest pair', value: formatHz(b.freqHz, 10) },

@@ -10,6 +10,7 @@ import { formatBytes, formatHz, formatNumber, formatPpm, formatQty, formatWithUn
 import { renderMarkdown } from './markdown.ts';
 import { modeLabel, overtoneLabel } from '../lib/models/mode-label.ts';
 import type { PartData, SampleData } from './types.ts';
+import { pierceDesignView, type PierceDesignView } from './pierce-design.ts';
 
 export interface Row {
   label: string;
@@ -60,8 +61,10 @@ export interface PierceView {
   reason?: string;
   target?: string;
   pairs: Array<{ title: string; rows: Row[] }>;
-  checks: Array<{ label: string; verdict: 'pass' | 'warn'; reason: string }>;
+  checks: Array<{ label: string; verdict: 'pass' | 'warn' | 'fail'; reason: string }>;
   assumptions: string[];
+  /** Negative-resistance curve, start-up and frequency budget (pierce-design.ts). */
+  design: PierceDesignView;
 }
 
 export interface PartView {
@@ -230,15 +233,19 @@ function pairRows(p: CapacitorPair): Row[] {
     { label: 'Offset from target', value: formatPpm(p.offsetPpm, 3) },
     { label: 'Offset band (tolerances)', value: `${formatPpm(p.bandPpm.min, 2)} … ${formatPpm(p.bandPpm.max, 2)}` },
     { label: 'Gain margin gm/gm,crit', value: formatNumber(p.gainMargin, 3) + (p.gainMarginDatasheet !== undefined ? ` (${formatNumber(p.gainMarginDatasheet, 3)} at datasheet ESR)` : '') },
-    { label: 'Negative resistance', value: `${formatQty(p.negativeResistanceOhm, 'Ω', 4)} (RL ${formatQty(p.rlOhm, 'Ω', 4)})` },
+    { label: 'Resistance seen by the crystal pins', value: `${formatQty(p.pinsResistanceOhm, 'Ω', 4)} (RL ${formatQty(p.rlOhm, 'Ω', 4)})` },
+    { label: 'Resistance seen by the motional branch', value: formatQty(p.motionalResistanceOhm, 'Ω', 4) },
+    { label: 'Start-up time constant', value: Number.isFinite(p.startupTauS) ? formatQty(p.startupTauS, 's', 3) : 'does not start' },
+    { label: 'Start-up time (from noise)', value: Number.isFinite(p.startupTimeS) ? formatQty(p.startupTimeS, 's', 3) : '—' },
     { label: 'Estimated drive', value: formatQty(p.driveW, 'W', 3) },
   ];
 }
 
-function pierceView(a: PartData['pierce'][number]): PierceView {
+function pierceView(a: PartData['pierce'][number], calc: PartData['calculator'], index: number): PierceView {
+  const design = pierceDesignView(a, calc, `nr-curve-${index}`);
   const target = a.target ? `${formatHz(a.target.targetHz, 10)} (${a.target.targetBasis}); ideal load ${formatQty(a.target.idealLoadF, 'F', 4)}` : undefined;
-  if (!a.ok) return { circuit: a.circuit, ok: false, reason: a.reason, target, pairs: [], checks: [], assumptions: a.assumptions };
-  const names = { frequency: 'Frequency', gainMargin: 'Gain margin', negativeResistance: 'Negative resistance', drive: 'Drive level' } as const;
+  if (!a.ok) return { circuit: a.circuit, ok: false, reason: a.reason, target, pairs: [], checks: [], assumptions: a.assumptions, design };
+  const names = { frequency: 'Frequency', gainMargin: 'Gain margin', negativeResistance: 'Negative resistance', startup: 'Start-up', budget: 'Frequency budget', drive: 'Drive level' } as const;
   return {
     circuit: a.circuit,
     ok: true,
@@ -249,6 +256,7 @@ function pierceView(a: PartData['pierce'][number]): PierceView {
     ],
     checks: (Object.keys(names) as Array<keyof typeof names>).map((k) => ({ label: names[k], verdict: a.best.checks[k].verdict, reason: a.best.checks[k].reason })),
     assumptions: a.assumptions,
+    design,
   };
 }
 
@@ -321,7 +329,7 @@ export function makePartView(d: PartData, base: string): PartView {
           }),
         }
       : undefined,
-    pierce: d.pierce.map(pierceView),
+    pierce: d.pierce.map((a, i) => pierceView(a, d.calculator, i)),
     cautions: [...PART_CAUTIONS],
     downloads: d.downloads.map((x) => ({ href: `${base}downloads/${encodeURIComponent(d.id)}/${x.name.split('/').map(encodeURIComponent).join('/')}`, label: x.label, name: x.name, size: formatBytes(x.bytes) })),
     recordWarnings: d.recordWarnings,

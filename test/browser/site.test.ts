@@ -247,7 +247,7 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     await page.fill('#c-target', String(target));
     const rows = await page.locator('#calc-table tr').evaluateAll((trs) => trs.map((tr) => [tr.querySelector('th')?.textContent ?? '', tr.querySelector('td')?.textContent ?? '']));
     const got = Object.fromEntries(rows);
-    const circuit = { ...data.circuits[0], boardStray: 2.5e-12 };
+    const circuit = { ...data.circuits[0], boardStrayF: 2.5e-12 };
     const advice = advisePierce({ partId: data.partId, datasheet: { ...(data.datasheet ?? {}), frequencyHz: target }, model: data.model, mainBranch: data.mainBranch, circuit });
     expect(advice.ok).toBe(true);
     if (!advice.ok) return;
@@ -264,7 +264,7 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
       const out = cli(['advise', join('content', 'parts', entry.id), '--circuit', data.circuits[0].name, '--json']);
       const cliAdvice = JSON.parse(out);
       const first = Array.isArray(cliAdvice) ? cliAdvice[0] : cliAdvice.advice?.[0] ?? cliAdvice;
-      await page.fill('#c-stray', String(data.circuits[0].boardStray * 1e12));
+      await page.fill('#c-stray', String(data.circuits[0].boardStrayF * 1e12));
       const rows2 = Object.fromEntries(await page.locator('#calc-table tr').evaluateAll((trs) => trs.map((tr) => [tr.querySelector('th')?.textContent ?? '', tr.querySelector('td')?.textContent ?? ''])));
       const off2 = Number(rows2['Frequency offset'].replace('−', '-').replace(/[^\d.+-]/g, ''));
       expect(Math.abs(off2 - first.best.offsetPpm)).toBeLessThanOrEqual(0.0005);

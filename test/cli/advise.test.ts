@@ -112,6 +112,55 @@ describe('motional advise', () => {
     writeFileSync(rtcOnly, `circuits:\n${CIRCUITS.split('  - name: rtc-only')[1].replace(/^/, '  - name: rtc-only')}`);
     const r = await run(['advise', part, '--circuits', rtcOnly]);
     expect(r.code).toBe(1);
-    expect(r.err).toMatch(/no circuit in the circuits file covers 15\.9155 MHz/);
+    // offered by the datasheet nominal 15.9208 MHz (design-part.ts), not the measured fs 15.9155 MHz
+    expect(r.err).toMatch(/no circuit in the circuits file covers 15\.9208 MHz/);
+  });
+
+  it('--json carries the start-up time constant in seconds (startupTauS) for every pair', async () => {
+    const r = await run(['advise', part, '--circuits', circuits, '--json']);
+    expect(r.code).toBe(0);
+    const advice = JSON.parse(r.out) as Array<{ ok: boolean; equal: Record<string, unknown>; best: Record<string, unknown> }>;
+    expect(advice.length).toBeGreaterThan(0);
+    for (const a of advice) {
+      for (const p of [a.equal, a.best]) {
+        expect(typeof p.startupTauS).toBe('number');
+        expect(p.startupTauS as number).toBeGreaterThan(0);
+        expect(typeof p.motionalResistanceOhm).toBe('number');
+        expect(typeof p.pinsResistanceOhm).toBe('number');
+        expect((p.budget as { terms: unknown[] }).terms.length).toBeGreaterThan(1);
+      }
+    }
+  });
+
+  it('offers circuits by the nominal frequency, not the measured fs', async () => {
+    // The part's fs is 15.9155 MHz and its datasheet nominal 15.9208 MHz: a circuit for 15.92 MHz
+    // and up is meant for it.
+    const upper = join(dir, 'upper.yaml');
+    writeFileSync(upper, CIRCUITS.replace('frequencyRange: 10 MHz to 20 MHz', 'frequencyRange: 15.92 MHz to 52 MHz'));
+    const r = await run(['advise', part, '--circuits', upper]);
+    expect(r.code).toBe(0);
+    expect(r.out).toContain('in circuit test-pierce');
+  });
+
+  it('--all prints one row per part and circuit as text, CSV and JSON', async () => {
+    const content = join(dir, 'content');
+    writeDesignPart(join(content, 'parts'));
+    writeFileSync(join(content, 'oscillators.yaml'), CIRCUITS);
+    const text = await run(['advise', '--all', content]);
+    expect(text.code).toBe(0);
+    expect(text.out.split('\n')[0]).toMatch(/^part\s+circuit\s+verdict\s+pair in \/ out\s+offset\s+gain margin\s+start-up/);
+    expect(text.out).toMatch(/dsn-16m\s+rtc-only\s+outside range/);
+    const csv = await run(['advise', '--all', content, '--format', 'csv']);
+    const lines = csv.out.trim().split('\n');
+    expect(lines[0]).toBe('part,circuit,verdict,inputCapF,outputCapF,offsetPpm,gainMargin,startupTauS,startupTimeS,budgetWorstPpm,reason');
+    expect(lines).toHaveLength(3);
+    const json = await run(['advise', '--all', content, '--format', 'json', '--circuit', 'test-pierce']);
+    const rows = JSON.parse(json.out) as Array<{ part: string; circuit: string; verdict: string; startupTauS?: number }>;
+    expect(rows).toHaveLength(1);
+    expect(rows[0]).toMatchObject({ part: 'dsn-16m', circuit: 'test-pierce' });
+    expect(['fits', 'check', 'no']).toContain(rows[0].verdict);
+    expect(rows[0].startupTauS).toBeGreaterThan(0);
+    expect((await run(['advise', '--all', content, '--format', 'xml'])).code).toBe(2);
+    expect((await run(['advise', '--all', content, '--gm', '5mS'])).code).toBe(2);
   });
 });

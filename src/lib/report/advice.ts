@@ -8,6 +8,8 @@ import type { Part } from '../schema/part.ts';
 import type { OscillatorCircuit } from '../schema/oscillators.ts';
 import { advisePierce, type PierceAdvice } from '../osc/pierce.ts';
 import { sampleModel } from '../osc/sample-model.ts';
+import { loadFrequencyHz } from '../osc/load.ts';
+import type { BvdModel } from '../models/bvd.ts';
 import { checkCompliance, type ComplianceResult } from '../osc/compliance.ts';
 import { lotStatistics, type LotStatistics } from '../osc/lot-stats.ts';
 import type { CalculatorData, ComplianceState } from './types.ts';
@@ -38,22 +40,43 @@ export function buildLotStats(part: Part, result: PartResult): LotStatistics | u
 }
 
 /**
- * The circuits meant for a part: those whose frequency range holds the main mode's fs, as
- * `advise` without `--circuit` picks them; all circuits when none is meant for it.
+ * The frequency a part is offered to circuits by: the datasheet nominal when given, else the
+ * sample's load resonance at the datasheet load capacitance, else its series resonance fs. Not the
+ * measured fs alone: a 16 MHz part whose fs is 15.996 MHz belongs to a 16–52 MHz circuit.
  */
-export function circuitsFor(circuits: OscillatorCircuit[], fsHz: number): OscillatorCircuit[] {
-  const meant = circuits.filter((c) => !c.frequencyRange || (fsHz >= c.frequencyRange.min && fsHz <= c.frequencyRange.max));
+export function offerFrequencyHz(datasheet: Part['datasheet'], model: BvdModel, mainBranch: number): number {
+  const br = model.branches[mainBranch];
+  if (datasheet?.frequencyHz !== undefined) return datasheet.frequencyHz;
+  if (typeof datasheet?.loadCapacitanceF === 'number') return loadFrequencyHz(br, model.c0F, datasheet.loadCapacitanceF);
+  return br.fsHz;
+}
+
+/** Whether a circuit is meant for parts of this frequency (no range: for every part). */
+export function circuitCovers(circuit: OscillatorCircuit, freqHz: number): boolean {
+  const r = circuit.frequencyRangeHz;
+  return !r || (freqHz >= r.min && freqHz <= r.max);
+}
+
+/**
+ * The circuits meant for a part: those whose frequency range holds its offer frequency
+ * ({@link offerFrequencyHz}), as `advise` without `--circuit` picks them; all circuits when none is
+ * meant for it.
+ */
+export function circuitsFor(circuits: OscillatorCircuit[], freqHz: number): OscillatorCircuit[] {
+  const meant = circuits.filter((c) => circuitCovers(c, freqHz));
   return meant.length ? meant : circuits;
 }
 
 /** Pierce advice for each circuit meant for the part, for one sample's main mode (what `advise` computes). */
 export function buildPierce(sample: SampleResult, main: { index: number }, part: Part, circuits: OscillatorCircuit[]): PierceAdvice[] {
   const model = sampleModel(sample);
-  return circuitsFor(circuits, model.branches[main.index].fsHz).map((circuit) => advisePierce({ partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuit }));
+  return circuitsFor(circuits, offerFrequencyHz(part.datasheet, model, main.index)).map((circuit) =>
+    advisePierce({ partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuit, temperatureFit: sample.temperature }),
+  );
 }
 
 /** Calculator inputs: the same arguments `advisePierce` gets, for the client to vary. */
 export function buildCalculator(sample: SampleResult, main: { index: number }, part: Part, circuits: OscillatorCircuit[]): CalculatorData {
   const model = sampleModel(sample);
-  return { partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuits: circuitsFor(circuits, model.branches[main.index].fsHz) };
+  return { partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuits: circuitsFor(circuits, offerFrequencyHz(part.datasheet, model, main.index)) };
 }

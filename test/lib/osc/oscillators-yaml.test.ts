@@ -27,18 +27,18 @@ describe('parseOscillatorsYaml', () => {
     expect(issues).toEqual([]);
     expect(circuits).toHaveLength(1);
     const c = circuits[0];
-    expect(c.gm).toBeCloseTo(5e-3, 15);
-    expect(c.inputCapacitance).toBeCloseTo(3e-12, 24);
-    expect(c.boardStrayUncertainty).toBeCloseTo(0.5e-12, 24);
-    expect(c.pinToPinStray).toBe(0);
-    expect(c.supply).toBe(3.3);
-    expect(c.capacitorTolerance).toBeCloseTo(0.05, 15);
+    expect(c.gmS).toBeCloseTo(5e-3, 15);
+    expect(c.inputCapacitanceF).toBeCloseTo(3e-12, 24);
+    expect(c.boardStrayUncertaintyF).toBeCloseTo(0.5e-12, 24);
+    expect(c.pinToPinStrayF).toBe(0);
+    expect(c.supplyV).toBe(3.3);
+    expect(c.capacitorToleranceFraction).toBeCloseTo(0.05, 15);
     expect(c.series).toBe('E12');
   });
 
   it('accepts gm in mS as well as mA/V', () => {
     const { circuits } = parseOscillatorsYaml(withLine(3, '    gm: 5 mS'), 'osc.yaml');
-    expect(circuits[0].gm).toBeCloseTo(5e-3, 15);
+    expect(circuits[0].gmS).toBeCloseTo(5e-3, 15);
   });
 
   it('reports a negative capacitance at its line and field', () => {
@@ -103,7 +103,7 @@ describe('parseOscillatorsYaml', () => {
     expect(issues).toEqual([]);
     expect(circuits.map((c) => c.name)).toEqual(['sensor-hub-pierce', 'radio-ref-pierce', 'rtc-lowpower-pierce', 'legacy-board-pierce']);
     const rtc = circuits[2];
-    expect(rtc.gm).toBeCloseTo(25e-6, 18);
-    expect(rtc.frequencyRange).toEqual({ min: 30e3, max: 40e3 });
+    expect(rtc.gmS).toBeCloseTo(25e-6, 18);
+    expect(rtc.frequencyRangeHz).toEqual({ min: 30e3, max: 40e3 });
   });
 });

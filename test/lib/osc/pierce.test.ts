@@ -14,8 +14,8 @@ const fL12 = loadFrequencyHz(x1, X1.c0F, 12 * pF);
 /** A circuit with the lumped stray of the usual Pierce load formula (CL = CaCb/(Ca + Cb) + Cstray) as pin-to-pin stray. */
 function circuit(extra: Partial<OscillatorCircuit> = {}): OscillatorCircuit {
   return {
-    name: 'bench-pierce', gm: 5e-3, inputCapacitance: 0, outputCapacitance: 0, boardStray: 0, boardStrayUncertainty: 0,
-    pinToPinStray: 2.5 * pF, pinToPinStrayUncertainty: 0, supply: 3.3, capacitorTolerance: 0.05, series: 'E12', ...extra,
+    name: 'bench-pierce', gmS: 5e-3, inputCapacitanceF: 0, outputCapacitanceF: 0, boardStrayF: 0, boardStrayUncertaintyF: 0,
+    pinToPinStrayF: 2.5 * pF, pinToPinStrayUncertaintyF: 0, supplyV: 3.3, capacitorToleranceFraction: 0.05, series: 'E12', ...extra,
   };
 }
 
@@ -111,7 +111,7 @@ describe('Pierce capacitor advice (example: CL 8 pF, stray 2.5 pF, E12)', () => 
 
 describe('Pierce gain margin, negative resistance and drive verdicts', () => {
   // Ca = Cb = 24 pF: external 20 pF + 3 pF pin + 1 pF board; CL = 12 pF exactly.
-  const c = circuit({ gm: 1e-3, inputCapacitance: 3 * pF, outputCapacitance: 3 * pF, boardStray: 1 * pF, pinToPinStray: 0, series: 'E24' });
+  const c = circuit({ gmS: 1e-3, inputCapacitanceF: 3 * pF, outputCapacitanceF: 3 * pF, boardStrayF: 1 * pF, pinToPinStrayF: 0, series: 'E24' });
   const a = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 12 * pF, esrMaxOhm: 40, driveMaxW: 10e-6 }, model: X1, mainBranch: 0, circuit: c }));
 
   it('includes pin and board capacitance in Ca and Cb (20 pF external → 24 pF each side)', () => {
@@ -134,12 +134,12 @@ describe('Pierce gain margin, negative resistance and drive verdicts', () => {
     expect(a.best.driveW / 1e-6).toBeCloseTo(5.625 * 3.3 ** 2 * (a.best.freqHz / x1.fsHz) ** 2, 6);
     expect(a.best.checks.drive.verdict).toBe('warn');
     expect(a.assumptions.join(' ')).toMatch(/assumed equal to the supply/);
-    const low = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 12 * pF, driveMaxW: 100e-6 }, model: X1, mainBranch: 0, circuit: { ...c, swing: 1, gm: 20e-3 } }));
+    const low = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 12 * pF, driveMaxW: 100e-6 }, model: X1, mainBranch: 0, circuit: { ...c, swingVpp: 1, gmS: 20e-3 } }));
     expect(low.best.checks.drive.verdict).toBe('pass');
     expect(low.best.checks.gainMargin.verdict).toBe('pass');
   });
   it('fails with a reason when the strays alone exceed the load capacitance', () => {
-    const r = advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 4 * pF }, model: X1, mainBranch: 0, circuit: { ...c, inputCapacitance: 10 * pF, outputCapacitance: 10 * pF } });
+    const r = advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 4 * pF }, model: X1, mainBranch: 0, circuit: { ...c, inputCapacitanceF: 10 * pF, outputCapacitanceF: 10 * pF } });
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.reason).toMatch(/already reach the load capacitance/);
   });
