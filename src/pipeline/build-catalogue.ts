@@ -23,7 +23,7 @@ import { dirname, join, resolve } from 'node:path';
 import { OUTPUT_MARKER, cleanStale, createStaging, discardStaging, refuseReplace, swapInto, type StagingDir } from './atomic-dir.ts';
 import { findPartFiles } from './check-paths.ts';
 import { nodeFileSource } from './file-source.ts';
-import { linkFiles, type BuildTaskContext } from './build-task.ts';
+import { linkFiles, placeResultFiles, type BuildTaskContext } from './build-task.ts';
 import { pruneCache, sha256 } from './cache.ts';
 import { extractionCodeHash } from './code-hash.ts';
 import type { IndexEntry } from '../lib/report/types.ts';
@@ -187,16 +187,19 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     await writeIndex(dataDir, index);
     await rm(scratchDir, { recursive: true, force: true });
     const ids = index.map((e) => e.id);
+    const partKeys = Object.fromEntries(results.map((r) => [r.id!, r.key]));
+    const siteHash = options.dataOnly ? '' : await siteCodeHash(PROJECT_ROOT);
+    const plan = options.dataOnly || options.fullSite || !useCache ? undefined : planPartialSite(await readManifest(outDir), { siteHash, base: basePath, parts: partKeys });
+    const partial = plan && (await siteSupportsPartialPages()) ? plan : undefined;
+    // cached parts' files go into the data folder only when the whole data folder is needed
+    if (!partial || options.keepDataDir) {
+      if (!(await placeResultFiles(results, dataDir, dataDir))) throw new Error('a cache entry lost its files while the build ran');
+    }
     checkAbort();
 
     let builtDir = dataDir;
-    const partKeys = Object.fromEntries(results.map((r) => [r.id!, r.key]));
-    let siteHash = '';
     if (!options.dataOnly) {
       stage('site');
-      siteHash = await siteCodeHash(PROJECT_ROOT);
-      const plan = options.fullSite || !useCache ? undefined : planPartialSite(await readManifest(outDir), { siteHash, base: basePath, parts: partKeys });
-      const partial = plan && (await siteSupportsPartialPages()) ? plan : undefined;
       const siteDir = join(staging.root, 'site');
       const astro = { basePath, progress: progressStream, log, signal: options.signal };
       let astroUsage: AstroUsage = { peakRssBytes: 0, cpuSeconds: 0 };
@@ -209,8 +212,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         const deltaDir = join(staging.root, 'delta');
         const freshDir = join(staging.root, 'site-fresh');
         const changed = new Set(partial.changed);
-        const deltaFiles = ['index.json', ...results.filter((r) => changed.has(r.id!)).flatMap((r) => r.files ?? [])];
-        if (!(await linkFiles(dataDir, deltaFiles, deltaDir))) throw new Error('a part file vanished from the staging folder');
+        const placed = await linkFiles(dataDir, ['index.json'], deltaDir) && (await placeResultFiles(results.filter((r) => changed.has(r.id!)), dataDir, deltaDir));
+        if (!placed) throw new Error('a part file vanished while the build ran');
         const pagesFile = join(staging.root, 'pages.json');
         await writeFile(pagesFile, JSON.stringify(partial.changed));
         let renderer: 'pages' | 'generator' = 'generator';

@@ -10,7 +10,7 @@
  * part's files with emit.ts's writer, store them in the cache, and put them into the data
  * folder. Only a small index row travels back, so memory stays flat however many parts.
  */
-import { copyFile, link, mkdir, readdir, rename, rm } from 'node:fs/promises';
+import { copyFile, link, mkdir, readdir, rename, rm, stat } from 'node:fs/promises';
 import { dirname, join, relative, sep } from 'node:path';
 import type { Issue } from '../lib/issues.ts';
 import type { OscillatorCircuit } from '../lib/schema/oscillators.ts';
@@ -78,8 +78,10 @@ export interface BuildTaskResult {
   stats?: PartStats;
   /** Search-index row of the part, once its files are in the data folder. */
   indexEntry?: IndexEntry;
-  /** The part's files in the data folder, relative, '/'-separated. */
+  /** The part's files, relative, '/'-separated: in the data folder, or in {@link BuildTaskResult.filesDir}. */
   files?: string[];
+  /** Where the part's files are when they are not yet in the data folder (a cache entry). */
+  filesDir?: string;
   /** Cache key of the part's data (when the cache is on). */
   key?: string;
   ms: TaskTimes;
@@ -128,7 +130,6 @@ export interface RecordLookup {
  */
 export function createRecordLookup(context: BuildTaskContext, memo?: FingerprintMemo): RecordLookup {
   const access = cacheAccess(context);
-  const dirs = new Set<string>();
   return {
     async lookup(index, yamlFile) {
       const task: BuildTask = { index, yamlFile, validateOnly: false };
@@ -141,12 +142,15 @@ export function createRecordLookup(context: BuildTaskContext, memo?: Fingerprint
       const text = await access.cache.get(key);
       const header = text === undefined ? undefined : parseHeader(text);
       const t1 = performance.now();
-      if (header && (await linkFiles(access.cache.filesOf(key), header.files, context.dataDir, dirs))) {
+      // the entry's files are linked into the data folder only when the build needs them there
+      // (placeResultFiles): an incremental build needs just the changed parts' files
+      const filesDir = access.cache.filesOf(key);
+      if (header && (await filesPresent(filesDir, header.files))) {
         const ms = { ...noTimes(), hash: t1 - t0, emit: performance.now() - t1 };
         return {
           done: {
             index, yamlFile, id: header.id, idLine: header.idLine, issues: relocate(header.issues, folder),
-            valid: true, cached: true, stats: header.stats, indexEntry: header.indexEntry, files: header.files, key, ms,
+            valid: true, cached: true, stats: header.stats, indexEntry: header.indexEntry, files: header.files, filesDir, key, ms,
           },
         };
       }
@@ -248,6 +252,34 @@ export async function createBuildTaskRunner(context: BuildTaskContext): Promise<
     return { ...base, id: loaded.part.id, idLine, issues: loaded.issues, valid: true, cached: false, stats, indexEntry, files, key: task.key };
   };
   return { run };
+}
+
+/** True when a cache entry still holds its files (the first and last stand for all: entries are written whole). */
+async function filesPresent(dir: string, files: string[]): Promise<boolean> {
+  const probe = files.length > 1 ? [files[0], files[files.length - 1]] : files;
+  for (const rel of probe) if (!(await stat(join(dir, ...rel.split('/'))).catch(() => undefined))) return false;
+  return true;
+}
+
+/**
+ * Put the files of these results into `to` (hard links): from their cache entry, or from the
+ * data folder when they were written there.
+ * @returns false when a file is missing
+ */
+export async function placeResultFiles(results: BuildTaskResult[], dataDir: string, to: string): Promise<boolean> {
+  const dirs = new Set<string>();
+  let next = 0;
+  let ok = true;
+  const lane = async () => {
+    while (next < results.length && ok) {
+      const r = results[next++];
+      const from = r.filesDir ?? dataDir;
+      if (from === to || !r.files) continue;
+      if (!(await linkFiles(from, r.files, to, dirs))) ok = false;
+    }
+  };
+  await Promise.all(Array.from({ length: 8 }, lane));
+  return ok;
 }
 
 /** Every file under a folder, relative, '/'-separated, sorted. */

@@ -14,6 +14,7 @@ import { loadFingerprintMemo, sha256 } from './cache.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
 import { PROJECT_ROOT } from './project-root.ts';
 import { createWorkerPool, runLanes } from './worker-pool.ts';
+import { bundledWorker } from './worker-bundle.ts';
 
 /** The circuits file: `<content>/oscillators.yaml`, else the project's demo one, else none. */
 export async function readOscillators(contentDir: string, issues: Issue[]): Promise<BuildTaskContext['oscillators']> {
@@ -72,12 +73,11 @@ export async function runRecords(
   await memo?.save().catch(() => undefined);
   todo.sort((a, b) => a.index - b.index);
 
-  // The main thread always takes tasks too (it starts in a fraction of a second, while a
-  // worker thread needs a second or two to load its code), plus jobs − 1 worker threads when
-  // there is enough to do.
+  // The main thread always takes tasks too, plus jobs − 1 worker threads when there is enough
+  // to do; the threads load the worker code bundled into one file (worker-bundle.ts).
   const threads = jobs > 1 && todo.length >= MIN_RECORDS_FOR_THREADS ? Math.min(jobs - 1, todo.length - 1) : 0;
   const pool = threads > 0
-    ? createWorkerPool<BuildTask, BuildTaskResult>({ moduleUrl: new URL('./build-worker.ts', import.meta.url), size: threads, workerData: context })
+    ? createWorkerPool<BuildTask, BuildTaskResult>({ moduleUrl: await bundledWorker(new URL('./build-worker.ts', import.meta.url)), size: threads, workerData: context })
     : undefined;
   let next = 0;
   let halted = false; // a lane failed: the others stop after their current task
