@@ -16,7 +16,7 @@ import { readdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import { advisePierce, type CapacitorPair, type PierceAdvice } from '../../src/lib/osc/pierce.ts';
 import { parseOscillatorsYaml } from '../../src/lib/osc/oscillators-yaml.ts';
-import { circuitCovers, offerFrequencyHz } from '../../src/lib/report/advice.ts';
+import { circuitCovers, offerFrequencyHz } from '../../src/lib/osc/circuit-offer.ts';
 import { circuitFit, fitsCsv, FIT_VERDICT_LABEL, type CircuitFit } from '../../src/lib/report/fits.ts';
 import { CIRCUIT_OUTPUT_NAME, OscillatorCircuitInput, OscillatorCircuitSchema, type CircuitRecordKey, type OscillatorCircuit } from '../../src/lib/schema/oscillators.ts';
 import { formatSi, parseQuantity } from '../../src/lib/units/si.ts';

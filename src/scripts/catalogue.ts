@@ -6,6 +6,7 @@
 import { compareEntries, compileFilters, emptyFilterState, readFilterState, writeFilterState, SORT_KEYS, type FilterState, type SortKey } from '../site/filters.ts';
 import type { IndexEntry } from '../site/types.ts';
 import { createSearcher } from '../site/search.ts';
+import { showFits } from './catalogue-fits.ts';
 
 const form = document.getElementById('catalogue-filters') as HTMLFormElement | null;
 const table = document.getElementById('catalogue-table') as HTMLTableElement | null;
@@ -18,7 +19,7 @@ function field(name: keyof FilterState): HTMLInputElement | HTMLSelectElement | 
   return form?.elements.namedItem(name) as HTMLInputElement | HTMLSelectElement | null;
 }
 
-const TEXT_FIELDS = ['q', 'f', 'esr', 'cl', 'kind', 'pkg', 'ot', 'state'] as const;
+const TEXT_FIELDS = ['q', 'f', 'esr', 'cl', 'kind', 'pkg', 'ot', 'state', 'circuit', 'fit'] as const;
 
 /** Rows listed at a time. */
 const PAGE_ROWS = 100;
@@ -34,6 +35,7 @@ async function start(): Promise<void> {
   const points = new Map<string, Element>();
   document.querySelectorAll('.point-link[data-id]').forEach((a) => points.set(a.getAttribute('data-id') ?? '', a));
   const searcher = createSearcher(entries);
+  const byId = new Map(entries.map((e) => [e.id, e]));
 
   let state: FilterState = readFilterState(new URLSearchParams(location.search));
   for (const k of TEXT_FIELDS) {
@@ -73,6 +75,7 @@ async function start(): Promise<void> {
     visible.sort((a, b) => compareEntries(a, b, state.sort, state.dir));
     const page = visible.slice(0, limit).map((e) => rows.get(e.id)).filter((r): r is HTMLTableRowElement => !!r);
     tbody.replaceChildren(...page);
+    showFits(table!, page, byId, state.circuit);
     if (count) count.textContent = `${visible.length} of ${entries.length} part${entries.length === 1 ? '' : 's'}${visible.length > limit ? ` (first ${limit} listed)` : ''}`;
     if (empty) empty.hidden = visible.length > 0;
     if (more) {

@@ -8,6 +8,7 @@ import type { IndexEntry } from './types.ts';
 import { PART_KINDS, type PartKind } from '../lib/schema/part.ts';
 import { CATALOGUE_COLUMNS } from './catalogue-columns.ts';
 import { ID_COLLATOR, sortById } from '../lib/report/index-order.ts';
+import { FIT_VERDICT_LABEL, FIT_VERDICTS } from '../lib/report/fits.ts';
 
 export interface CatalogueRow {
   id: string;
@@ -25,6 +26,9 @@ export interface CatalogueView {
   packages: string[];
   overtones: number[];
   states: Array<{ value: string; label: string }>;
+  /** Circuits with a fit for at least one part, for the "fits circuit" selector. */
+  circuits: string[];
+  fitVerdicts: Array<{ value: string; label: string }>;
   overview?: PlotLayout;
   count: number;
 }
@@ -74,5 +78,7 @@ export function makeCatalogueView(entries: IndexEntry[], base: string): Catalogu
         height: 360,
       })
     : undefined;
-  return { rows, kinds, packages, overtones, states, overview, count: entries.length };
+  const circuits = [...new Set(entries.flatMap((e) => (e.fits ?? []).map((f) => f.circuit)))].sort(ID_COLLATOR.compare);
+  const fitVerdicts = FIT_VERDICTS.map((v) => ({ value: v, label: FIT_VERDICT_LABEL[v] }));
+  return { rows, kinds, packages, overtones, states, circuits, fitVerdicts, overview, count: entries.length };
 }

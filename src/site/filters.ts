@@ -13,6 +13,7 @@ import type { ComplianceState, IndexEntry } from './types.ts';
 import { SORT_KEYS, type SortKey } from './catalogue-columns.ts';
 import { ID_COLLATOR } from '../lib/report/index-order.ts';
 import { PREFIX_SCALE } from '../lib/units/si.ts';
+import { FIT_VERDICTS, fitFor, type FitVerdict } from '../lib/report/fits.ts';
 
 /** Relative half-width of the window a single value stands for (1 %). */
 export const SINGLE_VALUE_TOLERANCE = 0.01;
@@ -115,6 +116,10 @@ export interface FilterState {
   /** Overtone order of the main mode, '' for any. */
   ot: string;
   state: '' | ComplianceState;
+  /** Oscillator circuit whose fit columns are shown ('' for none). */
+  circuit: string;
+  /** Fit verdict in that circuit, '' for any. */
+  fit: '' | FitVerdict;
   /** Sort column key and direction. */
   sort: SortKey;
   dir: 'asc' | 'desc';
@@ -122,11 +127,11 @@ export interface FilterState {
 
 export { SORT_KEYS, type SortKey };
 
-const FIELDS = ['q', 'f', 'esr', 'cl', 'kind', 'pkg', 'ot', 'state', 'sort', 'dir'] as const;
+const FIELDS = ['q', 'f', 'esr', 'cl', 'kind', 'pkg', 'ot', 'state', 'circuit', 'fit', 'sort', 'dir'] as const;
 
 /** The default view: everything, sorted by id. */
 export function emptyFilterState(): FilterState {
-  return { q: '', f: '', esr: '', cl: '', kind: '', pkg: '', ot: '', state: '', sort: 'id', dir: 'asc' };
+  return { q: '', f: '', esr: '', cl: '', kind: '', pkg: '', ot: '', state: '', circuit: '', fit: '', sort: 'id', dir: 'asc' };
 }
 
 /** Read a filter state from URL query parameters (unknown values fall back to defaults). */
@@ -138,6 +143,7 @@ export function readFilterState(params: URLSearchParams): FilterState {
     if (k === 'sort') s.sort = (SORT_KEYS as readonly string[]).includes(v) ? (v as SortKey) : 'id';
     else if (k === 'dir') s.dir = v === 'desc' ? 'desc' : 'asc';
     else if (k === 'state') s.state = (['pass', 'fail', 'unknown', 'warnings'] as const).find((x) => x === v) ?? '';
+    else if (k === 'fit') s.fit = FIT_VERDICTS.find((x) => x === v) ?? '';
     else s[k] = v.slice(0, 200);
   }
   return s;
@@ -187,7 +193,8 @@ export function compileFilters(state: FilterState): CompiledFilters {
     (state.kind === '' || e.kind === state.kind) &&
     (state.pkg === '' || e.package === state.pkg) &&
     (ot === undefined || e.overtone === ot) &&
-    (state.state === '' || e.state === state.state);
+    (state.state === '' || e.state === state.state) &&
+    (state.circuit === '' || state.fit === '' || fitFor(e.fits, state.circuit).verdict === state.fit);
   return { test, errors };
 }
 

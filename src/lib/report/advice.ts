@@ -8,11 +8,12 @@ import type { Part } from '../schema/part.ts';
 import type { OscillatorCircuit } from '../schema/oscillators.ts';
 import { advisePierce, type PierceAdvice } from '../osc/pierce.ts';
 import { sampleModel } from '../osc/sample-model.ts';
-import { loadFrequencyHz } from '../osc/load.ts';
-import type { BvdModel } from '../models/bvd.ts';
+import { circuitCovers, offerFrequencyHz } from '../osc/circuit-offer.ts';
 import { checkCompliance, type ComplianceResult } from '../osc/compliance.ts';
 import { lotStatistics, type LotStatistics } from '../osc/lot-stats.ts';
 import type { CalculatorData, ComplianceState } from './types.ts';
+
+export { circuitCovers, offerFrequencyHz };
 
 /** Compliance of every sample that has modes; empty when the record has no datasheet. */
 export function buildCompliance(part: Part, result: PartResult): ComplianceResult[] {
@@ -37,24 +38,6 @@ export function summariseState(compliance: ComplianceResult[], samples: Array<Pi
 export function buildLotStats(part: Part, result: PartResult): LotStatistics | undefined {
   const withModes = result.samples.filter((s) => s.modes.length > 0);
   return withModes.length >= 2 ? lotStatistics(withModes, part.datasheet ?? {}) : undefined;
-}
-
-/**
- * The frequency a part is offered to circuits by: the datasheet nominal when given, else the
- * sample's load resonance at the datasheet load capacitance, else its series resonance fs. Not the
- * measured fs alone: a 16 MHz part whose fs is 15.996 MHz belongs to a 16–52 MHz circuit.
- */
-export function offerFrequencyHz(datasheet: Part['datasheet'], model: BvdModel, mainBranch: number): number {
-  const br = model.branches[mainBranch];
-  if (datasheet?.frequencyHz !== undefined) return datasheet.frequencyHz;
-  if (typeof datasheet?.loadCapacitanceF === 'number') return loadFrequencyHz(br, model.c0F, datasheet.loadCapacitanceF);
-  return br.fsHz;
-}
-
-/** Whether a circuit is meant for parts of this frequency (no range: for every part). */
-export function circuitCovers(circuit: OscillatorCircuit, freqHz: number): boolean {
-  const r = circuit.frequencyRangeHz;
-  return !r || (freqHz >= r.min && freqHz <= r.max);
 }
 
 /**

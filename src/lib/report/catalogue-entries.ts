@@ -5,6 +5,7 @@
 import { decimateCurve, roundSig } from './decimate.ts';
 import { excerptMarkdown } from './notes-excerpt.ts';
 import type { CompareData, Curve, IndexEntry, PartData } from './types.ts';
+import { indexFits } from './fits.ts';
 
 /** Search-index row of a part. */
 export function makeIndexEntry(data: PartData): IndexEntry {
@@ -27,6 +28,7 @@ export function makeIndexEntry(data: PartData): IndexEntry {
     overtone: s.overtone ?? data.datasheet?.overtone,
     state: s.state,
     synthetic: data.synthetic || undefined,
+    fits: data.calculator ? indexFits(data.pierce, data.calculator.circuits, s.fsHz) : undefined,
   };
 }
 

@@ -12,6 +12,8 @@
  * `outside` marks a circuit whose frequency range does not hold the part (its columns stay empty).
  */
 import type { PierceAdvice } from '../osc/pierce.ts';
+import type { OscillatorCircuit } from '../schema/oscillators.ts';
+import { circuitCovers } from '../osc/circuit-offer.ts';
 
 export type FitVerdict = 'fits' | 'check' | 'no' | 'outside';
 
@@ -82,4 +84,49 @@ export function fitsCsv(rows: Array<{ part: string } & CircuitFit>): string {
   const head = ['part', 'circuit', 'verdict', 'inputCapF', 'outputCapF', 'offsetPpm', 'gainMargin', 'startupTauS', 'startupTimeS', 'budgetWorstPpm', 'reason'];
   const lines = rows.map((r) => [r.part, r.circuit, r.verdict, r.inputCapF, r.outputCapF, r.offsetPpm, r.gainMargin, r.startupTauS, r.startupTimeS, r.budgetWorstPpm, r.reason].map(q).join(','));
   return `${[head.join(','), ...lines].join('\n')}\n`;
+}
+
+/**
+ * The compact fit the catalogue index carries for each circuit whose frequency range holds the
+ * part (an absent circuit means `outside`), rounded for size.
+ */
+export interface IndexFit {
+  circuit: string;
+  verdict: Exclude<FitVerdict, 'outside'>;
+  inputCapF?: number;
+  outputCapF?: number;
+  offsetPpm?: number;
+  gainMargin?: number;
+  startupTimeS?: number;
+}
+
+function round(x: number | undefined, digits: number): number | undefined {
+  return x === undefined || !Number.isFinite(x) ? undefined : Number(x.toPrecision(digits));
+}
+
+/** Index fits of a part from its advice and the circuits it was advised for. */
+export function indexFits(pierce: PierceAdvice[], circuits: OscillatorCircuit[], fallbackHz: number | undefined): IndexFit[] {
+  const out: IndexFit[] = [];
+  for (const a of pierce) {
+    const circuit = circuits.find((c) => c.name === a.circuit);
+    const hz = a.target?.targetHz ?? fallbackHz;
+    if (!circuit || hz === undefined || !circuitCovers(circuit, hz)) continue;
+    const f = circuitFit(a, true);
+    if (f.verdict === 'outside') continue;
+    out.push({
+      circuit: f.circuit,
+      verdict: f.verdict,
+      inputCapF: round(f.inputCapF, 6),
+      outputCapF: round(f.outputCapF, 6),
+      offsetPpm: round(f.offsetPpm, 4),
+      gainMargin: round(f.gainMargin, 3),
+      startupTimeS: round(f.startupTimeS, 3),
+    });
+  }
+  return out;
+}
+
+/** The fit of one circuit from an index entry's fits (`outside` when the circuit is not there). */
+export function fitFor(fits: IndexFit[] | undefined, circuit: string): IndexFit | { circuit: string; verdict: 'outside' } {
+  return fits?.find((f) => f.circuit === circuit) ?? { circuit, verdict: 'outside' };
 }

@@ -10,6 +10,7 @@ import type { Datasheet, PartKind } from '../schema/part.ts';
 import type { BvdModel } from '../models/bvd.ts';
 import type { OscillatorCircuit } from '../schema/oscillators.ts';
 import type { PierceAdvice } from '../osc/pierce.ts';
+import type { IndexFit } from './fits.ts';
 
 import type { ComplianceResult } from '../osc/compliance.ts';
 import type { LotStatistics } from '../osc/lot-stats.ts';
@@ -19,7 +20,7 @@ export type { ComplianceResult } from '../osc/compliance.ts';
 export type { LotStatistics } from '../osc/lot-stats.ts';
 
 /** Bump when the shape changes, so stale cached data is rebuilt. */
-export const PART_DATA_VERSION = 4;
+export const PART_DATA_VERSION = 5;
 
 /** Compliance with the datasheet, summarised. */
 export type ComplianceState = 'pass' | 'fail' | 'unknown' | 'warnings';
@@ -209,6 +210,8 @@ export interface IndexEntry {
   overtone?: number;
   state: ComplianceState;
   synthetic?: boolean;
+  /** Fit in each circuit whose frequency range holds the part (report/fits.ts). */
+  fits?: IndexFit[];
 }
 
 /** What the compare page fetches per part. */
