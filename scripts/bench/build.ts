@@ -7,13 +7,19 @@
  * then the warm rebuild after one record changed, and a bare Astro build of the same number
  * of empty pages for comparison.
  *
- * Targets (2-core machine): 1,000 parts cold ≤ 180 s; warm rebuild ≤ 15 % of cold; peak
- * memory ≤ 2 GB; cost per part flat (not growing) from 100 to 3,000 parts.
+ * Also the weight of the pages: the catalogue page (raw and gzip) and the largest part page of
+ * each synthetic site, and the largest part page of the demo catalogue (content/).
+ *
+ * Targets (2-core machine, issue 15): cold 1,000 parts ≤ 30 s and 3,000 ≤ 90 s (ratio to the
+ * bare generator printed beside); warm rebuild after one record changed ≤ 4 s at 1,000 and
+ * ≤ 6 s at 3,000; catalogue page ≤ 400 KB raw and ≤ 80 KB gzip at 3,000; largest demo part page
+ * ≤ 150 KB; peak memory ≤ 2 GB; disk written per warm rebuild reported.
  *
  * Run alone: `npx tsx scripts/bench/build.ts [--sizes 100,1000] [--keep]`
  */
 import { spawn } from 'node:child_process';
-import { mkdir, mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
+import { mkdir, mkdtemp, readFile, readdir, rm, stat, writeFile } from 'node:fs/promises';
+import { gzipSync } from 'node:zlib';
 import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -42,6 +48,19 @@ export interface BenchBuildSize {
   bareAstroSeconds: number;
   /** Cold build wall time over the bare Astro build's. */
   ratioToBareAstro: number;
+  /** Page weight of the synthetic site after the warm rebuild. */
+  pages: PageWeights;
+}
+
+/** Bytes of the catalogue page and of the largest part page of a built site. */
+export interface PageWeights {
+  catalogueKB: number;
+  catalogueGzipKB: number;
+  /** The catalogue's data file (data/index.json), raw and gzip. */
+  catalogueDataKB: number;
+  catalogueDataGzipKB: number;
+  largestPartKB: number;
+  largestPartId: string;
 }
 
 /** One build run, seen from outside (wall time of the whole command) and from its summary. */
@@ -62,6 +81,8 @@ export interface BuildRun {
   cpuSeconds: { build: number; site: number };
   /** Peak resident memory, MB: build process (all threads), Astro process, and their sum. */
   peakRssMB: { build: number; site: number; sum: number };
+  /** MB written to disk by the build process and the site generator (their I/O accounting). */
+  diskWrittenMB: { build: number; site: number; sum: number };
   modes: number;
   warnings: number;
 }
@@ -71,12 +92,19 @@ export interface BenchBuildResult {
   /** 1-minute load average before and after the runs (other work on the machine skews times). */
   loadAverage: { before: number; after: number };
   sizes: BenchBuildSize[];
+  /** Page weight of the demo catalogue (content/), built once. */
+  demo?: PageWeights;
   /** Marginal cost per part between the smallest and largest size, ms (fixed costs removed). */
   marginalPerPartMs?: number;
   /** Targets and whether each was met (undefined: size not measured). */
   targets: {
-    cold1000Under180s?: boolean;
-    warmUnder15PctOfCold: boolean;
+    cold1000Under30s?: boolean;
+    cold3000Under90s?: boolean;
+    warm1000Under4s?: boolean;
+    warm3000Under6s?: boolean;
+    catalogue3000Under400KB?: boolean;
+    catalogue3000GzipUnder80KB?: boolean;
+    demoPartUnder150KB?: boolean;
     peakUnder2GB: boolean;
     perPartFlat?: boolean;
   };
@@ -120,6 +148,11 @@ async function measuredBuild(content: string, out: string, cache: string, summar
     cacheMisses: s.cache.misses,
     cpuSeconds: { build: s.cpuSeconds.build, site: s.cpuSeconds.site },
     peakRssMB: { build: s.peakRssBytes.build / MB, site: s.peakRssBytes.site / MB, sum: (s.peakRssBytes.build + s.peakRssBytes.site) / MB },
+    diskWrittenMB: {
+      build: (s.diskWrittenBytes?.build ?? 0) / MB,
+      site: (s.diskWrittenBytes?.site ?? 0) / MB,
+      sum: ((s.diskWrittenBytes?.build ?? 0) + (s.diskWrittenBytes?.site ?? 0)) / MB,
+    },
     modes: s.modes,
     warnings: s.warnings,
   };
@@ -156,6 +189,39 @@ async function bareAstroBuild(pages: number, keep: boolean): Promise<number> {
   return seconds;
 }
 
+/** Weights of the catalogue page, its data file and the largest part page of a built site. */
+export async function pageWeights(site: string): Promise<PageWeights> {
+  const KB = 1024;
+  const home = await readFile(join(site, 'index.html'));
+  const data = await readFile(join(site, 'data', 'index.json')).catch(() => Buffer.alloc(0));
+  let largest = { bytes: 0, id: '' };
+  for (const id of await readdir(join(site, 'parts'))) {
+    const st = await stat(join(site, 'parts', id, 'index.html')).catch(() => undefined);
+    if (st && st.size > largest.bytes) largest = { bytes: st.size, id };
+  }
+  return {
+    catalogueKB: home.length / KB,
+    catalogueGzipKB: gzipSync(home).length / KB,
+    catalogueDataKB: data.length / KB,
+    catalogueDataGzipKB: gzipSync(data).length / KB,
+    largestPartKB: largest.bytes / KB,
+    largestPartId: largest.id,
+  };
+}
+
+/** Build the demo catalogue (content/) once into a temporary folder and weigh its pages. */
+async function demoWeights(log: (t: string) => void): Promise<PageWeights> {
+  const root = await mkdtemp(join(tmpdir(), 'motional-bench-demo-'));
+  try {
+    log('demo catalogue: building to weigh its pages\n');
+    const run = await runBuild(['--content', join(PROJECT_ROOT, 'content'), '--out', join(root, 'site'), '--cache-dir', join(root, 'cache'), '--quiet']);
+    if (run.code !== 0) throw new Error(`demo build failed (exit ${run.code}):\n${run.stderr.slice(-4000)}`);
+    return await pageWeights(join(root, 'site'));
+  } finally {
+    await rm(root, { recursive: true, force: true });
+  }
+}
+
 async function folderMB(dir: string): Promise<number> {
   const { readdir, stat } = await import('node:fs/promises');
   let bytes = 0;
@@ -189,8 +255,9 @@ async function benchSize(parts: number, keep: boolean, log: (t: string) => void)
     const warmRun = await measuredBuild(content, out, cache, join(root, 'warm.json'), parts);
     const warm = { ...warmRun, pctOfCold: (100 * warmRun.seconds) / cold.seconds };
     log(`${parts} parts: warm ${warm.seconds.toFixed(1)} s (${warm.cacheMisses} re-extracted); bare Astro build\n`);
+    const pages = await pageWeights(out);
     const bareAstroSeconds = await bareAstroBuild(parts, keep);
-    return { parts, generateSeconds, catalogueMB, cold, warm, bareAstroSeconds, ratioToBareAstro: cold.seconds / bareAstroSeconds };
+    return { parts, generateSeconds, catalogueMB, cold, warm, bareAstroSeconds, ratioToBareAstro: cold.seconds / bareAstroSeconds, pages };
   } finally {
     if (!keep) await rm(root, { recursive: true, force: true });
   }
@@ -202,20 +269,28 @@ export async function benchBuild(options: BenchBuildOptions = {}): Promise<Bench
   const log = (t: string) => void process.stderr.write(`bench build: ${t}`);
   const loadBefore = loadavg()[0];
   const results: BenchBuildSize[] = [];
+  const demo = options.quick ? undefined : await demoWeights(log);
   for (const n of sizes) results.push(await benchSize(n, options.keep ?? false, log));
   const first = results[0];
   const last = results[results.length - 1];
   const marginal = results.length > 1 && last.parts > first.parts ? ((last.cold.seconds - first.cold.seconds) * 1000) / (last.parts - first.parts) : undefined;
   const at1000 = results.find((r) => r.parts === 1000);
+  const at3000 = results.find((r) => r.parts === 3000);
   const big = results.filter((r) => r.parts >= 100);
   return {
     cores: availableParallelism(),
     loadAverage: { before: loadBefore, after: loadavg()[0] },
     sizes: results,
+    demo,
     marginalPerPartMs: marginal,
     targets: {
-      cold1000Under180s: at1000 ? at1000.cold.seconds <= 180 : undefined,
-      warmUnder15PctOfCold: results.every((r) => r.parts < 100 || r.warm.pctOfCold <= 15),
+      cold1000Under30s: at1000 ? at1000.cold.seconds <= 30 : undefined,
+      cold3000Under90s: at3000 ? at3000.cold.seconds <= 90 : undefined,
+      warm1000Under4s: at1000 ? at1000.warm.seconds <= 4 : undefined,
+      warm3000Under6s: at3000 ? at3000.warm.seconds <= 6 : undefined,
+      catalogue3000Under400KB: at3000 ? at3000.pages.catalogueKB <= 400 : undefined,
+      catalogue3000GzipUnder80KB: at3000 ? at3000.pages.catalogueGzipKB <= 80 : undefined,
+      demoPartUnder150KB: demo ? demo.largestPartKB <= 150 : undefined,
       peakUnder2GB: results.every((r) => r.cold.peakRssMB.sum <= 2000 && r.warm.peakRssMB.sum <= 2000),
       // flat: the per-part cost at the largest size is not above the smallest size's (5 % slack)
       perPartFlat: big.length > 1 ? big[big.length - 1].cold.perPartMs <= 1.05 * big[0].cold.perPartMs : undefined,
@@ -232,6 +307,10 @@ function parseSizes(argv: string[]): number[] | undefined {
   return sizes;
 }
 
+function weights(w: PageWeights): string {
+  return `catalogue page ${w.catalogueKB.toFixed(0)} KB (gzip ${w.catalogueGzipKB.toFixed(0)} KB), its data file ${w.catalogueDataKB.toFixed(0)} KB (gzip ${w.catalogueDataGzipKB.toFixed(0)} KB); largest part page ${w.largestPartKB.toFixed(0)} KB (${w.largestPartId})`;
+}
+
 /** Plain-text table of the results. */
 export function formatBenchBuild(r: BenchBuildResult): string {
   const rows = r.sizes.map((s) =>
@@ -244,23 +323,36 @@ export function formatBenchBuild(r: BenchBuildResult): string {
       `${s.cold.peakRssMB.build.toFixed(0)}+${s.cold.peakRssMB.site.toFixed(0)} MB`.padStart(13),
       `${s.bareAstroSeconds.toFixed(1)} s`.padStart(8),
       `${s.ratioToBareAstro.toFixed(1)}×`.padStart(6),
+      `${s.warm.diskWrittenMB.sum.toFixed(1)} MB`.padStart(9),
     ].join('  '),
   );
-  const head = 'parts       cold  per part      warm  warm/cold  peak (build+site)  bare Astro  ratio';
+  const head = 'parts       cold  per part      warm  warm/cold  peak (build+site)  bare Astro  ratio  warm disk';
   const fmt = (o: Record<string, number>) => Object.entries(o).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ');
   const stages = r.sizes.flatMap((s) => [
     `  ${s.parts} parts cold: ${fmt(s.cold.stages)}; task time ${fmt(s.cold.threadSeconds)}; CPU ${fmt(s.cold.cpuSeconds)}; site ${s.cold.site.mode}`,
-    `  ${s.parts} parts warm: ${fmt(s.warm.stages)}; CPU ${fmt(s.warm.cpuSeconds)}; ${s.warm.cacheMisses} re-extracted; site ${s.warm.site.mode} (${s.warm.site.pagesRendered} part pages rendered)`,
+    `  ${s.parts} parts warm: ${fmt(s.warm.stages)}; CPU ${fmt(s.warm.cpuSeconds)}; ${s.warm.cacheMisses} re-extracted; site ${s.warm.site.mode} (${s.warm.site.pagesRendered} part pages rendered); disk written ${s.warm.diskWrittenMB.sum.toFixed(1)} MB (cold ${s.cold.diskWrittenMB.sum.toFixed(0)} MB)`,
+    `  ${s.parts} parts pages: ${weights(s.pages)}`,
   ]);
   const t = r.targets;
   const yes = (b: boolean | undefined) => (b === undefined ? 'not measured' : b ? 'met' : 'MISSED');
+  const targets = [
+    `cold 1,000 ≤ 30 s ${yes(t.cold1000Under30s)}`,
+    `cold 3,000 ≤ 90 s ${yes(t.cold3000Under90s)}`,
+    `warm 1,000 ≤ 4 s ${yes(t.warm1000Under4s)}`,
+    `warm 3,000 ≤ 6 s ${yes(t.warm3000Under6s)}`,
+    `catalogue page 3,000 ≤ 400 KB ${yes(t.catalogue3000Under400KB)}, ≤ 80 KB gzip ${yes(t.catalogue3000GzipUnder80KB)}`,
+    `demo part page ≤ 150 KB ${yes(t.demoPartUnder150KB)}`,
+    `peak ≤ 2 GB ${yes(t.peakUnder2GB)}`,
+    `flat per part ${yes(t.perPartFlat)}`,
+  ];
   return [
     `cores: ${r.cores}; load average ${r.loadAverage.before.toFixed(1)} before, ${r.loadAverage.after.toFixed(1)} after`,
     head,
     ...rows,
     ...stages,
     r.marginalPerPartMs !== undefined ? `marginal cost per part: ${r.marginalPerPartMs.toFixed(0)} ms` : '',
-    `targets: 1,000 cold ≤ 180 s ${yes(t.cold1000Under180s)}; warm ≤ 15 % ${yes(t.warmUnder15PctOfCold)}; peak ≤ 2 GB ${yes(t.peakUnder2GB)}; flat per part ${yes(t.perPartFlat)}`,
+    r.demo ? `demo catalogue pages: ${weights(r.demo)}` : '',
+    `targets: ${targets.join('; ')}`,
   ].filter(Boolean).join('\n');
 }
 

@@ -79,6 +79,8 @@ const ASTRO_PRELOAD = `data:text/javascript,${encodeURIComponent(
 export interface AstroUsage {
   peakRssBytes: number;
   cpuSeconds: number;
+  /** Bytes written to disk by the process (its I/O accounting, 512-byte blocks). */
+  diskWrittenBytes: number;
 }
 
 /**
@@ -158,6 +160,7 @@ export async function runAstroBuild(run: AstroBuildOptions): Promise<AstroUsage>
   return {
     peakRssBytes: usage ? Math.max(peak, usage.maxRSS * 1024) : peak,
     cpuSeconds: usage ? (usage.userCPUTime + usage.systemCPUTime) / 1e6 : 0,
+    diskWrittenBytes: usage ? usage.fsWrite * 512 : 0,
   };
 }
 

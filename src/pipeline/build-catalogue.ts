@@ -92,6 +92,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   };
   let stageStart = t0;
   let current: BuildStage | undefined;
+  let siteWritten = 0;
   let staging: StagingDir | undefined;
   const stage = (next: BuildStage | undefined) => {
     const now = performance.now();
@@ -202,7 +203,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       stage('site');
       const siteDir = join(staging.root, 'site');
       const astro = { basePath, progress: progressStream, log, signal: options.signal };
-      let astroUsage: AstroUsage = { peakRssBytes: 0, cpuSeconds: 0 };
+      let astroUsage: AstroUsage = { peakRssBytes: 0, cpuSeconds: 0, diskWrittenBytes: 0 };
       if (partial) {
         // The changed parts' pages (and the pages over all parts: home, compare) are rendered
         // from a data folder holding just those parts and the whole index; the rest comes from
@@ -247,6 +248,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       }
       summary.peakRssBytes.site = astroUsage.peakRssBytes;
       summary.cpuSeconds.site = astroUsage.cpuSeconds;
+      siteWritten = astroUsage.diskWrittenBytes;
       builtDir = siteDir;
       summary.partsPublished = await countPublished(siteDir, ids, basePath);
     } else {
@@ -292,6 +294,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   const usage = process.resourceUsage();
   summary.peakRssBytes.build = usage.maxRSS * 1024;
   summary.cpuSeconds.build = (usage.userCPUTime + usage.systemCPUTime) / 1e6;
+  summary.diskWrittenBytes = { build: usage.fsWrite * 512, site: siteWritten };
   summary.stageMs.total = performance.now() - t0;
   return summary;
 }

@@ -45,6 +45,8 @@ export interface BuildSummary {
   };
   /** Peak resident memory, bytes: this process (all threads) and the Astro build process. */
   peakRssBytes: { build: number; site: number };
+  /** Bytes the build process (all threads) and the site generator's process wrote to disk (their I/O accounting). */
+  diskWrittenBytes?: { build: number; site: number };
   /**
    * CPU time, seconds: this process (all threads, from its start) and the Astro process. Unlike
    * wall time it hardly depends on what else the machine is doing.
