@@ -8,6 +8,7 @@ import { compareRows, parseCompareSelection, MAX_COMPARE } from '../site/compare
 import type { CompareData } from '../site/types.ts';
 import { renderPlot } from './render-plot.ts';
 import { attachPlotHover } from './plot-hover.ts';
+import { appendCircuitOverlay } from './compare-circuit.ts';
 
 const base = document.body.dataset.base ?? '/';
 const status = document.getElementById('compare-status');
@@ -87,6 +88,7 @@ async function show(): Promise<void> {
   if (parts.some((p) => p.mode)) out.appendChild(renderPlot(layoutPlot(compareModeSpec(parts, 'cmp-mode'))));
   if (parts.some((p) => p.pulling)) out.appendChild(renderPlot(layoutPlot(comparePullingSpec(parts, 'cmp-pull'))));
   attachPlotHover(out);
+  appendCircuitOverlay(out, parts);
   document.body.dataset.ready = 'true';
 }
 

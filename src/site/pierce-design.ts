@@ -4,9 +4,9 @@
  * the chosen capacitors marked), the start-up estimate and the frequency budget table.
  * Build time only; data from the part's own page data (advice and calculator inputs).
  */
-import { layoutPlot, type PlotLayout, type SeriesSpec } from './plot.ts';
+import { layoutPlot, type PlotLayout, type PlotSpec, type SeriesSpec, type SeriesStyle } from './plot.ts';
 import { formatNumber, formatQty } from './format.ts';
-import type { CalculatorData, PierceAdvice } from './types.ts';
+import type { CalculatorData, CompareData, PierceAdvice } from './types.ts';
 import { negativeResistanceCurve, type NegativeResistanceCurve } from '../lib/osc/negative-resistance-curve.ts';
 
 export interface BudgetView {
@@ -89,4 +89,33 @@ export function pierceDesignView(a: PierceAdvice, calc: CalculatorData | undefin
   };
   view.startup = a.best.checks.startup.reason;
   return view;
+}
+
+const PART_STYLES: SeriesStyle[] = ['c0', 'c1', 'c2', 'c3'];
+
+/** Circuits with a curve for at least one of the parts, in first-seen order. */
+export function compareCircuits(parts: CompareData[]): string[] {
+  return [...new Set(parts.flatMap((p) => (p.negativeResistance ?? []).map((c) => c.circuit)))];
+}
+
+/** Compare: the negative resistance seen by the motional branch of each part in one circuit, overlaid. */
+export function compareNegativeResistanceSpec(parts: CompareData[], circuit: string, id: string): PlotSpec | undefined {
+  const withCurve = parts.map((p, i) => ({ p, i, c: p.negativeResistance?.find((x) => x.circuit === circuit) })).filter((x) => x.c);
+  if (!withCurve.length) return undefined;
+  const missing = parts.filter((p) => !p.negativeResistance?.some((x) => x.circuit === circuit)).map((p) => p.id);
+  return {
+    id,
+    title: `Negative resistance against load capacitance in ${circuit}`,
+    description:
+      `Magnitude of the small-signal negative resistance seen by the motional branch against load capacitance in circuit ${circuit}, on logarithmic axes, for ` +
+      withCurve.map(({ p, c }) => `${p.id} (R1 ${formatQty(c!.r1Ohm, 'Ω', 3)}${c!.chosenClF !== undefined ? `, chosen CL ${formatQty(c!.chosenClF, 'F', 3)}` : ''})`).join(', ') +
+      `. A part starts where its curve lies above its R1.${missing.length ? ` Not meant for this circuit: ${missing.join(', ')}.` : ''}`,
+    xName: 'Load capacitance CL', xUnit: 'F', xScale: 'log',
+    panels: [{
+      yName: '|R| motional', yUnit: 'Ω', yScale: 'log',
+      series: withCurve.map(({ p, i, c }) => ({ label: `${p.id} (R1 ${formatQty(c!.r1Ohm, 'Ω', 3)})`, style: PART_STYLES[i % 4], curve: { x: c!.clF, y: c!.motionalOhm } })),
+    }],
+    markers: withCurve.filter(({ c }) => c!.chosenClF !== undefined).map(({ p, c }) => ({ x: c!.chosenClF!, label: p.id })),
+    height: 340,
+  };
 }

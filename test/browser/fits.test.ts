@@ -45,6 +45,17 @@ describe.skipIf(!haveChromium)('catalogue "fits circuit" columns in chromium', (
     expect(index.some((e) => e.fits?.some((f) => f.circuit === circuit))).toBe(true);
   });
 
+  it('a part page draws the negative-resistance curve with R1 and the chosen capacitors, the start-up and the budget', () => {
+    const e = index.find((x) => x.fits?.some((f) => f.circuit === circuit))!;
+    const html = readFileSync(join(work, 'site', 'parts', e.id, 'index.html'), 'utf8');
+    expect(html).toContain(`Negative resistance against load capacitance, ${circuit}`);
+    expect(html).toContain('R1 (extracted)');
+    expect(html).toMatch(/>chosen</);
+    expect(html).toContain('Start-up:');
+    expect(html).toContain(`Frequency budget with the closest pair, ${circuit}`);
+    expect(html).toContain('Root-sum-square');
+  });
+
   it('choosing a circuit shows the verdict columns, the URL keeps it, a reload restores it', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     await page.goto(server.url);
@@ -93,5 +104,20 @@ describe.skipIf(!haveChromium)('catalogue "fits circuit" columns in chromium', (
     await page.goto(`${server.url}?circuit=${encodeURIComponent(circuit)}`);
     expect(await page.locator('#catalogue-table tbody tr').count()).toBe(index.length);
     await ctx.close();
+  });
+
+  it('the compare page overlays the negative-resistance curves for the chosen circuit', async () => {
+    const ids = index.filter((e) => e.fits?.some((f) => f.circuit === circuit)).slice(0, 2).map((e) => e.id);
+    expect(ids).toHaveLength(2);
+    const page = await browser.newPage();
+    await page.goto(`${server.url}compare/?parts=${ids.join(',')}&circuit=${encodeURIComponent(circuit)}`);
+    await page.waitForSelector('body[data-ready="true"]');
+    expect(await page.inputValue('#cmp-circuit')).toBe(circuit);
+    const caption = await page.locator('.compare-circuit figcaption').textContent();
+    expect(caption).toBe(`Negative resistance against load capacitance in ${circuit}`);
+    // one curve per part in the legend
+    for (const id of ids) expect(await page.locator('.compare-circuit .plot-legend').textContent()).toContain(id);
+    expect(new URL(page.url()).searchParams.get('circuit')).toBe(circuit);
+    await page.close();
   });
 });

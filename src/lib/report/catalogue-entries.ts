@@ -6,6 +6,7 @@ import { decimateCurve, roundSig } from './decimate.ts';
 import { excerptMarkdown } from './notes-excerpt.ts';
 import type { CompareData, Curve, IndexEntry, PartData } from './types.ts';
 import { indexFits } from './fits.ts';
+import { negativeResistanceCurves } from './design-curves.ts';
 
 /** Search-index row of a part. */
 export function makeIndexEntry(data: PartData): IndexEntry {
@@ -47,5 +48,6 @@ export function makeCompareData(data: PartData): CompareData {
       ? { ...mode, measuredMag: thin(mode.measuredMag, 250), modelMag: thin(mode.modelMag, 200), measuredPhase: thin(mode.measuredPhase, 200), modelPhase: thin(mode.modelPhase, 150), residualPct: { x: [], y: [] } }
       : undefined,
     pulling: first?.plots.pulling,
+    negativeResistance: negativeResistanceCurves(data),
   };
 }

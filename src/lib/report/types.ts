@@ -11,6 +11,7 @@ import type { BvdModel } from '../models/bvd.ts';
 import type { OscillatorCircuit } from '../schema/oscillators.ts';
 import type { PierceAdvice } from '../osc/pierce.ts';
 import type { IndexFit } from './fits.ts';
+import type { NegativeResistanceCurve } from '../osc/negative-resistance-curve.ts';
 
 import type { ComplianceResult } from '../osc/compliance.ts';
 import type { LotStatistics } from '../osc/lot-stats.ts';
@@ -223,4 +224,6 @@ export interface CompareData {
   datasheet?: Datasheet;
   mode?: ModePlot;
   pulling?: PullingPlot;
+  /** Negative resistance against load capacitance per circuit meant for the part (report/design-curves.ts). */
+  negativeResistance?: NegativeResistanceCurve[];
 }
