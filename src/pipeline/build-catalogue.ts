@@ -28,8 +28,8 @@ import { pruneCache, sha256 } from './cache.ts';
 import { extractionCodeHash } from './code-hash.ts';
 import type { IndexEntry } from '../lib/report/types.ts';
 import { sortById } from '../lib/report/index-order.ts';
-import { PAGES_ENV, belongsTo, formatManifest, linkTree, overlayTree, placeCatalogueData, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
-import { adoptRenderer, hasRenderer, newRendererDir, renderPages } from './page-renderer.ts';
+import { PAGES_ENV, formatManifest, sitePathsOf, linkTree, overlayTree, placeCatalogueData, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
+import { adoptRenderer, newRendererDir, startRenderer, type PageRendererThread } from './page-renderer.ts';
 import { type ProgressStream } from './progress.ts';
 import { defaultJobs } from './worker-pool.ts';
 import { normalizeBase } from './static-server.ts';
@@ -93,6 +93,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   let stageStart = t0;
   let current: BuildStage | undefined;
   let siteWritten = 0;
+  let carried: Promise<boolean> | undefined;
+  let renderer: PageRendererThread | undefined;
   let staging: StagingDir | undefined;
   const stage = (next: BuildStage | undefined) => {
     const now = performance.now();
@@ -154,6 +156,19 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       scratchDir,
     };
 
+    // When the previous output was built from the same site code and base path, an
+    // incremental site is likely: its files are linked into the staging site while the records
+    // are read (a link per file costs the same however it is made, so it runs alongside), and
+    // the renderer thread loads the page modules meanwhile.
+    const siteHash = options.dataOnly ? '' : await siteCodeHash(PROJECT_ROOT);
+    const previous = options.dataOnly || options.fullSite || !useCache ? undefined : await readManifest(outDir);
+    const siteDir = join(staging.root, 'site');
+    if (previous?.kind === 'site' && previous.siteHash === siteHash && previous.base === basePath && (await siteSupportsPartialPages())) {
+      carried = linkTree(outDir, siteDir, (rel) => rel === OUTPUT_MARKER).then(() => true);
+      carried.catch(() => undefined); // settled before the site stage or the clean-up
+      renderer = await startRenderer(siteHash, basePath).catch(() => undefined);
+    }
+
     stage('records');
     // fingerprints of this content folder's parts are remembered between builds
     const memoFile = cacheDir ? join(cacheDir, 'fingerprints', `${sha256(resolve(contentDir)).slice(0, 16)}.json`) : undefined;
@@ -189,8 +204,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     await rm(scratchDir, { recursive: true, force: true });
     const ids = index.map((e) => e.id);
     const partKeys = Object.fromEntries(results.map((r) => [r.id!, r.key]));
-    const siteHash = options.dataOnly ? '' : await siteCodeHash(PROJECT_ROOT);
-    const plan = options.dataOnly || options.fullSite || !useCache ? undefined : planPartialSite(await readManifest(outDir), { siteHash, base: basePath, parts: partKeys });
+    const plan = previous ? planPartialSite(previous, { siteHash, base: basePath, parts: partKeys }) : undefined;
     const partial = plan && (await siteSupportsPartialPages()) ? plan : undefined;
     // cached parts' files go into the data folder only when the whole data folder is needed
     if (!partial || options.keepDataDir) {
@@ -201,7 +215,6 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     let builtDir = dataDir;
     if (!options.dataOnly) {
       stage('site');
-      const siteDir = join(staging.root, 'site');
       const astro = { basePath, progress: progressStream, log, signal: options.signal };
       let astroUsage: AstroUsage = { peakRssBytes: 0, cpuSeconds: 0, diskWrittenBytes: 0 };
       if (partial) {
@@ -217,28 +230,40 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         if (!placed) throw new Error('a part file vanished while the build ran');
         const pagesFile = join(staging.root, 'pages.json');
         await writeFile(pagesFile, JSON.stringify(partial.changed));
-        let renderer: 'pages' | 'generator' = 'generator';
-        if (await hasRenderer(siteHash, basePath)) {
+        let renderedBy: 'pages' | 'generator' = 'generator';
+        const replaced = new Set([...partial.changed, ...partial.removed]);
+        if (renderer) {
           try {
-            await renderPages(siteHash, freshDir, { dataDir: deltaDir, basePath, pagesFile, pagesEnvName: PAGES_ENV });
+            await renderer.render(freshDir, { dataDir: deltaDir, basePath, pagesFile, pagesEnvName: PAGES_ENV });
             await placeCatalogueData(deltaDir, freshDir);
-            renderer = 'pages';
+            renderedBy = 'pages';
           } catch (err) {
             log(`rendering the changed pages without the site generator failed, so it runs: ${err instanceof Error ? err.message : String(err)}\n`);
             await rm(freshDir, { recursive: true, force: true });
           }
         }
         checkAbort();
-        if (renderer === 'generator') {
+        if (renderedBy === 'generator') {
           astroUsage = await runAstroBuild({ ...astro, dataDir: deltaDir, siteDir: freshDir, pages: partial.changed.length, pagesFile });
         }
-        const replaced = new Set([...partial.changed, ...partial.removed]);
-        await linkTree(outDir, siteDir, (rel) => rel === OUTPUT_MARKER || belongsTo(rel, replaced));
+        // the previous site's files, linked while the records were read (or now), without the
+        // changed and removed parts' files
+        if (!(await settle(carried))) {
+          await rm(siteDir, { recursive: true, force: true });
+          await linkTree(outDir, siteDir, (rel) => rel === OUTPUT_MARKER);
+        }
+        carried = undefined;
+        for (const id of replaced) {
+          for (const rel of sitePathsOf(id)) await rm(join(siteDir, ...rel.split('/')), { recursive: true, force: true });
+        }
         await overlayTree(freshDir, siteDir);
-        summary.site = { mode: 'partial', pagesRendered: partial.changed.length, partsRemoved: partial.removed.length, renderer };
+        summary.site = { mode: 'partial', pagesRendered: partial.changed.length, partsRemoved: partial.removed.length, renderer: renderedBy };
       } else {
         // a build with the cache keeps the generator's server chunks for later partial builds
         const keep = useCache ? newRendererDir() : undefined;
+        await settle(carried);
+        carried = undefined;
+        await rm(siteDir, { recursive: true, force: true });
         astroUsage = await runAstroBuild({ ...astro, dataDir, siteDir, pages: ids.length, keepChunksDir: keep });
         summary.site = { mode: 'full', pagesRendered: ids.length, partsRemoved: 0, renderer: 'generator' };
         if (keep) {
@@ -284,11 +309,13 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     summary.exitCode = 0;
   } catch (err) {
     stage(undefined);
+    await settle(carried);
     const message = err instanceof Error ? err.message : String(err);
     summary.failure = err instanceof BuildFailure ? message : `internal error: ${message}`;
     if (!(err instanceof BuildFailure) && err instanceof Error && err.stack && process.env.MOTIONAL_DEBUG) log(`${err.stack}\n`);
     if (staging) await discardStaging(staging).catch(() => undefined);
   }
+  await renderer?.close().catch(() => undefined);
   summary.errors = summary.issues.filter((i) => i.severity === 'error').length;
   summary.warnings += summary.issues.filter((i) => i.severity === 'warning').length;
   const usage = process.resourceUsage();
@@ -297,6 +324,11 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   summary.diskWrittenBytes = { build: usage.fsWrite * 512, site: siteWritten };
   summary.stageMs.total = performance.now() - t0;
   return summary;
+}
+
+/** Wait for a background step: true when it succeeded, false when it failed or never ran. */
+async function settle(step: Promise<boolean> | undefined): Promise<boolean> {
+  return step ? step.catch(() => false) : false;
 }
 
 /**

@@ -3,11 +3,13 @@
 // build of the same site code left behind, with Astro's container API, and writes each page where
 // `astro build` (build.format 'directory') puts it.
 //
-// workerData: { rendererDir, outDir, mode: 'render' | 'probe', patch? }
-// - 'probe': render the first path of every route and return their HTML (the caller compares
-//   them with the pages Astro built and learns the head patch);
-// - 'render': render every path of every route (a dynamic route's paths come from its own
-//   getStaticPaths, which reads the build's page list) and write it, patched.
+// workerData: { rendererDir, mode: 'render' | 'probe', patch? }
+// - 'probe': render the first and last path of every route and return their HTML (the caller
+//   compares them with the pages Astro built and learns the head patch);
+// - 'render': load the page modules at once, then wait for one message { outDir, env } and
+//   render every path of every route (a dynamic route's paths come from its own getStaticPaths,
+//   which reads the build's page list) and write it, patched. So the thread can be started
+//   early and be ready when the build knows which pages to render.
 // The environment (MOTIONAL_DATA, MOTIONAL_BASE, MOTIONAL_PAGES) is the caller's choice.
 import { mkdir, readdir, writeFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
@@ -47,17 +49,28 @@ function fileOf(path) {
 }
 
 async function main() {
-  const { rendererDir, outDir, mode, patch } = workerData;
+  const { rendererDir, mode, patch } = workerData;
   const container = await experimental_AstroContainer.create();
+  const pages = [];
+  for (const file of await pageModules(rendererDir)) {
+    const mod = await import(pathToFileURL(file).href);
+    const page = await mod.page();
+    if (typeof page.url !== 'string' || !page.default) throw new Error(`${file}: not a page module`);
+    pages.push(page);
+  }
+  if (mode === 'probe') return render(container, pages, mode, patch, undefined);
+  const job = await new Promise((resolve) => parentPort.once('message', resolve));
+  Object.assign(process.env, job.env);
+  return render(container, pages, mode, patch, job.outDir);
+}
+
+async function render(container, pages, mode, patch, outDir) {
   const base = process.env.MOTIONAL_BASE || '/';
   const origin = 'http://localhost';
   const written = [];
   const probes = [];
-  for (const file of await pageModules(rendererDir)) {
-    const mod = await import(pathToFileURL(file).href);
-    const page = await mod.page();
+  for (const page of pages) {
     const url = page.url;
-    if (typeof url !== 'string' || !page.default) throw new Error(`${file}: not a page module`);
     const paths = typeof page.getStaticPaths === 'function' ? await page.getStaticPaths({}) : [{ params: {} }];
     if (!Array.isArray(paths)) throw new Error(`${url}: getStaticPaths did not return a list`);
     const routePatch = patch?.[url];

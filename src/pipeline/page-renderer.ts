@@ -54,16 +54,16 @@ export async function hasRenderer(siteHash: string, basePath: string): Promise<b
 
 interface WorkerRun {
   rendererDir: string;
-  outDir?: string;
   mode: 'render' | 'probe';
   patch?: RoutePatch;
   env: Record<string, string>;
 }
 
-function runWorker<R>(run: WorkerRun): Promise<R> {
+function runWorker<R>(run: WorkerRun, started?: (worker: Worker) => void): Promise<R> {
   return new Promise((resolvePromise, reject) => {
     const { env, ...data } = run;
     const worker = new Worker(WORKER_URL, { workerData: data, env: { ...process.env, ...env }, execArgv: [] });
+    started?.(worker);
     let settled = false;
     worker.once('message', (msg: { ok: boolean; result?: R; error?: string }) => {
       settled = true;
@@ -152,16 +152,38 @@ export async function adoptRenderer(keptDir: string, siteDir: string, siteHash: 
   }
 }
 
+/** A renderer thread started ahead of time (see {@link startRenderer}). */
+export interface PageRendererThread {
+  /**
+   * Render every page that is not a part page, and the part pages the page list names, into
+   * `outDir`. Once only.
+   * @returns the files written, relative to outDir, '/'-separated
+   */
+  render(outDir: string, env: PageEnv): Promise<string[]>;
+  /** Stop the thread (when the build does not need it after all). */
+  close(): Promise<void>;
+}
+
 /**
- * Render the site's pages with the kept renderer into `outDir`: every page that is not a part
- * page, and the part pages the page list names.
- * @returns the files written, relative to outDir, '/'-separated
+ * Start the renderer of this site code and base path in a worker thread, which loads the page
+ * modules while the build goes on; undefined when there is no checked renderer.
  */
-export async function renderPages(siteHash: string, outDir: string, env: PageEnv): Promise<string[]> {
-  const dir = rendererDir(siteHash, env.basePath);
+export async function startRenderer(siteHash: string, basePath: string): Promise<PageRendererThread | undefined> {
+  if (!(await hasRenderer(siteHash, basePath))) return undefined;
+  const dir = rendererDir(siteHash, basePath);
   const patch = JSON.parse(await readFile(join(dir, PATCH_FILE), 'utf8')) as RoutePatch;
-  const { written } = await runWorker<{ written: string[] }>({ rendererDir: dir, outDir, mode: 'render', patch, env: envOf(env) });
-  return written;
+  let worker: Worker | undefined;
+  const done = runWorker<{ written: string[] }>({ rendererDir: dir, mode: 'render', patch, env: {} }, (w) => (worker = w));
+  done.catch(() => undefined); // awaited by render()
+  return {
+    async render(outDir, env) {
+      worker!.postMessage({ outDir, env: envOf(env) });
+      return (await done).written;
+    },
+    async close() {
+      await worker?.terminate();
+    },
+  };
 }
 
 /** Remove all but the {@link KEEP_RENDERERS} newest renderers, and leftovers of dead builds. */
