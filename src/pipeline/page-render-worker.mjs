@@ -69,16 +69,19 @@ async function render(container, pages, mode, patch, outDir) {
   const origin = 'http://localhost';
   const written = [];
   const probes = [];
+  const prefix = base.replace(/\/+$/, '');
   for (const page of pages) {
     const url = page.url;
+    // a page module's url carries the base path it was built for
+    const route = prefix && (url === prefix || url.startsWith(`${prefix}/`)) ? url.slice(prefix.length) || '/' : url;
     const paths = typeof page.getStaticPaths === 'function' ? await page.getStaticPaths({}) : [{ params: {} }];
     if (!Array.isArray(paths)) throw new Error(`${url}: getStaticPaths did not return a list`);
     const routePatch = patch?.[url];
     if (mode === 'render' && !routePatch) throw new Error(`route ${url} was never checked against an Astro build`);
     for (const [i, entry] of paths.entries()) {
       if (mode === 'probe' && i > 0 && i !== paths.length - 1) continue;
-      const path = fill(url, entry.params);
-      const request = new Request(new URL(`${base.replace(/\/$/, '')}${path}`, origin));
+      const path = fill(route, entry.params);
+      const request = new Request(new URL(`${prefix}${path}`, origin));
       let html = await container.renderToString(page.default, { params: entry.params ?? {}, props: entry.props ?? {}, request, partial: false });
       const rel = fileOf(path);
       if (mode === 'probe') {

@@ -121,6 +121,25 @@ describe('motional build (with the site)', () => {
     }
   });
 
+  it('renders changed pages without the site generator, byte for byte as the generator renders them', async () => {
+    const out = join(tmp, 'site');
+    const yaml = join(content, 'parts', syntheticPartId(1), 'part.yaml');
+    await writeFile(yaml, (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: retitled crystal one'));
+    const run = await startBuild(['--content', content, '--out', out, '--base', BASE, '--cache-dir', join(tmp, 'cache'), '--quiet']).done;
+    expect(run.code).toBe(0);
+    if (!(await siteSupportsPartialPages())) return;
+    // the first build (full, with the cache) kept the generator's page modules and checked them
+    expect(run.stdout).toMatch(/^site: 1 changed part pages rendered, 0 removed, .*\(without starting the site generator\)$/m);
+    const full = join(tmp, 'site-full');
+    const reference = await startBuild(['--content', content, '--out', full, '--base', BASE, '--cache-dir', join(tmp, 'cache'), '--full-site', '--quiet']).done;
+    expect(reference.code).toBe(0);
+    expect(reference.stdout).toMatch(/^site: all 2 part pages rendered$/m);
+    for (const rel of ['index.html', `parts/${syntheticPartId(1)}/index.html`, 'compare/index.html', '404.html', 'data/index.json']) {
+      expect(await readFile(join(out, ...rel.split('/')), 'utf8'), rel).toBe(await readFile(join(full, ...rel.split('/')), 'utf8'));
+    }
+    expect(await readFile(join(out, 'parts', syntheticPartId(1), 'index.html'), 'utf8')).toContain('retitled crystal one');
+  });
+
   it('leaves the previous site intact when killed during the site stage, and stops its Astro process', async () => {
     const out = join(tmp, 'killed');
     await mkdir(out);
