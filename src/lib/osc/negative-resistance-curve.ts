@@ -26,7 +26,7 @@ export interface NegativeResistanceCurve {
 }
 
 /** Points on the curve (project choice: enough for a smooth line, small in the page data). */
-export const CURVE_POINTS = 40;
+export const CURVE_POINTS = 24;
 
 /** The curve for external equal capacitors from 1 pF up to `maxExternalF` (default 40 pF). */
 export function negativeResistanceCurve(args: {

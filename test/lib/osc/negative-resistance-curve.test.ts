@@ -3,7 +3,7 @@
  * checked against SPICE in pierce-network-spice.test.ts), and the magnitude falls as the load grows.
  */
 import { describe, expect, it } from 'vitest';
-import { negativeResistanceCurve } from '../../../src/lib/osc/negative-resistance-curve.ts';
+import { CURVE_POINTS, negativeResistanceCurve } from '../../../src/lib/osc/negative-resistance-curve.ts';
 import { impedanceSeenByMotionalBranch } from '../../../src/lib/osc/pierce-network.ts';
 import { loadFrequencyHz } from '../../../src/lib/osc/load.ts';
 import { DEMO_CIRCUIT, X1 } from '../../site/fixture.ts';
@@ -26,10 +26,10 @@ describe('negative resistance against load capacitance', () => {
   });
 
   it('each point is the network at the load resonance of its own CL', () => {
-    const k = 17;
+    const k = 11;
     const c = DEMO_CIRCUIT;
     // invert CL for the equal external capacitor: Ca = x + Cin + Cb..., checked by recomputing
-    const x = 1e-12 * 40 ** (k / 39);
+    const x = 1e-12 * 40 ** (k / (CURVE_POINTS - 1));
     const ca = x + c.inputCapacitanceF + c.boardStrayF;
     const cb = x + c.outputCapacitanceF + c.boardStrayF;
     const cl = (ca * cb) / (ca + cb) + c.pinToPinStrayF;
