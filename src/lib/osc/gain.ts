@@ -5,7 +5,9 @@
  *
  *   gm,crit = ω²R1·CaCb·(1 + C0/Cs)²,  Cs = CaCb/(Ca + Cb)
  *   (equal capacitors, CL = Cs: gm,crit = 4R1ω²(C0 + CL)²; unequal ones raise it by (Ca + Cb)²/(4CaCb))
- *   Rneg = −gm/(ω²CaCb)   seen at the crystal terminals, crystal C0 excluded
+ *   Rneg = −gm/(ω²CaCb)   the circuit alone, without C0 and without a pin-to-pin stray (the
+ *                         advice uses the full network of pierce-network.ts: with a stray across
+ *                         the pins this shortcut is several percent off what the pins see)
  * Ca and Cb are the total capacitances from each crystal pin to ground (external capacitor, pin
  * capacitance of the amplifier and board stray). A capacitance across the crystal (pin-to-pin
  * stray) is lumped into C0. In this linear model gm/gm,crit = |Rneg|/RL exactly, with
@@ -27,7 +29,7 @@ export function criticalGmS(r1Ohm: number, c0F: number, caF: number, cbF: number
   return w * w * r1Ohm * caF * cbF * k * k;
 }
 
-/** Small-signal negative resistance at the crystal terminals, Ω (a negative number). */
+/** Small-signal negative resistance of the circuit alone (no C0, no pin-to-pin stray), Ω (negative). */
 export function negativeResistanceOhm(gmS: number, caF: number, cbF: number, freqHz: number): number {
   const w = 2 * Math.PI * freqHz;
   return -gmS / (w * w * caF * cbF);
