@@ -5,8 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { advisePierce, type PierceAdvice } from '../../../src/lib/osc/pierce.ts';
-import { impedanceAtPins, impedanceSeenByMotionalBranch } from '../../../src/lib/osc/pierce-network.ts';
-import { noiseCurrentA, steadyMotionalCurrentA } from '../../../src/lib/osc/startup.ts';
+import { criticalGmFullS, impedanceAtPins, impedanceSeenByMotionalBranch } from '../../../src/lib/osc/pierce-network.ts';
+import { limitedSwingVpp, noiseCurrentA, steadyMotionalCurrentA } from '../../../src/lib/osc/startup.ts';
 import { circuitsFor, offerFrequencyHz } from '../../../src/lib/report/advice.ts';
 import { circuitFit } from '../../../src/lib/report/fits.ts';
 import { DEMO_CIRCUIT, X1 } from '../../site/fixture.ts';
@@ -100,5 +100,27 @@ describe('circuits are offered by the nominal frequency', () => {
     // fs·√(1 + C1/(C0 + CL)) = 15.996 MHz · √(1 + 5e-15/11e-12) = 15.999635 MHz
     expect(f).toBeCloseTo(15.996e6 * Math.sqrt(1 + 5e-15 / 11e-12), 3);
     expect(offerFrequencyHz(undefined, model, 0)).toBe(15.996e6);
+  });
+});
+
+describe('steady swing from the amplifier current limit', () => {
+  it('describing-function estimate, worked out', () => {
+    // Imax 100 µA, gm,crit 1 mS: v1 = 4·100e-6/(π·1e-3) = 0.127324 V peak; Ca = Cb: the crystal
+    // sees v1·(1 + 1) = 0.254648 V peak = 0.509296 V peak-to-peak; a 0.3 V supply caps it.
+    expect(limitedSwingVpp(100e-6, 1e-3, 10e-12, 10e-12, 3.3)).toBeCloseTo(0.509296, 6);
+    expect(limitedSwingVpp(100e-6, 1e-3, 10e-12, 10e-12, 0.3)).toBe(0.3);
+  });
+  it('the advice uses it when the circuit gives a current limit and no swing', () => {
+    const c = { ...DEMO_CIRCUIT, currentLimitA: 20e-6 };
+    const a = ok(advisePierce({ partId: 'X1', datasheet, model: X1, mainBranch: 0, circuit: c }));
+    const p = a.best;
+    const net = { gmS: c.gmS, caF: p.caF, cbF: p.cbF, pinToPinF: c.pinToPinStrayF };
+    const gmCrit = criticalGmFullS(net, X1.c0F, x1.r1Ohm, p.freqHz)!;
+    // at gm,crit of the full network the motional branch sees exactly −R1
+    expect(impedanceSeenByMotionalBranch({ ...net, gmS: gmCrit }, X1.c0F, p.freqHz).reOhm).toBeCloseTo(-x1.r1Ohm, 6);
+    expect(p.gmCritFullS).toBeCloseTo(gmCrit, 12);
+    expect(p.swingVpp).toBeCloseTo(limitedSwingVpp(20e-6, gmCrit, p.caF, p.cbF, c.supplyV), 12);
+    expect(p.swingVpp).toBeLessThan(c.supplyV);
+    expect(a.assumptions[0]).toMatch(/current limit/);
   });
 });
