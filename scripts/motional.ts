@@ -25,6 +25,7 @@ export const COMMANDS: Record<string, CommandEntry> = {
   netlist: { synopsis: 'netlist PART [options]', summary: 'print a SPICE subcircuit of a part (first sample unless --sample)', load: () => import('./cli/netlist.ts') },
   build: { synopsis: 'build [--content DIR] [--out DIR]', summary: 'validate, extract and build the catalogue site', load: () => import('./cli/build.ts') },
   advise: { synopsis: 'advise PART [options]', summary: 'load-capacitor and start-up advice for a part', load: () => import('./cli/advise.ts') },
+  preview: { synopsis: 'preview [--content DIR]', summary: 'serve the catalogue while you edit records, rebuilding what changed', load: () => import('./cli/preview.ts') },
 };
 
 export function usage(): string {

@@ -29,6 +29,7 @@ import { extractionCodeHash } from './code-hash.ts';
 import type { IndexEntry } from '../lib/report/types.ts';
 import { sortById } from '../lib/report/index-order.ts';
 import { PAGES_ENV, formatManifest, sitePathsOf, linkTree, overlayTree, placeCatalogueData, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
+import { writeProblemPages, type RecordProblems } from './problem-pages.ts';
 import { adoptRenderer, newRendererDir, startRenderer, type PageRendererThread } from './page-renderer.ts';
 import { type ProgressStream } from './progress.ts';
 import { defaultJobs } from './worker-pool.ts';
@@ -71,6 +72,12 @@ export interface BuildCatalogueOptions {
   log?: (text: string) => void;
   /** Stop the build (the output folder stays as it was). */
   signal?: AbortSignal;
+  /**
+   * Preview mode (`motional preview`): an invalid record does not fail the build; it is left out
+   * of the catalogue and its page shows its problems (file, line, message) instead. The
+   * published build never uses this.
+   */
+  problemPages?: boolean;
   /** Called as each stage starts (tests, progress in other UIs). */
   onStage?: (stage: BuildStage, info: { stagingRoot?: string }) => void;
 }
@@ -94,6 +101,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   let current: BuildStage | undefined;
   let siteWritten = 0;
   let carried: Promise<boolean> | undefined;
+  let problems: RecordProblems[] = [];
   let renderer: PageRendererThread | undefined;
   let staging: StagingDir | undefined;
   const stage = (next: BuildStage | undefined) => {
@@ -172,7 +180,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     stage('records');
     // fingerprints of this content folder's parts are remembered between builds
     const memoFile = cacheDir ? join(cacheDir, 'fingerprints', `${sha256(resolve(contentDir)).slice(0, 16)}.json`) : undefined;
-    const { results, threads } = await runRecords(records, context, jobs, oscillatorsBad, progressStream, options.signal, memoFile);
+    const { results: allResults, threads } = await runRecords(records, context, jobs, oscillatorsBad, progressStream, options.signal, memoFile, options.problemPages);
+    let results = allResults;
     summary.threads = threads;
     for (const r of results) {
       summary.recordMs.hash += r.ms.hash;
@@ -187,7 +196,14 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     const invalid = new Set(summary.issues.filter((i) => i.severity === 'error').map((i) => i.file));
     summary.recordsInvalid = results.filter((r) => !r.valid || invalid.has(r.yamlFile)).length;
     summary.recordsValid = summary.recordsFound - summary.recordsInvalid;
-    if (summary.issues.some((i) => i.severity === 'error')) throw new BuildFailure('invalid records');
+    if (summary.issues.some((i) => i.severity === 'error')) {
+      if (!options.problemPages || oscillatorsBad) throw new BuildFailure('invalid records');
+      // preview: the invalid records get a page of their problems, the others are published
+      const bad = results.filter((r) => !r.valid || invalid.has(r.yamlFile));
+      problems = bad.map((r) => ({ id: r.id, yamlFile: r.yamlFile, issues: summary.issues.filter((i) => i.file === r.yamlFile || i.file.startsWith(`${dirname(r.yamlFile)}/`)) }));
+      results = results.filter((r) => !bad.includes(r));
+      if (results.length === 0 && problems.length > 0) throw new BuildFailure('invalid records');
+    }
     for (const r of results) {
       summary.samples += r.stats?.samples ?? 0;
       summary.modes += r.stats?.modes ?? 0;
@@ -253,7 +269,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
           await linkTree(outDir, siteDir, (rel) => rel === OUTPUT_MARKER);
         }
         carried = undefined;
-        for (const id of replaced) {
+        for (const id of [...replaced, ...(previous?.problems ?? [])]) {
           for (const rel of sitePathsOf(id)) await rm(join(siteDir, ...rel.split('/')), { recursive: true, force: true });
         }
         await overlayTree(freshDir, siteDir);
@@ -284,6 +300,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     }
     checkAbort();
 
+    const problemIds = options.dataOnly ? [] : await writeProblemPages(builtDir, problems, new Set(ids), basePath);
+
     stage('swap');
     if (options.keepDataDir && builtDir !== dataDir) {
       const keep = resolve(options.keepDataDir);
@@ -301,6 +319,7 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       siteHash,
       base: basePath,
       parts: Object.fromEntries(Object.entries(partKeys).map(([id, key]) => [id, key ?? ''])),
+      ...(problemIds.length > 0 ? { problems: problemIds } : {}),
     });
     await swapInto(staging, builtDir, { marker, background: true });
     staging = undefined;

@@ -38,6 +38,8 @@ export interface OutputManifest {
   base: string;
   /** Part id → cache key of its data (empty when the cache was off). */
   parts: Record<string, string>;
+  /** Ids of records shown as a page of their problems (preview builds only). */
+  problems?: string[];
 }
 
 /** Marker text of an output folder. */

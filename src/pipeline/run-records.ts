@@ -44,10 +44,13 @@ export async function runRecords(
   progressStream: ProgressStream | undefined,
   signal: AbortSignal | undefined,
   memoFile: string | undefined,
+  /** Process every record in full even after an invalid one (preview: the others are still shown). */
+  keepGoing = false,
 ): Promise<{ results: BuildTaskResult[]; threads: number }> {
   const progress = createProgress({ label: 'records', total: records.length, stream: progressStream, silent: !progressStream });
   const results = new Array<BuildTaskResult>(records.length);
   let failed = validateOnly;
+  let invalidFound = false;
   let hits = 0;
   const note = () => (hits > 0 ? `${hits} cached` : undefined);
 
@@ -87,7 +90,10 @@ export async function runRecords(
         if (signal?.aborted) throw new BuildFailure('build stopped');
         const task = todo[next++];
         const result = await run({ ...task, validateOnly: failed });
-        if (!result.valid) failed = true;
+        if (!result.valid) {
+          invalidFound = true;
+          if (!keepGoing) failed = true;
+        }
         results[task.index] = result;
         progress.tick(1, note());
       }
@@ -110,7 +116,7 @@ export async function runRecords(
   } finally {
     await pool?.close();
   }
-  progress.done(`${hits} cached, ${todo.length} processed${failed ? ', invalid records found' : ''}`);
+  progress.done(`${hits} cached, ${todo.length} processed${failed || invalidFound ? ', invalid records found' : ''}`);
   return { results, threads };
 }
 
