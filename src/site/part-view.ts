@@ -235,8 +235,7 @@ function pairRows(p: CapacitorPair): Row[] {
     { label: 'Gain margin gm/gm,crit', value: formatNumber(p.gainMargin, 3) + (p.gainMarginDatasheet !== undefined ? ` (${formatNumber(p.gainMarginDatasheet, 3)} at datasheet ESR)` : '') },
     { label: 'Resistance seen by the crystal pins', value: `${formatQty(p.pinsResistanceOhm, 'Ω', 4)} (RL ${formatQty(p.rlOhm, 'Ω', 4)})` },
     { label: 'Resistance seen by the motional branch', value: formatQty(p.motionalResistanceOhm, 'Ω', 4) },
-    { label: 'Start-up time constant', value: Number.isFinite(p.startupTauS) ? formatQty(p.startupTauS, 's', 3) : 'does not start' },
-    { label: 'Start-up time (from noise)', value: Number.isFinite(p.startupTimeS) ? formatQty(p.startupTimeS, 's', 3) : '—' },
+    { label: 'Start-up τ / time from noise', value: Number.isFinite(p.startupTauS) ? `${formatQty(p.startupTauS, 's', 3)} / ${formatQty(p.startupTimeS, 's', 3)}` : 'does not start' },
     { label: 'Estimated drive', value: formatQty(p.driveW, 'W', 3) },
   ];
 }

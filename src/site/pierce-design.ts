@@ -41,11 +41,11 @@ export function curveFor(calc: CalculatorData | undefined, circuitName: string, 
 export function curveSeries(c: NegativeResistanceCurve, label = ''): SeriesSpec[] {
   const ends = [c.clF[0], c.clF[c.clF.length - 1]];
   const out: SeriesSpec[] = [
-    { label: `${label}|R| seen by the motional branch`, style: 'model', curve: { x: c.clF, y: c.motionalOhm } },
-    { label: `${label}|R| seen by the crystal pins`, style: 'c1', curve: { x: c.clF, y: c.pinsOhm } },
+    { label: `${label}|R| motional branch`, style: 'model', curve: { x: c.clF, y: c.motionalOhm } },
+    { label: `${label}|R| crystal pins`, style: 'c1', curve: { x: c.clF, y: c.pinsOhm } },
     { label: `${label}R1 (extracted)`, style: 'c2', curve: { x: ends, y: [c.r1Ohm, c.r1Ohm] } },
   ];
-  if (c.esrMaxOhm !== undefined) out.push({ label: `${label}datasheet maximum ESR`, style: 'c3', curve: { x: ends, y: [c.esrMaxOhm, c.esrMaxOhm] } });
+  if (c.esrMaxOhm !== undefined) out.push({ label: `${label}max ESR`, style: 'c3', curve: { x: ends, y: [c.esrMaxOhm, c.esrMaxOhm] } });
   return out;
 }
 
@@ -56,11 +56,11 @@ export function curvePlot(c: NegativeResistanceCurve, id: string): PlotLayout {
     id,
     title: `Negative resistance against load capacitance, ${c.circuit}`,
     description:
-      `Magnitude of the small-signal negative resistance seen by the motional branch and by the crystal pins for equal load capacitors, ` +
-      `against the load capacitance ${formatQty(c.clF[0], 'F', 3)} to ${formatQty(c.clF[c.clF.length - 1], 'F', 3)}, on logarithmic axes; ` +
-      `flat lines at the extracted R1 ${formatQty(c.r1Ohm, 'Ω', 3)}${c.esrMaxOhm !== undefined ? ` and the datasheet maximum ESR ${formatQty(c.esrMaxOhm, 'Ω', 3)}` : ''}` +
-      `${c.chosenClF !== undefined ? `; the chosen capacitors give ${formatQty(c.chosenClF, 'F', 3)}` : ''}. ` +
-      `The oscillator starts only where the motional-branch curve lies above R1${crossing !== undefined ? `: up to about ${formatQty(crossing, 'F', 2)}` : ''}.`,
+      `Small-signal negative resistance seen by the motional branch and by the crystal pins, equal capacitors, ` +
+      `against load capacitance ${formatQty(c.clF[0], 'F', 3)} to ${formatQty(c.clF[c.clF.length - 1], 'F', 3)}, log axes; ` +
+      `R1 ${formatQty(c.r1Ohm, 'Ω', 3)}${c.esrMaxOhm !== undefined ? `, datasheet maximum ESR ${formatQty(c.esrMaxOhm, 'Ω', 3)}` : ''}` +
+      `${c.chosenClF !== undefined ? `, chosen ${formatQty(c.chosenClF, 'F', 3)}` : ''}. ` +
+      `It starts where the motional-branch curve lies above R1${crossing !== undefined ? ` (up to about ${formatQty(crossing, 'F', 2)})` : ''}.`,
     xName: 'Load capacitance CL', xUnit: 'F', xScale: 'log',
     panels: [{ yName: '|R|', yUnit: 'Ω', yScale: 'log', series: curveSeries(c) }],
     markers: c.chosenClF !== undefined ? [{ x: c.chosenClF, label: 'chosen' }] : [],
