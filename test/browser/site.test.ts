@@ -243,7 +243,7 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     const data = JSON.parse((await page.getAttribute('#calc-form', 'data-calc'))!);
     // Change the board stray and the target: the page must follow the library.
     await page.fill('#c-stray', '2.5');
-    const target = data.datasheet?.frequency ?? data.model.branches[data.mainBranch].fsHz;
+    const target = data.datasheet?.frequencyHz ?? data.model.branches[data.mainBranch].fsHz;
     await page.fill('#c-target', String(target));
     const rows = await page.locator('#calc-table tr').evaluateAll((trs) => trs.map((tr) => [tr.querySelector('th')?.textContent ?? '', tr.querySelector('td')?.textContent ?? '']));
     const got = Object.fromEntries(rows);
