@@ -32,8 +32,15 @@ async function start(): Promise<void> {
   const tbody = table.tBodies[0];
   const rows = new Map<string, HTMLTableRowElement>();
   for (const tr of Array.from(tbody.rows)) rows.set(tr.dataset.id ?? '', tr);
-  const points = new Map<string, Element>();
-  document.querySelectorAll('.point-link[data-id]').forEach((a) => points.set(a.getAttribute('data-id') ?? '', a));
+  // Each part's point on the overview chart and its entry in the list of the chart's links.
+  const points = new Map<string, Element[]>();
+  document.querySelectorAll('[data-point]').forEach((el) => {
+    const id = el.getAttribute('data-point') ?? '';
+    points.set(id, [...(points.get(id) ?? []), el]);
+  });
+  document.querySelectorAll<SVGElement>('circle.point[data-href]').forEach((c) => {
+    c.addEventListener('click', () => { location.href = c.dataset.href ?? location.href; });
+  });
   const searcher = createSearcher(entries);
   const byId = new Map(entries.map((e) => [e.id, e]));
 
@@ -53,10 +60,10 @@ async function start(): Promise<void> {
   let chartTimer: ReturnType<typeof setTimeout> | undefined;
 
   function updateChart(show: Set<string>): void {
-    for (const [id, a] of points) {
+    for (const [id, els] of points) {
       const was = shownPoints.has(id);
       const now = show.has(id);
-      if (was !== now) a.classList.toggle('is-out', !now);
+      if (was !== now) for (const el of els) el.classList.toggle('is-out', !now);
     }
     shownPoints = show;
   }

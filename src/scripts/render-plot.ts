@@ -1,5 +1,6 @@
 /**
- * Client-side twin of src/components/Plot.astro: a PlotLayout as SVG DOM nodes (compare page).
+ * Client-side twin of src/components/Plot.astro: a PlotLayout as SVG DOM nodes with an HTML
+ * legend (compare page).
  * Text goes in with textContent only.
  */
 import type { PlotLayout } from '../site/plot.ts';
@@ -21,17 +22,23 @@ export function renderPlot(plot: PlotLayout): HTMLElement {
   cap.id = `${plot.id}-title`;
   cap.textContent = plot.title;
   fig.appendChild(cap);
+  if (plot.legend.length) {
+    const ul = document.createElement('ul');
+    ul.className = 'plot-legend';
+    ul.setAttribute('aria-label', `Legend of ${plot.title}`);
+    for (const l of plot.legend) {
+      const li = document.createElement('li');
+      const sw = svgEl('svg', { class: 'swatch', viewBox: '0 0 28 12', 'aria-hidden': 'true', focusable: 'false' });
+      sw.appendChild(svgEl('line', { x1: 1, x2: 27, y1: 6, y2: 6, class: `s-${l.style}` }));
+      li.appendChild(sw);
+      li.appendChild(document.createTextNode(l.label));
+      ul.appendChild(li);
+    }
+    fig.appendChild(ul);
+  }
   const svg = svgEl('svg', { viewBox: `0 0 ${plot.width} ${plot.height}`, role: 'img', 'aria-labelledby': cap.id, 'aria-describedby': `${plot.id}-desc`, tabindex: 0, 'data-x': plot.xScaleAttr, 'data-xunit': plot.xUnit, 'data-xname': plot.xLabel, class: 'plot-svg' });
   svg.appendChild(svgEl('title', {}, plot.title));
   svg.appendChild(svgEl('desc', { id: `${plot.id}-desc` }, plot.description));
-  const legend = svgEl('g', { class: 'legend', 'aria-hidden': 'true' });
-  for (const l of plot.legend) {
-    const g = svgEl('g', { transform: `translate(${l.x},12)` });
-    g.appendChild(svgEl('line', { x1: 0, x2: 22, y1: 0, y2: 0, class: `s-${l.style}` }));
-    g.appendChild(svgEl('text', { x: 27, y: 4 }, l.label));
-    legend.appendChild(g);
-  }
-  svg.appendChild(legend);
   for (const p of plot.panels) {
     const g = svgEl('g', { class: 'panel', 'data-y': p.yScaleAttr, 'data-yname': p.yLabel });
     const clip = svgEl('clipPath', { id: p.clipId });

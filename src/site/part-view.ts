@@ -11,6 +11,7 @@ import { renderMarkdown } from './markdown.ts';
 import { modeLabel, overtoneLabel } from '../lib/models/mode-label.ts';
 import type { PartData, SampleData } from './types.ts';
 import { pierceDesignView, type PierceDesignView } from './pierce-design.ts';
+import { tableView, type Column, type TableView } from './table-view.ts';
 
 export interface Row {
   label: string;
@@ -30,27 +31,22 @@ export interface CrossCheckView {
   values: Array<{ method: string; value: string; note?: string }>;
 }
 
-export interface ModeRowView {
-  label: string;
-  cells: string[];
-}
-
 export interface SampleView {
   id: string;
   anchor: string;
   ok: boolean;
   provenance: Row[];
-  sweeps: Array<{ file: string; fixture: string; conditions: string; points: string; span: string }>;
+  sweeps: TableView;
   compensation?: string;
-  modeHeaders: string[];
-  modeRows: ModeRowView[];
+  /** Parameters of every mode with standard uncertainties, one row per mode. */
+  modes: TableView;
   c0: string;
   fit?: string;
   crossChecks: Array<{ mode: string; checks: CrossCheckView[] }>;
   warnings: string[];
   diagnostics: Array<{ severity: string; text: string }>;
-  drive?: { rows: string[][]; summary: string };
-  otherConditions: string[][];
+  drive?: { table: TableView; summary: string };
+  otherConditions?: TableView;
   temperatureSummary?: string;
   plots: PlotLayout[];
 }
@@ -77,10 +73,10 @@ export interface PartView {
   stateClass: string;
   summary: Row[];
   datasheet: Row[];
-  compliance: Array<{ sample: string; basis?: string; rule: string; items: Row[]; cells: Array<{ text: string; state: string; title: string }> }>;
+  compliance: Array<{ sample: string; basis?: string; rule: string; items: Row[]; cells: Array<{ text: string; state: string; title: string; label: string }> }>;
   complianceHeaders: string[];
   samples: SampleView[];
-  lotStats?: { n: number; rule: string; rows: string[][]; notes: string[] };
+  lotStats?: { n: number; rule: string; table: TableView; notes: string[] };
   pierce: PierceView[];
   cautions: string[];
   downloads: Array<{ href: string; label: string; name: string; size: string }>;
@@ -130,31 +126,56 @@ function crossCheckView(c: CrossCheck): CrossCheckView {
     message: c.message,
     values: c.values.map((v) => ({
       method: METHOD_LABEL[v.method],
-      value: v.uncertainty !== undefined ? `${valueOf(c.quantity, v.value)} ± ${c.quantity === 'q' ? formatNumber(v.uncertainty, 2) : formatQty(v.uncertainty, QUANTITY_LABEL[c.quantity][1], 2)}` : valueOf(c.quantity, v.value),
+      value: v.uncertainty !== undefined ? formatWithUncertainty(v.value, v.uncertainty, QUANTITY_LABEL[c.quantity][1]) : valueOf(c.quantity, v.value),
       note: v.note,
     })),
   };
 }
 
-function modeRow(m: ModeResult): ModeRowView {
-  const u = m.uncertainty;
-  return {
-    label: modeLabel(m) + (m.flagged ? ' — above the trusted instrument range' : ''),
-    cells: [
-      formatWithUncertainty(m.fsHz, u.fsHz, 'Hz', 9),
-      formatWithUncertainty(m.fpHz, u.fpHz, 'Hz', 9),
-      formatWithUncertainty(m.r1Ohm, u.r1Ohm, 'Ω'),
-      formatWithUncertainty(m.l1H, u.l1H, 'H'),
-      formatWithUncertainty(m.c1F, u.c1F, 'F'),
-      u.q > 0 ? `${formatNumber(m.q, 5)} ± ${formatNumber(u.q, 2)}` : formatNumber(m.q, 5),
-      formatNumber(m.m, 3),
-      formatNumber(m.r, 4),
-      m.frHz !== undefined ? formatHz(m.frHz, 10) : '—',
-      m.rrOhm !== undefined ? formatQty(m.rrOhm, 'Ω', 4) : '—',
-      m.strengthDb !== undefined ? `${m.strengthDb.toFixed(1)} dB (×${formatNumber(m.resistanceRatio, 3)})` : '—',
-    ],
-  };
-}
+/** The parameters table: header and cell of each column together. */
+const MODE_COLUMNS: ReadonlyArray<Column<ModeResult>> = [
+  { header: 'fs', cell: (m) => formatWithUncertainty(m.fsHz, m.uncertainty.fsHz, 'Hz', 9) },
+  { header: 'fp', cell: (m) => formatWithUncertainty(m.fpHz, m.uncertainty.fpHz, 'Hz', 9) },
+  { header: 'R1', cell: (m) => formatWithUncertainty(m.r1Ohm, m.uncertainty.r1Ohm, 'Ω') },
+  { header: 'L1', cell: (m) => formatWithUncertainty(m.l1H, m.uncertainty.l1H, 'H') },
+  { header: 'C1', cell: (m) => formatWithUncertainty(m.c1F, m.uncertainty.c1F, 'F') },
+  { header: 'Q', cell: (m) => formatWithUncertainty(m.q, m.uncertainty.q, '', 5) },
+  { header: 'M', cell: (m) => formatNumber(m.m, 3) },
+  { header: 'r = C0/C1', cell: (m) => formatNumber(m.r, 4) },
+  { header: 'fr', cell: (m) => (m.frHz !== undefined ? formatHz(m.frHz, 10) : '—') },
+  { header: 'Rr', cell: (m) => (m.rrOhm !== undefined ? formatQty(m.rrOhm, 'Ω', 4) : '—') },
+  { header: 'Strength', cell: (m) => (m.strengthDb !== undefined ? `${m.strengthDb.toFixed(1)} dB (×${formatNumber(m.resistanceRatio, 3)})` : '—') },
+];
+
+const MODE_HEAD = { header: 'Mode', text: (m: ModeResult) => modeLabel(m) + (m.flagged ? ' — above the trusted instrument range' : '') };
+
+type SweepInfo = SampleData['provenance']['sweeps'][number];
+
+const SWEEP_COLUMNS: ReadonlyArray<Column<SweepInfo>> = [
+  { header: 'File', cell: (w) => w.file, num: false, code: true },
+  { header: 'Fixture', cell: (w) => w.fixture, num: false },
+  { header: 'Conditions', cell: (w) => conditions(w), num: false },
+  { header: 'Points', cell: (w) => (w.points !== undefined ? String(w.points) : '—') },
+  { header: 'Span', cell: (w) => (w.startHz !== undefined && w.stopHz !== undefined ? `${formatHz(w.startHz, 7)} – ${formatHz(w.stopHz, 7)}` : '—') },
+];
+
+type DrivePoint = NonNullable<SampleData['drive']>['points'][number];
+
+const DRIVE_COLUMNS: ReadonlyArray<Column<DrivePoint>> = [
+  { header: 'Drive', cell: (d) => formatQty(d.driveW, 'W', 3) },
+  { header: 'R1', cell: (d) => formatQty(d.r1Ohm, 'Ω', 4) },
+  { header: 'fs', cell: (d) => formatHz(d.fsHz, 10) },
+  { header: 'Sweep', cell: (d) => d.sweep, num: false },
+];
+
+type OtherCondition = SampleData['otherConditions'][number];
+
+const OTHER_COLUMNS: ReadonlyArray<Column<OtherCondition>> = [
+  { header: 'Sweep', cell: (o) => o.sweep, num: false },
+  { header: 'Conditions', cell: (o) => conditions(o), num: false },
+  { header: 'fs', cell: (o) => formatHz(o.fsHz, 10) },
+  { header: 'R1', cell: (o) => formatQty(o.r1Ohm, 'Ω', 4) },
+];
 
 function conditions(s: { temperatureC?: number; driveW?: number; addedCapacitanceF?: number; addedConnection?: string; referenceImpedanceOhm?: number }): string {
   const parts: string[] = [];
@@ -192,16 +213,9 @@ function sampleView(s: SampleData, partId: string, si: number): SampleView {
     anchor: `sample-${s.id}`,
     ok: s.ok,
     provenance,
-    sweeps: p.sweeps.map((w) => ({
-      file: w.file,
-      fixture: w.fixture,
-      conditions: conditions(w),
-      points: w.points !== undefined ? String(w.points) : '—',
-      span: w.startHz !== undefined && w.stopHz !== undefined ? `${formatHz(w.startHz, 7)} – ${formatHz(w.stopHz, 7)}` : '—',
-    })),
+    sweeps: tableView(SWEEP_COLUMNS, p.sweeps),
     compensation: comp ? [comp.open && `open ${comp.open}`, comp.short && `short ${comp.short}`, comp.load && `load ${comp.load} (${formatQty(comp.loadResistanceOhm, 'Ω', 4)})`].filter(Boolean).join(', ') + (comp.fixture ? ` in a ${comp.fixture} fixture` : '') : undefined,
-    modeHeaders: ['Mode', 'fs', 'fp', 'R1', 'L1', 'C1', 'Q', 'M', 'r = C0/C1', 'fr', 'Rr', 'Strength'],
-    modeRows: s.modes.map(modeRow),
+    modes: tableView(MODE_COLUMNS, s.modes, MODE_HEAD),
     c0: s.c0F !== undefined ? formatWithUncertainty(s.c0F, s.modes[0]?.uncertainty.c0F, 'F') : '—',
     fit: s.fit ? `${s.fit.converged ? 'converged' : 'did not converge'} after ${s.fit.iterations} iterations on ${s.fit.points} points; rms relative residual ${formatNumber(s.fit.rmsResidual, 2)}${s.fit.reason ? ` (${s.fit.reason})` : ''}` : undefined,
     crossChecks: [
@@ -212,11 +226,11 @@ function sampleView(s: SampleData, partId: string, si: number): SampleView {
     diagnostics: s.diagnostics.map((d) => ({ severity: d.severity, text: diagnosticText(d) })),
     drive: s.drive
       ? {
-          rows: s.drive.points.map((d) => [formatQty(d.driveW, 'W', 3), formatQty(d.r1Ohm, 'Ω', 4), formatHz(d.fsHz, 10), d.sweep]),
+          table: tableView(DRIVE_COLUMNS, s.drive.points),
           summary: `resistance ratio max/min ${formatNumber(s.drive.resistanceRatio, 4)}; frequency shift from lowest to highest drive ${formatPpm(s.drive.frequencyShiftPpm, 3)}`,
         }
       : undefined,
-    otherConditions: s.otherConditions.map((o) => [o.sweep, conditions(o), formatHz(o.fsHz, 10), formatQty(o.r1Ohm, 'Ω', 4)]),
+    otherConditions: s.otherConditions.length ? tableView(OTHER_COLUMNS, s.otherConditions) : undefined,
     temperatureSummary: t
       ? `${t.form} fit about ${t.t0C} °C, rms residual ${formatNumber(t.rmsResidualPpm, 2)} ppm; turnover ${t.turnoverC.length ? t.turnoverC.map((x) => `${x.toFixed(1)} °C`).join(', ') : 'none in range'}; span ${t.spanPpm.toFixed(2)} ppm peak-to-peak over ${t.spanRangeC.min} to ${t.spanRangeC.max} °C`
       : undefined,
@@ -261,6 +275,33 @@ function pierceView(a: PartData['pierce'][number], calc: PartData['calculator'],
 
 const COMPLIANCE_LABEL = { frequency: 'Frequency', esr: 'ESR', c0: 'C0', overtone: 'Overtone' } as const;
 
+type ComplianceCheck = keyof typeof COMPLIANCE_LABEL;
+
+/** The compliance table's columns: header and the check whose verdict fills the cell. */
+const COMPLIANCE_COLUMNS: ReadonlyArray<{ header: string; check: ComplianceCheck; value: (v: number) => string }> = [
+  { header: 'Frequency at datasheet load', check: 'frequency', value: (v) => formatPpm(v, 2) },
+  { header: 'ESR', check: 'esr', value: (v) => formatQty(v, 'Ω', 3) },
+  { header: 'C0', check: 'c0', value: (v) => formatQty(v, 'F', 3) },
+  { header: 'Overtone', check: 'overtone', value: (v) => String(v) },
+];
+
+type LotParameter = NonNullable<PartData['lotStats']>['parameters'][number];
+
+/** Lot statistics columns; `f` formats a value of the row's quantity. */
+function lotColumns(): ReadonlyArray<Column<LotParameter>> {
+  const unitOf = (p: LotParameter) => (LOT_LABEL[p.parameter] ?? [p.parameter, ''])[1];
+  const f = (p: LotParameter, v: number | undefined) => (unitOf(p) === '' ? formatNumber(v, 5) : formatQty(v, unitOf(p), unitOf(p) === 'Hz' ? 10 : 5));
+  return [
+    { header: 'n', cell: (p) => String(p.n) },
+    { header: 'Mean', cell: (p) => f(p, p.mean) },
+    { header: 'Std. dev.', cell: (p) => (p.std === undefined ? '—' : unitOf(p) === '' ? formatNumber(p.std, 2) : formatQty(p.std, unitOf(p), 2)) },
+    { header: 'Min', cell: (p) => f(p, p.min) },
+    { header: 'Max', cell: (p) => f(p, p.max) },
+    { header: 'Median', cell: (p) => f(p, p.median) },
+    { header: 'Outliers', cell: (p) => (p.outliers.length ? p.outliers.map((o) => o.sample).join(', ') : p.note ? 'no test' : 'none'), num: false },
+  ];
+}
+
 const LOT_LABEL: Record<string, [string, string]> = {
   fsHz: ['fs', 'Hz'], r1Ohm: ['R1', 'Ω'], c1F: ['C1', 'F'], l1H: ['L1', 'H'], c0F: ['C0', 'F'], q: ['Q', ''], loadFreqHz: ['f at datasheet load', 'Hz'],
 };
@@ -269,7 +310,7 @@ const LOT_LABEL: Record<string, [string, string]> = {
 export function makePartView(d: PartData, base: string): PartView {
   const s = d.summary;
   const ds = d.datasheet;
-  const sub = [KIND_LABEL[d.kind] ?? d.kind, d.package && `package ${d.package}`, d.supplier && `from ${d.supplier}`, d.supplierPart && `(${d.supplierPart})`].filter(Boolean).join(' · ');
+  const sub = [KIND_LABEL[d.kind], d.package && `package ${d.package}`, d.supplier && `from ${d.supplier}`, d.supplierPart && `(${d.supplierPart})`].filter(Boolean).join(' · ');
   return {
     id: d.id,
     title: d.title,
@@ -307,25 +348,20 @@ export function makePartView(d: PartData, base: string): PartView {
       basis: c.frequencyBasis,
       rule: c.mainModeRule,
       items: c.items.map((i) => ({ label: COMPLIANCE_LABEL[i.check], value: i.reason, state: i.verdict })),
-      cells: (['frequency', 'esr', 'c0', 'overtone'] as const).map((k) => {
-        const i = c.items.find((x) => x.check === k);
-        if (!i) return { text: '—', state: 'unknown', title: '' };
-        const v = i.value === undefined ? '' : k === 'frequency' ? formatPpm(i.value, 2) : k === 'esr' ? formatQty(i.value, 'Ω', 3) : k === 'c0' ? formatQty(i.value, 'F', 3) : String(i.value);
-        return { text: v, state: i.verdict, title: i.reason };
+      cells: COMPLIANCE_COLUMNS.map((col) => {
+        const i = c.items.find((x) => x.check === col.check);
+        if (!i) return { text: '—', state: 'unknown', title: '', label: col.header };
+        return { text: i.value === undefined ? '' : col.value(i.value), state: i.verdict, title: i.reason, label: col.header };
       }),
     })),
-    complianceHeaders: ['Frequency at datasheet load', 'ESR', 'C0', 'Overtone'],
+    complianceHeaders: COMPLIANCE_COLUMNS.map((col) => col.header),
     samples: d.samples.map((s, i) => sampleView(s, d.id, i)),
     lotStats: d.lotStats
       ? {
           n: d.lotStats.n,
           rule: d.lotStats.outlierRule,
           notes: d.lotStats.notes,
-          rows: d.lotStats.parameters.map((p) => {
-            const [name, unit] = LOT_LABEL[p.parameter] ?? [p.parameter, ''];
-            const f = (v: number | undefined) => (unit === '' ? formatNumber(v, 5) : formatQty(v, unit, unit === 'Hz' ? 10 : 5));
-            return [name, String(p.n), f(p.mean), p.std !== undefined ? (unit === '' ? formatNumber(p.std, 2) : formatQty(p.std, unit, 2)) : '—', f(p.min), f(p.max), f(p.median), p.outliers.length ? p.outliers.map((o) => o.sample).join(', ') : p.note ? 'no test' : 'none'];
-          }),
+          table: tableView(lotColumns(), d.lotStats.parameters, { header: 'Parameter', text: (p) => (LOT_LABEL[p.parameter] ?? [p.parameter])[0] }),
         }
       : undefined,
     pierce: d.pierce.map((a, i) => pierceView(a, d.calculator, i)),
