@@ -20,8 +20,8 @@ export interface Layer {
 
 /**
  * The project's layers, lowest first. Inside src/lib: units → issues → schema → sweep → io →
- * fixture → models → extract | synth → osc → report (extract and synth share a rank: neither
- * imports the other). Then lib → pipeline → site | scripts.
+ * fixture → models → extract | synth → osc → report | draft (extract and synth share a rank, as
+ * do report and draft: neither imports the other). Then lib → pipeline → site | scripts.
  */
 export const LIB_LAYERS: Layer[] = [
   { name: 'units', rank: 0, paths: ['src/lib/units/'] },
@@ -35,6 +35,7 @@ export const LIB_LAYERS: Layer[] = [
   { name: 'synth', rank: 7, paths: ['src/lib/synth/'] },
   { name: 'osc', rank: 8, paths: ['src/lib/osc/'] },
   { name: 'report', rank: 9, paths: ['src/lib/report/'] },
+  { name: 'draft', rank: 9, paths: ['src/lib/draft/'] },
 ];
 
 export const TOP_LAYERS: Layer[] = [
