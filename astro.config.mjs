@@ -16,6 +16,7 @@ import { defineConfig } from 'astro/config';
 import { copyFileSync, cpSync, createReadStream, existsSync, linkSync, mkdirSync, readdirSync, renameSync, rmSync, statSync } from 'node:fs';
 import { join, normalize, resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { SITE_DATA_COPIES } from './src/pipeline/site-data-copies.mjs';
 
 const base = process.env.MOTIONAL_BASE || '/';
 const siteOut = resolve(process.env.MOTIONAL_SITE_OUT || 'dist');
@@ -26,12 +27,8 @@ const insideCwd = siteOut.startsWith(process.cwd() + sep);
 const outDir = insideCwd ? siteOut : resolve('.motional', `site-build-${process.pid}`);
 const dataDir = resolve(process.env.MOTIONAL_DATA || '.motional/catalogue');
 
-/** Site path prefix → folder or file in the data folder (the same list as SITE_DATA_COPIES in src/pipeline/partial-site.ts). */
-const COPIES = [
-  ['data/index.json', 'index.json'],
-  ['data/compare', 'compare'],
-  ['downloads', 'downloads'],
-];
+/** Site path prefix → folder or file in the data folder (one list with the build's incremental path). */
+const COPIES = SITE_DATA_COPIES;
 
 /** Move a built folder to its destination (rename, or copy across file systems). */
 function moveFolder(from, to) {

@@ -18,7 +18,7 @@
  * a mismatch is an internal error and nothing is swapped in.
  */
 import { existsSync } from 'node:fs';
-import { mkdir, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { mkdir, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
 import { dirname, join, resolve } from 'node:path';
 import { OUTPUT_MARKER, cleanStale, createStaging, discardStaging, refuseReplace, swapInto, type StagingDir } from './atomic-dir.ts';
 import { findPartFiles } from './check-paths.ts';
@@ -242,7 +242,10 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         const deltaDir = join(staging.root, 'delta');
         const freshDir = join(staging.root, 'site-fresh');
         const changed = new Set(partial.changed);
-        const placed = await linkFiles(dataDir, ['index.json'], deltaDir) && (await placeResultFiles(results.filter((r) => changed.has(r.id!)), dataDir, deltaDir));
+        // every file over all parts (the index, and any catalogue-wide file the emit step adds)
+        // and the changed parts' own files
+        const overAll = (await readdir(dataDir, { withFileTypes: true })).filter((e) => e.isFile()).map((e) => e.name);
+        const placed = await linkFiles(dataDir, overAll, deltaDir) && (await placeResultFiles(results.filter((r) => changed.has(r.id!)), dataDir, deltaDir));
         if (!placed) throw new Error('a part file vanished while the build ran');
         const pagesFile = join(staging.root, 'pages.json');
         await writeFile(pagesFile, JSON.stringify(partial.changed));

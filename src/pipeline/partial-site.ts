@@ -21,6 +21,9 @@ import { link, mkdir, readFile, readdir, rename, rm, stat } from 'node:fs/promis
 import { dirname, join } from 'node:path';
 import { OUTPUT_MARKER } from './atomic-dir.ts';
 import { runLanes } from './worker-pool.ts';
+import { SITE_DATA_COPIES } from './site-data-copies.mjs';
+
+export { SITE_DATA_COPIES };
 
 /** Env variable naming the JSON file of part ids whose pages to render. */
 export const PAGES_ENV = 'MOTIONAL_PAGES';
@@ -188,13 +191,6 @@ export async function overlayTree(from: string, to: string): Promise<void> {
     }
   }
 }
-
-/** Where astro.config.mjs puts the data folder's files in the site: site path ← data path. */
-export const SITE_DATA_COPIES: ReadonlyArray<readonly [string, string]> = [
-  ['data/index.json', 'index.json'],
-  ['data/compare', 'compare'],
-  ['downloads', 'downloads'],
-];
 
 /**
  * Put the data folder's published files into a site folder as astro.config.mjs does (hard links),
