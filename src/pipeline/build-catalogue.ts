@@ -28,6 +28,7 @@ import { pruneCache, sha256 } from './cache.ts';
 import { extractionCodeHash } from './code-hash.ts';
 import type { IndexEntry } from '../lib/report/types.ts';
 import { sortById } from '../lib/report/index-order.ts';
+import { writeCatalogueExport } from './emit.ts';
 import { PAGES_ENV, formatManifest, sitePathsOf, linkTree, overlayTree, placeCatalogueData, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
 import { writeProblemPages, type RecordProblems } from './problem-pages.ts';
 import { adoptRenderer, newRendererDir, startRenderer, type PageRendererThread } from './page-renderer.ts';
@@ -358,6 +359,7 @@ async function settle(step: Promise<boolean> | undefined): Promise<boolean> {
  */
 async function writeIndex(dataDir: string, entries: IndexEntry[]): Promise<void> {
   await writeFile(join(dataDir, 'index.json'), JSON.stringify(sortById(entries)));
+  await writeCatalogueExport(dataDir, sortById(entries).map((e) => e.id));
 }
 
 /** Parts whose data file was written: `<data>/parts/<id>.json`. */

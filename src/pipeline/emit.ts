@@ -4,6 +4,8 @@
  *   <out>/index.json                 search index: IndexEntry[] sorted by id
  *   <out>/parts/<id>.json            PartData of each part (read by the pages at build time)
  *   <out>/compare/<id>.json          CompareData of each part (fetched by the compare page)
+ *   <out>/export/<id>.json           the part's rows of the catalogue export (catalogue-export.ts)
+ *   <out>/catalogue.csv, .json       the whole export, written by writeCatalogueExport
  *   <out>/downloads/<id>/<name>      the downloads: netlists, model Touchstone, parameters,
  *                                    and the raw record and sweeps under raw/
  *
@@ -19,6 +21,7 @@ import type { LoadedPart } from './load-part.ts';
 import { makeCompareData, makeIndexEntry } from '../lib/report/catalogue-entries.ts';
 import type { IndexEntry, PartData } from '../lib/report/types.ts';
 import { sortById } from '../lib/report/index-order.ts';
+import { catalogueCsv, catalogueExportOf, catalogueRows, type CatalogueRow } from '../lib/report/catalogue-export.ts';
 
 export type { DownloadFile } from '../lib/report/downloads.ts';
 
@@ -106,6 +109,7 @@ export async function writeCatalogueData(outDir: string, parts: EmitPart[]): Pro
     jobs.push({ path: join(outDir, 'parts', `${id}.json`), content: JSON.stringify(p.data) });
     jobs.push({ path: join(outDir, 'compare', `${id}.json`), content: JSON.stringify(makeCompareData(p.data)) });
     for (const d of p.downloads) jobs.push({ path: join(outDir, 'downloads', id, ...checkedName(d.name).split('/')), content: d.content });
+    jobs.push({ path: join(outDir, 'export', `${id}.json`), content: JSON.stringify(catalogueRows(p.data)) });
     index.push(makeIndexEntry(p.data));
   }
   await mkdir(outDir, { recursive: true });
@@ -113,3 +117,11 @@ export async function writeCatalogueData(outDir: string, parts: EmitPart[]): Pro
   await writeFile(join(outDir, 'index.json'), JSON.stringify(sortById(index)));
 }
 
+
+/** Write `<data>/catalogue.json` and `.csv` from the parts' `export/<id>.json`, in the order of `ids`. */
+export async function writeCatalogueExport(dataDir: string, ids: string[]): Promise<void> {
+  const rows = ids.map((id) => JSON.parse(readFileSync(join(dataDir, 'export', `${id}.json`), 'utf8')) as CatalogueRow[]);
+  const data = catalogueExportOf(rows);
+  await writeFile(join(dataDir, 'catalogue.json'), JSON.stringify(data));
+  await writeFile(join(dataDir, 'catalogue.csv'), catalogueCsv(data));
+}
