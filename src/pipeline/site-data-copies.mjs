@@ -8,4 +8,6 @@ export const SITE_DATA_COPIES = [
   ['data/index.json', 'index.json'],
   ['data/compare', 'compare'],
   ['downloads', 'downloads'],
+  ['catalogue.csv', 'catalogue.csv'],
+  ['catalogue.json', 'catalogue.json'],
 ];
