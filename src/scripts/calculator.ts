@@ -27,9 +27,20 @@ function fill(values: CalculatorForm): void {
 function render(data: CalculatorData): void {
   const result = runCalculator(data, read());
   out!.replaceChildren();
+  for (const k of FIELDS) {
+    const input = el(k);
+    if (!result.ok && result.field === k) {
+      input.setAttribute('aria-invalid', 'true');
+      input.setAttribute('aria-describedby', 'calc-error');
+    } else {
+      input.removeAttribute('aria-invalid');
+      input.removeAttribute('aria-describedby');
+    }
+  }
   if (!result.ok) {
     const p = document.createElement('p');
     p.className = 'field-error';
+    p.id = 'calc-error';
     p.textContent = result.message;
     out!.appendChild(p);
     return;

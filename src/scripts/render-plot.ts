@@ -25,10 +25,9 @@ export function renderPlot(plot: PlotLayout): HTMLElement {
   if (plot.legend.length) {
     const ul = document.createElement('ul');
     ul.className = 'plot-legend';
-    ul.setAttribute('aria-label', `Legend of ${plot.title}`);
     for (const l of plot.legend) {
       const li = document.createElement('li');
-      const sw = svgEl('svg', { class: 'swatch', viewBox: '0 0 28 12', 'aria-hidden': 'true', focusable: 'false' });
+      const sw = svgEl('svg', { class: 'swatch', viewBox: '0 0 28 12', 'aria-hidden': 'true' });
       sw.appendChild(svgEl('line', { x1: 1, x2: 27, y1: 6, y2: 6, class: `s-${l.style}` }));
       li.appendChild(sw);
       li.appendChild(document.createTextNode(l.label));

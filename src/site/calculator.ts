@@ -27,7 +27,7 @@ export interface CalculatorForm {
 
 export type CalculatorOutcome =
   | { ok: true; advice: Extract<PierceAdvice, { ok: true }>; rows: Array<{ label: string; value: string; state?: string }> }
-  | { ok: false; message: string; advice?: PierceAdvice };
+  | { ok: false; message: string; advice?: PierceAdvice; /** The form field that did not parse, when one did not. */ field?: keyof CalculatorForm };
 
 /** Initial form values from a circuit and the datasheet target. */
 export function formFromCircuit(data: CalculatorData, circuit: OscillatorCircuit): CalculatorForm {
@@ -49,7 +49,7 @@ function capacitance(text: string, what: string): number | string {
   return v.ok ? v.value : `${what}: ${v.message}`;
 }
 
-/** Evaluate the form. Messages name the field that did not parse. */
+/** Evaluate the form. Messages name the field that did not parse; `field` says which input it was. */
 export function runCalculator(data: CalculatorData, form: CalculatorForm): CalculatorOutcome {
   const circuit = data.circuits.find((c) => c.name === form.circuit) ?? data.circuits[0];
   if (!circuit) return { ok: false, message: 'no oscillator circuit defined' };
@@ -61,10 +61,11 @@ export function runCalculator(data: CalculatorData, form: CalculatorForm): Calcu
   // `\d+(?:\.\d*)?`, not `\d+\.?\d*`: the latter backtracks quadratically on a long run of digits
   const gm = /^(\d+(?:\.\d*)?|\.\d+)(e[+-]?\d+)?$/i.test(gmText) ? { ok: true as const, value: Number(gmText) } : { ok: false as const };
   const target = parseEngValue(form.target, 'Hz');
-  const bad = [stray, pinIn, pinOut, pinToPin].find((v) => typeof v === 'string') as string | undefined;
-  if (bad) return { ok: false, message: bad };
-  if (!gm.ok || !(gm.value > 0)) return { ok: false, message: `transconductance: expected a positive value in mA/V, got "${form.gm}"` };
-  if (!target.ok || !(target.value > 0)) return { ok: false, message: `target frequency: expected a frequency such as "12M", got "${form.target}"` };
+  const fields = [['stray', stray], ['pinIn', pinIn], ['pinOut', pinOut], ['pinToPin', pinToPin]] as const;
+  const bad = fields.find(([, v]) => typeof v === 'string');
+  if (bad) return { ok: false, message: bad[1] as string, field: bad[0] };
+  if (!gm.ok || !(gm.value > 0)) return { ok: false, message: `transconductance: expected a positive value in mA/V, got "${form.gm}"`, field: 'gm' };
+  if (!target.ok || !(target.value > 0)) return { ok: false, message: `target frequency: expected a frequency such as "12M", got "${form.target}"`, field: 'target' };
   const c: OscillatorCircuit = {
     ...circuit,
     boardStrayF: stray as number,

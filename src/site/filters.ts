@@ -26,6 +26,9 @@ const UNIT_WORDS: Record<FilterUnit, RegExp> = {
   ohm: /^(?:ohms?|Ω|Ω|r)$/i,
 };
 
+/** An example value per unit for messages: a capacitance field never suggests "12M". */
+const UNIT_EXAMPLE: Record<FilterUnit, string> = { Hz: '12M', F: '8p', ohm: '50' };
+
 /** Default scale of a bare number per unit (a capacitance typed as `8` means 8 pF). */
 const BARE_SCALE: Record<FilterUnit, number> = { Hz: 1, F: 1e-12, ohm: 1 };
 
@@ -38,7 +41,7 @@ export type ParsedValue = { ok: true; value: number } | { ok: false; message: st
 export function parseEngValue(text: string, unit: FilterUnit): ParsedValue {
   const t = text.trim();
   const m = /^(\d+(?:\.\d*)?|\.\d+)(?:[eE]([+-]?\d+))?\s*(.*)$/.exec(t);
-  if (!m) return { ok: false, message: `expected a number such as "12M", got "${t}"` };
+  if (!m) return { ok: false, message: `expected a number such as "${UNIT_EXAMPLE[unit]}", got "${t}"` };
   let value = Number(m[1]) * (m[2] ? 10 ** Number(m[2]) : 1);
   const rest = m[3].trim();
   if (rest === '') return { ok: true, value: value * BARE_SCALE[unit] };
@@ -53,7 +56,7 @@ export function parseEngValue(text: string, unit: FilterUnit): ParsedValue {
       return { ok: true, value };
     }
   }
-  return { ok: false, message: `expected a value in ${unit === 'ohm' ? 'ohm' : unit} such as "${unit === 'F' ? '8p' : unit === 'Hz' ? '12M' : '50'}", got "${t}"` };
+  return { ok: false, message: `expected a value in ${unit === 'ohm' ? 'ohm' : unit} such as "${UNIT_EXAMPLE[unit]}", got "${t}"` };
 }
 
 /** A closed interval; either end may be open (infinite). */

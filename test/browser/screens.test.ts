@@ -241,6 +241,22 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
     await js.close();
   });
 
+  it('the calculator marks a pF field that does not parse (aria-invalid) and suggests a capacitance', async () => {
+    const entry = index.find((e) => e.kind === 'quartz-at') ?? index[0];
+    const page = await open(`parts/${encodeURIComponent(entry.id)}/`);
+    await page.waitForSelector('#calc-form[data-ready="true"]');
+    await page.fill('#c-stray', 'abc');
+    expect(await page.getAttribute('#c-stray', 'aria-invalid')).toBe('true');
+    const message = await page.textContent('#calc-error');
+    expect(message).toContain('"8p"');
+    expect(message).not.toContain('12M');
+    expect(await page.getAttribute('#c-stray', 'aria-describedby')).toBe('calc-error');
+    await page.fill('#c-stray', '2.5');
+    expect(await page.getAttribute('#c-stray', 'aria-invalid')).toBeNull();
+    expect(await page.locator('#calc-table').count()).toBe(1);
+    await page.close();
+  });
+
   it('compare plots tell parts apart by line style as well as colour', async () => {
     const ids = index.filter((e) => e.fsHz).slice(0, 4).map((e) => e.id);
     const page = await open(`compare/?parts=${ids.join(',')}`, { ready: true });

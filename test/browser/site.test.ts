@@ -199,7 +199,7 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
       expect(Math.abs(v / value - 1), `${label}: shown ${shown(label)}, extract ${value}`).toBeLessThanOrEqual(halfStep * 1.0000001);
     }
     // Plots: SVG with a title, a description, and axis labels carrying units.
-    const plots = page.locator('figure.plot svg');
+    const plots = page.locator('figure.plot svg.plot-svg');
     expect(await plots.count()).toBeGreaterThan(0);
     const labels = await page.locator('figure.plot .axis-label').allTextContents();
     expect(labels.some((l) => /Frequency \((M|k|)Hz\)/.test(l))).toBe(true);

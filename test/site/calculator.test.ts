@@ -48,4 +48,17 @@ describe('runCalculator', async () => {
     expect(got.ok).toBe(false);
     if (!got.ok) expect(got.message).toMatch(/^board stray: .*"lots"/);
   });
+
+  it('a capacitance field that does not parse suggests a capacitance ("8p", never "12M") and names its input', () => {
+    for (const field of ['stray', 'pinIn', 'pinOut', 'pinToPin'] as const) {
+      const got = runCalculator(data, { ...formFromCircuit(data, data.circuits[0]), [field]: 'abc' });
+      expect(got.ok).toBe(false);
+      if (got.ok) continue;
+      expect(got.field).toBe(field);
+      expect(got.message).toContain('"8p"');
+      expect(got.message).not.toContain('12M');
+    }
+    const gm = runCalculator(data, { ...formFromCircuit(data, data.circuits[0]), gm: '-3' });
+    expect(!gm.ok && gm.field).toBe('gm');
+  });
 });
