@@ -5,7 +5,7 @@
  */
 import { spawnSync } from 'node:child_process';
 import { join, resolve } from 'node:path';
-import { makeDownloads, writeCatalogueData } from '../../src/pipeline/emit.ts';
+import { makeDownloads, writeCatalogueData, writeCatalogueExport } from '../../src/pipeline/emit.ts';
 import { makePartData } from '../../src/lib/report/part-data.ts';
 import { DEMO_CIRCUIT, fixtureCatalogue, makeFixturePart } from '../site/fixture.ts';
 
@@ -24,6 +24,7 @@ export async function buildFixtureSite(dataDir: string, siteDir: string, base = 
     return { data: makePartData(loaded, result, [DEMO_CIRCUIT], { basePath: base, downloads }), downloads };
   });
   await writeCatalogueData(dataDir, parts);
+  await writeCatalogueExport(dataDir, parts.map((p) => p.data.id).sort());
   const root = resolve(import.meta.dirname, '..', '..');
   const run = spawnSync(process.execPath, [join(root, 'node_modules', 'astro', 'astro.js'), 'build'], {
     cwd: root,
