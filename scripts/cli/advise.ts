@@ -267,7 +267,7 @@ const ALL_FORMATS = ['text', 'csv', 'json'] as const;
 
 /** `advise --all`: every part of a content folder against every circuit (or one). */
 async function runAll(positionals: string[], flags: Record<string, string | boolean | undefined>, io: CliIo, usageError: (m: string) => number): Promise<number> {
-  const format = (flags.format ?? 'text') as string;
+  const format = (flags.format ?? (flags.json ? 'json' : 'text')) as string;
   if (!(ALL_FORMATS as readonly string[]).includes(format)) return usageError(`--format: expected one of ${ALL_FORMATS.join(', ')}, got "${format}"`);
   if (positionals.length > 1) return usageError(`--all takes at most one CONTENT folder, got ${positionals.length}`);
   const other = ['sample', 'lot-median', 'cl', ...Object.keys(CIRCUIT_FLAGS)].filter((k) => flags[k] !== undefined);
