@@ -21,6 +21,7 @@ export interface BudgetView {
 export interface PierceDesignView {
   curve?: PlotLayout;
   budget?: BudgetView;
+  /** The start-up caution shown beside the curve (the figures are in the checks above). */
   startup?: string;
 }
 
@@ -41,8 +42,8 @@ export function curveFor(calc: CalculatorData | undefined, circuitName: string, 
 export function curveSeries(c: NegativeResistanceCurve, label = ''): SeriesSpec[] {
   const ends = [c.clF[0], c.clF[c.clF.length - 1]];
   const out: SeriesSpec[] = [
-    { label: `${label}|R| motional branch`, style: 'model', curve: { x: c.clF, y: c.motionalOhm } },
-    { label: `${label}|R| crystal pins`, style: 'c1', curve: { x: c.clF, y: c.pinsOhm } },
+    { label: `${label}|R| motional branch`, style: 'measured', curve: { x: c.clF, y: c.motionalOhm } },
+    { label: `${label}|R| crystal pins`, style: 'model', curve: { x: c.clF, y: c.pinsOhm } },
     { label: `${label}R1 (extracted)`, style: 'c2', curve: { x: ends, y: [c.r1Ohm, c.r1Ohm] } },
   ];
   if (c.esrMaxOhm !== undefined) out.push({ label: `${label}max ESR`, style: 'c3', curve: { x: ends, y: [c.esrMaxOhm, c.esrMaxOhm] } });
@@ -87,7 +88,7 @@ export function pierceDesignView(a: PierceAdvice, calc: CalculatorData | undefin
     summary: b.reason,
     verdict: b.verdict,
   };
-  view.startup = a.best.checks.startup.reason;
+  view.startup = 'small-signal estimates of the envelope growth from the noise level; confirm start-up on the real board at the lowest supply and both temperature extremes';
   return view;
 }
 
