@@ -2,7 +2,8 @@
  * Build the site once for a browser test file: the real command (`motional build --content
  * content`) when the demo content and the pipeline are present, else the synthetic fixture
  * catalogue with the real emitter (fixture-site.ts). MOTIONAL_SITE_TEST_FIXTURE=1 forces the
- * fixture site.
+ * fixture site. The extraction cache is the build's own (a fresh folder), so a test never
+ * depends on what an earlier build left in .motional/cache.
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync } from 'node:fs';
@@ -32,7 +33,7 @@ export async function buildTestSite(base: string): Promise<BuiltSite> {
   const site = join(work, 'site');
   const real = realBuildPossible();
   if (real) {
-    const run = spawnSync(process.execPath, [join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), join(ROOT, 'scripts', 'motional.ts'), 'build', '--content', 'content', '--out', site, '--base', base, '--quiet'], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' } });
+    const run = spawnSync(process.execPath, [join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), join(ROOT, 'scripts', 'motional.ts'), 'build', '--content', 'content', '--out', site, '--base', base, '--quiet', '--cache-dir', join(work, 'cache')], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' } });
     if (run.status !== 0) throw new Error(`motional build failed (${run.status}):\n${run.stdout}\n${run.stderr}`);
   } else {
     console.warn('browser test: demo content or pipeline missing — building the synthetic fixture catalogue instead');

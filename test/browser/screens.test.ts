@@ -99,9 +99,19 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
       if (m.px !== undefined) tickPx.push(m.px);
       expect(m.scrollWidth, `${e.id} at ${PHONE.width} px: ${m.wide.join(', ')}`).toBeLessThanOrEqual(m.clientWidth);
       if (e === index[0]) {
-        await page.screenshot({ path: keep('part-phone.png'), clip: { x: 0, y: 0, width: PHONE.width, height: 1600 }, fullPage: true });
+        // From the first sample's heading: provenance, sweeps and the parameters as labelled blocks.
+        const top = await page.locator('section.sample h2').first().evaluate((h) => h.getBoundingClientRect().top + window.scrollY);
+        await page.screenshot({ path: keep('part-phone.png'), clip: { x: 0, y: Math.max(0, top - 8), width: PHONE.width, height: 1500 }, fullPage: true });
         publish('part-phone.png');
       }
+      await page.close();
+    }
+    // The catalogue and the compare page too.
+    const [a, b] = index.filter((x) => x.fsHz);
+    for (const [path, ready] of [['', true], [`compare/?parts=${a.id},${b.id}`, true]] as const) {
+      const page = await open(path, { ctx, ready });
+      const m = await page.evaluate(() => ({ scrollWidth: document.documentElement.scrollWidth, clientWidth: document.documentElement.clientWidth }));
+      expect(m.scrollWidth, path || 'catalogue').toBeLessThanOrEqual(m.clientWidth);
       await page.close();
     }
     const sorted = widths.map(([, w]) => w).sort((a, b) => a - b);
