@@ -217,7 +217,9 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       if (!r.indexEntry) throw new Error(`internal error: no data written for ${r.yamlFile}`);
       return r.indexEntry;
     });
-    await writeIndex(dataDir, index);
+    // a cached part's rows stay in its cache entry until (and unless) its files are placed
+    const filesDirOf = new Map(results.map((r) => [r.id!, r.filesDir ?? dataDir]));
+    await writeIndex(dataDir, index, (id) => filesDirOf.get(id) ?? dataDir);
     await rm(scratchDir, { recursive: true, force: true });
     const ids = index.map((e) => e.id);
     const partKeys = Object.fromEntries(results.map((r) => [r.id!, r.key]));
@@ -357,9 +359,9 @@ async function settle(step: Promise<boolean> | undefined): Promise<boolean> {
 /**
  * The search index: every part's row, in catalogue order (index-order.ts).
  */
-async function writeIndex(dataDir: string, entries: IndexEntry[]): Promise<void> {
+async function writeIndex(dataDir: string, entries: IndexEntry[], filesDirOf: (id: string) => string): Promise<void> {
   await writeFile(join(dataDir, 'index.json'), JSON.stringify(sortById(entries)));
-  await writeCatalogueExport(dataDir, sortById(entries).map((e) => e.id));
+  await writeCatalogueExport(dataDir, sortById(entries).map((e) => e.id), filesDirOf);
 }
 
 /** Parts whose data file was written: `<data>/parts/<id>.json`. */

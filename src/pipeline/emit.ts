@@ -118,9 +118,12 @@ export async function writeCatalogueData(outDir: string, parts: EmitPart[]): Pro
 }
 
 
-/** Write `<data>/catalogue.json` and `.csv` from the parts' `export/<id>.json`, in the order of `ids`. */
-export async function writeCatalogueExport(dataDir: string, ids: string[]): Promise<void> {
-  const rows = ids.map((id) => JSON.parse(readFileSync(join(dataDir, 'export', `${id}.json`), 'utf8')) as CatalogueRow[]);
+/**
+ * Write `<data>/catalogue.json` and `.csv` from the parts' `export/<id>.json`, in the order of `ids`.
+ * @param filesDirOf the folder holding a part's files (its cache entry, or the data folder)
+ */
+export async function writeCatalogueExport(dataDir: string, ids: string[], filesDirOf: (id: string) => string = () => dataDir): Promise<void> {
+  const rows = ids.map((id) => JSON.parse(readFileSync(join(filesDirOf(id), 'export', `${id}.json`), 'utf8')) as CatalogueRow[]);
   const data = catalogueExportOf(rows);
   await writeFile(join(dataDir, 'catalogue.json'), JSON.stringify(data));
   await writeFile(join(dataDir, 'catalogue.csv'), catalogueCsv(data));
