@@ -13,7 +13,18 @@
 // downloads/ (hard links: nothing is copied, a copy only across file systems), and serves them
 // from the data folder in `astro dev`.
 import { defineConfig } from 'astro/config';
-import { copyFileSync, cpSync, createReadStream, existsSync, linkSync, mkdirSync, readdirSync, renameSync, rmSync, statSync } from 'node:fs';
+import {
+  copyFileSync,
+  cpSync,
+  createReadStream,
+  existsSync,
+  linkSync,
+  mkdirSync,
+  readdirSync,
+  renameSync,
+  rmSync,
+  statSync,
+} from 'node:fs';
 import { join, normalize, resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { SITE_DATA_COPIES } from './src/pipeline/site-data-copies.mjs';

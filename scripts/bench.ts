@@ -56,9 +56,12 @@ function parseArgs(argv: string[]): BenchOptions {
 /** Numbers rounded for the report; nested objects shown as indented lines. */
 function formatValue(value: unknown, indent: string): string {
   if (typeof value === 'number') return Number.isInteger(value) ? String(value) : String(Number(value.toPrecision(4)));
-  if (Array.isArray(value) && value.every((v) => typeof v !== 'object' || v === null)) return `[${value.map((v) => formatValue(v, '')).join(', ')}]`;
+  if (Array.isArray(value) && value.every((v) => typeof v !== 'object' || v === null))
+    return `[${value.map((v) => formatValue(v, '')).join(', ')}]`;
   if (value && typeof value === 'object') {
-    const lines = Object.entries(value as Record<string, unknown>).map(([k, v]) => `\n${indent}  ${k}: ${formatValue(v, `${indent}  `)}`);
+    const lines = Object.entries(value as Record<string, unknown>).map(
+      ([k, v]) => `\n${indent}  ${k}: ${formatValue(v, `${indent}  `)}`,
+    );
     return lines.join('');
   }
   return String(value);
@@ -69,7 +72,8 @@ async function main(): Promise<number> {
   const files = (await readdir(BENCH_DIR)).filter((f) => f.endsWith('.ts') && !f.endsWith('.d.ts')).sort();
   const records: BenchRecord[] = [];
   const want = (name: string, fn: string) =>
-    opts.only.length === 0 || opts.only.some((o) => name.toLowerCase().includes(o.toLowerCase()) || fn.toLowerCase().includes(o.toLowerCase()));
+    opts.only.length === 0 ||
+    opts.only.some((o) => name.toLowerCase().includes(o.toLowerCase()) || fn.toLowerCase().includes(o.toLowerCase()));
   for (const file of files) {
     const name = basename(file, '.ts');
     let mod: Record<string, unknown>;
@@ -91,7 +95,10 @@ async function main(): Promise<number> {
         records.push({ module: name, fn: fnName, ok: true, seconds, result });
         // a module may export its own report: format<FunctionName>(result) → text
         const formatter = mod[`format${fnName[0].toUpperCase()}${fnName.slice(1)}`];
-        const text = typeof formatter === 'function' ? `\n${String((formatter as (r: unknown) => string)(result))}` : formatValue(result, '');
+        const text =
+          typeof formatter === 'function'
+            ? `\n${String((formatter as (r: unknown) => string)(result))}`
+            : formatValue(result, '');
         process.stdout.write(`\n${name}.${fnName} (${seconds.toFixed(1)} s):${text}\n`);
       } catch (err) {
         const seconds = (performance.now() - t0) / 1000;

@@ -20,8 +20,14 @@ let total = 0;
 const reports = writeDemo(outDir, { dryRun });
 for (const r of reports) {
   total += r.bytes;
-  const noise = Number.isNaN(r.zNoiseMedian) ? '' : ` |dZ/Z| median ${r.zNoiseMedian.toExponential(1)} p95 ${r.zNoiseP95.toExponential(1)}`;
+  const noise = Number.isNaN(r.zNoiseMedian)
+    ? ''
+    : ` |dZ/Z| median ${r.zNoiseMedian.toExponential(1)} p95 ${r.zNoiseP95.toExponential(1)}`;
   const per = r.perBw === undefined ? '' : ` ${r.perBw.toFixed(1)} pts/bw`;
-  console.log(`${r.file.padEnd(44)} ${String(r.points).padStart(5)} pts${per}${noise} ${(r.bytes / 1024).toFixed(0)} kB`);
+  console.log(
+    `${r.file.padEnd(44)} ${String(r.points).padStart(5)} pts${per}${noise} ${(r.bytes / 1024).toFixed(0)} kB`,
+  );
 }
-console.log(`${DEMO_PARTS.length} parts, ${reports.length} sweep files, ${(total / 1e6).toFixed(2)} MB${dryRun ? ' (dry run, nothing written)' : ` in ${outDir}`}`);
+console.log(
+  `${DEMO_PARTS.length} parts, ${reports.length} sweep files, ${(total / 1e6).toFixed(2)} MB${dryRun ? ' (dry run, nothing written)' : ` in ${outDir}`}`,
+);

@@ -20,13 +20,41 @@ interface CommandEntry {
 
 /** Every command; add a line here and a file in scripts/cli/ for a new one. */
 export const COMMANDS: Record<string, CommandEntry> = {
-  new: { synopsis: 'new FOLDER [--id ID] [--kind KIND]', summary: 'write a draft part.yaml from a folder of sweep files', load: () => import('./cli/new.ts') },
-  check: { synopsis: 'check PATH...', summary: 'validate part records and the sweep files they name', load: () => import('./cli/check.ts') },
-  extract: { synopsis: 'extract PART [--json]', summary: 'extract the motional parameters of one part', load: () => import('./cli/extract.ts') },
-  netlist: { synopsis: 'netlist PART [options]', summary: 'print a SPICE subcircuit of a part (first sample unless --sample)', load: () => import('./cli/netlist.ts') },
-  build: { synopsis: 'build [--content DIR] [--out DIR]', summary: 'validate, extract and build the catalogue site', load: () => import('./cli/build.ts') },
-  advise: { synopsis: 'advise PART [options]', summary: 'load-capacitor and start-up advice for a part', load: () => import('./cli/advise.ts') },
-  preview: { synopsis: 'preview [--content DIR]', summary: 'serve the catalogue while you edit records, rebuilding what changed', load: () => import('./cli/preview.ts') },
+  new: {
+    synopsis: 'new FOLDER [--id ID] [--kind KIND]',
+    summary: 'write a draft part.yaml from a folder of sweep files',
+    load: () => import('./cli/new.ts'),
+  },
+  check: {
+    synopsis: 'check PATH...',
+    summary: 'validate part records and the sweep files they name',
+    load: () => import('./cli/check.ts'),
+  },
+  extract: {
+    synopsis: 'extract PART [--json]',
+    summary: 'extract the motional parameters of one part',
+    load: () => import('./cli/extract.ts'),
+  },
+  netlist: {
+    synopsis: 'netlist PART [options]',
+    summary: 'print a SPICE subcircuit of a part (first sample unless --sample)',
+    load: () => import('./cli/netlist.ts'),
+  },
+  build: {
+    synopsis: 'build [--content DIR] [--out DIR]',
+    summary: 'validate, extract and build the catalogue site',
+    load: () => import('./cli/build.ts'),
+  },
+  advise: {
+    synopsis: 'advise PART [options]',
+    summary: 'load-capacitor and start-up advice for a part',
+    load: () => import('./cli/advise.ts'),
+  },
+  preview: {
+    synopsis: 'preview [--content DIR]',
+    summary: 'serve the catalogue while you edit records, rebuilding what changed',
+    load: () => import('./cli/preview.ts'),
+  },
 };
 
 export function usage(): string {

@@ -16,7 +16,9 @@ async function main(argv: string[]): Promise<number> {
   const parsed = parseBuildArgs(argv.filter((a) => a !== '--no-build'));
   if ('help' in parsed || 'usage' in parsed) {
     if ('usage' in parsed) process.stderr.write(`start: ${parsed.usage}\n`);
-    process.stderr.write('usage: npm start -- [--no-build] [build options; see "npm run -s motional -- build --help"]\n');
+    process.stderr.write(
+      'usage: npm start -- [--no-build] [build options; see "npm run -s motional -- build --help"]\n',
+    );
     return 'help' in parsed ? 0 : 2;
   }
   const options = parsed.options;

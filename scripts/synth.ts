@@ -52,16 +52,43 @@ function quantity(text: string | undefined, kind: UnitKind, unit: string, name: 
 }
 
 // `--noise -70`: let a negative number be an option's value.
-const args = process.argv.slice(2).flatMap((a, i, all) => (/^-\d/.test(a) && all[i - 1]?.startsWith('--') ? [] : /^--/.test(a) && /^-\d/.test(all[i + 1] ?? '') ? [`${a}=${all[i + 1]}`] : [a]));
+const args = process.argv
+  .slice(2)
+  .flatMap((a, i, all) =>
+    /^-\d/.test(a) && all[i - 1]?.startsWith('--')
+      ? []
+      : /^--/.test(a) && /^-\d/.test(all[i + 1] ?? '')
+        ? [`${a}=${all[i + 1]}`]
+        : [a],
+  );
 const { values } = parseArgs({
   args,
   options: {
-    model: { type: 'string' }, points: { type: 'string' }, center: { type: 'string' }, span: { type: 'string' },
-    start: { type: 'string' }, stop: { type: 'string' }, log: { type: 'boolean' }, resolution: { type: 'string' },
-    fixture: { type: 'string' }, z0: { type: 'string' }, rs: { type: 'string' }, ls: { type: 'string' }, cp: { type: 'string' },
-    'add-cap': { type: 'string' }, 'add-connection': { type: 'string' }, noise: { type: 'string' }, seed: { type: 'string' },
-    format: { type: 'string' }, data: { type: 'string' }, 'freq-unit': { type: 'string' }, parameter: { type: 'string' },
-    digits: { type: 'string' }, compensation: { type: 'boolean' }, out: { type: 'string' }, help: { type: 'boolean', short: 'h' },
+    model: { type: 'string' },
+    points: { type: 'string' },
+    center: { type: 'string' },
+    span: { type: 'string' },
+    start: { type: 'string' },
+    stop: { type: 'string' },
+    log: { type: 'boolean' },
+    resolution: { type: 'string' },
+    fixture: { type: 'string' },
+    z0: { type: 'string' },
+    rs: { type: 'string' },
+    ls: { type: 'string' },
+    cp: { type: 'string' },
+    'add-cap': { type: 'string' },
+    'add-connection': { type: 'string' },
+    noise: { type: 'string' },
+    seed: { type: 'string' },
+    format: { type: 'string' },
+    data: { type: 'string' },
+    'freq-unit': { type: 'string' },
+    parameter: { type: 'string' },
+    digits: { type: 'string' },
+    compensation: { type: 'boolean' },
+    out: { type: 'string' },
+    help: { type: 'boolean', short: 'h' },
   },
   strict: true,
 });
@@ -100,15 +127,18 @@ if (start !== undefined || stop !== undefined) {
 const ext = (values.format ?? values.out?.split('.').pop() ?? 's1p').toLowerCase();
 const dataForm = values.data?.toLowerCase();
 const freqUnit = (values['freq-unit'] ?? 'Hz') as 'Hz' | 'kHz' | 'MHz' | 'GHz';
-if (!['Hz', 'kHz', 'MHz', 'GHz'].includes(freqUnit)) fail(`--freq-unit: expected Hz, kHz, MHz or GHz, got "${freqUnit}"`);
+if (!['Hz', 'kHz', 'MHz', 'GHz'].includes(freqUnit))
+  fail(`--freq-unit: expected Hz, kHz, MHz or GHz, got "${freqUnit}"`);
 let format: SynthFileFormat;
 let ports: 1 | 2 | undefined;
 if (ext === 's1p' || ext === 's2p' || ext === 'ts') {
   const f = (dataForm ?? 'ri').toUpperCase();
   if (f !== 'RI' && f !== 'MA' && f !== 'DB') fail(`--data: expected ri, ma or db for Touchstone, got "${dataForm}"`);
   format = { kind: 'touchstone', version: ext === 'ts' ? 2 : 1, format: f, freqUnit };
-  if (ext === 's1p' && (fixture === 'series-thru' || fixture === 'shunt-thru')) fail(`--format s1p: a ${fixture} fixture records 2 ports; use s2p or ts`);
-  if (ext === 's2p' && fixture === 'impedance') fail('--format s2p: the impedance fixture writes a 1-port Z (or Y) file; use s1p or ts');
+  if (ext === 's1p' && (fixture === 'series-thru' || fixture === 'shunt-thru'))
+    fail(`--format s1p: a ${fixture} fixture records 2 ports; use s2p or ts`);
+  if (ext === 's2p' && fixture === 'impedance')
+    fail('--format s2p: the impedance fixture writes a 1-port Z (or Y) file; use s1p or ts');
   ports = ext === 's2p' ? 2 : fixture === 'reflection' ? 1 : undefined;
 } else if (ext === 'csv' || ext === 'tsv' || ext === 'ssv') {
   const f = dataForm ?? 'rx';
@@ -122,14 +152,17 @@ if (ext === 's1p' || ext === 's2p' || ext === 'ts') {
 const parameter = (values.parameter ?? 'Z').toUpperCase();
 if (parameter !== 'Z' && parameter !== 'Y') fail(`--parameter: expected Z or Y, got "${values.parameter}"`);
 const connection = values['add-connection'] ?? 'parallel';
-if (connection !== 'parallel' && connection !== 'series') fail(`--add-connection: expected parallel or series, got "${connection}"`);
+if (connection !== 'parallel' && connection !== 'series')
+  fail(`--add-connection: expected parallel or series, got "${connection}"`);
 const addCap = quantity(values['add-cap'], 'capacitance', 'F', 'add-cap');
 const noiseDb = values.noise === undefined ? undefined : Number(values.noise);
-if (noiseDb !== undefined && !(Number.isFinite(noiseDb) && noiseDb < 0)) fail(`--noise: expected a negative number of dB such as -70, got "${values.noise}"`);
+if (noiseDb !== undefined && !(Number.isFinite(noiseDb) && noiseDb < 0))
+  fail(`--noise: expected a negative number of dB such as -70, got "${values.noise}"`);
 const seed = Number(values.seed ?? 1);
 if (!Number.isInteger(seed)) fail(`--seed: expected a whole number, got "${values.seed}"`);
 const digits = values.digits === undefined ? undefined : Number(values.digits);
-if (digits !== undefined && !(Number.isInteger(digits) && digits >= 1 && digits <= 17)) fail(`--digits: expected 1 to 17, got "${values.digits}"`);
+if (digits !== undefined && !(Number.isInteger(digits) && digits >= 1 && digits <= 17))
+  fail(`--digits: expected 1 to 17, got "${values.digits}"`);
 const parasitics = {
   rsOhm: quantity(values.rs, 'resistance', 'ohm', 'rs'),
   lsH: quantity(values.ls, 'inductance', 'H', 'ls'),
@@ -151,7 +184,13 @@ const describeModel = (): string[] => [
 ];
 
 try {
-  const sweep = synthesizeSweep({ model, grid, ...common, parasitics, added: addCap ? { capacitanceF: addCap, connection } : undefined });
+  const sweep = synthesizeSweep({
+    model,
+    grid,
+    ...common,
+    parasitics,
+    added: addCap ? { capacitanceF: addCap, connection } : undefined,
+  });
   const text = formatSynthFile(sweep, format, { digits, comments: describeModel() });
   if (values.out) writeFileSync(values.out, text);
   else process.stdout.write(text);
@@ -160,8 +199,17 @@ try {
     const comp = synthesizeCompensation({ ...common, parasitics, grid, seed: seed + 1000 });
     const dot = values.out.lastIndexOf('.');
     const [base, suffix] = dot > 0 ? [values.out.slice(0, dot), values.out.slice(dot)] : [values.out, ''];
-    for (const [name, rec] of [['open', comp.open], ['short', comp.short]] as const) {
-      writeFileSync(`${base}-${name}${suffix}`, formatSynthFile(rec, format, { digits, comments: [`${name} standard of the fixture`, ...describeModel().slice(1)] }));
+    for (const [name, rec] of [
+      ['open', comp.open],
+      ['short', comp.short],
+    ] as const) {
+      writeFileSync(
+        `${base}-${name}${suffix}`,
+        formatSynthFile(rec, format, {
+          digits,
+          comments: [`${name} standard of the fixture`, ...describeModel().slice(1)],
+        }),
+      );
     }
   }
 } catch (e) {

@@ -19,7 +19,14 @@ function walk(dir: string): string[] {
   });
 }
 
-const FORBIDDEN = [/from\s+['"]node:/, /from\s+['"](fs|path|os|child_process|worker_threads)['"]/, /from\s+['"]astro/, /from\s+['"]d3/, /\bdocument\./, /\bwindow\./];
+const FORBIDDEN = [
+  /from\s+['"]node:/,
+  /from\s+['"](fs|path|os|child_process|worker_threads)['"]/,
+  /from\s+['"]astro/,
+  /from\s+['"]d3/,
+  /\bdocument\./,
+  /\bwindow\./,
+];
 
 describe('core boundary', () => {
   const files = walk('src/lib');
@@ -37,12 +44,15 @@ describe('core boundary', () => {
 
 describe('layer table', () => {
   it('gives every folder of src/lib a layer, and every top-level source folder one', () => {
-    const libDirs = readdirSync(join(PROJECT_ROOT, 'src/lib')).map((n) => (n.endsWith('.ts') ? `src/lib/${n}` : `src/lib/${n}/`));
+    const libDirs = readdirSync(join(PROJECT_ROOT, 'src/lib')).map((n) =>
+      n.endsWith('.ts') ? `src/lib/${n}` : `src/lib/${n}/`,
+    );
     const libPaths = LIB_LAYERS.flatMap((l) => l.paths);
     expect(libDirs.filter((d) => !libPaths.includes(d))).toEqual([]);
     const topPaths = TOP_LAYERS.flatMap((l) => l.paths);
     const srcDirs = readdirSync(join(PROJECT_ROOT, 'src'), { withFileTypes: true })
-      .filter((d) => d.isDirectory() && !['public', 'styles'].includes(d.name)).map((d) => `src/${d.name}/`);
+      .filter((d) => d.isDirectory() && !['public', 'styles'].includes(d.name))
+      .map((d) => `src/${d.name}/`);
     expect(srcDirs.filter((d) => !topPaths.includes(d))).toEqual([]);
   });
 

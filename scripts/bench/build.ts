@@ -129,8 +129,24 @@ function runBuild(args: string[]): Promise<{ code: number | null; seconds: numbe
   });
 }
 
-async function measuredBuild(content: string, out: string, cache: string, summaryFile: string, parts: number): Promise<BuildRun> {
-  const run = await runBuild(['--content', content, '--out', out, '--cache-dir', cache, '--summary', summaryFile, '--quiet']);
+async function measuredBuild(
+  content: string,
+  out: string,
+  cache: string,
+  summaryFile: string,
+  parts: number,
+): Promise<BuildRun> {
+  const run = await runBuild([
+    '--content',
+    content,
+    '--out',
+    out,
+    '--cache-dir',
+    cache,
+    '--summary',
+    summaryFile,
+    '--quiet',
+  ]);
   if (run.code !== 0) throw new Error(`build of ${parts} parts failed (exit ${run.code}):\n${run.stderr.slice(-4000)}`);
   const s = JSON.parse(await readFile(summaryFile, 'utf8')) as BuildSummary;
   const stages: Record<string, number> = {};
@@ -142,12 +158,21 @@ async function measuredBuild(content: string, out: string, cache: string, summar
     seconds: run.seconds,
     perPartMs: (run.seconds * 1000) / parts,
     stages,
-    threadSeconds: { load: s.recordMs.load / 1000, extract: s.recordMs.extract / 1000, data: s.recordMs.data / 1000, write: s.recordMs.emit / 1000 },
+    threadSeconds: {
+      load: s.recordMs.load / 1000,
+      extract: s.recordMs.extract / 1000,
+      data: s.recordMs.data / 1000,
+      write: s.recordMs.emit / 1000,
+    },
     site: { mode: s.site?.mode ?? 'none', pagesRendered: s.site?.pagesRendered ?? 0 },
     cacheHits: s.cache.hits,
     cacheMisses: s.cache.misses,
     cpuSeconds: { build: s.cpuSeconds.build, site: s.cpuSeconds.site },
-    peakRssMB: { build: s.peakRssBytes.build / MB, site: s.peakRssBytes.site / MB, sum: (s.peakRssBytes.build + s.peakRssBytes.site) / MB },
+    peakRssMB: {
+      build: s.peakRssBytes.build / MB,
+      site: s.peakRssBytes.site / MB,
+      sum: (s.peakRssBytes.build + s.peakRssBytes.site) / MB,
+    },
     diskWrittenMB: {
       build: (s.diskWrittenBytes?.build ?? 0) / MB,
       site: (s.diskWrittenBytes?.site ?? 0) / MB,
@@ -167,7 +192,10 @@ async function bareAstroBuild(pages: number, keep: boolean): Promise<number> {
   const root = join(PROJECT_ROOT, '.motional', 'bench', `bare-${pages}-${process.pid}`);
   await rm(root, { recursive: true, force: true });
   await mkdir(join(root, 'src', 'pages', 'p'), { recursive: true });
-  await writeFile(join(root, 'astro.config.mjs'), "export default { output: 'static', build: { format: 'directory' } };\n");
+  await writeFile(
+    join(root, 'astro.config.mjs'),
+    "export default { output: 'static', build: { format: 'directory' } };\n",
+  );
   await writeFile(join(root, 'src', 'pages', 'index.astro'), '<html><body><h1>bare</h1></body></html>\n');
   await writeFile(
     join(root, 'src', 'pages', 'p', '[id].astro'),
@@ -214,7 +242,15 @@ async function demoWeights(log: (t: string) => void): Promise<PageWeights> {
   const root = await mkdtemp(join(tmpdir(), 'motional-bench-demo-'));
   try {
     log('demo catalogue: building to weigh its pages\n');
-    const run = await runBuild(['--content', join(PROJECT_ROOT, 'content'), '--out', join(root, 'site'), '--cache-dir', join(root, 'cache'), '--quiet']);
+    const run = await runBuild([
+      '--content',
+      join(PROJECT_ROOT, 'content'),
+      '--out',
+      join(root, 'site'),
+      '--cache-dir',
+      join(root, 'cache'),
+      '--quiet',
+    ]);
     if (run.code !== 0) throw new Error(`demo build failed (exit ${run.code}):\n${run.stderr.slice(-4000)}`);
     return await pageWeights(join(root, 'site'));
   } finally {
@@ -251,13 +287,25 @@ async function benchSize(parts: number, keep: boolean, log: (t: string) => void)
     const cold = await measuredBuild(content, out, cache, join(root, 'cold.json'), parts);
     log(`${parts} parts: cold ${cold.seconds.toFixed(1)} s; warm rebuild after touching one record\n`);
     const yaml = join(content, 'parts', syntheticPartId(1), 'part.yaml');
-    await writeFile(yaml, (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: synthetic crystal 1 (touched)'));
+    await writeFile(
+      yaml,
+      (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: synthetic crystal 1 (touched)'),
+    );
     const warmRun = await measuredBuild(content, out, cache, join(root, 'warm.json'), parts);
     const warm = { ...warmRun, pctOfCold: (100 * warmRun.seconds) / cold.seconds };
     log(`${parts} parts: warm ${warm.seconds.toFixed(1)} s (${warm.cacheMisses} re-extracted); bare Astro build\n`);
     const pages = await pageWeights(out);
     const bareAstroSeconds = await bareAstroBuild(parts, keep);
-    return { parts, generateSeconds, catalogueMB, cold, warm, bareAstroSeconds, ratioToBareAstro: cold.seconds / bareAstroSeconds, pages };
+    return {
+      parts,
+      generateSeconds,
+      catalogueMB,
+      cold,
+      warm,
+      bareAstroSeconds,
+      ratioToBareAstro: cold.seconds / bareAstroSeconds,
+      pages,
+    };
   } finally {
     if (!keep) await rm(root, { recursive: true, force: true });
   }
@@ -273,7 +321,10 @@ export async function benchBuild(options: BenchBuildOptions = {}): Promise<Bench
   for (const n of sizes) results.push(await benchSize(n, options.keep ?? false, log));
   const first = results[0];
   const last = results[results.length - 1];
-  const marginal = results.length > 1 && last.parts > first.parts ? ((last.cold.seconds - first.cold.seconds) * 1000) / (last.parts - first.parts) : undefined;
+  const marginal =
+    results.length > 1 && last.parts > first.parts
+      ? ((last.cold.seconds - first.cold.seconds) * 1000) / (last.parts - first.parts)
+      : undefined;
   const at1000 = results.find((r) => r.parts === 1000);
   const at3000 = results.find((r) => r.parts === 3000);
   const big = results.filter((r) => r.parts >= 100);
@@ -303,7 +354,8 @@ function parseSizes(argv: string[]): number[] | undefined {
   if (i < 0) return undefined;
   const text = argv[i].includes('=') ? argv[i].slice(8) : argv[i + 1];
   const sizes = (text ?? '').split(',').map(Number);
-  if (sizes.length === 0 || sizes.some((n) => !Number.isInteger(n) || n < 1)) throw new Error(`--sizes expects whole numbers such as 100,1000, got "${text}"`);
+  if (sizes.length === 0 || sizes.some((n) => !Number.isInteger(n) || n < 1))
+    throw new Error(`--sizes expects whole numbers such as 100,1000, got "${text}"`);
   return sizes;
 }
 
@@ -327,7 +379,10 @@ export function formatBenchBuild(r: BenchBuildResult): string {
     ].join('  '),
   );
   const head = 'parts       cold  per part      warm  warm/cold  peak (build+site)  bare Astro  ratio  warm disk';
-  const fmt = (o: Record<string, number>) => Object.entries(o).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ');
+  const fmt = (o: Record<string, number>) =>
+    Object.entries(o)
+      .map(([k, v]) => `${k} ${v.toFixed(1)} s`)
+      .join(', ');
   const stages = r.sizes.flatMap((s) => [
     `  ${s.parts} parts cold: ${fmt(s.cold.stages)}; task time ${fmt(s.cold.threadSeconds)}; CPU ${fmt(s.cold.cpuSeconds)}; site ${s.cold.site.mode}`,
     `  ${s.parts} parts warm: ${fmt(s.warm.stages)}; CPU ${fmt(s.warm.cpuSeconds)}; ${s.warm.cacheMisses} re-extracted; site ${s.warm.site.mode} (${s.warm.site.pagesRendered} part pages rendered); disk written ${s.warm.diskWrittenMB.sum.toFixed(1)} MB (cold ${s.cold.diskWrittenMB.sum.toFixed(0)} MB)`,
@@ -353,11 +408,17 @@ export function formatBenchBuild(r: BenchBuildResult): string {
     r.marginalPerPartMs !== undefined ? `marginal cost per part: ${r.marginalPerPartMs.toFixed(0)} ms` : '',
     r.demo ? `demo catalogue pages: ${weights(r.demo)}` : '',
     `targets: ${targets.join('; ')}`,
-  ].filter(Boolean).join('\n');
+  ]
+    .filter(Boolean)
+    .join('\n');
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
   const argv = process.argv.slice(2);
-  const result = await benchBuild({ sizes: parseSizes(argv), quick: argv.includes('--quick'), keep: argv.includes('--keep') });
+  const result = await benchBuild({
+    sizes: parseSizes(argv),
+    quick: argv.includes('--quick'),
+    keep: argv.includes('--keep'),
+  });
   process.stdout.write(`${formatBenchBuild(result)}\n`);
 }

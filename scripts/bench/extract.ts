@@ -91,9 +91,23 @@ export async function benchExtract(options: { quick?: boolean } = {}): Promise<B
     { file: 'a1-cl10.s1p', fixture: 'impedance', addedCapacitanceF: 10e-12, addedConnection: 'parallel' },
     { file: 'a1-wide.s1p', fixture: 'impedance' },
   ];
-  const grids = [grid(fs - 1600, fs + 1600, 1601), grid(fL - 1600, fL + 1600, 1601), grid(fs * 0.995, fs * 1.005, 5001)];
-  const part: Part = { id: 'BENCH-X1', title: 'benchmark part (synthetic)', kind: 'quartz-at', samples: [{ id: 'A1', sweeps: refs }] };
-  const inputs = refs.map((ref, i) => ({ sampleId: 'A1', ref, file: ref.file, impedance: sweep(model, grids[i], 100 + i, ref.file, ref.addedCapacitanceF) }));
+  const grids = [
+    grid(fs - 1600, fs + 1600, 1601),
+    grid(fL - 1600, fL + 1600, 1601),
+    grid(fs * 0.995, fs * 1.005, 5001),
+  ];
+  const part: Part = {
+    id: 'BENCH-X1',
+    title: 'benchmark part (synthetic)',
+    kind: 'quartz-at',
+    samples: [{ id: 'A1', sweeps: refs }],
+  };
+  const inputs = refs.map((ref, i) => ({
+    sampleId: 'A1',
+    ref,
+    file: ref.file,
+    impedance: sweep(model, grids[i], 100 + i, ref.file, ref.addedCapacitanceF),
+  }));
   const points = grids.reduce((n, g) => n + g.length, 0);
 
   // Warm-up: let the JIT compile the hot paths first, so the median is the steady state.
@@ -116,13 +130,26 @@ export async function benchExtract(options: { quick?: boolean } = {}): Promise<B
   }
   const splitMs: Record<string, number> = {};
   for (const [k, v] of Object.entries(steps)) splitMs[k] = median(v);
-  return { points, runs, medianMs: median(wall), minMs: Math.min(...wall), medianCpuMs: median(cpu), targetMs: TARGET_MS, splitMs, fsErrorPpm };
+  return {
+    points,
+    runs,
+    medianMs: median(wall),
+    minMs: Math.min(...wall),
+    medianCpuMs: median(cpu),
+    targetMs: TARGET_MS,
+    splitMs,
+    fsErrorPpm,
+  };
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
   const r = await benchExtract();
-  const split = Object.entries(r.splitMs).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ');
-  console.log(`extract: ${r.points} points in 3 sweeps, ${r.runs} runs: median ${r.medianMs.toFixed(1)} ms wall (min ${r.minMs.toFixed(1)}), median ${r.medianCpuMs.toFixed(1)} ms CPU; target ≤ ${r.targetMs} ms`);
+  const split = Object.entries(r.splitMs)
+    .map(([k, v]) => `${k} ${v.toFixed(2)}`)
+    .join(', ');
+  console.log(
+    `extract: ${r.points} points in 3 sweeps, ${r.runs} runs: median ${r.medianMs.toFixed(1)} ms wall (min ${r.minMs.toFixed(1)}), median ${r.medianCpuMs.toFixed(1)} ms CPU; target ≤ ${r.targetMs} ms`,
+  );
   console.log(`  split (median ms): ${split}`);
   console.log(`  fs error ${r.fsErrorPpm.toExponential(2)} ppm`);
 }

@@ -64,7 +64,10 @@ function sweep(lo: number, hi: number, n: number, seed: number, parallelCapF = 0
 
 function start(dfsPpm: number, kR: number, kC: number, kC0: number): BvdModel {
   const b = X1.branches[0];
-  return { c0F: X1.c0F * kC0, branches: [{ fsHz: b.fsHz * (1 + dfsPpm * 1e-6), r1Ohm: b.r1Ohm * kR, c1F: b.c1F * kC }] };
+  return {
+    c0F: X1.c0F * kC0,
+    branches: [{ fsHz: b.fsHz * (1 + dfsPpm * 1e-6), r1Ohm: b.r1Ohm * kR, c1F: b.c1F * kC }],
+  };
 }
 
 function time(label: string, sweeps: FitSweep[], initial: BvdModel): BenchFitCase {

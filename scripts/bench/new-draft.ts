@@ -32,15 +32,47 @@ export interface BenchNewDraftResult {
 }
 
 function writeTenSweeps(folder: string): number {
-  const common = { model: MODEL, fixture: 'series-thru' as const, ports: 2 as const, floorDb: -90, traceNoise: 2e-5, freqResolutionHz: 0.001, parasitics: { cpF: 0.5e-12 } };
+  const common = {
+    model: MODEL,
+    fixture: 'series-thru' as const,
+    ports: 2 as const,
+    floorDb: -90,
+    traceNoise: 2e-5,
+    freqResolutionHz: 0.001,
+    parasitics: { cpF: 0.5e-12 },
+  };
   const narrow = { kind: 'centered' as const, centerHz: 16e6, spanHz: 4500, points: 1601 };
   let seed = 1;
-  const put = (name: string, rec: Parameters<typeof formatSynthFile>[0]) => writeFileSync(join(folder, name), formatSynthFile(rec, { kind: 'touchstone', version: 1 }));
+  const put = (name: string, rec: Parameters<typeof formatSynthFile>[0]) =>
+    writeFileSync(join(folder, name), formatSynthFile(rec, { kind: 'touchstone', version: 1 }));
   put('a1-narrow.s2p', synthesizeSweep({ ...common, grid: narrow, seed: seed++ }));
   put('a1-narrow-repeat.s2p', synthesizeSweep({ ...common, grid: narrow, seed: seed++ }));
-  for (const pf of [4, 8, 12, 16, 20, 24]) put(`a1-cl${pf}.s2p`, synthesizeSweep({ ...common, grid: narrow, added: { capacitanceF: pf * 1e-12, connection: 'parallel' }, seed: seed++ }));
-  put('a1-wide.s2p', synthesizeSweep({ ...common, grid: { kind: 'linear', startHz: 15.8e6, stopHz: 16.2e6, points: 5001 }, seed: seed++ }));
-  const comp = synthesizeCompensation({ fixture: 'series-thru', ports: 2, parasitics: { cpF: 0.5e-12 }, grid: { kind: 'linear', startHz: 15.7e6, stopHz: 16.3e6, points: 801 }, floorDb: -90, seed: 50 });
+  for (const pf of [4, 8, 12, 16, 20, 24])
+    put(
+      `a1-cl${pf}.s2p`,
+      synthesizeSweep({
+        ...common,
+        grid: narrow,
+        added: { capacitanceF: pf * 1e-12, connection: 'parallel' },
+        seed: seed++,
+      }),
+    );
+  put(
+    'a1-wide.s2p',
+    synthesizeSweep({
+      ...common,
+      grid: { kind: 'linear', startHz: 15.8e6, stopHz: 16.2e6, points: 5001 },
+      seed: seed++,
+    }),
+  );
+  const comp = synthesizeCompensation({
+    fixture: 'series-thru',
+    ports: 2,
+    parasitics: { cpF: 0.5e-12 },
+    grid: { kind: 'linear', startHz: 15.7e6, stopHz: 16.3e6, points: 801 },
+    floorDb: -90,
+    seed: 50,
+  });
   put('open.s2p', { ...comp.open, seed: 50 });
   put('short.s2p', { ...comp.short, seed: 51 });
   return 10;
@@ -62,10 +94,16 @@ export async function benchNewDraft(): Promise<BenchNewDraftResult> {
     times.sort((a, b) => a - b);
     const root = resolve(import.meta.dirname, '../..');
     const t0 = performance.now();
-    execFileSync(process.execPath, ['--import', 'tsx', join(root, 'scripts/motional.ts'), 'new', folder], { cwd: root, stdio: 'pipe' });
+    execFileSync(process.execPath, ['--import', 'tsx', join(root, 'scripts/motional.ts'), 'new', folder], {
+      cwd: root,
+      stdio: 'pipe',
+    });
     const processMs = performance.now() - t0;
     const t1 = performance.now();
-    execFileSync(process.execPath, ['--import', 'tsx', join(root, 'scripts/motional.ts'), '--help'], { cwd: root, stdio: 'pipe' });
+    execFileSync(process.execPath, ['--import', 'tsx', join(root, 'scripts/motional.ts'), '--help'], {
+      cwd: root,
+      stdio: 'pipe',
+    });
     const startupMs = performance.now() - t1;
     return { sweeps, medianMs: times[times.length >> 1], processMs, startupMs, targetMs: 2000 };
   } finally {

@@ -33,7 +33,12 @@ export async function benchPreview(options: { quick?: boolean; parts?: number } 
     const content = join(root, 'content');
     await writeSyntheticCatalogueParallel(content, parts, { samples: 3 });
     const t0 = performance.now();
-    const preview = await startPreview({ contentDir: content, outDir: join(root, 'preview', 'site'), cacheDir: join(root, 'cache'), port: 0 });
+    const preview = await startPreview({
+      contentDir: content,
+      outDir: join(root, 'preview', 'site'),
+      cacheDir: join(root, 'cache'),
+      port: 0,
+    });
     const firstBuildSeconds = (performance.now() - t0) / 1000;
     const times: number[] = [];
     try {
@@ -46,7 +51,9 @@ export async function benchPreview(options: { quick?: boolean; parts?: number } 
         const saved = performance.now();
         await writeFile(yaml, text.replace(/^title: .*$/m, `title: ${title}`));
         for (;;) {
-          const page = await fetch(url).then((r) => r.text()).catch(() => '');
+          const page = await fetch(url)
+            .then((r) => r.text())
+            .catch(() => '');
           if (page.includes(title)) break;
           if (performance.now() - saved > 120_000) throw new Error('the preview never showed the saved title');
           await new Promise((r) => setTimeout(r, 25));
@@ -59,7 +66,14 @@ export async function benchPreview(options: { quick?: boolean; parts?: number } 
     }
     const sorted = [...times].sort((a, b) => a - b);
     const medianSeconds = sorted[Math.floor(sorted.length / 2)];
-    return { parts, loadAverage: { before: loadBefore, after: loadavg()[0] }, firstBuildSeconds, saveToPageSeconds: times, medianSeconds, targets: { medianUnder3s: medianSeconds <= 3 } };
+    return {
+      parts,
+      loadAverage: { before: loadBefore, after: loadavg()[0] },
+      firstBuildSeconds,
+      saveToPageSeconds: times,
+      medianSeconds,
+      targets: { medianUnder3s: medianSeconds <= 3 },
+    };
   } finally {
     await rm(root, { recursive: true, force: true });
   }

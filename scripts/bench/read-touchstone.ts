@@ -55,7 +55,17 @@ function synthesise(points: number): NetworkData {
     re[1][i] = re[2][i] = s21Re;
     im[1][i] = im[2][i] = s21Im;
   }
-  return { parameter: 'S', ports: 2, z0Ohm: [50, 50], freqHz, re, im, source: 'bench.s2p', format: 'touchstone-1', comments: [] };
+  return {
+    parameter: 'S',
+    ports: 2,
+    z0Ohm: [50, 50],
+    freqHz,
+    re,
+    im,
+    source: 'bench.s2p',
+    format: 'touchstone-1',
+    comments: [],
+  };
 }
 
 /** Build the synthetic file, parse it {@link RUNS} times, return speed and memory. */
@@ -86,7 +96,13 @@ export async function benchReadTouchstone(): Promise<BenchReadTouchstoneResult> 
     clearInterval(timer);
   }
   const bytes = text.length;
-  return { mbPerS: bytes / 1e6 / (best / 1e3), peakRssMB: peak / 1e6, points, bytes, cpuMbPerS: bytes / 1e6 / (bestCpu / 1e3) };
+  return {
+    mbPerS: bytes / 1e6 / (best / 1e3),
+    peakRssMB: peak / 1e6,
+    points,
+    bytes,
+    cpuMbPerS: bytes / 1e6 / (bestCpu / 1e3),
+  };
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {

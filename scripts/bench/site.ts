@@ -66,7 +66,15 @@ export interface BenchSiteResult {
 }
 
 const CHROMIUM = '/usr/bin/chromium';
-const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 
 interface IndexRow {
   id: string;
@@ -124,7 +132,8 @@ async function cloneCatalogue(demoDir: string, dataDir: string, parts: number): 
     if (k > 0 && typeof part.title === 'string') part.title = title;
     writes.push(writeFile(join(dataDir, 'parts', `${id}.json`), JSON.stringify(part)));
     const cmp = compareText.get(e.id);
-    if (cmp !== undefined) writes.push(writeFile(join(dataDir, 'compare', `${id}.json`), JSON.stringify(renameId(cmp, e.id, id))));
+    if (cmp !== undefined)
+      writes.push(writeFile(join(dataDir, 'compare', `${id}.json`), JSON.stringify(renameId(cmp, e.id, id))));
     const spread = k === 0 ? 1 : 1 + ((k % 41) - 20) * 1e-5;
     big.push({ ...e, id, title, fsHz: e.fsHz * spread, r1Ohm: e.r1Ohm * (1 + (k % 17) / 50) });
     if (writes.length >= 64) await Promise.all(writes.splice(0));
@@ -172,14 +181,24 @@ async function partPageSizes(siteDir: string): Promise<{ total: number[]; html: 
     if (known) return known;
     const file = join(siteDir, sitePath);
     const text = await readFile(file).catch(() => undefined);
-    const info = { bytes: text?.length ?? 0, deps: text && sitePath.endsWith('.js') ? jsImports(text.toString('utf8')).map((d) => posix.join(posix.dirname(sitePath), d)) : [] };
+    const info = {
+      bytes: text?.length ?? 0,
+      deps:
+        text && sitePath.endsWith('.js')
+          ? jsImports(text.toString('utf8')).map((d) => posix.join(posix.dirname(sitePath), d))
+          : [],
+    };
     assetSize.set(sitePath, info);
     return info;
   };
   const total: number[] = [];
   const html: number[] = [];
   for (const dir of await readdir(partsDir, { withFileTypes: true })) {
-    const page = dir.isDirectory() ? join(partsDir, dir.name, 'index.html') : dir.name.endsWith('.html') ? join(partsDir, dir.name) : undefined;
+    const page = dir.isDirectory()
+      ? join(partsDir, dir.name, 'index.html')
+      : dir.name.endsWith('.html')
+        ? join(partsDir, dir.name)
+        : undefined;
     if (!page) continue;
     const text = await readFile(page, 'utf8').catch(() => undefined);
     if (text === undefined) continue;
@@ -212,7 +231,12 @@ async function measureBrowser(siteDir: string, log: (t: string) => void) {
     page.on('response', (res) => {
       bodies.push(
         res.body().then(
-          (b) => ({ url: res.url(), kind: kindOf(res.url(), res.headers()['content-type'] ?? ''), raw: b.length, gzip: gzipSync(b, { level: 9 }).length }),
+          (b) => ({
+            url: res.url(),
+            kind: kindOf(res.url(), res.headers()['content-type'] ?? ''),
+            raw: b.length,
+            gzip: gzipSync(b, { level: 9 }).length,
+          }),
           () => undefined,
         ),
       );
@@ -238,7 +262,9 @@ async function measureBrowser(siteDir: string, log: (t: string) => void) {
     const keys = [...'crystal', ...Array(7).fill('Backspace'), ...'3225', ...Array(4).fill('Backspace'), ...'xt-1'];
     const typed = await typeAndTime(page, keys);
     // Again with a circuit chosen (issue 13): the fit columns are filled on every update.
-    const circuits = await page.locator('#f-circuit option').evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value).filter((v) => v));
+    const circuits = await page
+      .locator('#f-circuit option')
+      .evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value).filter((v) => v));
     let withCircuit = { times: [] as number[], frames: [] as number[] };
     if (circuits.length) {
       await page.fill('#f-q', '');
@@ -246,7 +272,14 @@ async function measureBrowser(siteDir: string, log: (t: string) => void) {
       await page.click('#f-q');
       withCircuit = await typeAndTime(page, keys);
     }
-    return { catalogueBytes, catalogueGzipBytes, breakdown, times: typed.times, frames: typed.frames, circuitTimes: withCircuit.times };
+    return {
+      catalogueBytes,
+      catalogueGzipBytes,
+      breakdown,
+      times: typed.times,
+      frames: typed.frames,
+      circuitTimes: withCircuit.times,
+    };
   } finally {
     await browser.close();
     await server.close();
@@ -277,7 +310,9 @@ async function typeAndTime(page: Page, keys: string[]): Promise<{ times: number[
       });
     });
     await page.keyboard.press(key);
-    const [ms, frame] = await page.evaluate(() => (window as unknown as { __bench: Promise<[number, number]> }).__bench);
+    const [ms, frame] = await page.evaluate(
+      () => (window as unknown as { __bench: Promise<[number, number]> }).__bench,
+    );
     if (Number.isFinite(ms)) {
       times.push(ms);
       frames.push(frame);
@@ -297,14 +332,28 @@ export async function benchSite(options: BenchSiteOptions = {}): Promise<BenchSi
   try {
     log(`building the demo catalogue data in ${root}\n`);
     const demoDir = join(root, 'demo');
-    const summary = await buildCatalogue({ contentDir: join(PROJECT_ROOT, 'content'), outDir: demoDir, dataOnly: true, progress: false, log: () => {} });
+    const summary = await buildCatalogue({
+      contentDir: join(PROJECT_ROOT, 'content'),
+      outDir: demoDir,
+      dataOnly: true,
+      progress: false,
+      log: () => {},
+    });
     if (summary.exitCode !== 0) throw new Error(`demo data build failed: ${summary.failure ?? 'unknown'}`);
     const dataDir = join(root, 'data');
     const n = await cloneCatalogue(demoDir, dataDir, parts);
     log(`${n} parts cloned from ${summary.partsPublished}; astro build\n`);
     const siteDir = join(root, 'site');
     const t0 = performance.now();
-    await runAstroBuild({ dataDir, siteDir, basePath: '/', pages: n, progress: undefined, log: (t) => process.stderr.write(t), signal: undefined });
+    await runAstroBuild({
+      dataDir,
+      siteDir,
+      basePath: '/',
+      pages: n,
+      progress: undefined,
+      log: (t) => process.stderr.write(t),
+      signal: undefined,
+    });
     const astroSeconds = (performance.now() - t0) / 1000;
     log(`astro build ${astroSeconds.toFixed(1)} s; part page sizes\n`);
     const sizes = await partPageSizes(siteDir);
@@ -330,7 +379,11 @@ export async function benchSite(options: BenchSiteOptions = {}): Promise<BenchSi
       partPageHtmlMedianBytes: Math.round(quantile(sizes.html, 0.5)),
       partPageHtmlMaxBytes: sizes.html[sizes.html.length - 1] ?? NaN,
       partPages: sizes.total.length,
-      targets: { keystrokeUnder50ms: keystrokeMedianMs <= 50, keystrokeWithCircuitUnder50ms: !(quantile(b.circuitTimes, 0.5) > 50), partPageUnder250KB: partPageMaxBytes <= 250_000 },
+      targets: {
+        keystrokeUnder50ms: keystrokeMedianMs <= 50,
+        keystrokeWithCircuitUnder50ms: !(quantile(b.circuitTimes, 0.5) > 50),
+        partPageUnder250KB: partPageMaxBytes <= 250_000,
+      },
     };
   } finally {
     if (options.keep) log(`kept ${root}\n`);
@@ -342,7 +395,8 @@ if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) 
   const argv = process.argv.slice(2);
   const i = argv.indexOf('--parts');
   const parts = i >= 0 ? Number(argv[i + 1]) : undefined;
-  if (parts !== undefined && !(Number.isInteger(parts) && parts > 0)) throw new Error(`--parts expects a whole number, got "${argv[i + 1]}"`);
+  if (parts !== undefined && !(Number.isInteger(parts) && parts > 0))
+    throw new Error(`--parts expects a whole number, got "${argv[i + 1]}"`);
   const result = await benchSite({ quick: argv.includes('--quick'), parts, keep: argv.includes('--keep') });
   process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
 }

@@ -18,7 +18,13 @@ import { advisePierce, type CapacitorPair, type PierceAdvice } from '../../src/l
 import { parseOscillatorsYaml } from '../../src/lib/osc/oscillators-yaml.ts';
 import { circuitCovers, offerFrequencyHz } from '../../src/lib/osc/circuit-offer.ts';
 import { circuitFit, fitsCsv, FIT_VERDICT_LABEL, type CircuitFit } from '../../src/lib/report/fits.ts';
-import { CIRCUIT_OUTPUT_NAME, OscillatorCircuitInput, OscillatorCircuitSchema, type CircuitRecordKey, type OscillatorCircuit } from '../../src/lib/schema/oscillators.ts';
+import {
+  CIRCUIT_OUTPUT_NAME,
+  OscillatorCircuitInput,
+  OscillatorCircuitSchema,
+  type CircuitRecordKey,
+  type OscillatorCircuit,
+} from '../../src/lib/schema/oscillators.ts';
 import { formatSi, parseQuantity } from '../../src/lib/units/si.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
 import { loadChosenModel } from './netlist.ts';
@@ -107,7 +113,9 @@ function pairColumn(p: CapacitorPair): string[] {
     `${p.gainMargin.toFixed(2)}${p.gainMarginDatasheet !== undefined ? ` (${p.gainMarginDatasheet.toFixed(2)} at max ESR)` : ''}`,
     `${formatSi(p.pinsResistanceOhm, 'Ω', 4)} (RL ${formatSi(p.rlOhm, 'Ω', 4)})`,
     formatSi(p.motionalResistanceOhm, 'Ω', 4),
-    Number.isFinite(p.startupTauS) ? `τ ${formatSi(p.startupTauS, 's', 3)}, ${formatSi(p.startupTimeS, 's', 3)}` : 'does not start',
+    Number.isFinite(p.startupTauS)
+      ? `τ ${formatSi(p.startupTauS, 's', 3)}, ${formatSi(p.startupTimeS, 's', 3)}`
+      : 'does not start',
     budgetRange(p),
     formatSi(p.driveW, 'W', 3),
   ];
@@ -117,25 +125,50 @@ function pairColumn(p: CapacitorPair): string[] {
 export function formatAdvice(a: PierceAdvice, sampleText: string): string {
   const out: string[] = [`${a.part} (${sampleText}) in circuit ${a.circuit}`];
   if (a.target) {
-    out.push(`target ${formatSi(a.target.targetHz, 'Hz', 10)} (${a.target.targetBasis}); this sample needs CL ${pfText(a.target.idealLoadF)}`);
+    out.push(
+      `target ${formatSi(a.target.targetHz, 'Hz', 10)} (${a.target.targetBasis}); this sample needs CL ${pfText(a.target.idealLoadF)}`,
+    );
   }
   if (!a.ok) {
     out.push(`no advice: ${a.reason}`);
   } else {
     out.push(`ideal equal capacitors ${pfText(a.idealEqualCapF)}`);
-    const labels = ['capacitors in / out', 'load capacitance', 'offset from target', 'band (tolerances)', 'gain margin gm/gm,crit', 'resistance at crystal pins', 'resistance at motional branch', 'start-up', 'budget (worst, rss)', 'drive level'];
+    const labels = [
+      'capacitors in / out',
+      'load capacitance',
+      'offset from target',
+      'band (tolerances)',
+      'gain margin gm/gm,crit',
+      'resistance at crystal pins',
+      'resistance at motional branch',
+      'start-up',
+      'budget (worst, rss)',
+      'drive level',
+    ];
     const eq = pairColumn(a.equal);
     const best = pairColumn(a.best);
     const w0 = Math.max(...labels.map((l) => l.length));
     const w1 = Math.max(10, ...eq.map((s) => s.length));
     out.push('', `${''.padEnd(w0)}  ${'equal pair'.padEnd(w1)}  best pair`);
     labels.forEach((l, i) => out.push(`${l.padEnd(w0)}  ${eq[i].padEnd(w1)}  ${best[i]}`));
-    for (const [name, p] of [['equal pair', a.equal], ['best pair', a.best]] as const) {
+    for (const [name, p] of [
+      ['equal pair', a.equal],
+      ['best pair', a.best],
+    ] as const) {
       out.push('', `${name}:`);
-      const names: Record<string, string> = { frequency: 'frequency', gainMargin: 'gain margin', negativeResistance: 'negative resistance', startup: 'start-up', budget: 'frequency budget', drive: 'drive level' };
-      for (const [what, c] of Object.entries(p.checks)) out.push(`  [${c.verdict}] ${names[what] ?? what}: ${c.reason}`);
+      const names: Record<string, string> = {
+        frequency: 'frequency',
+        gainMargin: 'gain margin',
+        negativeResistance: 'negative resistance',
+        startup: 'start-up',
+        budget: 'frequency budget',
+        drive: 'drive level',
+      };
+      for (const [what, c] of Object.entries(p.checks))
+        out.push(`  [${c.verdict}] ${names[what] ?? what}: ${c.reason}`);
       out.push('  frequency budget terms:');
-      for (const t of p.budget.terms) out.push(`    ${t.name} (${t.source}): ${ppmText(t.minPpm)} … ${ppmText(t.maxPpm)}`);
+      for (const t of p.budget.terms)
+        out.push(`    ${t.name} (${t.source}): ${ppmText(t.minPpm)} … ${ppmText(t.maxPpm)}`);
     }
   }
   out.push('', 'assumptions:', ...a.assumptions.map((s) => `  - ${s}`));
@@ -182,7 +215,8 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
   let targetLoadF: number | undefined;
   if (v.cl !== undefined) {
     const q = parseQuantity(v.cl, 'capacitance');
-    if (!q.ok || !(q.value > 0)) return usageError(`--cl: ${q.ok ? `expected a positive capacitance, got "${v.cl}"` : q.message}`);
+    if (!q.ok || !(q.value > 0))
+      return usageError(`--cl: ${q.ok ? `expected a positive capacitance, got "${v.cl}"` : q.message}`);
     targetLoadF = q.value;
   }
 
@@ -206,7 +240,10 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
     fromFile = true;
     if (v.circuit !== undefined) {
       const c = circuits.find((x) => x.name === v.circuit);
-      if (!c) return usageError(`--circuit: no circuit "${v.circuit}" in ${file} (circuits: ${circuits.map((x) => x.name).join(', ')})`);
+      if (!c)
+        return usageError(
+          `--circuit: no circuit "${v.circuit}" in ${file} (circuits: ${circuits.map((x) => x.name).join(', ')})`,
+        );
       circuits = [c];
     }
   }
@@ -231,7 +268,9 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
       if (!checked.success) {
         const lines = checked.error.issues.map((i) => {
           const field = String(i.path[0]);
-          return base[field] === undefined ? `--${byField[field] ?? field}: missing (needed without --circuit)` : `--${byField[field] ?? field}: ${i.message}`;
+          return base[field] === undefined
+            ? `--${byField[field] ?? field}: missing (needed without --circuit)`
+            : `--${byField[field] ?? field}: ${i.message}`;
         });
         return usageError(lines.join('\n'));
       }
@@ -251,13 +290,27 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
   if (fromFile && v.circuit === undefined) {
     circuits = circuits.filter((c) => circuitCovers(c, offerHz));
     if (!circuits.length) {
-      io.err(`${chosen.part.id}: no circuit in the circuits file covers ${formatSi(offerHz, 'Hz', 6)}; name one with --circuit or give its values\n`);
+      io.err(
+        `${chosen.part.id}: no circuit in the circuits file covers ${formatSi(offerHz, 'Hz', 6)}; name one with --circuit or give its values\n`,
+      );
       return EXIT_BAD_INPUT;
     }
   }
-  const sampleText = chosen.sample ? `sample ${chosen.sample.sample}` : `lot median of ${chosen.info.lotMedianOf} samples`;
+  const sampleText = chosen.sample
+    ? `sample ${chosen.sample.sample}`
+    : `lot median of ${chosen.info.lotMedianOf} samples`;
   const temperatureFit = chosen.sample?.temperature;
-  const advice = circuits.map((circuit) => advisePierce({ partId: chosen.part.id, datasheet: chosen.part.datasheet, model, mainBranch: mainIndex, circuit, targetLoadF, temperatureFit }));
+  const advice = circuits.map((circuit) =>
+    advisePierce({
+      partId: chosen.part.id,
+      datasheet: chosen.part.datasheet,
+      model,
+      mainBranch: mainIndex,
+      circuit,
+      targetLoadF,
+      temperatureFit,
+    }),
+  );
   if (v.json) io.out(`${JSON.stringify(advice, null, 2)}\n`);
   else io.out(advice.map((a) => formatAdvice(a, sampleText)).join('\n'));
   return advice.every((a) => a.ok) ? EXIT_OK : EXIT_BAD_INPUT;
@@ -266,12 +319,19 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
 const ALL_FORMATS = ['text', 'csv', 'json'] as const;
 
 /** `advise --all`: every part of a content folder against every circuit (or one). */
-async function runAll(positionals: string[], flags: Record<string, string | boolean | undefined>, io: CliIo, usageError: (m: string) => number): Promise<number> {
+async function runAll(
+  positionals: string[],
+  flags: Record<string, string | boolean | undefined>,
+  io: CliIo,
+  usageError: (m: string) => number,
+): Promise<number> {
   const format = (flags.format ?? (flags.json ? 'json' : 'text')) as string;
-  if (!(ALL_FORMATS as readonly string[]).includes(format)) return usageError(`--format: expected one of ${ALL_FORMATS.join(', ')}, got "${format}"`);
+  if (!(ALL_FORMATS as readonly string[]).includes(format))
+    return usageError(`--format: expected one of ${ALL_FORMATS.join(', ')}, got "${format}"`);
   if (positionals.length > 1) return usageError(`--all takes at most one CONTENT folder, got ${positionals.length}`);
   const other = ['sample', 'lot-median', 'cl', ...Object.keys(CIRCUIT_FLAGS)].filter((k) => flags[k] !== undefined);
-  if (other.length) return usageError(`--all takes only --circuit, --circuits and --format (not --${other.join(', --')})`);
+  if (other.length)
+    return usageError(`--all takes only --circuit, --circuits and --format (not --${other.join(', --')})`);
   const content = positionals[0] ?? 'content';
   const file = (flags.circuits as string | undefined) ?? join(content, 'oscillators.yaml');
   let text: string;
@@ -287,12 +347,18 @@ async function runAll(positionals: string[], flags: Record<string, string | bool
   let circuits = read.circuits;
   if (flags.circuit !== undefined) {
     circuits = circuits.filter((c) => c.name === flags.circuit);
-    if (!circuits.length) return usageError(`--circuit: no circuit "${flags.circuit}" in ${file} (circuits: ${read.circuits.map((x) => x.name).join(', ')})`);
+    if (!circuits.length)
+      return usageError(
+        `--circuit: no circuit "${flags.circuit}" in ${file} (circuits: ${read.circuits.map((x) => x.name).join(', ')})`,
+      );
   }
   const partsDir = join(content, 'parts');
   let folders: string[];
   try {
-    folders = (await readdir(partsDir, { withFileTypes: true })).filter((d) => d.isDirectory()).map((d) => d.name).sort();
+    folders = (await readdir(partsDir, { withFileTypes: true }))
+      .filter((d) => d.isDirectory())
+      .map((d) => d.name)
+      .sort();
   } catch {
     io.err(`${partsDir}: cannot read the parts folder\n`);
     return EXIT_BAD_INPUT;
@@ -305,14 +371,22 @@ async function runAll(positionals: string[], flags: Record<string, string | bool
     if (typeof chosen === 'number' || chosen.model.mainIndex < 0) {
       failed++;
       if (typeof chosen !== 'number') io.err(`${chosen.part.id}: no main mode to advise on\n`);
-      for (const c of circuits) rows.push({ part: folder, circuit: c.name, verdict: 'no', reason: 'no model (see the messages above)' });
+      for (const c of circuits)
+        rows.push({ part: folder, circuit: c.name, verdict: 'no', reason: 'no model (see the messages above)' });
       continue;
     }
     const { model, mainIndex } = chosen.model;
     const offerHz = offerFrequencyHz(chosen.part.datasheet, model, mainIndex);
     for (const circuit of circuits) {
       const covers = circuitCovers(circuit, offerHz);
-      const a = advisePierce({ partId: chosen.part.id, datasheet: chosen.part.datasheet, model, mainBranch: mainIndex, circuit, temperatureFit: chosen.sample?.temperature });
+      const a = advisePierce({
+        partId: chosen.part.id,
+        datasheet: chosen.part.datasheet,
+        model,
+        mainBranch: mainIndex,
+        circuit,
+        temperatureFit: chosen.sample?.temperature,
+      });
       rows.push({ part: chosen.part.id, ...circuitFit(a, covers) });
     }
   }
@@ -332,10 +406,20 @@ function fitsText(rows: Array<{ part: string } & CircuitFit>): string {
     r.inputCapF !== undefined ? `${pfText(r.inputCapF)} / ${pfText(r.outputCapF!)}` : '',
     r.offsetPpm !== undefined ? ppmText(r.offsetPpm) : '',
     r.gainMargin !== undefined ? r.gainMargin.toFixed(2) : '',
-    r.startupTimeS !== undefined ? formatSi(r.startupTimeS, 's', 3) : r.verdict === 'outside' ? '' : r.inputCapF !== undefined ? 'never' : '',
+    r.startupTimeS !== undefined
+      ? formatSi(r.startupTimeS, 's', 3)
+      : r.verdict === 'outside'
+        ? ''
+        : r.inputCapF !== undefined
+          ? 'never'
+          : '',
     r.verdict === 'fits' ? '' : r.reason,
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i].length)));
-  const line = (cells: string[]) => cells.map((c, i) => (i === cells.length - 1 ? c : c.padEnd(widths[i]))).join('  ').trimEnd();
+  const line = (cells: string[]) =>
+    cells
+      .map((c, i) => (i === cells.length - 1 ? c : c.padEnd(widths[i])))
+      .join('  ')
+      .trimEnd();
   return `${[line(head), ...body.map(line)].join('\n')}\n`;
 }

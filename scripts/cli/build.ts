@@ -5,7 +5,12 @@
  * to stdout. Exit 0 built, 1 any invalid record or a failed build (DIR untouched), 2 usage.
  */
 import { writeFile } from 'node:fs/promises';
-import { buildCatalogue, formatIssues, formatSummary, type BuildCatalogueOptions } from '../../src/pipeline/build-catalogue.ts';
+import {
+  buildCatalogue,
+  formatIssues,
+  formatSummary,
+  type BuildCatalogueOptions,
+} from '../../src/pipeline/build-catalogue.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
 
 export const BUILD_USAGE = `usage: motional build [--content DIR] [--out DIR] [--base PATH] [--jobs N] [--no-cache]
@@ -30,13 +35,18 @@ exit status: 0 built, 1 any invalid record or failed build (output left as it wa
 `;
 
 /** Parsed options, or a usage message. */
-export function parseBuildArgs(args: string[]): { options: BuildCatalogueOptions; quiet: boolean; summaryFile?: string } | { usage: string } | { help: true } {
+export function parseBuildArgs(
+  args: string[],
+): { options: BuildCatalogueOptions; quiet: boolean; summaryFile?: string } | { usage: string } | { help: true } {
   const options: BuildCatalogueOptions = {};
   let quiet = false;
   let summaryFile: string | undefined;
   for (let i = 0; i < args.length; i++) {
     const arg = args[i];
-    const [flag, inline] = arg.startsWith('--') && arg.includes('=') ? [arg.slice(0, arg.indexOf('=')), arg.slice(arg.indexOf('=') + 1)] : [arg, undefined];
+    const [flag, inline] =
+      arg.startsWith('--') && arg.includes('=')
+        ? [arg.slice(0, arg.indexOf('=')), arg.slice(arg.indexOf('=') + 1)]
+        : [arg, undefined];
     const value = (): string | undefined => (inline !== undefined ? inline : args[++i]);
     switch (flag) {
       case '-h':
@@ -54,14 +64,16 @@ export function parseBuildArgs(args: string[]): { options: BuildCatalogueOptions
         if (flag === '--content') options.contentDir = v;
         else if (flag === '--out') options.outDir = v;
         else if (flag === '--base') {
-          if (!v.startsWith('/') || /[?#\\]/.test(v)) return { usage: `--base expects a path starting with '/', e.g. /tools/crystals/, got "${v}"` };
+          if (!v.startsWith('/') || /[?#\\]/.test(v))
+            return { usage: `--base expects a path starting with '/', e.g. /tools/crystals/, got "${v}"` };
           options.base = v;
         } else if (flag === '--keep-data') options.keepDataDir = v;
         else if (flag === '--cache-dir') options.cacheDir = v;
         else if (flag === '--summary') summaryFile = v;
         else {
           const n = Number(v);
-          if (!Number.isInteger(n) || n < 1 || n > 256) return { usage: `--jobs expects a whole number from 1 to 256, got "${v}"` };
+          if (!Number.isInteger(n) || n < 1 || n > 256)
+            return { usage: `--jobs expects a whole number from 1 to 256, got "${v}"` };
           options.jobs = n;
         }
         break;
@@ -101,11 +113,24 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
   process.once('SIGINT', stop);
   process.once('SIGTERM', stop);
   try {
-    const progress = parsed.quiet ? false : io === processIo ? process.stderr : { write: (t: string) => io.err(t), isTTY: false };
-    const summary = await buildCatalogue({ ...parsed.options, progress, log: (t) => io.err(t), signal: controller.signal });
+    const progress = parsed.quiet
+      ? false
+      : io === processIo
+        ? process.stderr
+        : { write: (t: string) => io.err(t), isTTY: false };
+    const summary = await buildCatalogue({
+      ...parsed.options,
+      progress,
+      log: (t) => io.err(t),
+      signal: controller.signal,
+    });
     io.err(formatIssues(summary.issues));
     io.out(formatSummary(summary));
-    if (parsed.summaryFile) await writeFile(parsed.summaryFile, `${JSON.stringify({ ...summary, issues: summary.issues.length }, null, 2)}\n`);
+    if (parsed.summaryFile)
+      await writeFile(
+        parsed.summaryFile,
+        `${JSON.stringify({ ...summary, issues: summary.issues.length }, null, 2)}\n`,
+      );
     return summary.exitCode === 0 ? EXIT_OK : EXIT_BAD_INPUT;
   } finally {
     process.off('SIGINT', stop);

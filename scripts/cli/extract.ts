@@ -40,7 +40,11 @@ export function resultJson(result: PartResult): string {
 export async function run(args: string[], io: CliIo = processIo): Promise<number> {
   let parsed;
   try {
-    parsed = parseArgs({ args, allowPositionals: true, options: { json: { type: 'boolean' }, sample: { type: 'string' }, help: { type: 'boolean', short: 'h' } } });
+    parsed = parseArgs({
+      args,
+      allowPositionals: true,
+      options: { json: { type: 'boolean' }, sample: { type: 'string' }, help: { type: 'boolean', short: 'h' } },
+    });
   } catch (e) {
     io.err(`motional extract: ${e instanceof Error ? e.message : String(e)}\n\n${EXTRACT_USAGE}`);
     return EXIT_USAGE;
@@ -60,7 +64,9 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
   if (!loaded.part || loaded.issues.some((i) => i.severity === 'error')) return EXIT_BAD_INPUT;
   const part = loaded.part;
   if (v.sample !== undefined && !part.samples.some((s) => s.id === v.sample)) {
-    io.err(`${formatIssue({ severity: 'error', file: loaded.yamlFile, message: `no sample "${v.sample}" (samples: ${part.samples.map((s) => s.id).join(', ')})` })}\n`);
+    io.err(
+      `${formatIssue({ severity: 'error', file: loaded.yamlFile, message: `no sample "${v.sample}" (samples: ${part.samples.map((s) => s.id).join(', ')})` })}\n`,
+    );
     return EXIT_BAD_INPUT;
   }
   const chosen = v.sample === undefined ? part : { ...part, samples: part.samples.filter((s) => s.id === v.sample) };
@@ -71,7 +77,11 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
   for (const s of result.samples) {
     for (const d of s.diagnostics) {
       if (d.severity !== 'error') continue;
-      const issue: Issue = { severity: 'error', file: (d.sweep && fileOf.get(d.sweep)) || loaded.yamlFile, message: `sample ${s.sample}: ${d.message}` };
+      const issue: Issue = {
+        severity: 'error',
+        file: (d.sweep && fileOf.get(d.sweep)) || loaded.yamlFile,
+        message: `sample ${s.sample}: ${d.message}`,
+      };
       io.err(`${formatIssue(issue)}\n`);
     }
   }

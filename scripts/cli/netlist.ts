@@ -14,7 +14,11 @@ import { extractPart } from '../../src/lib/extract/extract-part.ts';
 import { formatModelTouchstone } from '../../src/lib/models/model-touchstone.ts';
 import { formatNetlist, type NetlistInfo } from '../../src/lib/models/netlist-spice.ts';
 import { medianModel, modelFromResult, type ModelWithLabels } from '../../src/lib/report/netlist-model.ts';
-import { formatParametersCsv, formatParametersJson, type ExportSample } from '../../src/lib/report/parameters-export.ts';
+import {
+  formatParametersCsv,
+  formatParametersJson,
+  type ExportSample,
+} from '../../src/lib/report/parameters-export.ts';
 import type { Part } from '../../src/lib/schema/part.ts';
 import { parseQuantity } from '../../src/lib/units/si.ts';
 import { netlistInfoOf } from '../../src/lib/report/netlist-info.ts';
@@ -72,21 +76,37 @@ export async function loadChosenModel(path: string, opts: ChooseOptions, io: Cli
       io.err(`${loaded.yamlFile}: no sample of ${part.id} has a measured mode; no median part\n`);
       return EXIT_BAD_INPUT;
     }
-    const dates = part.samples.map((s) => s.measured).filter((d): d is string => d !== undefined).sort();
+    const dates = part.samples
+      .map((s) => s.measured)
+      .filter((d): d is string => d !== undefined)
+      .sort();
     const spans = result.samples.filter((s) => s.spanHz.max > 0).map((s) => s.spanHz);
     const info: NetlistInfo = {
-      partId: part.id, title: part.title, kind: part.kind, lotMedianOf: med.n, labels: med.labels,
-      date: dates.length ? (dates[0] === dates[dates.length - 1] ? dates[0] : `${dates[0]} to ${dates[dates.length - 1]}`) : undefined,
+      partId: part.id,
+      title: part.title,
+      kind: part.kind,
+      lotMedianOf: med.n,
+      labels: med.labels,
+      date: dates.length
+        ? dates[0] === dates[dates.length - 1]
+          ? dates[0]
+          : `${dates[0]} to ${dates[dates.length - 1]}`
+        : undefined,
       method: `median over ${med.n} samples of their extracted parameters`,
-      validSpanHz: spans.length ? { min: Math.max(...spans.map((s) => s.min)), max: Math.min(...spans.map((s) => s.max)) } : undefined,
+      validSpanHz: spans.length
+        ? { min: Math.max(...spans.map((s) => s.min)), max: Math.min(...spans.map((s) => s.max)) }
+        : undefined,
     };
     if (info.validSpanHz && !(info.validSpanHz.max > info.validSpanHz.min)) info.validSpanHz = undefined;
     return { part, samples: result.samples, model: med, info };
   }
 
-  const sample = opts.sampleId === undefined ? result.samples[0] : result.samples.find((s) => s.sample === opts.sampleId);
+  const sample =
+    opts.sampleId === undefined ? result.samples[0] : result.samples.find((s) => s.sample === opts.sampleId);
   if (!sample) {
-    io.err(`${loaded.yamlFile}: no sample "${opts.sampleId}" in ${part.id} (samples: ${part.samples.map((s) => s.id).join(', ')})\n`);
+    io.err(
+      `${loaded.yamlFile}: no sample "${opts.sampleId}" in ${part.id} (samples: ${part.samples.map((s) => s.id).join(', ')})\n`,
+    );
     return EXIT_BAD_INPUT;
   }
   for (const w of sample.warnings) io.err(`${loaded.yamlFile}: warning: sample ${sample.sample}: ${w}\n`);
@@ -107,8 +127,13 @@ function medianExport(chosen: ChosenModel): ExportSample & { mainMode: MainModeR
     c0F: model.c0F,
     mainMode: { index: mainIndex, rule: mainRule },
     modes: model.branches.map((b, i) => ({
-      overtone: labels[i].overtone, spurious: labels[i].spurious, fsHz: b.fsHz, r1Ohm: b.r1Ohm, c1F: b.c1F,
-      l1H: inductanceOf(b), q: qualityOf(b),
+      overtone: labels[i].overtone,
+      spurious: labels[i].spurious,
+      fsHz: b.fsHz,
+      r1Ohm: b.r1Ohm,
+      c1F: b.c1F,
+      l1H: inductanceOf(b),
+      q: qualityOf(b),
     })),
   };
 }
@@ -147,7 +172,8 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
   if (positionals.length !== 1) return usageError(`expected one PART, got ${positionals.length}`);
   if (v.sample !== undefined && v['lot-median']) return usageError('--sample and --lot-median exclude each other');
   const format = (v.format ?? 'spice') as (typeof FORMATS)[number];
-  if (!FORMATS.includes(format)) return usageError(`--format: expected one of ${FORMATS.join(', ')}, got "${v.format}"`);
+  if (!FORMATS.includes(format))
+    return usageError(`--format: expected one of ${FORMATS.join(', ')}, got "${v.format}"`);
   const freq = (name: 'start' | 'stop'): number | undefined | string => {
     if (v[name] === undefined) return undefined;
     const q = parseQuantity(v[name]!, 'frequency');
@@ -158,7 +184,8 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
   if (typeof startHz === 'string') return usageError(startHz);
   if (typeof stopHz === 'string') return usageError(stopHz);
   const points = v.points === undefined ? undefined : Number(v.points);
-  if (points !== undefined && !Number.isInteger(points)) return usageError(`--points: expected a whole number, got "${v.points}"`);
+  if (points !== undefined && !Number.isInteger(points))
+    return usageError(`--points: expected a whole number, got "${v.points}"`);
 
   const chosen = await loadChosenModel(positionals[0], { sampleId: v.sample, lotMedian: v['lot-median'] }, io);
   if (typeof chosen === 'number') return chosen;
@@ -179,7 +206,9 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
       io.out(formatParametersCsv(chosen.sample ?? medianExport(chosen)));
       return EXIT_OK;
     case 'json':
-      io.out(formatParametersJson(chosen.sample ?? medianExport(chosen), { partId: chosen.part.id, date: chosen.info.date }));
+      io.out(
+        formatParametersJson(chosen.sample ?? medianExport(chosen), { partId: chosen.part.id, date: chosen.info.date }),
+      );
       return EXIT_OK;
   }
 }

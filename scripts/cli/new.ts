@@ -27,7 +27,11 @@ exit status: 0 draft written, 1 nothing written, 2 usage error
 export async function run(args: string[], io: CliIo = processIo): Promise<number> {
   let parsed;
   try {
-    parsed = parseArgs({ args, allowPositionals: true, options: { id: { type: 'string' }, kind: { type: 'string' }, help: { type: 'boolean', short: 'h' } } });
+    parsed = parseArgs({
+      args,
+      allowPositionals: true,
+      options: { id: { type: 'string' }, kind: { type: 'string' }, help: { type: 'boolean', short: 'h' } },
+    });
   } catch (e) {
     io.err(`motional new: ${e instanceof Error ? e.message : String(e)}\n\n${NEW_USAGE}`);
     return EXIT_USAGE;
@@ -51,8 +55,17 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
     io.err(`motional new: ${result.message}\n`);
     return EXIT_BAD_INPUT;
   }
-  const roles = result.plan.sweeps.map((s) => `${s.file} (${s.role}, ${s.fixture}${s.addedCapacitanceF !== undefined ? ', added capacitance suggested' : ''})`).join(', ');
-  io.out(`wrote ${result.yamlFile}: ${result.plan.sweeps.length} sweep${result.plan.sweeps.length === 1 ? '' : 's'}: ${roles}\n`);
-  io.out(`check every "inferred" comment, fill in the placeholders, then run: motional check ${parsed.positionals[0]}\n`);
+  const roles = result.plan.sweeps
+    .map(
+      (s) =>
+        `${s.file} (${s.role}, ${s.fixture}${s.addedCapacitanceF !== undefined ? ', added capacitance suggested' : ''})`,
+    )
+    .join(', ');
+  io.out(
+    `wrote ${result.yamlFile}: ${result.plan.sweeps.length} sweep${result.plan.sweeps.length === 1 ? '' : 's'}: ${roles}\n`,
+  );
+  io.out(
+    `check every "inferred" comment, fill in the placeholders, then run: motional check ${parsed.positionals[0]}\n`,
+  );
   return EXIT_OK;
 }

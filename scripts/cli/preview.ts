@@ -51,7 +51,9 @@ export async function run(args: string[], io: CliIo = processIo): Promise<number
     port,
     onBuild: (s, ms) => {
       const problems = s.issues.filter((i) => i.severity === 'error');
-      io.out(`${new Date().toISOString().slice(11, 19)} built ${s.partsPublished} parts in ${(ms / 1000).toFixed(1)} s${problems.length ? `; ${problems.length} problems:` : ''}\n`);
+      io.out(
+        `${new Date().toISOString().slice(11, 19)} built ${s.partsPublished} parts in ${(ms / 1000).toFixed(1)} s${problems.length ? `; ${problems.length} problems:` : ''}\n`,
+      );
       for (const p of problems) io.out(`  ${formatIssue(p)}\n`);
       if (s.failure && s.partsPublished === 0) io.out(`  build failed: ${s.failure}\n`);
     },

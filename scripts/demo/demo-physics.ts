@@ -20,7 +20,13 @@ export function loadFrequencyHz(b: MotionalBranch, c0F: number, clF: number): nu
  * The fs that puts a part `offsetPpm` from its nominal frequency at the datasheet load
  * (or at series resonance when `clF` is 'series').
  */
-export function fsForNominal(nominalHz: number, offsetPpm: number, c1F: number, c0F: number, clF: number | 'series'): number {
+export function fsForNominal(
+  nominalHz: number,
+  offsetPpm: number,
+  c1F: number,
+  c0F: number,
+  clF: number | 'series',
+): number {
   const target = nominalHz * (1 + offsetPpm * 1e-6);
   return clF === 'series' ? target : target / Math.sqrt(1 + c1F / (c0F + clF));
 }
@@ -79,10 +85,15 @@ const POINT_CHOICES = [201, 401, 801, 1601, 3201];
  * ±halfWidthBw bandwidths rounded up to a nice number, centre rounded, and the smallest usual
  * point count giving at least `perBw` points per bandwidth.
  */
-export function narrowGrid(centerHz: number, bwHz: number, opts: { halfWidthBw?: number; perBw?: number } = {}): FreqGridSpec {
+export function narrowGrid(
+  centerHz: number,
+  bwHz: number,
+  opts: { halfWidthBw?: number; perBw?: number } = {},
+): FreqGridSpec {
   const spanHz = niceCeil(2 * (opts.halfWidthBw ?? 6) * bwHz);
   const perBw = opts.perBw ?? 16;
-  const points = POINT_CHOICES.find((p) => ((p - 1) * bwHz) / spanHz >= perBw) ?? POINT_CHOICES[POINT_CHOICES.length - 1];
+  const points =
+    POINT_CHOICES.find((p) => ((p - 1) * bwHz) / spanHz >= perBw) ?? POINT_CHOICES[POINT_CHOICES.length - 1];
   return { kind: 'centered', centerHz: roundCenter(centerHz, spanHz), spanHz, points };
 }
 
@@ -94,7 +105,8 @@ export function spanGrid(startHz: number, stopHz: number, bwHz: number, perBw = 
   const step = 10 ** Math.floor(Math.log10((stopHz - startHz) / 20));
   const lo = Math.floor(startHz / step) * step;
   const hi = Math.ceil(stopHz / step) * step;
-  const points = POINT_CHOICES.find((p) => ((p - 1) * bwHz) / (hi - lo) >= perBw) ?? POINT_CHOICES[POINT_CHOICES.length - 1];
+  const points =
+    POINT_CHOICES.find((p) => ((p - 1) * bwHz) / (hi - lo) >= perBw) ?? POINT_CHOICES[POINT_CHOICES.length - 1];
   return { kind: 'linear', startHz: lo, stopHz: hi, points };
 }
 
@@ -102,7 +114,11 @@ export function spanGrid(startHz: number, stopHz: number, bwHz: number, perBw = 
  * A wide sweep for C0 and the anti-resonance: from `below`·(fp − fs) under fs to `above`·(fp − fs)
  * over fp, ends rounded outward to nice steps.
  */
-export function wideGrid(model: BvdModel, k = 0, opts: { below?: number; above?: number; points?: number } = {}): FreqGridSpec {
+export function wideGrid(
+  model: BvdModel,
+  k = 0,
+  opts: { below?: number; above?: number; points?: number } = {},
+): FreqGridSpec {
   const fs = model.branches[k].fsHz;
   const fp = antiResonanceHz(model, k);
   const gap = fp - fs;

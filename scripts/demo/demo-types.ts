@@ -56,7 +56,14 @@ export interface DemoSample {
   modes: DemoMode[];
   /** Fixture residuals present in every sweep of this sample (removed by the compensation sweeps). */
   parasitics?: FixtureParasitics;
-  compensation?: { fixture: Fixture; format: SynthFileFormat; grid: FreqGridSpec; noiseDb: number; open: string; short: string };
+  compensation?: {
+    fixture: Fixture;
+    format: SynthFileFormat;
+    grid: FreqGridSpec;
+    noiseDb: number;
+    open: string;
+    short: string;
+  };
   sweeps: DemoSweep[];
 }
 

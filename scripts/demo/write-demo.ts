@@ -51,15 +51,20 @@ function datasheetFailures(part: DemoPart, sample: DemoSample): Array<[string, s
   if (!main) throw new Error(`${part.id}/${sample.id}: no main mode of overtone ${ds.overtone ?? 1}`);
   const b = sample.model.branches[main.branch];
   const nominal = num(ds.frequency, 'frequency')!;
-  const cl = ds.loadCapacitance === undefined || ds.loadCapacitance === 'series' ? undefined : num(ds.loadCapacitance, 'capacitance')!;
+  const cl =
+    ds.loadCapacitance === undefined || ds.loadCapacitance === 'series'
+      ? undefined
+      : num(ds.loadCapacitance, 'capacitance')!;
   const f = cl === undefined ? b.fsHz : loadFrequencyHz(b, sample.model.c0F, cl);
   const offsetPpm = (f / nominal - 1) * 1e6;
   const tol = num(ds.tolerance, 'ppm');
-  if (tol !== undefined && Math.abs(offsetPpm) > tol) out.push(['tolerance', `${offsetPpm.toFixed(2)} ppm from nominal at the load, tolerance ${tol} ppm`]);
+  if (tol !== undefined && Math.abs(offsetPpm) > tol)
+    out.push(['tolerance', `${offsetPpm.toFixed(2)} ppm from nominal at the load, tolerance ${tol} ppm`]);
   const esr = num(ds.esrMax, 'resistance');
   if (esr !== undefined && b.r1Ohm > esr) out.push(['esrMax', `R1 ${b.r1Ohm} ohm above esrMax ${esr} ohm`]);
   const c0 = num(ds.c0Max, 'capacitance');
-  if (c0 !== undefined && sample.model.c0F > c0) out.push(['c0Max', `C0 ${q(sample.model.c0F, 'F')} above c0Max ${ds.c0Max}`]);
+  if (c0 !== undefined && sample.model.c0F > c0)
+    out.push(['c0Max', `C0 ${q(sample.model.c0F, 'F')} above c0Max ${ds.c0Max}`]);
   return out;
 }
 
@@ -73,10 +78,12 @@ export function checkTable(): void {
     for (const sample of part.samples) {
       const fails = datasheetFailures(part, sample);
       for (const [limit, message] of fails) {
-        if (!expected.has(limit as 'esrMax')) throw new Error(`demo table: ${part.id}/${sample.id} fails its datasheet unexpectedly: ${message}`);
+        if (!expected.has(limit as 'esrMax'))
+          throw new Error(`demo table: ${part.id}/${sample.id} fails its datasheet unexpectedly: ${message}`);
       }
       for (const limit of expected) {
-        if (!fails.some(([l]) => l === limit)) throw new Error(`demo table: ${part.id}/${sample.id} is documented to fail ${limit} but does not`);
+        if (!fails.some(([l]) => l === limit))
+          throw new Error(`demo table: ${part.id}/${sample.id} is documented to fail ${limit} but does not`);
       }
     }
   }
@@ -123,7 +130,9 @@ function partRecord(part: DemoPart): string {
       instrument: s.instrument,
       ...(s.instrumentMaxFrequencyHz ? { instrumentMaxFrequency: q(s.instrumentMaxFrequencyHz, 'Hz') } : {}),
       ...(s.temperatureC !== undefined ? { temperature: `${s.temperatureC} C` } : {}),
-      ...(s.compensation ? { compensation: { open: s.compensation.open, short: s.compensation.short, fixture: s.compensation.fixture } } : {}),
+      ...(s.compensation
+        ? { compensation: { open: s.compensation.open, short: s.compensation.short, fixture: s.compensation.fixture } }
+        : {}),
       sweeps: s.sweeps.map(sweepRecord),
     })),
   };
@@ -144,7 +153,10 @@ export interface SweepReport {
 }
 
 function relativeErrors(a: ImpedanceSweep, b: ImpedanceSweep): number[] {
-  return Array.from(a.freqHz, (_, i) => Math.hypot(a.zRe[i] - b.zRe[i], a.zIm[i] - b.zIm[i]) / Math.hypot(b.zRe[i], b.zIm[i])).sort((x, y) => x - y);
+  return Array.from(
+    a.freqHz,
+    (_, i) => Math.hypot(a.zRe[i] - b.zRe[i], a.zIm[i] - b.zIm[i]) / Math.hypot(b.zRe[i], b.zIm[i]),
+  ).sort((x, y) => x - y);
 }
 
 function sweepComments(part: DemoPart, sample: DemoSample, s: DemoSweep): string[] {
@@ -200,14 +212,33 @@ function writePart(part: DemoPart, dir: string, dryRun: boolean): SweepReport[] 
     if (sample.compensation && sample.parasitics) {
       const c = sample.compensation;
       const seed = seedFromText(`${part.id}/${sample.id}/${c.open}`);
-      const comp = synthesizeCompensation({ parasitics: sample.parasitics, grid: c.grid, fixture: c.fixture, noiseDb: c.noiseDb, seed, freqResolutionHz: FREQ_RESOLUTION_HZ });
-      for (const [file, rec, what] of [[c.open, comp.open, 'open'], [c.short, comp.short, 'short']] as const) {
+      const comp = synthesizeCompensation({
+        parasitics: sample.parasitics,
+        grid: c.grid,
+        fixture: c.fixture,
+        noiseDb: c.noiseDb,
+        seed,
+        freqResolutionHz: FREQ_RESOLUTION_HZ,
+      });
+      for (const [file, rec, what] of [
+        [c.open, comp.open, 'open'],
+        [c.short, comp.short, 'short'],
+      ] as const) {
         const text = formatSynthFile(rec, c.format, {
           digits: FILE_DIGITS,
-          comments: [`demo part ${part.id}: ${what} standard of the test socket (averaged)`, `fixture: ${c.fixture}; noise ${c.noiseDb} dB relative`],
+          comments: [
+            `demo part ${part.id}: ${what} standard of the test socket (averaged)`,
+            `fixture: ${c.fixture}; noise ${c.noiseDb} dB relative`,
+          ],
         });
         if (!dryRun) writeFileSync(join(dir, file), text);
-        reports.push({ file: `${part.id}/${file}`, points: makeFreqGrid(c.grid).length, zNoiseMedian: NaN, zNoiseP95: NaN, bytes: text.length });
+        reports.push({
+          file: `${part.id}/${file}`,
+          points: makeFreqGrid(c.grid).length,
+          zNoiseMedian: NaN,
+          zNoiseP95: NaN,
+          bytes: text.length,
+        });
       }
     }
   }
@@ -220,7 +251,8 @@ function removeGenerated(dir: string): void {
   if (!existsSync(dir)) return;
   for (const name of readdirSync(dir)) {
     const yaml = join(dir, name, 'part.yaml');
-    if (existsSync(yaml) && /^synthetic: true$/m.test(readFileSync(yaml, 'utf8'))) rmSync(join(dir, name), { recursive: true });
+    if (existsSync(yaml) && /^synthetic: true$/m.test(readFileSync(yaml, 'utf8')))
+      rmSync(join(dir, name), { recursive: true });
   }
 }
 

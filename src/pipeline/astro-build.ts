@@ -24,7 +24,8 @@ let astroRuns = 0;
 export async function cleanAstroRuns(): Promise<void> {
   for (const name of await readdir(ASTRO_RUNS).catch(() => [] as string[])) {
     const pid = Number(name.split('-')[0]);
-    if (Number.isInteger(pid) && pid !== process.pid && !isProcessAlive(pid)) await rm(join(ASTRO_RUNS, name), { recursive: true, force: true });
+    if (Number.isInteger(pid) && pid !== process.pid && !isProcessAlive(pid))
+      await rm(join(ASTRO_RUNS, name), { recursive: true, force: true });
   }
 }
 
@@ -53,7 +54,16 @@ export interface AstroBuildOptions {
  * inherited values (a test runner sets BASE_URL=/ and MODE=test, CI systems set BASE_URL too)
  * would override the site's base path and build mode, so the Astro build never sees them.
  */
-export const ASTRO_ENV_DROPPED = ['BASE_URL', 'MODE', 'DEV', 'PROD', 'SSR', 'SITE', 'ASSETS_PREFIX', 'NODE_ENV'] as const;
+export const ASTRO_ENV_DROPPED = [
+  'BASE_URL',
+  'MODE',
+  'DEV',
+  'PROD',
+  'SSR',
+  'SITE',
+  'ASSETS_PREFIX',
+  'NODE_ENV',
+] as const;
 
 /** The environment of the Astro build: this process's, without {@link ASTRO_ENV_DROPPED}. */
 export function astroEnv(env: NodeJS.ProcessEnv): NodeJS.ProcessEnv {
@@ -149,7 +159,9 @@ export async function runAstroBuild(run: AstroBuildOptions): Promise<AstroUsage>
     child.on('close', (c, sig) => done(c ?? sig ?? 'unknown'));
   });
   clearInterval(timer);
-  const usage = await readFile(usageFile, 'utf8').then((t) => JSON.parse(t) as NodeJS.ResourceUsage).catch(() => undefined);
+  const usage = await readFile(usageFile, 'utf8')
+    .then((t) => JSON.parse(t) as NodeJS.ResourceUsage)
+    .catch(() => undefined);
   await rm(cwd, { recursive: true, force: true });
   if (code !== 0) {
     progress.done('failed');

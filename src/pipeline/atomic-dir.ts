@@ -131,7 +131,10 @@ let swaps = 0;
  * the previous output and the staging root.
  */
 export async function swapInto(staging: StagingDir, builtDir: string, options: SwapOptions = {}): Promise<void> {
-  await writeFile(join(builtDir, OUTPUT_MARKER), options.marker ?? 'written by motional build; the whole folder is replaced on the next build\n');
+  await writeFile(
+    join(builtDir, OUTPUT_MARKER),
+    options.marker ?? 'written by motional build; the whole folder is replaced on the next build\n',
+  );
   const seq = ++swaps;
   const old = `${leftoverName(staging.outDir, OLD, process.pid)}-${seq}`;
   let hadOld = false;
@@ -161,7 +164,8 @@ export async function swapInto(staging: StagingDir, builtDir: string, options: S
 
 /** Delete folders in a detached child process that outlives this one. */
 export function removeDetached(paths: string[]): void {
-  const script = 'for (const p of process.argv.slice(1)) require("node:fs").rmSync(p, { recursive: true, force: true })';
+  const script =
+    'for (const p of process.argv.slice(1)) require("node:fs").rmSync(p, { recursive: true, force: true })';
   try {
     const child = spawn(process.execPath, ['-e', script, ...paths], { detached: true, stdio: 'ignore' });
     child.on('error', () => undefined);

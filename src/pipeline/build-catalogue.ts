@@ -20,7 +20,15 @@
 import { existsSync } from 'node:fs';
 import { mkdir, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
 import { dirname, join, resolve } from 'node:path';
-import { OUTPUT_MARKER, cleanStale, createStaging, discardStaging, refuseReplace, swapInto, type StagingDir } from './atomic-dir.ts';
+import {
+  OUTPUT_MARKER,
+  cleanStale,
+  createStaging,
+  discardStaging,
+  refuseReplace,
+  swapInto,
+  type StagingDir,
+} from './atomic-dir.ts';
 import { findPartFiles } from './check-paths.ts';
 import { nodeFileSource } from './file-source.ts';
 import { linkFiles, placeResultFiles, type BuildTaskContext } from './build-task.ts';
@@ -29,7 +37,18 @@ import { extractionCodeHash } from './code-hash.ts';
 import type { IndexEntry } from '../lib/report/types.ts';
 import { sortById } from '../lib/report/index-order.ts';
 import { writeCatalogueExport } from './emit.ts';
-import { PAGES_ENV, formatManifest, sitePathsOf, linkTree, overlayTree, placeCatalogueData, planPartialSite, readManifest, siteCodeHash, siteSupportsPartialPages } from './partial-site.ts';
+import {
+  PAGES_ENV,
+  formatManifest,
+  sitePathsOf,
+  linkTree,
+  overlayTree,
+  placeCatalogueData,
+  planPartialSite,
+  readManifest,
+  siteCodeHash,
+  siteSupportsPartialPages,
+} from './partial-site.ts';
 import { writeProblemPages, type RecordProblems } from './problem-pages.ts';
 import { adoptRenderer, newRendererDir, startRenderer, type PageRendererThread } from './page-renderer.ts';
 import { type ProgressStream } from './progress.ts';
@@ -94,9 +113,24 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   const log = options.log ?? ((text: string) => void process.stderr.write(text));
   const progressStream = options.progress === false ? undefined : (options.progress ?? process.stderr);
   const summary: BuildSummary = {
-    exitCode: 1, recordsFound: 0, recordsValid: 0, recordsInvalid: 0, partsPublished: 0, samples: 0, modes: 0,
-    warnings: 0, errors: 0, cache: { enabled: useCache, hits: 0, misses: 0 }, jobs, threads: 0, stageMs: { total: 0 },
-    recordMs: { hash: 0, load: 0, extract: 0, data: 0, emit: 0 }, peakRssBytes: { build: 0, site: 0 }, cpuSeconds: { build: 0, site: 0 }, issues: [], outDir,
+    exitCode: 1,
+    recordsFound: 0,
+    recordsValid: 0,
+    recordsInvalid: 0,
+    partsPublished: 0,
+    samples: 0,
+    modes: 0,
+    warnings: 0,
+    errors: 0,
+    cache: { enabled: useCache, hits: 0, misses: 0 },
+    jobs,
+    threads: 0,
+    stageMs: { total: 0 },
+    recordMs: { hash: 0, load: 0, extract: 0, data: 0, emit: 0 },
+    peakRssBytes: { build: 0, site: 0 },
+    cpuSeconds: { build: 0, site: 0 },
+    issues: [],
+    outDir,
   };
   let stageStart = t0;
   let current: BuildStage | undefined;
@@ -119,7 +153,10 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
   try {
     const cacheDir = useCache ? resolve(options.cacheDir ?? join(PROJECT_ROOT, '.motional', 'cache')) : undefined;
     const protect = [contentDir, PROJECT_ROOT, process.cwd(), ...(cacheDir ? [cacheDir] : [])];
-    for (const [dir, given] of [[outDir, options.outDir ?? 'dist'], ...(options.keepDataDir ? [[resolve(options.keepDataDir), options.keepDataDir]] : [])]) {
+    for (const [dir, given] of [
+      [outDir, options.outDir ?? 'dist'],
+      ...(options.keepDataDir ? [[resolve(options.keepDataDir), options.keepDataDir]] : []),
+    ]) {
       const refusal = await refuseReplace(dir, dir === outDir ? protect : [...protect, outDir]);
       if (refusal) {
         summary.issues.push({ severity: 'error', file: given, message: refusal, code: 'output' });
@@ -130,17 +167,30 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     await cleanAstroRuns();
     stage('discover');
     if (!(await stat(contentDir).catch(() => undefined))?.isDirectory()) {
-      summary.issues.push({ severity: 'error', file: contentDir, message: 'content folder not found', code: 'missing' });
+      summary.issues.push({
+        severity: 'error',
+        file: contentDir,
+        message: 'content folder not found',
+        code: 'missing',
+      });
       throw new BuildFailure('no content');
     }
-    const exclude = new Set([outDir, ...[options.keepDataDir, cacheDir].filter((d): d is string => !!d).map((d) => resolve(d))]);
+    const exclude = new Set([
+      outDir,
+      ...[options.keepDataDir, cacheDir].filter((d): d is string => !!d).map((d) => resolve(d)),
+    ]);
     // the search `check` does: links followed (loop-safe), a folder past the depth limit is an error
     const discovered = await findPartFiles(nodeFileSource, contentDir, { exclude });
     const records = discovered.files;
     summary.issues.push(...discovered.issues);
     summary.recordsFound = records.length;
     if (records.length === 0) {
-      summary.issues.push({ severity: 'error', file: contentDir, message: 'no part.yaml in this folder or its subfolders', code: 'no-parts' });
+      summary.issues.push({
+        severity: 'error',
+        file: contentDir,
+        message: 'no part.yaml in this folder or its subfolders',
+        code: 'no-parts',
+      });
       throw new BuildFailure('no records');
     }
     const beforeOscillators = summary.issues.length;
@@ -172,7 +222,12 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     const siteHash = options.dataOnly ? '' : await siteCodeHash(PROJECT_ROOT);
     const previous = options.dataOnly || options.fullSite || !useCache ? undefined : await readManifest(outDir);
     const siteDir = join(staging.root, 'site');
-    if (previous?.kind === 'site' && previous.siteHash === siteHash && previous.base === basePath && (await siteSupportsPartialPages())) {
+    if (
+      previous?.kind === 'site' &&
+      previous.siteHash === siteHash &&
+      previous.base === basePath &&
+      (await siteSupportsPartialPages())
+    ) {
       carried = linkTree(outDir, siteDir, (rel) => rel === OUTPUT_MARKER).then(() => true);
       carried.catch(() => undefined); // settled before the site stage or the clean-up
       renderer = await startRenderer(siteHash, basePath).catch(() => undefined);
@@ -180,8 +235,19 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
 
     stage('records');
     // fingerprints of this content folder's parts are remembered between builds
-    const memoFile = cacheDir ? join(cacheDir, 'fingerprints', `${sha256(resolve(contentDir)).slice(0, 16)}.json`) : undefined;
-    const { results: allResults, threads } = await runRecords(records, context, jobs, oscillatorsBad, progressStream, options.signal, memoFile, options.problemPages);
+    const memoFile = cacheDir
+      ? join(cacheDir, 'fingerprints', `${sha256(resolve(contentDir)).slice(0, 16)}.json`)
+      : undefined;
+    const { results: allResults, threads } = await runRecords(
+      records,
+      context,
+      jobs,
+      oscillatorsBad,
+      progressStream,
+      options.signal,
+      memoFile,
+      options.problemPages,
+    );
     let results = allResults;
     summary.threads = threads;
     for (const r of results) {
@@ -201,7 +267,11 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       if (!options.problemPages || oscillatorsBad) throw new BuildFailure('invalid records');
       // preview: the invalid records get a page of their problems, the others are published
       const bad = results.filter((r) => !r.valid || invalid.has(r.yamlFile));
-      problems = bad.map((r) => ({ id: r.id, yamlFile: r.yamlFile, issues: summary.issues.filter((i) => i.file === r.yamlFile || i.file.startsWith(`${dirname(r.yamlFile)}/`)) }));
+      problems = bad.map((r) => ({
+        id: r.id,
+        yamlFile: r.yamlFile,
+        issues: summary.issues.filter((i) => i.file === r.yamlFile || i.file.startsWith(`${dirname(r.yamlFile)}/`)),
+      }));
       results = results.filter((r) => !bad.includes(r));
       if (results.length === 0 && problems.length > 0) throw new BuildFailure('invalid records');
     }
@@ -227,7 +297,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     const partial = plan && (await siteSupportsPartialPages()) ? plan : undefined;
     // cached parts' files go into the data folder only when the whole data folder is needed
     if (!partial || options.keepDataDir) {
-      if (!(await placeResultFiles(results, dataDir, dataDir))) throw new Error('a cache entry lost its files while the build ran');
+      if (!(await placeResultFiles(results, dataDir, dataDir)))
+        throw new Error('a cache entry lost its files while the build ran');
     }
     checkAbort();
 
@@ -248,7 +319,13 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         // every file over all parts (the index, and any catalogue-wide file the emit step adds)
         // and the changed parts' own files
         const overAll = (await readdir(dataDir, { withFileTypes: true })).filter((e) => e.isFile()).map((e) => e.name);
-        const placed = await linkFiles(dataDir, overAll, deltaDir) && (await placeResultFiles(results.filter((r) => changed.has(r.id!)), dataDir, deltaDir));
+        const placed =
+          (await linkFiles(dataDir, overAll, deltaDir)) &&
+          (await placeResultFiles(
+            results.filter((r) => changed.has(r.id!)),
+            dataDir,
+            deltaDir,
+          ));
         if (!placed) throw new Error('a part file vanished while the build ran');
         const pagesFile = join(staging.root, 'pages.json');
         await writeFile(pagesFile, JSON.stringify(partial.changed));
@@ -260,13 +337,21 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
             await placeCatalogueData(deltaDir, freshDir);
             renderedBy = 'pages';
           } catch (err) {
-            log(`rendering the changed pages without the site generator failed, so it runs: ${err instanceof Error ? err.message : String(err)}\n`);
+            log(
+              `rendering the changed pages without the site generator failed, so it runs: ${err instanceof Error ? err.message : String(err)}\n`,
+            );
             await rm(freshDir, { recursive: true, force: true });
           }
         }
         checkAbort();
         if (renderedBy === 'generator') {
-          astroUsage = await runAstroBuild({ ...astro, dataDir: deltaDir, siteDir: freshDir, pages: partial.changed.length, pagesFile });
+          astroUsage = await runAstroBuild({
+            ...astro,
+            dataDir: deltaDir,
+            siteDir: freshDir,
+            pages: partial.changed.length,
+            pagesFile,
+          });
         }
         // the previous site's files, linked while the records were read (or now), without the
         // changed and removed parts' files
@@ -276,10 +361,16 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         }
         carried = undefined;
         for (const id of [...replaced, ...(previous?.problems ?? [])]) {
-          for (const rel of sitePathsOf(id)) await rm(join(siteDir, ...rel.split('/')), { recursive: true, force: true });
+          for (const rel of sitePathsOf(id))
+            await rm(join(siteDir, ...rel.split('/')), { recursive: true, force: true });
         }
         await overlayTree(freshDir, siteDir);
-        summary.site = { mode: 'partial', pagesRendered: partial.changed.length, partsRemoved: partial.removed.length, renderer: renderedBy };
+        summary.site = {
+          mode: 'partial',
+          pagesRendered: partial.changed.length,
+          partsRemoved: partial.removed.length,
+          renderer: renderedBy,
+        };
       } else {
         // a build with the cache keeps the generator's server chunks for later partial builds
         const keep = useCache ? newRendererDir() : undefined;
@@ -289,8 +380,13 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
         astroUsage = await runAstroBuild({ ...astro, dataDir, siteDir, pages: ids.length, keepChunksDir: keep });
         summary.site = { mode: 'full', pagesRendered: ids.length, partsRemoved: 0, renderer: 'generator' };
         if (keep) {
-          const refused = await adoptRenderer(keep, siteDir, siteHash, { dataDir, basePath, pagesEnvName: PAGES_ENV }).catch((err: Error) => err.message);
-          if (refused && process.env.MOTIONAL_DEBUG) log(`pages of later partial builds will be rendered by the site generator: ${refused}\n`);
+          const refused = await adoptRenderer(keep, siteDir, siteHash, {
+            dataDir,
+            basePath,
+            pagesEnvName: PAGES_ENV,
+          }).catch((err: Error) => err.message);
+          if (refused && process.env.MOTIONAL_DEBUG)
+            log(`pages of later partial builds will be rendered by the site generator: ${refused}\n`);
         }
       }
       summary.peakRssBytes.site = astroUsage.peakRssBytes;
@@ -302,7 +398,9 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
       summary.partsPublished = await countPublishedData(dataDir, ids);
     }
     if (summary.partsPublished !== summary.recordsValid) {
-      throw new BuildFailure(`internal error: ${summary.partsPublished} parts published but ${summary.recordsValid} valid records found`);
+      throw new BuildFailure(
+        `internal error: ${summary.partsPublished} parts published but ${summary.recordsValid} valid records found`,
+      );
     }
     checkAbort();
 
@@ -311,7 +409,10 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     stage('swap');
     if (options.keepDataDir && builtDir !== dataDir) {
       const keep = resolve(options.keepDataDir);
-      await writeFile(join(dataDir, OUTPUT_MARKER), 'written by motional build (--keep-data); the whole folder is replaced on the next build\n');
+      await writeFile(
+        join(dataDir, OUTPUT_MARKER),
+        'written by motional build (--keep-data); the whole folder is replaced on the next build\n',
+      );
       await rm(keep, { recursive: true, force: true });
       await mkdir(dirname(keep), { recursive: true });
       await rename(dataDir, keep).catch(async () => {
@@ -337,7 +438,8 @@ export async function buildCatalogue(options: BuildCatalogueOptions = {}): Promi
     await settle(carried);
     const message = err instanceof Error ? err.message : String(err);
     summary.failure = err instanceof BuildFailure ? message : `internal error: ${message}`;
-    if (!(err instanceof BuildFailure) && err instanceof Error && err.stack && process.env.MOTIONAL_DEBUG) log(`${err.stack}\n`);
+    if (!(err instanceof BuildFailure) && err instanceof Error && err.stack && process.env.MOTIONAL_DEBUG)
+      log(`${err.stack}\n`);
     if (staging) await discardStaging(staging).catch(() => undefined);
   }
   await renderer?.close().catch(() => undefined);
@@ -361,7 +463,11 @@ async function settle(step: Promise<boolean> | undefined): Promise<boolean> {
  */
 async function writeIndex(dataDir: string, entries: IndexEntry[], filesDirOf: (id: string) => string): Promise<void> {
   await writeFile(join(dataDir, 'index.json'), JSON.stringify(sortById(entries)));
-  await writeCatalogueExport(dataDir, sortById(entries).map((e) => e.id), filesDirOf);
+  await writeCatalogueExport(
+    dataDir,
+    sortById(entries).map((e) => e.id),
+    filesDirOf,
+  );
 }
 
 /** Parts whose data file was written: `<data>/parts/<id>.json`. */

@@ -69,13 +69,18 @@ export function formatSummary(s: BuildSummary): string {
     `parts published: ${s.partsPublished}`,
     `samples: ${s.samples}, modes: ${s.modes}, warnings: ${s.warnings}, errors: ${s.errors}`,
     `cache: ${s.cache.enabled ? `${s.cache.hits} hits, ${s.cache.misses} misses` : 'off'}; worker threads: ${s.threads}`,
-    ...(s.site ? [`site: ${s.site.mode === 'full' ? `all ${s.site.pagesRendered} part pages rendered` : `${s.site.pagesRendered} changed part pages rendered, ${s.site.partsRemoved} removed, the rest kept from the previous build${s.site.renderer === 'pages' ? ' (without starting the site generator)' : ''}`}`] : []),
+    ...(s.site
+      ? [
+          `site: ${s.site.mode === 'full' ? `all ${s.site.pagesRendered} part pages rendered` : `${s.site.pagesRendered} changed part pages rendered, ${s.site.partsRemoved} removed, the rest kept from the previous build${s.site.renderer === 'pages' ? ' (without starting the site generator)' : ''}`}`,
+        ]
+      : []),
     `time: ${stages}; total ${sec(s.stageMs.total)}`,
     `record steps (summed over records; tasks overlap): fingerprint ${sec(s.recordMs.hash)}, load ${sec(s.recordMs.load)}, extract ${sec(s.recordMs.extract)}, page data ${sec(s.recordMs.data)}, write ${sec(s.recordMs.emit)}`,
     `peak memory: build ${mb(s.peakRssBytes.build)}${s.peakRssBytes.site ? `, site ${mb(s.peakRssBytes.site)}` : ''}; CPU time: build ${s.cpuSeconds.build.toFixed(1)} s${s.cpuSeconds.site ? `, site ${s.cpuSeconds.site.toFixed(1)} s` : ''}`,
   ];
   if (s.exitCode === 0) lines.push(`built ${relative(process.cwd(), s.outDir) || '.'}`);
-  else lines.push(`build failed: ${s.failure ?? 'unknown'}; ${relative(process.cwd(), s.outDir) || '.'} left unchanged`);
+  else
+    lines.push(`build failed: ${s.failure ?? 'unknown'}; ${relative(process.cwd(), s.outDir) || '.'} left unchanged`);
   return `${lines.join('\n')}\n`;
 }
 

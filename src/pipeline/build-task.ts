@@ -110,7 +110,8 @@ function cacheAccess(context: BuildTaskContext): CacheAccess | undefined {
   const options = `partData=${PART_DATA_VERSION};base=${context.basePath}`;
   return {
     cache: openCache(context.cacheDir),
-    keyOf: (folderHash) => cacheKey({ folderHash, codeHash: context.codeHash, oscillatorsHash: context.oscillators?.hash ?? '', options }),
+    keyOf: (folderHash) =>
+      cacheKey({ folderHash, codeHash: context.codeHash, oscillatorsHash: context.oscillators?.hash ?? '', options }),
   };
 }
 
@@ -149,8 +150,19 @@ export function createRecordLookup(context: BuildTaskContext, memo?: Fingerprint
         const ms = { ...noTimes(), hash: t1 - t0, emit: performance.now() - t1 };
         return {
           done: {
-            index, yamlFile, id: header.id, idLine: header.idLine, issues: relocate(header.issues, folder),
-            valid: true, cached: true, stats: header.stats, indexEntry: header.indexEntry, files: header.files, filesDir, key, ms,
+            index,
+            yamlFile,
+            id: header.id,
+            idLine: header.idLine,
+            issues: relocate(header.issues, folder),
+            valid: true,
+            cached: true,
+            stats: header.stats,
+            indexEntry: header.indexEntry,
+            files: header.files,
+            filesDir,
+            key,
+            ms,
           },
         };
       }
@@ -169,15 +181,21 @@ export interface BuildTaskRunner {
  * @throws Error when the oscillator circuits file has errors (the caller validates it first)
  */
 export async function createBuildTaskRunner(context: BuildTaskContext): Promise<BuildTaskRunner> {
-  const [{ parseOscillatorsYaml }, { loadPart }, { extractPart }, { makePartData }, { makeIndexEntry }, { makeDownloads, writeCatalogueData }] =
-    await Promise.all([
-      import('../lib/osc/oscillators-yaml.ts'),
-      import('./load-part.ts'),
-      import('../lib/extract/extract-part.ts'),
-      import('../lib/report/part-data.ts'),
-      import('../lib/report/catalogue-entries.ts'),
-      import('./emit.ts'),
-    ]);
+  const [
+    { parseOscillatorsYaml },
+    { loadPart },
+    { extractPart },
+    { makePartData },
+    { makeIndexEntry },
+    { makeDownloads, writeCatalogueData },
+  ] = await Promise.all([
+    import('../lib/osc/oscillators-yaml.ts'),
+    import('./load-part.ts'),
+    import('../lib/extract/extract-part.ts'),
+    import('../lib/report/part-data.ts'),
+    import('../lib/report/catalogue-entries.ts'),
+    import('./emit.ts'),
+  ]);
   let circuits: OscillatorCircuit[] = [];
   if (context.oscillators) {
     const parsed = parseOscillatorsYaml(context.oscillators.text, context.oscillators.file);
@@ -195,8 +213,19 @@ export async function createBuildTaskRunner(context: BuildTaskContext): Promise<
     } catch (err) {
       const message = err instanceof Error ? err.message : String(err);
       return {
-        index: task.index, yamlFile: task.yamlFile, valid: false, cached: false, ms: noTimes(),
-        issues: [{ severity: 'error', file: task.yamlFile, message: `internal error while building this part: ${message}`, code: 'internal' }],
+        index: task.index,
+        yamlFile: task.yamlFile,
+        valid: false,
+        cached: false,
+        ms: noTimes(),
+        issues: [
+          {
+            severity: 'error',
+            file: task.yamlFile,
+            message: `internal error while building this part: ${message}`,
+            code: 'internal',
+          },
+        ],
       };
     }
   };
@@ -239,7 +268,14 @@ export async function createBuildTaskRunner(context: BuildTaskContext): Promise<
     await rm(join(scratch, 'index.json'), { force: true });
     const files = await listFiles(scratch);
     if (access && task.key) {
-      const header: CacheHeader = { id: loaded.part.id, idLine, issues: portable(loaded.issues, folder), stats, indexEntry, files };
+      const header: CacheHeader = {
+        id: loaded.part.id,
+        idLine,
+        issues: portable(loaded.issues, folder),
+        stats,
+        indexEntry,
+        files,
+      };
       await access.cache.put(task.key, JSON.stringify(header), scratch);
       if (!(await linkFiles(access.cache.filesOf(task.key), files, context.dataDir, dirs))) {
         throw new Error(`cache entry ${task.key} lost its files while the build ran`);
@@ -249,7 +285,18 @@ export async function createBuildTaskRunner(context: BuildTaskContext): Promise<
       await rm(scratch, { recursive: true, force: true });
     }
     lap('emit');
-    return { ...base, id: loaded.part.id, idLine, issues: loaded.issues, valid: true, cached: false, stats, indexEntry, files, key: task.key };
+    return {
+      ...base,
+      id: loaded.part.id,
+      idLine,
+      issues: loaded.issues,
+      valid: true,
+      cached: false,
+      stats,
+      indexEntry,
+      files,
+      key: task.key,
+    };
   };
   return { run };
 }
@@ -302,7 +349,13 @@ async function listFiles(root: string): Promise<string[]> {
  * one id: the build fails on the duplicate anyway).
  * @returns false when a source file is missing
  */
-export async function linkFiles(from: string, files: string[], to: string, dirs = new Set<string>(), move = false): Promise<boolean> {
+export async function linkFiles(
+  from: string,
+  files: string[],
+  to: string,
+  dirs = new Set<string>(),
+  move = false,
+): Promise<boolean> {
   for (const rel of files) {
     const parts = rel.split('/');
     const src = join(from, ...parts);
@@ -346,5 +399,7 @@ function portable(issues: Issue[], folder: string): Issue[] {
 }
 
 function relocate(issues: Issue[], folder: string): Issue[] {
-  return issues.map((i) => (i.file.startsWith(`${FOLDER_MARK}/`) ? { ...i, file: join(folder, i.file.slice(FOLDER_MARK.length + 1)) } : i));
+  return issues.map((i) =>
+    i.file.startsWith(`${FOLDER_MARK}/`) ? { ...i, file: join(folder, i.file.slice(FOLDER_MARK.length + 1)) } : i,
+  );
 }

@@ -58,9 +58,26 @@ async function scanFolder(folder: string): Promise<ScanEntry[]> {
         const target = await readlink(path);
         const to = await stat(path).catch(() => undefined);
         const readable = to?.isFile() === true;
-        out.push({ rel: relPath, path, target, readable, size: to?.size ?? 0, mtimeMs: to?.mtimeMs ?? 0, ctimeMs: Math.max(st.ctimeMs, to?.ctimeMs ?? 0), ino: to?.ino ?? 0 });
+        out.push({
+          rel: relPath,
+          path,
+          target,
+          readable,
+          size: to?.size ?? 0,
+          mtimeMs: to?.mtimeMs ?? 0,
+          ctimeMs: Math.max(st.ctimeMs, to?.ctimeMs ?? 0),
+          ino: to?.ino ?? 0,
+        });
       } else if (st.isFile()) {
-        out.push({ rel: relPath, path, readable: true, size: st.size, mtimeMs: st.mtimeMs, ctimeMs: st.ctimeMs, ino: st.ino });
+        out.push({
+          rel: relPath,
+          path,
+          readable: true,
+          size: st.size,
+          mtimeMs: st.mtimeMs,
+          ctimeMs: st.ctimeMs,
+          ino: st.ino,
+        });
       }
     }
   };
@@ -113,7 +130,9 @@ export async function loadFingerprintMemo(file: string): Promise<FingerprintMemo
  */
 export async function hashPartFolder(folder: string, memo?: FingerprintMemo): Promise<FolderHash> {
   const entries = await scanFolder(folder);
-  const signature = entries.map((e) => `${e.rel}\0${e.target ?? ''}\0${e.size}\0${e.mtimeMs}\0${e.ctimeMs}\0${e.ino}`).join('\n');
+  const signature = entries
+    .map((e) => `${e.rel}\0${e.target ?? ''}\0${e.size}\0${e.mtimeMs}\0${e.ctimeMs}\0${e.ino}`)
+    .join('\n');
   const newest = entries.reduce((t, e) => Math.max(t, e.mtimeMs, e.ctimeMs), 0);
   const memoKey = resolve(folder);
   const known = memo?.get(memoKey);
@@ -157,7 +176,9 @@ export interface CacheKeyInputs {
 
 /** The cache key of a part: sha256 over its inputs. */
 export function cacheKey(inputs: CacheKeyInputs): string {
-  return sha256(['motional-cache-2', inputs.folderHash, inputs.codeHash, inputs.oscillatorsHash, inputs.options].join('\0'));
+  return sha256(
+    ['motional-cache-2', inputs.folderHash, inputs.codeHash, inputs.oscillatorsHash, inputs.options].join('\0'),
+  );
 }
 
 /** A folder of cache entries: a header text per key, optionally with a folder of files. */
@@ -254,11 +275,13 @@ export async function pruneCache(dir: string, nowMs = Date.now()): Promise<numbe
       let stale: boolean;
       if (name.endsWith('.tmp')) stale = st.mtimeMs < nowMs - STRAY_AGE_MS;
       else if (name.endsWith('.json')) stale = st.mtimeMs < limit;
-      else if (name.endsWith('.d')) stale = !headers.has(`${name.slice(0, -2)}.json`) && st.mtimeMs < nowMs - STRAY_AGE_MS;
+      else if (name.endsWith('.d'))
+        stale = !headers.has(`${name.slice(0, -2)}.json`) && st.mtimeMs < nowMs - STRAY_AGE_MS;
       else continue;
       if (stale) {
         await rm(path, { recursive: true, force: true });
-        if (name.endsWith('.json')) await rm(join(dir, bucket, `${name.slice(0, -5)}.d`), { recursive: true, force: true });
+        if (name.endsWith('.json'))
+          await rm(join(dir, bucket, `${name.slice(0, -5)}.d`), { recursive: true, force: true });
         removed++;
       }
     }

@@ -45,15 +45,32 @@ export async function checkPaths(paths: string[], fs: FileSource = nodeFileSourc
     if (!st) {
       pathIssues.push({ severity: 'error', file: p, message: 'no such file or folder', code: 'missing' });
     } else if (st.kind === 'file') {
-      if (!/\.ya?ml$/i.test(p)) pathIssues.push({ severity: 'error', file: p, message: 'expected a part.yaml or a folder of parts, got another file', code: 'not-part' });
+      if (!/\.ya?ml$/i.test(p))
+        pathIssues.push({
+          severity: 'error',
+          file: p,
+          message: 'expected a part.yaml or a folder of parts, got another file',
+          code: 'not-part',
+        });
       else await addUnique(fs, found, p);
     } else if (st.kind === 'directory') {
       const search = await findPartFiles(fs, p);
-      if (search.files.length === 0) pathIssues.push({ severity: 'error', file: p, message: 'no part.yaml in this folder or its subfolders', code: 'no-parts' });
+      if (search.files.length === 0)
+        pathIssues.push({
+          severity: 'error',
+          file: p,
+          message: 'no part.yaml in this folder or its subfolders',
+          code: 'no-parts',
+        });
       pathIssues.push(...search.issues);
       for (const y of search.files) await addUnique(fs, found, y);
     } else {
-      pathIssues.push({ severity: 'error', file: p, message: 'expected a part.yaml or a folder, got a special file', code: 'not-part' });
+      pathIssues.push({
+        severity: 'error',
+        file: p,
+        message: 'expected a part.yaml or a folder, got a special file',
+        code: 'not-part',
+      });
     }
   }
 
@@ -68,8 +85,12 @@ export async function checkPaths(paths: string[], fs: FileSource = nodeFileSourc
       continue;
     }
     part.issues.unshift({
-      severity: 'error', file: part.yamlFile, ...part.locate(['id']), path: 'id',
-      message: `duplicate part id "${part.id}" (also in ${first.yamlFile})`, code: 'duplicate-id',
+      severity: 'error',
+      file: part.yamlFile,
+      ...part.locate(['id']),
+      path: 'id',
+      message: `duplicate part id "${part.id}" (also in ${first.yamlFile})`,
+      code: 'duplicate-id',
     });
   }
   return { parts, issues: [...parts.flatMap((p) => p.issues), ...pathIssues] };
@@ -106,7 +127,11 @@ export interface FindPartFilesResult {
  * @param fs file access
  * @param dir folder to search
  */
-export async function findPartFiles(fs: FileSource, dir: string, opts: FindPartFilesOptions = {}): Promise<FindPartFilesResult> {
+export async function findPartFiles(
+  fs: FileSource,
+  dir: string,
+  opts: FindPartFilesOptions = {},
+): Promise<FindPartFilesResult> {
   const maxDepth = opts.maxDepth ?? MAX_SEARCH_DEPTH;
   const exclude = opts.exclude ?? new Set<string>();
   const files: string[] = [];
@@ -121,7 +146,9 @@ export async function findPartFiles(fs: FileSource, dir: string, opts: FindPartF
       files.push(own);
       return;
     }
-    const names = (await fs.list(folder).catch(() => [] as string[])).filter((n) => !n.startsWith('.') && n !== 'node_modules').sort(byPath);
+    const names = (await fs.list(folder).catch(() => [] as string[]))
+      .filter((n) => !n.startsWith('.') && n !== 'node_modules')
+      .sort(byPath);
     const subs: Array<{ path: string; real: string }> = [];
     for (const name of names) {
       const path = join(folder, name);
@@ -129,14 +156,20 @@ export async function findPartFiles(fs: FileSource, dir: string, opts: FindPartF
       const subReal = await realOf(path);
       if (exclude.has(resolve(path)) || exclude.has(subReal) || searched.has(subReal)) continue;
       // a link up to a folder that holds this one: everything below it is searched already (or was not asked for)
-      if ([...chain, real].some((c) => c === subReal || c.startsWith(subReal.endsWith(sep) ? subReal : subReal + sep))) continue;
+      if ([...chain, real].some((c) => c === subReal || c.startsWith(subReal.endsWith(sep) ? subReal : subReal + sep)))
+        continue;
       subs.push({ path, real: subReal });
     }
     if (subs.length === 0) return;
     if (depth >= maxDepth) {
-      const shown = subs.slice(0, 3).map((s) => JSON.stringify(s.path.slice(folder.length + 1))).join(', ');
+      const shown = subs
+        .slice(0, 3)
+        .map((s) => JSON.stringify(s.path.slice(folder.length + 1)))
+        .join(', ');
       issues.push({
-        severity: 'error', file: folder, code: 'too-deep',
+        severity: 'error',
+        file: folder,
+        code: 'too-deep',
         message: `sub-folders not searched for part records, deeper than ${maxDepth} folder levels: ${shown}${subs.length > 3 ? ` and ${subs.length - 3} more` : ''}; move the part folders up`,
       });
       return;
@@ -162,4 +195,3 @@ async function mapLimited<T, R>(items: T[], limit: number, f: (item: T) => Promi
   await Promise.all(Array.from({ length: Math.min(limit, items.length) }, worker));
   return out;
 }
-

@@ -37,7 +37,12 @@ function recordFiles(loaded: LoadedPart): Array<{ rel: string; path: string }> {
   const seen = new Map<string, string>();
   seen.set('part.yaml', loaded.yamlFile);
   for (const s of part.samples) {
-    const names = [...s.sweeps.map((w) => w.file), s.compensation?.open, s.compensation?.short, s.compensation?.load].filter((x): x is string => !!x);
+    const names = [
+      ...s.sweeps.map((w) => w.file),
+      s.compensation?.open,
+      s.compensation?.short,
+      s.compensation?.load,
+    ].filter((x): x is string => !!x);
     for (const n of names) {
       const rel = posix.normalize(n.replace(/\\/g, '/'));
       if (rel.startsWith('..') || posix.isAbsolute(rel)) continue;
@@ -56,7 +61,11 @@ export interface MakeDownloadsOptions {
  * The download files of one part: netlist with all modes, main mode only, model Touchstone,
  * parameters JSON and CSV (default sample), the same per extra sample, and the raw record.
  */
-export function makeDownloads(loaded: LoadedPart, result: PartResult, options: MakeDownloadsOptions = {}): DownloadFile[] {
+export function makeDownloads(
+  loaded: LoadedPart,
+  result: PartResult,
+  options: MakeDownloadsOptions = {},
+): DownloadFile[] {
   const part = loaded.part;
   if (!part) return [];
   const read = options.readText ?? ((p: string) => readFileSync(p, 'utf8'));
@@ -69,7 +78,11 @@ export function makeDownloads(loaded: LoadedPart, result: PartResult, options: M
     } catch {
       continue;
     }
-    files.push({ name: `raw/${f.rel}`, label: f.rel === 'part.yaml' ? 'Part record (part.yaml)' : `Raw sweep ${f.rel}`, content });
+    files.push({
+      name: `raw/${f.rel}`,
+      label: f.rel === 'part.yaml' ? 'Part record (part.yaml)' : `Raw sweep ${f.rel}`,
+      content,
+    });
   }
   return files;
 }
@@ -93,7 +106,8 @@ async function writeAll(jobs: Array<{ path: string; content: string | Uint8Array
 /** A download name must stay inside downloads/<id>/. */
 function checkedName(name: string): string {
   const n = posix.normalize(name);
-  if (n.startsWith('..') || posix.isAbsolute(n) || n.includes('\0')) throw new Error(`emit: download name leaves its folder: ${JSON.stringify(name)}`);
+  if (n.startsWith('..') || posix.isAbsolute(n) || n.includes('\0'))
+    throw new Error(`emit: download name leaves its folder: ${JSON.stringify(name)}`);
   return n;
 }
 
@@ -108,7 +122,8 @@ export async function writeCatalogueData(outDir: string, parts: EmitPart[]): Pro
     const id = p.data.id;
     jobs.push({ path: join(outDir, 'parts', `${id}.json`), content: JSON.stringify(p.data) });
     jobs.push({ path: join(outDir, 'compare', `${id}.json`), content: JSON.stringify(makeCompareData(p.data)) });
-    for (const d of p.downloads) jobs.push({ path: join(outDir, 'downloads', id, ...checkedName(d.name).split('/')), content: d.content });
+    for (const d of p.downloads)
+      jobs.push({ path: join(outDir, 'downloads', id, ...checkedName(d.name).split('/')), content: d.content });
     jobs.push({ path: join(outDir, 'export', `${id}.json`), content: JSON.stringify(catalogueRows(p.data)) });
     index.push(makeIndexEntry(p.data));
   }
@@ -117,13 +132,18 @@ export async function writeCatalogueData(outDir: string, parts: EmitPart[]): Pro
   await writeFile(join(outDir, 'index.json'), JSON.stringify(sortById(index)));
 }
 
-
 /**
  * Write `<data>/catalogue.json` and `.csv` from the parts' `export/<id>.json`, in the order of `ids`.
  * @param filesDirOf the folder holding a part's files (its cache entry, or the data folder)
  */
-export async function writeCatalogueExport(dataDir: string, ids: string[], filesDirOf: (id: string) => string = () => dataDir): Promise<void> {
-  const rows = ids.map((id) => JSON.parse(readFileSync(join(filesDirOf(id), 'export', `${id}.json`), 'utf8')) as CatalogueRow[]);
+export async function writeCatalogueExport(
+  dataDir: string,
+  ids: string[],
+  filesDirOf: (id: string) => string = () => dataDir,
+): Promise<void> {
+  const rows = ids.map(
+    (id) => JSON.parse(readFileSync(join(filesDirOf(id), 'export', `${id}.json`), 'utf8')) as CatalogueRow[],
+  );
   const data = catalogueExportOf(rows);
   await writeFile(join(dataDir, 'catalogue.json'), JSON.stringify(data));
   await writeFile(join(dataDir, 'catalogue.csv'), catalogueCsv(data));

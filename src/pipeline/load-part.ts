@@ -14,7 +14,13 @@
  */
 import { dirname, join } from 'node:path';
 import { InputError, type Issue } from '../lib/issues.ts';
-import { formatFieldPath, MAX_PART_YAML_BYTES, parsePartYaml, type FieldPath, type FieldPosition } from '../lib/io/part-yaml.ts';
+import {
+  formatFieldPath,
+  MAX_PART_YAML_BYTES,
+  parsePartYaml,
+  type FieldPath,
+  type FieldPosition,
+} from '../lib/io/part-yaml.ts';
 import { parseTouchstone } from '../lib/io/touchstone.ts';
 import { parseSweepCsv, type CsvLayout } from '../lib/io/sweep-csv.ts';
 import { MAX_SWEEP_BYTES } from '../lib/io/limits.ts';
@@ -70,16 +76,24 @@ export async function loadPart(pathToYamlOrFolder: string, fs: FileSource = node
   const yamlFile = isFolder ? join(pathToYamlOrFolder, 'part.yaml') : pathToYamlOrFolder;
   const folder = isFolder ? pathToYamlOrFolder : dirname(pathToYamlOrFolder);
   const loaded: LoadedPart = { yamlFile, folder, issues: [], sweeps: [], locate: () => ({}) };
-  const fileIssue = (message: string, code: string) => loaded.issues.push({ severity: 'error', file: yamlFile, message, code });
+  const fileIssue = (message: string, code: string) =>
+    loaded.issues.push({ severity: 'error', file: yamlFile, message, code });
 
   const st = isFolder ? await fs.stat(yamlFile) : given;
   if (!st) {
     fileIssue(isFolder ? 'no part.yaml in this folder' : 'file not found', 'missing');
     return loaded;
   }
-  if (st.kind !== 'file') return (fileIssue('expected a part.yaml file, got a folder or special file', 'not-file'), loaded);
+  if (st.kind !== 'file')
+    return (fileIssue('expected a part.yaml file, got a folder or special file', 'not-file'), loaded);
   if (st.sizeBytes > MAX_PART_YAML_BYTES) {
-    return (fileIssue(`file is ${st.sizeBytes} bytes, over the limit of ${MAX_PART_YAML_BYTES} bytes for a part record`, 'size'), loaded);
+    return (
+      fileIssue(
+        `file is ${st.sizeBytes} bytes, over the limit of ${MAX_PART_YAML_BYTES} bytes for a part record`,
+        'size',
+      ),
+      loaded
+    );
   }
   let text: string;
   try {
@@ -96,22 +110,46 @@ export async function loadPart(pathToYamlOrFolder: string, fs: FileSource = node
   if (parsed.part) loaded.id = parsed.part.id;
   else if (typeof rawId === 'string' || typeof rawId === 'number') loaded.id = String(rawId);
 
-  const samples: Array<[number, Sample]> = parsed.part ? parsed.part.samples.map((s, i) => [i, s]) : validSamplesOf(parsed.data);
+  const samples: Array<[number, Sample]> = parsed.part
+    ? parsed.part.samples.map((s, i) => [i, s])
+    : validSamplesOf(parsed.data);
   const at = (path: FieldPath, message: string, code: string, severity: Issue['severity'] = 'error') =>
-    loaded.issues.push({ severity, file: yamlFile, ...parsed.locate(path), path: formatFieldPath(path), message, code });
+    loaded.issues.push({
+      severity,
+      file: yamlFile,
+      ...parsed.locate(path),
+      path: formatFieldPath(path),
+      message,
+      code,
+    });
 
   reportCaseCollisions(samples, at);
   const reader = new SweepReader(folder, fs, at, loaded.issues);
   for (const [i, sample] of samples) {
     for (const [j, ref] of sample.sweeps.entries()) {
       const sweepPath: FieldPath = ['samples', i, 'sweeps', j];
-      const layout = ref.headerLine !== undefined || ref.columns !== undefined ? { headerLine: ref.headerLine, columns: ref.columns } : undefined;
+      const layout =
+        ref.headerLine !== undefined || ref.columns !== undefined
+          ? { headerLine: ref.headerLine, columns: ref.columns }
+          : undefined;
       const read = await reader.read(ref.file, ref.fixture, [...sweepPath, 'file'], [...sweepPath, 'fixture'], layout);
-      const sweep: LoadedSweep = { sampleId: sample.id, index: j, ref, file: read.file, network: read.network, impedance: read.impedance };
+      const sweep: LoadedSweep = {
+        sampleId: sample.id,
+        index: j,
+        ref,
+        file: read.file,
+        network: read.network,
+        impedance: read.impedance,
+      };
       if (read.network && ref.referenceImpedanceOhm !== undefined) {
         const fileZ0 = read.network.z0Ohm[0];
         if (Math.abs(fileZ0 - ref.referenceImpedanceOhm) > Z0_REL_TOL * fileZ0) {
-          at([...sweepPath, 'referenceImpedance'], `referenceImpedance ${ref.referenceImpedanceOhm} ohm differs from the reference ${fileZ0} ohm in ${ref.file}; the file's value is used`, 'reference-impedance', 'warning');
+          at(
+            [...sweepPath, 'referenceImpedance'],
+            `referenceImpedance ${ref.referenceImpedanceOhm} ohm differs from the reference ${fileZ0} ohm in ${ref.file}; the file's value is used`,
+            'reference-impedance',
+            'warning',
+          );
         }
       }
       const comp = sample.compensation;
@@ -124,14 +162,20 @@ export async function loadPart(pathToYamlOrFolder: string, fs: FileSource = node
         const fixturePath: FieldPath = comp.fixture ? [...compPath, 'fixture'] : ['samples', i, 'sweeps', 0, 'fixture'];
         const open = await reader.read(comp.open, compFixture, [...compPath, 'open'], fixturePath);
         const short = await reader.read(comp.short, compFixture, [...compPath, 'short'], fixturePath);
-        const load = comp.load !== undefined ? await reader.read(comp.load, compFixture, [...compPath, 'load'], fixturePath) : undefined;
+        const load =
+          comp.load !== undefined
+            ? await reader.read(comp.load, compFixture, [...compPath, 'load'], fixturePath)
+            : undefined;
         if (sweep.impedance && open.impedance && short.impedance && (!load || load.impedance)) {
           const z = sweep.impedance;
-          sweep.impedance = reader.guard(() =>
-            load?.impedance && comp.loadResistanceOhm !== undefined
-              ? compensateOpenShortLoad(z, open.impedance!, short.impedance!, load.impedance, comp.loadResistanceOhm)
-              : compensateOpenShort(z, open.impedance!, short.impedance!),
-          read.file, { path: compPath, name: '' });
+          sweep.impedance = reader.guard(
+            () =>
+              load?.impedance && comp.loadResistanceOhm !== undefined
+                ? compensateOpenShortLoad(z, open.impedance!, short.impedance!, load.impedance, comp.loadResistanceOhm)
+                : compensateOpenShort(z, open.impedance!, short.impedance!),
+            read.file,
+            { path: compPath, name: '' },
+          );
         } else {
           sweep.impedance = undefined;
         }
@@ -168,7 +212,11 @@ function reportCaseCollisions(samples: Array<[number, Sample]>, at: At): void {
   }
   for (const [first, later] of findCaseCollisions(refs.map((r) => r.name))) {
     const ref = refs.find((r) => r.name === later)!;
-    at(ref.path, `"${later}" and "${first}" differ only by letter case or Unicode normalisation; they are one file on some systems and two on others, rename one`, 'path-case');
+    at(
+      ref.path,
+      `"${later}" and "${first}" differ only by letter case or Unicode normalisation; they are one file on some systems and two on others, rename one`,
+      'path-case',
+    );
   }
 }
 
@@ -188,7 +236,13 @@ class SweepReader {
     private issues: Issue[],
   ) {}
 
-  read(name: string, fixture: Fixture, filePath: FieldPath, fixturePath: FieldPath, layout?: CsvLayout): Promise<ReadResult> {
+  read(
+    name: string,
+    fixture: Fixture,
+    filePath: FieldPath,
+    fixturePath: FieldPath,
+    layout?: CsvLayout,
+  ): Promise<ReadResult> {
     const key = `${fixture}\u0000${name}\u0000${layout ? JSON.stringify(layout) : ''}`;
     let result = this.cache.get(key);
     if (!result) {
@@ -198,7 +252,13 @@ class SweepReader {
     return result;
   }
 
-  private async readOnce(name: string, fixture: Fixture, filePath: FieldPath, fixturePath: FieldPath, layout?: CsvLayout): Promise<ReadResult> {
+  private async readOnce(
+    name: string,
+    fixture: Fixture,
+    filePath: FieldPath,
+    fixturePath: FieldPath,
+    layout?: CsvLayout,
+  ): Promise<ReadResult> {
     const fallback = join(this.folder, name);
     const format = sweepFormatOf(name);
     if (!format) {
@@ -212,7 +272,12 @@ class SweepReader {
     }
     const file = resolved.path;
     if (resolved.sizeBytes > MAX_SWEEP_BYTES) {
-      this.issues.push({ severity: 'error', file, message: `file is ${resolved.sizeBytes} bytes, over the limit of ${MAX_SWEEP_BYTES} bytes`, code: 'size' });
+      this.issues.push({
+        severity: 'error',
+        file,
+        message: `file is ${resolved.sizeBytes} bytes, over the limit of ${MAX_SWEEP_BYTES} bytes`,
+        code: 'size',
+      });
       return { file };
     }
     let text: string;
@@ -224,7 +289,11 @@ class SweepReader {
     }
     if (format === 'csv') {
       if (fixture !== 'impedance') {
-        this.at(fixturePath, `${name} is a CSV impedance sweep; expected fixture "impedance", got "${fixture}"`, 'fixture');
+        this.at(
+          fixturePath,
+          `${name} is a CSV impedance sweep; expected fixture "impedance", got "${fixture}"`,
+          'fixture',
+        );
       }
       const impedance = this.guard(() => parseSweepCsv(text, file, layout), file);
       return { file, impedance: fixture === 'impedance' ? impedance : undefined };
@@ -246,11 +315,21 @@ class SweepReader {
       if (e instanceof InputError) {
         for (const issue of e.issues) {
           if (relocate && issue.line === undefined) {
-            this.at(relocate.path, relocate.name ? `${relocate.name}: ${issue.message}` : issue.message, issue.code ?? 'fixture', issue.severity);
+            this.at(
+              relocate.path,
+              relocate.name ? `${relocate.name}: ${issue.message}` : issue.message,
+              issue.code ?? 'fixture',
+              issue.severity,
+            );
           } else this.issues.push(issue);
         }
       } else {
-        this.issues.push({ severity: 'error', file, message: `internal error while reading: ${e instanceof Error ? e.message : String(e)}`, code: 'internal' });
+        this.issues.push({
+          severity: 'error',
+          file,
+          message: `internal error while reading: ${e instanceof Error ? e.message : String(e)}`,
+          code: 'internal',
+        });
       }
       return undefined;
     }

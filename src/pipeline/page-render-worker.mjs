@@ -82,7 +82,12 @@ async function render(container, pages, mode, patch, outDir) {
       if (mode === 'probe' && i > 0 && i !== paths.length - 1) continue;
       const path = fill(route, entry.params);
       const request = new Request(new URL(`${prefix}${path}`, origin));
-      let html = await container.renderToString(page.default, { params: entry.params ?? {}, props: entry.props ?? {}, request, partial: false });
+      let html = await container.renderToString(page.default, {
+        params: entry.params ?? {},
+        props: entry.props ?? {},
+        request,
+        partial: false,
+      });
       const rel = fileOf(path);
       if (mode === 'probe') {
         probes.push({ url, rel, html });
@@ -101,5 +106,6 @@ async function render(container, pages, mode, patch, outDir) {
 
 main().then(
   (result) => parentPort.postMessage({ ok: true, result }),
-  (err) => parentPort.postMessage({ ok: false, error: err instanceof Error ? (err.stack ?? err.message) : String(err) }),
+  (err) =>
+    parentPort.postMessage({ ok: false, error: err instanceof Error ? (err.stack ?? err.message) : String(err) }),
 );

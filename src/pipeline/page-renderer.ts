@@ -88,7 +88,10 @@ const SCRIPT_SRC = /<script type="module" src="([^"]*)"><\/script>/g;
  * The patch that turns a page rendered by the container into the page Astro built, or a reason
  * why there is none.
  */
-export function learnPatch(container: string, built: string): { styles: string; scripts: Array<[string, string]> } | { reason: string } {
+export function learnPatch(
+  container: string,
+  built: string,
+): { styles: string; scripts: Array<[string, string]> } | { reason: string } {
   const headEnd = built.indexOf('</head>');
   if (headEnd < 0) return { reason: 'no </head>' };
   const builtStyles = built.slice(0, headEnd).match(STYLESHEET) ?? [];
@@ -104,7 +107,9 @@ export function learnPatch(container: string, built: string): { styles: string; 
   if (patched !== built) {
     let i = 0;
     while (i < patched.length && patched[i] === built[i]) i++;
-    return { reason: `differs at character ${i}: ${JSON.stringify(patched.slice(i, i + 60))} against ${JSON.stringify(built.slice(i, i + 60))}` };
+    return {
+      reason: `differs at character ${i}: ${JSON.stringify(patched.slice(i, i + 60))} against ${JSON.stringify(built.slice(i, i + 60))}`,
+    };
   }
   return { styles, scripts };
 }
@@ -119,7 +124,11 @@ export interface PageEnv {
 }
 
 function envOf(p: PageEnv): Record<string, string> {
-  return { MOTIONAL_DATA: p.dataDir, MOTIONAL_BASE: p.basePath, ...(p.pagesFile ? { [p.pagesEnvName]: p.pagesFile } : {}) };
+  return {
+    MOTIONAL_DATA: p.dataDir,
+    MOTIONAL_BASE: p.basePath,
+    ...(p.pagesFile ? { [p.pagesEnvName]: p.pagesFile } : {}),
+  };
 }
 
 /**
@@ -127,10 +136,19 @@ function envOf(p: PageEnv): Record<string, string> {
  * when they render it exactly, store them as the renderer of this site code and base path.
  * @returns undefined when stored, else why not
  */
-export async function adoptRenderer(keptDir: string, siteDir: string, siteHash: string, env: PageEnv): Promise<string | undefined> {
+export async function adoptRenderer(
+  keptDir: string,
+  siteDir: string,
+  siteHash: string,
+  env: PageEnv,
+): Promise<string | undefined> {
   try {
     if (!(await stat(join(keptDir, 'pages')).catch(() => undefined))) return 'the site build kept no server chunks';
-    const { probes } = await runWorker<{ probes: Array<{ url: string; rel: string; html: string }> }>({ rendererDir: keptDir, mode: 'probe', env: envOf(env) });
+    const { probes } = await runWorker<{ probes: Array<{ url: string; rel: string; html: string }> }>({
+      rendererDir: keptDir,
+      mode: 'probe',
+      env: envOf(env),
+    });
     const patch: RoutePatch = {};
     for (const p of probes) {
       const built = await readFile(join(siteDir, ...p.rel.split('/')), 'utf8').catch(() => undefined);
@@ -138,7 +156,8 @@ export async function adoptRenderer(keptDir: string, siteDir: string, siteHash: 
       const learned = learnPatch(p.html, built);
       if ('reason' in learned) return `${p.rel}: ${learned.reason}`;
       const known = patch[p.url];
-      if (known && JSON.stringify(known) !== JSON.stringify(learned)) return `${p.url}: pages of one route need different patches`;
+      if (known && JSON.stringify(known) !== JSON.stringify(learned))
+        return `${p.url}: pages of one route need different patches`;
       patch[p.url] = learned;
     }
     await writeFile(join(keptDir, PATCH_FILE), JSON.stringify(patch));
@@ -173,7 +192,10 @@ export async function startRenderer(siteHash: string, basePath: string): Promise
   const dir = rendererDir(siteHash, basePath);
   const patch = JSON.parse(await readFile(join(dir, PATCH_FILE), 'utf8')) as RoutePatch;
   let worker: Worker | undefined;
-  const done = runWorker<{ written: string[] }>({ rendererDir: dir, mode: 'render', patch, env: {} }, (w) => (worker = w));
+  const done = runWorker<{ written: string[] }>(
+    { rendererDir: dir, mode: 'render', patch, env: {} },
+    (w) => (worker = w),
+  );
   done.catch(() => undefined); // awaited by render()
   return {
     async render(outDir, env) {

@@ -111,7 +111,8 @@ export function planPartialSite(
   previous: OutputManifest | undefined,
   current: { siteHash: string; base: string; parts: Record<string, string | undefined> },
 ): PartialPlan | undefined {
-  if (!previous || previous.kind !== 'site' || previous.siteHash !== current.siteHash || previous.base !== current.base) return undefined;
+  if (!previous || previous.kind !== 'site' || previous.siteHash !== current.siteHash || previous.base !== current.base)
+    return undefined;
   const ids = Object.keys(current.parts);
   if (ids.length === 0) return undefined;
   const changed = ids.filter((id) => {
@@ -131,7 +132,8 @@ export function sitePathsOf(id: string): string[] {
 /** True when a site-relative path belongs to one of the parts (see {@link sitePathsOf}). */
 export function belongsTo(rel: string, ids: ReadonlySet<string>): boolean {
   const [top, second, third] = rel.split('/');
-  if ((top === 'parts' || top === 'downloads') && second !== undefined && rel.length > top.length + second.length + 1) return ids.has(second);
+  if ((top === 'parts' || top === 'downloads') && second !== undefined && rel.length > top.length + second.length + 1)
+    return ids.has(second);
   if (top === 'data' && second === 'compare' && third?.endsWith('.json')) return ids.has(third.slice(0, -5));
   return false;
 }

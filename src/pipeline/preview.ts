@@ -40,7 +40,9 @@ export interface Preview {
 /** Start the preview: first build, server, watcher. */
 export async function startPreview(options: PreviewOptions = {}): Promise<Preview> {
   const contentDir = resolve(options.contentDir ?? 'content');
-  const outDir = resolve(options.outDir ?? join(PROJECT_ROOT, '.motional', 'preview', sha256(contentDir).slice(0, 16), 'site'));
+  const outDir = resolve(
+    options.outDir ?? join(PROJECT_ROOT, '.motional', 'preview', sha256(contentDir).slice(0, 16), 'site'),
+  );
   const settleMs = options.settleMs ?? 60;
   let running: Promise<void> | undefined;
   let pending = false;
@@ -50,7 +52,15 @@ export async function startPreview(options: PreviewOptions = {}): Promise<Previe
 
   const buildOnce = async () => {
     const t0 = performance.now();
-    const summary = await buildCatalogue({ contentDir, outDir, base: options.base, cacheDir: options.cacheDir, problemPages: true, progress: false, log: () => undefined });
+    const summary = await buildCatalogue({
+      contentDir,
+      outDir,
+      base: options.base,
+      cacheDir: options.cacheDir,
+      problemPages: true,
+      progress: false,
+      log: () => undefined,
+    });
     options.onBuild?.(summary, performance.now() - t0);
   };
   const run = (): Promise<void> => {

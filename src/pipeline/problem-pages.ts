@@ -21,7 +21,8 @@ const SAFE_SEGMENT = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
 
 /** Where a record's problems are shown: its id, else its folder's name; undefined when neither is a safe path. */
 export function problemPageId(p: RecordProblems): string | undefined {
-  for (const candidate of [p.id, basename(dirname(p.yamlFile))]) if (candidate && SAFE_SEGMENT.test(candidate)) return candidate;
+  for (const candidate of [p.id, basename(dirname(p.yamlFile))])
+    if (candidate && SAFE_SEGMENT.test(candidate)) return candidate;
   return undefined;
 }
 
@@ -29,7 +30,9 @@ const escapeHtml = (text: string) => text.replace(/[&<>"']/g, (c) => `&#${c.char
 
 /** The page of one record's problems (plain HTML, no script, the site's CSP). */
 export function problemPageHtml(p: RecordProblems, id: string, basePath: string): string {
-  const items = p.issues.map((i) => `<li class="${i.severity}"><code>${escapeHtml(formatIssue(i))}</code></li>`).join('\n');
+  const items = p.issues
+    .map((i) => `<li class="${i.severity}"><code>${escapeHtml(formatIssue(i))}</code></li>`)
+    .join('\n');
   return `<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8">
 <meta http-equiv="Content-Security-Policy" content="default-src 'self'; script-src 'self'; style-src 'self'; object-src 'none'; base-uri 'self'">
@@ -53,7 +56,12 @@ ${items}
  * Records whose id is published by a valid record (a duplicate) keep the valid part's page.
  * @returns the ids that got a page
  */
-export async function writeProblemPages(siteDir: string, problems: RecordProblems[], published: ReadonlySet<string>, basePath: string): Promise<string[]> {
+export async function writeProblemPages(
+  siteDir: string,
+  problems: RecordProblems[],
+  published: ReadonlySet<string>,
+  basePath: string,
+): Promise<string[]> {
   const written: string[] = [];
   for (const p of problems) {
     const id = problemPageId(p);

@@ -9,7 +9,13 @@ import { join } from 'node:path';
 import type { Issue } from '../lib/issues.ts';
 import { parseOscillatorsYaml } from '../lib/osc/oscillators-yaml.ts';
 import { BuildFailure } from './build-failure.ts';
-import { createBuildTaskRunner, createRecordLookup, type BuildTask, type BuildTaskContext, type BuildTaskResult } from './build-task.ts';
+import {
+  createBuildTaskRunner,
+  createRecordLookup,
+  type BuildTask,
+  type BuildTaskContext,
+  type BuildTaskResult,
+} from './build-task.ts';
 import { loadFingerprintMemo, sha256 } from './cache.ts';
 import { createProgress, type ProgressStream } from './progress.ts';
 import { PROJECT_ROOT } from './project-root.ts';
@@ -47,7 +53,12 @@ export async function runRecords(
   /** Process every record in full even after an invalid one (preview: the others are still shown). */
   keepGoing = false,
 ): Promise<{ results: BuildTaskResult[]; threads: number }> {
-  const progress = createProgress({ label: 'records', total: records.length, stream: progressStream, silent: !progressStream });
+  const progress = createProgress({
+    label: 'records',
+    total: records.length,
+    stream: progressStream,
+    silent: !progressStream,
+  });
   const results = new Array<BuildTaskResult>(records.length);
   let failed = validateOnly;
   let invalidFound = false;
@@ -79,9 +90,14 @@ export async function runRecords(
   // The main thread always takes tasks too, plus jobs − 1 worker threads when there is enough
   // to do; the threads load the worker code bundled into one file (worker-bundle.ts).
   const threads = jobs > 1 && todo.length >= MIN_RECORDS_FOR_THREADS ? Math.min(jobs - 1, todo.length - 1) : 0;
-  const pool = threads > 0
-    ? createWorkerPool<BuildTask, BuildTaskResult>({ moduleUrl: await bundledWorker(new URL('./build-worker.ts', import.meta.url)), size: threads, workerData: context })
-    : undefined;
+  const pool =
+    threads > 0
+      ? createWorkerPool<BuildTask, BuildTaskResult>({
+          moduleUrl: await bundledWorker(new URL('./build-worker.ts', import.meta.url)),
+          size: threads,
+          workerData: context,
+        })
+      : undefined;
   let next = 0;
   let halted = false; // a lane failed: the others stop after their current task
   const lane = (run: (task: BuildTask) => Promise<BuildTaskResult>) => async (stopped: () => boolean) => {
@@ -105,10 +121,21 @@ export async function runRecords(
   try {
     const lanes: Array<Promise<void>> = [];
     // two tasks per worker keep it busy while results travel back
-    if (pool) lanes.push(runLanes(Math.min(todo.length, threads * 2), lane((task) => pool.run(task))));
+    if (pool)
+      lanes.push(
+        runLanes(
+          Math.min(todo.length, threads * 2),
+          lane((task) => pool.run(task)),
+        ),
+      );
     if (todo.length > 0) {
       const runner = await createBuildTaskRunner(context);
-      lanes.push(runLanes(1, lane((task) => runner.run(task))));
+      lanes.push(
+        runLanes(
+          1,
+          lane((task) => runner.run(task)),
+        ),
+      );
     }
     const settled = await Promise.allSettled(lanes);
     const rejected = settled.find((r): r is PromiseRejectedResult => r.status === 'rejected');
@@ -128,7 +155,15 @@ export function duplicateIds(results: BuildTaskResult[]): Issue[] {
     if (r.id === undefined) continue;
     const seen = first.get(r.id);
     if (seen === undefined) first.set(r.id, r.yamlFile);
-    else issues.push({ severity: 'error', file: r.yamlFile, line: r.idLine, path: 'id', message: `duplicate part id "${r.id}" (also in ${seen})`, code: 'duplicate-id' });
+    else
+      issues.push({
+        severity: 'error',
+        file: r.yamlFile,
+        line: r.idLine,
+        path: 'id',
+        message: `duplicate part id "${r.id}" (also in ${seen})`,
+        code: 'duplicate-id',
+      });
   }
   return issues;
 }

@@ -29,8 +29,12 @@ export type SweepFileFormat = 'touchstone' | 'csv';
 
 /** Accepted sweep file endings: Touchstone v1 `.s1p`/`.s2p`, v2 `.ts`; CSV/TSV (`.txt` read as CSV/TSV). */
 export const SWEEP_EXTENSIONS: Readonly<Record<string, SweepFileFormat>> = {
-  '.s1p': 'touchstone', '.s2p': 'touchstone', '.ts': 'touchstone',
-  '.csv': 'csv', '.tsv': 'csv', '.txt': 'csv',
+  '.s1p': 'touchstone',
+  '.s2p': 'touchstone',
+  '.ts': 'touchstone',
+  '.csv': 'csv',
+  '.tsv': 'csv',
+  '.txt': 'csv',
 };
 
 /** The reader for a sweep file name, or undefined when its ending is not accepted. */
@@ -46,8 +50,7 @@ export function badExtensionMessage(name: string): string {
 
 export type NameCheck = { ok: true; name: string } | { ok: false; message: string; code: string };
 export type SafePathResult =
-  | { ok: true; path: string; sizeBytes: number }
-  | { ok: false; message: string; code: string };
+  { ok: true; path: string; sizeBytes: number } | { ok: false; message: string; code: string };
 
 // Characters that render as nothing or reorder the text around them.
 const INVISIBLE = /[\u061c\u200b-\u200f\u202a-\u202e\u2060-\u2064\u2066-\u2069\ufeff]/u;
@@ -74,14 +77,23 @@ export function checkPartFileName(name: string): NameCheck {
   const control = CONTROL.exec(name);
   if (control) return bad(`file name ${showName(name)} contains control character ${codePoint(control[0])}`);
   const invisible = INVISIBLE.exec(name);
-  if (invisible) return bad(`file name ${showName(name)} contains invisible or direction-changing character ${codePoint(invisible[0])}`);
+  if (invisible)
+    return bad(
+      `file name ${showName(name)} contains invisible or direction-changing character ${codePoint(invisible[0])}`,
+    );
   if (name.trim() !== name) return bad(`file name ${showName(name)} has leading or trailing spaces`);
   if (name.includes('\\')) return bad(`file name ${showName(name)} contains a backslash; use '/' between folders`);
-  if (name.startsWith('/')) return bad(`absolute path ${showName(name)} not allowed; name a file inside the part folder`, 'path-escape');
-  if (/^[A-Za-z]:/.test(name)) return bad(`drive letter in ${showName(name)} not allowed; name a file inside the part folder`, 'path-escape');
+  if (name.startsWith('/'))
+    return bad(`absolute path ${showName(name)} not allowed; name a file inside the part folder`, 'path-escape');
+  if (/^[A-Za-z]:/.test(name))
+    return bad(`drive letter in ${showName(name)} not allowed; name a file inside the part folder`, 'path-escape');
   if (name.includes(':')) return bad(`file name ${showName(name)} contains ':'`);
   const segments = name.split('/');
-  if (segments.includes('..')) return bad(`'..' in ${showName(name)} not allowed; a record may only name files inside its own folder`, 'path-escape');
+  if (segments.includes('..'))
+    return bad(
+      `'..' in ${showName(name)} not allowed; a record may only name files inside its own folder`,
+      'path-escape',
+    );
   if (segments[segments.length - 1] === '' || segments[segments.length - 1] === '.') {
     return bad(`${showName(name)} names a folder, expected a file`);
   }
@@ -95,13 +107,22 @@ export function checkPartFileName(name: string): NameCheck {
  * @param name the file name as written in the record
  * @param fs file access (default node:fs)
  */
-export async function resolveInPartFolder(folder: string, name: string, fs: FileSource = nodeFileSource): Promise<SafePathResult> {
+export async function resolveInPartFolder(
+  folder: string,
+  name: string,
+  fs: FileSource = nodeFileSource,
+): Promise<SafePathResult> {
   const checked = checkPartFileName(name);
   if (!checked.ok) return checked;
   const path = join(folder, checked.name);
   const st = await fs.stat(path);
   if (!st) return { ok: false, message: await missingMessage(fs, path, name), code: 'missing' };
-  if (st.kind !== 'file') return { ok: false, message: `${showName(name)} is ${st.kind === 'directory' ? 'a folder' : 'not a regular file'}, expected a file`, code: 'not-file' };
+  if (st.kind !== 'file')
+    return {
+      ok: false,
+      message: `${showName(name)} is ${st.kind === 'directory' ? 'a folder' : 'not a regular file'}, expected a file`,
+      code: 'not-file',
+    };
   let realFolder: string;
   let realFile: string;
   try {
@@ -110,13 +131,22 @@ export async function resolveInPartFolder(folder: string, name: string, fs: File
     return { ok: false, message: `file ${showName(name)} not found in the part folder`, code: 'missing' };
   }
   if (!realFile.startsWith(realFolder.endsWith(sep) ? realFolder : realFolder + sep)) {
-    return { ok: false, message: `${showName(name)} is a link that leads outside the part folder`, code: 'path-escape' };
+    return {
+      ok: false,
+      message: `${showName(name)} is a link that leads outside the part folder`,
+      code: 'path-escape',
+    };
   }
   const entries = await fs.list(dirname(path)).catch(() => [] as string[]);
   const base = basename(path);
   if (!entries.includes(base)) {
     const onDisk = entries.find((e) => e.toLowerCase() === base.toLowerCase());
-    if (onDisk) return { ok: false, message: `letter case of ${showName(name)} differs from the file on disk "${onDisk}"`, code: 'path-case' };
+    if (onDisk)
+      return {
+        ok: false,
+        message: `letter case of ${showName(name)} differs from the file on disk "${onDisk}"`,
+        code: 'path-case',
+      };
   }
   return { ok: true, path, sizeBytes: st.sizeBytes };
 }

@@ -99,7 +99,11 @@ function sendText(res: ServerResponse, status: number, text: string, headers: Re
 async function sendNotFoundPage(root: string, res: ServerResponse): Promise<void> {
   const page = await readFile(join(root, '404.html')).catch(() => undefined);
   if (!page) return sendText(res, 404, 'not found (the site has no 404.html)');
-  res.writeHead(404, { 'content-type': 'text/html; charset=utf-8', 'content-length': String(page.length), 'cache-control': 'no-cache' });
+  res.writeHead(404, {
+    'content-type': 'text/html; charset=utf-8',
+    'content-length': String(page.length),
+    'cache-control': 'no-cache',
+  });
   res.end(page);
 }
 
@@ -114,7 +118,8 @@ function makeHandler(root: string, base: string) {
     },
   });
   return (req: IncomingMessage, res: ServerResponse): void => {
-    if (req.method !== 'GET' && req.method !== 'HEAD') return sendText(res, 405, 'method not allowed', { allow: 'GET, HEAD' });
+    if (req.method !== 'GET' && req.method !== 'HEAD')
+      return sendText(res, 405, 'method not allowed', { allow: 'GET, HEAD' });
     const pathname = (req.url ?? '/').split(/[?#]/, 1)[0];
     const refusal = refusePath(pathname);
     if (refusal) return sendText(res, 400, `bad request path: ${refusal}`);
@@ -152,7 +157,10 @@ export async function startStaticServer(options: StaticServerOptions): Promise<S
   const root = resolve(options.root);
   const base = normalizeBase(options.base);
   // the base is the Location of the redirects: a backslash would make it leave the site
-  if (/[\\?#\s\0]/.test(base)) throw new Error(`static server: base path "${options.base}" may not hold a backslash, "?", "#", NUL or white space`);
+  if (/[\\?#\s\0]/.test(base))
+    throw new Error(
+      `static server: base path "${options.base}" may not hold a backslash, "?", "#", NUL or white space`,
+    );
   const host = options.host ?? '127.0.0.1';
   const first = options.port ?? 4321;
   const attempts = first === 0 ? 1 : Math.max(1, options.portAttempts ?? 20);
@@ -173,10 +181,11 @@ export async function startStaticServer(options: StaticServerOptions): Promise<S
         url: `http://${host}:${port}${base}`,
         port,
         server,
-        close: () => new Promise((done) => {
-          server.close(() => done());
-          server.closeAllConnections();
-        }),
+        close: () =>
+          new Promise((done) => {
+            server.close(() => done());
+            server.closeAllConnections();
+          }),
       };
     } catch (err) {
       lastError = err;

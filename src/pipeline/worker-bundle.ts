@@ -57,7 +57,9 @@ export async function bundledWorker(moduleUrl: URL): Promise<URL> {
 
 async function prune(): Promise<void> {
   const names = (await readdir(BUNDLES).catch(() => [] as string[])).filter((n) => n.endsWith('.mjs'));
-  const dated = await Promise.all(names.map(async (n) => ({ n, t: (await stat(join(BUNDLES, n)).catch(() => undefined))?.mtimeMs ?? 0 })));
+  const dated = await Promise.all(
+    names.map(async (n) => ({ n, t: (await stat(join(BUNDLES, n)).catch(() => undefined))?.mtimeMs ?? 0 })),
+  );
   dated.sort((a, b) => b.t - a.t);
   for (const d of dated.slice(KEEP_BUNDLES)) await rm(join(BUNDLES, d.n), { force: true });
 }

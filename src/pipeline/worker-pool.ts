@@ -77,7 +77,11 @@ export function createWorkerPool<T, R>(options: WorkerPoolOptions): WorkerPool<T
   };
 
   for (let i = 0; i < size; i++) {
-    const worker = new Worker(BOOTSTRAP_URL, { argv: [options.moduleUrl.href], workerData: options.workerData, execArgv: [] });
+    const worker = new Worker(BOOTSTRAP_URL, {
+      argv: [options.moduleUrl.href],
+      workerData: options.workerData,
+      execArgv: [],
+    });
     worker.on('message', (reply: Reply) => {
       const job = busy.get(worker);
       if (!job || job.id !== reply.id) return;

@@ -31,7 +31,12 @@ function headerCells(table: HTMLTableElement, circuit: string): void {
 }
 
 /** Show (or remove) the fit columns for `circuit` on the listed rows. */
-export function showFits(table: HTMLTableElement, rows: HTMLTableRowElement[], byId: Map<string, IndexEntry>, circuit: string): void {
+export function showFits(
+  table: HTMLTableElement,
+  rows: HTMLTableRowElement[],
+  byId: Map<string, IndexEntry>,
+  circuit: string,
+): void {
   headerCells(table, circuit);
   for (const tr of rows) {
     let cells = tr.querySelectorAll<HTMLTableCellElement>(`td.${COL}`);

@@ -20,7 +20,13 @@ function update(): void {
     button.disabled = picked.length < 2;
     button.textContent = `Compare ${picked.length} part${picked.length === 1 ? '' : 's'}`;
   }
-  if (status) status.textContent = picked.length >= MAX_COMPARE ? `${MAX_COMPARE} parts picked, the most a comparison shows` : picked.length < 2 ? 'Pick two to four parts' : '';
+  if (status)
+    status.textContent =
+      picked.length >= MAX_COMPARE
+        ? `${MAX_COMPARE} parts picked, the most a comparison shows`
+        : picked.length < 2
+          ? 'Pick two to four parts'
+          : '';
 }
 
 if (table && button) {
@@ -28,7 +34,9 @@ if (table && button) {
     if ((e.target as HTMLElement).classList.contains('pick')) update();
   });
   button.addEventListener('click', () => {
-    const ids = boxes().filter((b) => b.checked).map((b) => encodeURIComponent(b.value));
+    const ids = boxes()
+      .filter((b) => b.checked)
+      .map((b) => encodeURIComponent(b.value));
     if (ids.length >= 2) location.href = `${document.body.dataset.base ?? '/'}compare/?parts=${ids.join(',')}`;
   });
   update();

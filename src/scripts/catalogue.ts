@@ -3,7 +3,16 @@
  * filters, sortable columns, result count, and the view kept in the URL (replaceState).
  * Rows are rendered at build time; this script only hides, shows and reorders them.
  */
-import { compareEntries, compileFilters, emptyFilterState, readFilterState, writeFilterState, SORT_KEYS, type FilterState, type SortKey } from '../site/filters.ts';
+import {
+  compareEntries,
+  compileFilters,
+  emptyFilterState,
+  readFilterState,
+  writeFilterState,
+  SORT_KEYS,
+  type FilterState,
+  type SortKey,
+} from '../site/filters.ts';
 import type { IndexEntry } from '../site/types.ts';
 import { createSearcher } from '../site/search.ts';
 import { showFits } from './catalogue-fits.ts';
@@ -39,7 +48,9 @@ async function start(): Promise<void> {
     points.set(id, [...(points.get(id) ?? []), el]);
   });
   document.querySelectorAll<SVGElement>('circle.point[data-href]').forEach((c) => {
-    c.addEventListener('click', () => { location.href = c.dataset.href ?? location.href; });
+    c.addEventListener('click', () => {
+      location.href = c.dataset.href ?? location.href;
+    });
   });
   const searcher = createSearcher(entries);
   const byId = new Map(entries.map((e) => [e.id, e]));
@@ -80,10 +91,14 @@ async function start(): Promise<void> {
     const matched = searcher.search(state.q);
     const visible = entries.filter((e) => (!matched || matched.has(e.id)) && test(e));
     visible.sort((a, b) => compareEntries(a, b, state.sort, state.dir));
-    const page = visible.slice(0, limit).map((e) => rows.get(e.id)).filter((r): r is HTMLTableRowElement => !!r);
+    const page = visible
+      .slice(0, limit)
+      .map((e) => rows.get(e.id))
+      .filter((r): r is HTMLTableRowElement => !!r);
     tbody.replaceChildren(...page);
     showFits(table!, page, byId, state.circuit);
-    if (count) count.textContent = `${visible.length} of ${entries.length} part${entries.length === 1 ? '' : 's'}${visible.length > limit ? ` (first ${limit} listed)` : ''}`;
+    if (count)
+      count.textContent = `${visible.length} of ${entries.length} part${entries.length === 1 ? '' : 's'}${visible.length > limit ? ` (first ${limit} listed)` : ''}`;
     if (empty) empty.hidden = visible.length > 0;
     if (more) {
       more.hidden = visible.length <= limit;

@@ -31,7 +31,8 @@ export function appendCircuitOverlay(out: HTMLElement, parts: CompareData[]): vo
   label.appendChild(select);
   const note = document.createElement('p');
   note.className = 'help';
-  note.textContent = 'Small-signal estimates from each part’s extracted model; a part starts where its curve lies above its R1. Confirm on the real board.';
+  note.textContent =
+    'Small-signal estimates from each part’s extracted model; a part starts where its curve lies above its R1. Confirm on the real board.';
   const plotBox = document.createElement('div');
   section.append(h, label, note, plotBox);
   out.appendChild(section);

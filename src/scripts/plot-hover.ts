@@ -60,7 +60,8 @@ function nameAndUnit(label: string, fallbackUnit: string): [string, string] {
 }
 
 function format(v: number, unit: string): string {
-  if (unit === '°' || unit === '%' || unit === 'ppm' || unit === '°C' || unit === '') return `${Number(v.toPrecision(4))} ${unit}`.trim();
+  if (unit === '°' || unit === '%' || unit === 'ppm' || unit === '°C' || unit === '')
+    return `${Number(v.toPrecision(4))} ${unit}`.trim();
   return formatSi(v, unit, unit === 'Hz' ? 9 : 4);
 }
 
@@ -75,7 +76,10 @@ function setup(svg: SVGSVGElement): void {
     const axis = parseAxis(g.getAttribute('data-y'));
     const [name, unitGuess] = nameAndUnit(g.getAttribute('data-yname') ?? '', '');
     const unit = unitGuess.replace(/^[kMGmµnpf]?(Ω|F|H|Hz|W)$/, '$1');
-    const paths = Array.from(g.querySelectorAll<SVGPathElement>('path[data-label]')).map((p) => ({ label: p.dataset.label ?? '', runs: parsePath(p.getAttribute('d') ?? '') }));
+    const paths = Array.from(g.querySelectorAll<SVGPathElement>('path[data-label]')).map((p) => ({
+      label: p.dataset.label ?? '',
+      runs: parsePath(p.getAttribute('d') ?? ''),
+    }));
     return { axis, name, unit, paths };
   });
   const top = Math.min(...panels.map((p) => Math.min(p.axis?.r0 ?? 0, p.axis?.r1 ?? 0)));

@@ -35,7 +35,17 @@ export function renderPlot(plot: PlotLayout): HTMLElement {
     }
     fig.appendChild(ul);
   }
-  const svg = svgEl('svg', { viewBox: `0 0 ${plot.width} ${plot.height}`, role: 'img', 'aria-labelledby': cap.id, 'aria-describedby': `${plot.id}-desc`, tabindex: 0, 'data-x': plot.xScaleAttr, 'data-xunit': plot.xUnit, 'data-xname': plot.xLabel, class: 'plot-svg' });
+  const svg = svgEl('svg', {
+    viewBox: `0 0 ${plot.width} ${plot.height}`,
+    role: 'img',
+    'aria-labelledby': cap.id,
+    'aria-describedby': `${plot.id}-desc`,
+    tabindex: 0,
+    'data-x': plot.xScaleAttr,
+    'data-xunit': plot.xUnit,
+    'data-xname': plot.xLabel,
+    class: 'plot-svg',
+  });
   svg.appendChild(svgEl('title', {}, plot.title));
   svg.appendChild(svgEl('desc', { id: `${plot.id}-desc` }, plot.description));
   for (const p of plot.panels) {
@@ -43,19 +53,41 @@ export function renderPlot(plot: PlotLayout): HTMLElement {
     const clip = svgEl('clipPath', { id: p.clipId });
     clip.appendChild(svgEl('rect', { x: plot.left, y: p.top, width: plot.right - plot.left, height: p.height }));
     g.appendChild(clip);
-    g.appendChild(svgEl('rect', { class: 'frame', x: plot.left, y: p.top, width: plot.right - plot.left, height: p.height }));
-    for (const t of plot.xTicks) g.appendChild(svgEl('line', { class: 'grid', x1: t.pos, x2: t.pos, y1: p.top, y2: p.top + p.height }));
+    g.appendChild(
+      svgEl('rect', { class: 'frame', x: plot.left, y: p.top, width: plot.right - plot.left, height: p.height }),
+    );
+    for (const t of plot.xTicks)
+      g.appendChild(svgEl('line', { class: 'grid', x1: t.pos, x2: t.pos, y1: p.top, y2: p.top + p.height }));
     for (const t of p.yTicks) {
       g.appendChild(svgEl('line', { class: 'grid', x1: plot.left, x2: plot.right, y1: t.pos, y2: t.pos }));
       g.appendChild(svgEl('text', { class: 'tick', x: plot.left - 6, y: t.pos + 4, 'text-anchor': 'end' }, t.label));
     }
-    g.appendChild(svgEl('text', { class: 'axis-label', transform: `translate(16,${p.top + p.height / 2}) rotate(-90)`, 'text-anchor': 'middle' }, p.yLabel));
+    g.appendChild(
+      svgEl(
+        'text',
+        {
+          class: 'axis-label',
+          transform: `translate(16,${p.top + p.height / 2}) rotate(-90)`,
+          'text-anchor': 'middle',
+        },
+        p.yLabel,
+      ),
+    );
     const body = svgEl('g', { 'clip-path': `url(#${p.clipId})` });
     for (const s of p.paths) body.appendChild(svgEl('path', { d: s.d, class: `s-${s.style}`, 'data-label': s.label }));
     g.appendChild(body);
     if (p.showXLabels) {
-      for (const t of plot.xTicks) g.appendChild(svgEl('text', { class: 'tick', x: t.pos, y: p.top + p.height + 16, 'text-anchor': 'middle' }, t.label));
-      g.appendChild(svgEl('text', { class: 'axis-label', x: (plot.left + plot.right) / 2, y: p.top + p.height + 36, 'text-anchor': 'middle' }, plot.xLabel));
+      for (const t of plot.xTicks)
+        g.appendChild(
+          svgEl('text', { class: 'tick', x: t.pos, y: p.top + p.height + 16, 'text-anchor': 'middle' }, t.label),
+        );
+      g.appendChild(
+        svgEl(
+          'text',
+          { class: 'axis-label', x: (plot.left + plot.right) / 2, y: p.top + p.height + 36, 'text-anchor': 'middle' },
+          plot.xLabel,
+        ),
+      );
     }
     svg.appendChild(g);
   }

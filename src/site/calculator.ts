@@ -26,8 +26,17 @@ export interface CalculatorForm {
 }
 
 export type CalculatorOutcome =
-  | { ok: true; advice: Extract<PierceAdvice, { ok: true }>; rows: Array<{ label: string; value: string; state?: string }> }
-  | { ok: false; message: string; advice?: PierceAdvice; /** The form field that did not parse, when one did not. */ field?: keyof CalculatorForm };
+  | {
+      ok: true;
+      advice: Extract<PierceAdvice, { ok: true }>;
+      rows: Array<{ label: string; value: string; state?: string }>;
+    }
+  | {
+      ok: false;
+      message: string;
+      advice?: PierceAdvice;
+      /** The form field that did not parse, when one did not. */ field?: keyof CalculatorForm;
+    };
 
 /** Initial form values from a circuit and the datasheet target. */
 export function formFromCircuit(data: CalculatorData, circuit: OscillatorCircuit): CalculatorForm {
@@ -59,13 +68,26 @@ export function runCalculator(data: CalculatorData, form: CalculatorForm): Calcu
   const pinToPin = capacitance(form.pinToPin, 'pin-to-pin stray');
   const gmText = form.gm.trim();
   // `\d+(?:\.\d*)?`, not `\d+\.?\d*`: the latter backtracks quadratically on a long run of digits
-  const gm = /^(\d+(?:\.\d*)?|\.\d+)(e[+-]?\d+)?$/i.test(gmText) ? { ok: true as const, value: Number(gmText) } : { ok: false as const };
+  const gm = /^(\d+(?:\.\d*)?|\.\d+)(e[+-]?\d+)?$/i.test(gmText)
+    ? { ok: true as const, value: Number(gmText) }
+    : { ok: false as const };
   const target = parseEngValue(form.target, 'Hz');
-  const fields = [['stray', stray], ['pinIn', pinIn], ['pinOut', pinOut], ['pinToPin', pinToPin]] as const;
+  const fields = [
+    ['stray', stray],
+    ['pinIn', pinIn],
+    ['pinOut', pinOut],
+    ['pinToPin', pinToPin],
+  ] as const;
   const bad = fields.find(([, v]) => typeof v === 'string');
   if (bad) return { ok: false, message: bad[1] as string, field: bad[0] };
-  if (!gm.ok || !(gm.value > 0)) return { ok: false, message: `transconductance: expected a positive value in mA/V, got "${form.gm}"`, field: 'gm' };
-  if (!target.ok || !(target.value > 0)) return { ok: false, message: `target frequency: expected a frequency such as "12M", got "${form.target}"`, field: 'target' };
+  if (!gm.ok || !(gm.value > 0))
+    return { ok: false, message: `transconductance: expected a positive value in mA/V, got "${form.gm}"`, field: 'gm' };
+  if (!target.ok || !(target.value > 0))
+    return {
+      ok: false,
+      message: `target frequency: expected a frequency such as "12M", got "${form.target}"`,
+      field: 'target',
+    };
   const c: OscillatorCircuit = {
     ...circuit,
     boardStrayF: stray as number,
@@ -74,7 +96,13 @@ export function runCalculator(data: CalculatorData, form: CalculatorForm): Calcu
     pinToPinStrayF: pinToPin as number,
     gmS: gm.value * 1e-3,
   };
-  const advice = advisePierce({ partId: data.partId, datasheet: { ...(data.datasheet ?? {}), frequencyHz: target.value }, model: data.model, mainBranch: data.mainBranch, circuit: c });
+  const advice = advisePierce({
+    partId: data.partId,
+    datasheet: { ...(data.datasheet ?? {}), frequencyHz: target.value },
+    model: data.model,
+    mainBranch: data.mainBranch,
+    circuit: c,
+  });
   if (!advice.ok) return { ok: false, message: advice.reason, advice };
   const b = advice.best;
   const e = advice.equal;
@@ -83,15 +111,34 @@ export function runCalculator(data: CalculatorData, form: CalculatorForm): Calcu
     advice,
     rows: [
       { label: 'Load capacitance for the target', value: formatQty(advice.target.idealLoadF, 'F', 4) },
-      { label: 'Closest pair (input / output)', value: `${formatQty(b.inputCapF, 'F', 3)} / ${formatQty(b.outputCapF, 'F', 3)} (${circuit.series})` },
+      {
+        label: 'Closest pair (input / output)',
+        value: `${formatQty(b.inputCapF, 'F', 3)} / ${formatQty(b.outputCapF, 'F', 3)} (${circuit.series})`,
+      },
       { label: 'Frequency offset', value: formatPpm(b.offsetPpm, 3), state: b.checks.frequency.verdict },
-      { label: 'Offset band over tolerances', value: `${formatPpm(b.bandPpm.min, 2)} … ${formatPpm(b.bandPpm.max, 2)}` },
+      {
+        label: 'Offset band over tolerances',
+        value: `${formatPpm(b.bandPpm.min, 2)} … ${formatPpm(b.bandPpm.max, 2)}`,
+      },
       { label: 'Gain margin gm/gm,crit', value: formatNumber(b.gainMargin, 3), state: b.checks.gainMargin.verdict },
-      { label: 'Resistance seen by the crystal pins', value: formatQty(b.pinsResistanceOhm, 'Ω', 4), state: b.checks.negativeResistance.verdict },
+      {
+        label: 'Resistance seen by the crystal pins',
+        value: formatQty(b.pinsResistanceOhm, 'Ω', 4),
+        state: b.checks.negativeResistance.verdict,
+      },
       { label: 'Resistance seen by the motional branch', value: formatQty(b.motionalResistanceOhm, 'Ω', 4) },
-      { label: 'Start-up time constant / time', value: Number.isFinite(b.startupTauS) ? `${formatQty(b.startupTauS, 's', 3)} / ${formatQty(b.startupTimeS, 's', 3)}` : 'does not start', state: b.checks.startup.verdict },
+      {
+        label: 'Start-up time constant / time',
+        value: Number.isFinite(b.startupTauS)
+          ? `${formatQty(b.startupTauS, 's', 3)} / ${formatQty(b.startupTimeS, 's', 3)}`
+          : 'does not start',
+        state: b.checks.startup.verdict,
+      },
       { label: 'Estimated drive', value: formatQty(b.driveW, 'W', 3), state: b.checks.drive.verdict },
-      { label: 'Equal pair', value: `2 × ${formatQty(e.inputCapF, 'F', 3)}: ${formatPpm(e.offsetPpm, 3)}, gain margin ${formatNumber(e.gainMargin, 3)}` },
+      {
+        label: 'Equal pair',
+        value: `2 × ${formatQty(e.inputCapF, 'F', 3)}: ${formatPpm(e.offsetPpm, 3)}, gain margin ${formatNumber(e.gainMargin, 3)}`,
+      },
       { label: 'Frequency with the closest pair', value: formatHz(b.freqHz, 10) },
     ],
   };

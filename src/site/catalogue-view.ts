@@ -62,8 +62,12 @@ export function makeCatalogueView(entries: IndexEntry[], base: string): Catalogu
     synthetic: !!e.synthetic,
   }));
   const kinds = [...new Set(entries.map((e) => e.kind))].sort().map((k) => ({ value: k, label: KIND_LABEL[k] }));
-  const packages = [...new Set(entries.map((e) => e.package).filter((p): p is string => !!p))].sort(ID_COLLATOR.compare);
-  const overtones = [...new Set(entries.map((e) => e.overtone).filter((o): o is number => o !== undefined))].sort((a, b) => a - b);
+  const packages = [...new Set(entries.map((e) => e.package).filter((p): p is string => !!p))].sort(
+    ID_COLLATOR.compare,
+  );
+  const overtones = [...new Set(entries.map((e) => e.overtone).filter((o): o is number => o !== undefined))].sort(
+    (a, b) => a - b,
+  );
   const states = (['pass', 'warnings', 'fail', 'unknown'] as const).map((s) => ({ value: s, label: STATE_LABEL[s] }));
   const plotted = sorted.filter((e) => e.fsHz && e.r1Ohm);
   const overview = plotted.length
@@ -71,9 +75,18 @@ export function makeCatalogueView(entries: IndexEntry[], base: string): Catalogu
         id: 'overview',
         title: 'All parts: R1 against frequency',
         description: `Motional resistance R1 against series resonance fs on logarithmic axes for ${plotted.length} parts; each point links to its part page.`,
-        xName: 'Series resonance fs', xUnit: 'Hz', xScale: 'log',
+        xName: 'Series resonance fs',
+        xUnit: 'Hz',
+        xScale: 'log',
         panels: [{ yName: 'R1', yUnit: 'Ω', yScale: 'log', series: [] }],
-        links: plotted.map((e) => ({ x: e.fsHz!, y: e.r1Ohm!, href: partHref(base, e.id), label: `${e.id}: ${formatHz(e.fsHz, 7)}, R1 ${formatQty(e.r1Ohm, 'Ω', 3)}`, group: (PART_KINDS as readonly string[]).indexOf(e.kind), id: e.id })),
+        links: plotted.map((e) => ({
+          x: e.fsHz!,
+          y: e.r1Ohm!,
+          href: partHref(base, e.id),
+          label: `${e.id}: ${formatHz(e.fsHz, 7)}, R1 ${formatQty(e.r1Ohm, 'Ω', 3)}`,
+          group: (PART_KINDS as readonly string[]).indexOf(e.kind),
+          id: e.id,
+        })),
         groupLabels: PART_KINDS.map((k) => OVERVIEW_KIND_LABEL[k]),
         height: 360,
       })

@@ -11,7 +11,11 @@ export const MAX_COMPARE = 4;
  * at most {@link MAX_COMPARE} kept in order.
  */
 export function parseCompareSelection(params: URLSearchParams): string[] {
-  const ids = params.getAll('parts').flatMap((v) => v.split(/[,\s]+/)).map((s) => s.trim()).filter((s) => /^[A-Za-z0-9._-]{1,64}$/.test(s));
+  const ids = params
+    .getAll('parts')
+    .flatMap((v) => v.split(/[,\s]+/))
+    .map((s) => s.trim())
+    .filter((s) => /^[A-Za-z0-9._-]{1,64}$/.test(s));
   return [...new Set(ids)].slice(0, MAX_COMPARE);
 }
 
@@ -29,7 +33,9 @@ export function compareRows(parts: CompareData[]): Array<{ label: string; values
     row('Mode', (p) => (p.summary.overtone === undefined ? '—' : overtoneLabel(p.summary.overtone))),
     row('CL for nominal', (p) => formatQty(p.summary.clForNominalF, 'F', 3)),
     row('Datasheet frequency', (p) => formatHz(p.datasheet?.frequencyHz, 9)),
-    row('Datasheet CL', (p) => (p.datasheet?.loadCapacitanceF === 'series' ? 'series' : formatQty(p.datasheet?.loadCapacitanceF, 'F', 3))),
+    row('Datasheet CL', (p) =>
+      p.datasheet?.loadCapacitanceF === 'series' ? 'series' : formatQty(p.datasheet?.loadCapacitanceF, 'F', 3),
+    ),
     row('Datasheet ESR max', (p) => formatQty(p.datasheet?.esrMaxOhm, 'Ω', 3)),
     row('State', (p) => STATE_LABEL[p.summary.state]),
   ];

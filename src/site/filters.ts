@@ -56,7 +56,10 @@ export function parseEngValue(text: string, unit: FilterUnit): ParsedValue {
       return { ok: true, value };
     }
   }
-  return { ok: false, message: `expected a value in ${unit === 'ohm' ? 'ohm' : unit} such as "${UNIT_EXAMPLE[unit]}", got "${t}"` };
+  return {
+    ok: false,
+    message: `expected a value in ${unit === 'ohm' ? 'ohm' : unit} such as "${UNIT_EXAMPLE[unit]}", got "${t}"`,
+  };
 }
 
 /** A closed interval; either end may be open (infinite). */
@@ -93,7 +96,10 @@ export function parseRangeFilter(text: string, unit: FilterUnit): ParsedRange | 
   }
   const v = parseEngValue(t, unit);
   if (!v.ok) return v;
-  return { ok: true, range: { min: v.value * (1 - SINGLE_VALUE_TOLERANCE), max: v.value * (1 + SINGLE_VALUE_TOLERANCE) } };
+  return {
+    ok: true,
+    range: { min: v.value * (1 - SINGLE_VALUE_TOLERANCE), max: v.value * (1 + SINGLE_VALUE_TOLERANCE) },
+  };
 }
 
 /** Parse an "at most" filter: one value, or empty for none. */
@@ -134,7 +140,20 @@ const FIELDS = ['q', 'f', 'esr', 'cl', 'kind', 'pkg', 'ot', 'state', 'circuit', 
 
 /** The default view: everything, sorted by id. */
 export function emptyFilterState(): FilterState {
-  return { q: '', f: '', esr: '', cl: '', kind: '', pkg: '', ot: '', state: '', circuit: '', fit: '', sort: 'id', dir: 'asc' };
+  return {
+    q: '',
+    f: '',
+    esr: '',
+    cl: '',
+    kind: '',
+    pkg: '',
+    ot: '',
+    state: '',
+    circuit: '',
+    fit: '',
+    sort: 'id',
+    dir: 'asc',
+  };
 }
 
 /** Read a filter state from URL query parameters (unknown values fall back to defaults). */

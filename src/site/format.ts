@@ -48,8 +48,17 @@ export function formatPpm(v: number | undefined, decimals = 2): string {
  * and CSV: src/lib/units/measured.ts): (24.8123, 0.05, 'Ω') → "24.812(50) Ω". Without an
  * uncertainty the value alone with at least `minDigits` (and four) significant digits.
  */
-export function formatWithUncertainty(v: number | undefined, u: number | undefined, unit: string, minDigits = 3): string {
-  return formatMeasured(v, u, unit, { minus: '−', fallbackDigits: Math.max(minDigits, 4), prefixed: unit !== '' && unit !== 'ppm' && unit !== '°C' });
+export function formatWithUncertainty(
+  v: number | undefined,
+  u: number | undefined,
+  unit: string,
+  minDigits = 3,
+): string {
+  return formatMeasured(v, u, unit, {
+    minus: '−',
+    fallbackDigits: Math.max(minDigits, 4),
+    prefixed: unit !== '' && unit !== 'ppm' && unit !== '°C',
+  });
 }
 
 /** Words for the compliance states. */

@@ -12,7 +12,13 @@ import { MARKDOWN_LINK as LINK } from '../lib/report/notes-excerpt.ts';
 export { excerptMarkdown } from '../lib/report/notes-excerpt.ts';
 
 const HTML_ESCAPES: Record<string, string> = {
-  '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;', '`': '&#96;', '=': '&#61;',
+  '&': '&amp;',
+  '<': '&lt;',
+  '>': '&gt;',
+  '"': '&quot;',
+  "'": '&#39;',
+  '`': '&#96;',
+  '=': '&#61;',
 };
 
 /** Escape text for use in HTML element content or a double-quoted attribute value. */
@@ -37,9 +43,10 @@ export function isSafeUrl(url: string): boolean {
 /** Inline spans: code first (its content is literal), then links, then emphasis on escaped text. */
 function renderInline(text: string): string {
   const parts = text.split(/(`[^`\n]+`)/);
-  return parts.map((part, i) => (i % 2 === 1 ? `<code>${escapeHtml(part.slice(1, -1))}</code>` : renderLinks(part))).join('');
+  return parts
+    .map((part, i) => (i % 2 === 1 ? `<code>${escapeHtml(part.slice(1, -1))}</code>` : renderLinks(part)))
+    .join('');
 }
-
 
 function renderLinks(text: string): string {
   let out = '';
@@ -80,7 +87,8 @@ export function renderMarkdown(source: string): string {
     para = [];
   };
   const flushList = () => {
-    if (list) blocks.push(`<${list.tag}>${list.items.map((t) => `<li>${renderInline(t)}</li>`).join('')}</${list.tag}>`);
+    if (list)
+      blocks.push(`<${list.tag}>${list.items.map((t) => `<li>${renderInline(t)}</li>`).join('')}</${list.tag}>`);
     list = undefined;
   };
   for (const raw of lines) {

@@ -6,7 +6,17 @@ import type { CrossCheck, Diagnostic, MethodName, ModeResult } from '../lib/extr
 import type { CapacitorPair } from '../lib/osc/pierce.ts';
 import { layoutPlot, type PlotLayout } from './plot.ts';
 import { modePlotSpec, pullingPlotSpec, temperaturePlotSpec, widePlotSpec } from './part-plots.ts';
-import { formatBytes, formatHz, formatNumber, formatPpm, formatQty, formatWithUncertainty, KIND_LABEL, STATE_LABEL, DISPLAY_DIGITS } from './format.ts';
+import {
+  formatBytes,
+  formatHz,
+  formatNumber,
+  formatPpm,
+  formatQty,
+  formatWithUncertainty,
+  KIND_LABEL,
+  STATE_LABEL,
+  DISPLAY_DIGITS,
+} from './format.ts';
 import { renderMarkdown } from './markdown.ts';
 import { modeLabel, overtoneLabel } from '../lib/models/mode-label.ts';
 import type { PartData, SampleData } from './types.ts';
@@ -73,7 +83,13 @@ export interface PartView {
   stateClass: string;
   summary: Row[];
   datasheet: Row[];
-  compliance: Array<{ sample: string; basis?: string; rule: string; items: Row[]; cells: Array<{ text: string; state: string; title: string; label: string }> }>;
+  compliance: Array<{
+    sample: string;
+    basis?: string;
+    rule: string;
+    items: Row[];
+    cells: Array<{ text: string; state: string; title: string; label: string }>;
+  }>;
   complianceHeaders: string[];
   samples: SampleView[];
   lotStats?: { n: number; rule: string; table: TableView; notes: string[] };
@@ -94,7 +110,12 @@ export const PART_CAUTIONS: readonly string[] = [
 ];
 
 const QUANTITY_LABEL: Record<CrossCheck['quantity'], [string, string]> = {
-  fsHz: ['fs', 'Hz'], r1Ohm: ['R1', 'Ω'], c1F: ['C1', 'F'], l1H: ['L1', 'H'], c0F: ['C0', 'F'], q: ['Q', ''],
+  fsHz: ['fs', 'Hz'],
+  r1Ohm: ['R1', 'Ω'],
+  c1F: ['C1', 'F'],
+  l1H: ['L1', 'H'],
+  c0F: ['C0', 'F'],
+  q: ['Q', ''],
 };
 
 const METHOD_LABEL: Record<MethodName, string> = {
@@ -109,7 +130,6 @@ const METHOD_LABEL: Record<MethodName, string> = {
   'zero-phase': 'zero-phase points',
 };
 
-
 function valueOf(q: CrossCheck['quantity'], v: number): string {
   const [, unit] = QUANTITY_LABEL[q];
   if (q === 'q') return formatNumber(v, 5);
@@ -120,13 +140,17 @@ function crossCheckView(c: CrossCheck): CrossCheckView {
   const [name] = QUANTITY_LABEL[c.quantity];
   return {
     quantity: name,
-    verdict: c.verdict === 'agree' ? 'methods agree' : c.verdict === 'disagree' ? 'methods disagree' : 'one method only',
+    verdict:
+      c.verdict === 'agree' ? 'methods agree' : c.verdict === 'disagree' ? 'methods disagree' : 'one method only',
     verdictClass: c.verdict === 'agree' ? 'pass' : c.verdict === 'disagree' ? 'fail' : 'unknown',
     rule: c.rule,
     message: c.message,
     values: c.values.map((v) => ({
       method: METHOD_LABEL[v.method],
-      value: v.uncertainty !== undefined ? formatWithUncertainty(v.value, v.uncertainty, QUANTITY_LABEL[c.quantity][1]) : valueOf(c.quantity, v.value),
+      value:
+        v.uncertainty !== undefined
+          ? formatWithUncertainty(v.value, v.uncertainty, QUANTITY_LABEL[c.quantity][1])
+          : valueOf(c.quantity, v.value),
       note: v.note,
     })),
   };
@@ -144,10 +168,17 @@ const MODE_COLUMNS: ReadonlyArray<Column<ModeResult>> = [
   { header: 'r = C0/C1', cell: (m) => formatNumber(m.r, 4) },
   { header: 'fr', cell: (m) => (m.frHz !== undefined ? formatHz(m.frHz, 10) : '—') },
   { header: 'Rr', cell: (m) => (m.rrOhm !== undefined ? formatQty(m.rrOhm, 'Ω', 4) : '—') },
-  { header: 'Strength', cell: (m) => (m.strengthDb !== undefined ? `${m.strengthDb.toFixed(1)} dB (×${formatNumber(m.resistanceRatio, 3)})` : '—') },
+  {
+    header: 'Strength',
+    cell: (m) =>
+      m.strengthDb !== undefined ? `${m.strengthDb.toFixed(1)} dB (×${formatNumber(m.resistanceRatio, 3)})` : '—',
+  },
 ];
 
-const MODE_HEAD = { header: 'Mode', text: (m: ModeResult) => modeLabel(m) + (m.flagged ? ' — above the trusted instrument range' : '') };
+const MODE_HEAD = {
+  header: 'Mode',
+  text: (m: ModeResult) => modeLabel(m) + (m.flagged ? ' — above the trusted instrument range' : ''),
+};
 
 type SweepInfo = SampleData['provenance']['sweeps'][number];
 
@@ -156,7 +187,11 @@ const SWEEP_COLUMNS: ReadonlyArray<Column<SweepInfo>> = [
   { header: 'Fixture', cell: (w) => w.fixture, num: false },
   { header: 'Conditions', cell: (w) => conditions(w), num: false },
   { header: 'Points', cell: (w) => (w.points !== undefined ? String(w.points) : '—') },
-  { header: 'Span', cell: (w) => (w.startHz !== undefined && w.stopHz !== undefined ? `${formatHz(w.startHz, 7)} – ${formatHz(w.stopHz, 7)}` : '—') },
+  {
+    header: 'Span',
+    cell: (w) =>
+      w.startHz !== undefined && w.stopHz !== undefined ? `${formatHz(w.startHz, 7)} – ${formatHz(w.stopHz, 7)}` : '—',
+  },
 ];
 
 type DrivePoint = NonNullable<SampleData['drive']>['points'][number];
@@ -177,11 +212,18 @@ const OTHER_COLUMNS: ReadonlyArray<Column<OtherCondition>> = [
   { header: 'R1', cell: (o) => formatQty(o.r1Ohm, 'Ω', 4) },
 ];
 
-function conditions(s: { temperatureC?: number; driveW?: number; addedCapacitanceF?: number; addedConnection?: string; referenceImpedanceOhm?: number }): string {
+function conditions(s: {
+  temperatureC?: number;
+  driveW?: number;
+  addedCapacitanceF?: number;
+  addedConnection?: string;
+  referenceImpedanceOhm?: number;
+}): string {
   const parts: string[] = [];
   if (s.temperatureC !== undefined) parts.push(`${s.temperatureC} °C`);
   if (s.driveW !== undefined) parts.push(`drive ${formatQty(s.driveW, 'W', 3)}`);
-  if (s.addedCapacitanceF !== undefined) parts.push(`${formatQty(s.addedCapacitanceF, 'F', 3)} added in ${s.addedConnection ?? 'parallel'}`);
+  if (s.addedCapacitanceF !== undefined)
+    parts.push(`${formatQty(s.addedCapacitanceF, 'F', 3)} added in ${s.addedConnection ?? 'parallel'}`);
   if (s.referenceImpedanceOhm !== undefined) parts.push(`Z0 ${formatQty(s.referenceImpedanceOhm, 'Ω', 3)}`);
   return parts.join(', ') || '—';
 }
@@ -196,7 +238,9 @@ function sampleView(s: SampleData, partId: string, si: number): SampleView {
     { label: 'Measured by', value: p.by ?? 'not recorded' },
     { label: 'Date', value: p.measured ?? 'not recorded' },
     { label: 'Instrument', value: p.instrument ?? 'not recorded' },
-    ...(p.instrumentMaxFrequencyHz !== undefined ? [{ label: 'Trusted up to', value: formatHz(p.instrumentMaxFrequencyHz, 4) }] : []),
+    ...(p.instrumentMaxFrequencyHz !== undefined
+      ? [{ label: 'Trusted up to', value: formatHz(p.instrumentMaxFrequencyHz, 4) }]
+      : []),
     ...(p.lot ? [{ label: 'Lot', value: p.lot }] : []),
     { label: 'Reference conditions', value: conditions({ temperatureC: s.temperatureC, driveW: s.driveW }) },
   ];
@@ -214,13 +258,25 @@ function sampleView(s: SampleData, partId: string, si: number): SampleView {
     ok: s.ok,
     provenance,
     sweeps: tableView(SWEEP_COLUMNS, p.sweeps),
-    compensation: comp ? [comp.open && `open ${comp.open}`, comp.short && `short ${comp.short}`, comp.load && `load ${comp.load} (${formatQty(comp.loadResistanceOhm, 'Ω', 4)})`].filter(Boolean).join(', ') + (comp.fixture ? ` in a ${comp.fixture} fixture` : '') : undefined,
+    compensation: comp
+      ? [
+          comp.open && `open ${comp.open}`,
+          comp.short && `short ${comp.short}`,
+          comp.load && `load ${comp.load} (${formatQty(comp.loadResistanceOhm, 'Ω', 4)})`,
+        ]
+          .filter(Boolean)
+          .join(', ') + (comp.fixture ? ` in a ${comp.fixture} fixture` : '')
+      : undefined,
     modes: tableView(MODE_COLUMNS, s.modes, MODE_HEAD),
     c0: s.c0F !== undefined ? formatWithUncertainty(s.c0F, s.modes[0]?.uncertainty.c0F, 'F') : '—',
-    fit: s.fit ? `${s.fit.converged ? 'converged' : 'did not converge'} after ${s.fit.iterations} iterations on ${s.fit.points} points; rms relative residual ${formatNumber(s.fit.rmsResidual, 2)}${s.fit.reason ? ` (${s.fit.reason})` : ''}` : undefined,
+    fit: s.fit
+      ? `${s.fit.converged ? 'converged' : 'did not converge'} after ${s.fit.iterations} iterations on ${s.fit.points} points; rms relative residual ${formatNumber(s.fit.rmsResidual, 2)}${s.fit.reason ? ` (${s.fit.reason})` : ''}`
+      : undefined,
     crossChecks: [
       ...(s.c0CrossCheck ? [{ mode: 'shunt capacitance', checks: [crossCheckView(s.c0CrossCheck)] }] : []),
-      ...s.modes.filter((m) => m.crossCheck.length).map((m) => ({ mode: `${modeLabel(m)} at ${formatHz(m.fsHz, 8)}`, checks: m.crossCheck.map(crossCheckView) })),
+      ...s.modes
+        .filter((m) => m.crossCheck.length)
+        .map((m) => ({ mode: `${modeLabel(m)} at ${formatHz(m.fsHz, 8)}`, checks: m.crossCheck.map(crossCheckView) })),
     ],
     warnings: s.warnings,
     diagnostics: s.diagnostics.map((d) => ({ severity: d.severity, text: diagnosticText(d) })),
@@ -240,25 +296,60 @@ function sampleView(s: SampleData, partId: string, si: number): SampleView {
 
 function pairRows(p: CapacitorPair): Row[] {
   return [
-    { label: 'Capacitors (input / output pin)', value: `${formatQty(p.inputCapF, 'F', 3)} / ${formatQty(p.outputCapF, 'F', 3)}` },
+    {
+      label: 'Capacitors (input / output pin)',
+      value: `${formatQty(p.inputCapF, 'F', 3)} / ${formatQty(p.outputCapF, 'F', 3)}`,
+    },
     { label: 'Pin totals Ca / Cb', value: `${formatQty(p.caF, 'F', 3)} / ${formatQty(p.cbF, 'F', 3)}` },
     { label: 'Load capacitance', value: formatQty(p.clF, 'F', 4) },
     { label: 'Frequency', value: formatHz(p.freqHz, 10) },
     { label: 'Offset from target', value: formatPpm(p.offsetPpm, 3) },
     { label: 'Offset band (tolerances)', value: `${formatPpm(p.bandPpm.min, 2)} … ${formatPpm(p.bandPpm.max, 2)}` },
-    { label: 'Gain margin gm/gm,crit', value: formatNumber(p.gainMargin, 3) + (p.gainMarginDatasheet !== undefined ? ` (${formatNumber(p.gainMarginDatasheet, 3)} at datasheet ESR)` : '') },
-    { label: 'Resistance seen by the crystal pins', value: `${formatQty(p.pinsResistanceOhm, 'Ω', 4)} (RL ${formatQty(p.rlOhm, 'Ω', 4)})` },
+    {
+      label: 'Gain margin gm/gm,crit',
+      value:
+        formatNumber(p.gainMargin, 3) +
+        (p.gainMarginDatasheet !== undefined ? ` (${formatNumber(p.gainMarginDatasheet, 3)} at datasheet ESR)` : ''),
+    },
+    {
+      label: 'Resistance seen by the crystal pins',
+      value: `${formatQty(p.pinsResistanceOhm, 'Ω', 4)} (RL ${formatQty(p.rlOhm, 'Ω', 4)})`,
+    },
     { label: 'Resistance seen by the motional branch', value: formatQty(p.motionalResistanceOhm, 'Ω', 4) },
-    { label: 'Start-up τ / time from noise', value: Number.isFinite(p.startupTauS) ? `${formatQty(p.startupTauS, 's', 3)} / ${formatQty(p.startupTimeS, 's', 3)}` : 'does not start' },
+    {
+      label: 'Start-up τ / time from noise',
+      value: Number.isFinite(p.startupTauS)
+        ? `${formatQty(p.startupTauS, 's', 3)} / ${formatQty(p.startupTimeS, 's', 3)}`
+        : 'does not start',
+    },
     { label: 'Estimated drive', value: formatQty(p.driveW, 'W', 3) },
   ];
 }
 
 function pierceView(a: PartData['pierce'][number], calc: PartData['calculator'], index: number): PierceView {
   const design = pierceDesignView(a, calc, `nr-curve-${index}`);
-  const target = a.target ? `${formatHz(a.target.targetHz, 10)} (${a.target.targetBasis}); ideal load ${formatQty(a.target.idealLoadF, 'F', 4)}` : undefined;
-  if (!a.ok) return { circuit: a.circuit, ok: false, reason: a.reason, target, pairs: [], checks: [], assumptions: a.assumptions, design };
-  const names = { frequency: 'Frequency', gainMargin: 'Gain margin', negativeResistance: 'Negative resistance', startup: 'Start-up', budget: 'Frequency budget', drive: 'Drive level' } as const;
+  const target = a.target
+    ? `${formatHz(a.target.targetHz, 10)} (${a.target.targetBasis}); ideal load ${formatQty(a.target.idealLoadF, 'F', 4)}`
+    : undefined;
+  if (!a.ok)
+    return {
+      circuit: a.circuit,
+      ok: false,
+      reason: a.reason,
+      target,
+      pairs: [],
+      checks: [],
+      assumptions: a.assumptions,
+      design,
+    };
+  const names = {
+    frequency: 'Frequency',
+    gainMargin: 'Gain margin',
+    negativeResistance: 'Negative resistance',
+    startup: 'Start-up',
+    budget: 'Frequency budget',
+    drive: 'Drive level',
+  } as const;
   return {
     circuit: a.circuit,
     ok: true,
@@ -267,7 +358,11 @@ function pierceView(a: PartData['pierce'][number], calc: PartData['calculator'],
       { title: `Equal pair (ideal ${formatQty(a.idealEqualCapF, 'F', 3)} each)`, rows: pairRows(a.equal) },
       { title: 'Closest pair', rows: pairRows(a.best) },
     ],
-    checks: (Object.keys(names) as Array<keyof typeof names>).map((k) => ({ label: names[k], verdict: a.best.checks[k].verdict, reason: a.best.checks[k].reason })),
+    checks: (Object.keys(names) as Array<keyof typeof names>).map((k) => ({
+      label: names[k],
+      verdict: a.best.checks[k].verdict,
+      reason: a.best.checks[k].reason,
+    })),
     assumptions: a.assumptions,
     design,
   };
@@ -290,27 +385,49 @@ type LotParameter = NonNullable<PartData['lotStats']>['parameters'][number];
 /** Lot statistics columns; `f` formats a value of the row's quantity. */
 function lotColumns(): ReadonlyArray<Column<LotParameter>> {
   const unitOf = (p: LotParameter) => (LOT_LABEL[p.parameter] ?? [p.parameter, ''])[1];
-  const f = (p: LotParameter, v: number | undefined) => (unitOf(p) === '' ? formatNumber(v, 5) : formatQty(v, unitOf(p), unitOf(p) === 'Hz' ? 10 : 5));
+  const f = (p: LotParameter, v: number | undefined) =>
+    unitOf(p) === '' ? formatNumber(v, 5) : formatQty(v, unitOf(p), unitOf(p) === 'Hz' ? 10 : 5);
   return [
     { header: 'n', cell: (p) => String(p.n) },
     { header: 'Mean', cell: (p) => f(p, p.mean) },
-    { header: 'Std. dev.', cell: (p) => (p.std === undefined ? '—' : unitOf(p) === '' ? formatNumber(p.std, 2) : formatQty(p.std, unitOf(p), 2)) },
+    {
+      header: 'Std. dev.',
+      cell: (p) =>
+        p.std === undefined ? '—' : unitOf(p) === '' ? formatNumber(p.std, 2) : formatQty(p.std, unitOf(p), 2),
+    },
     { header: 'Min', cell: (p) => f(p, p.min) },
     { header: 'Max', cell: (p) => f(p, p.max) },
     { header: 'Median', cell: (p) => f(p, p.median) },
-    { header: 'Outliers', cell: (p) => (p.outliers.length ? p.outliers.map((o) => o.sample).join(', ') : p.note ? 'no test' : 'none'), num: false },
+    {
+      header: 'Outliers',
+      cell: (p) => (p.outliers.length ? p.outliers.map((o) => o.sample).join(', ') : p.note ? 'no test' : 'none'),
+      num: false,
+    },
   ];
 }
 
 const LOT_LABEL: Record<string, [string, string]> = {
-  fsHz: ['fs', 'Hz'], r1Ohm: ['R1', 'Ω'], c1F: ['C1', 'F'], l1H: ['L1', 'H'], c0F: ['C0', 'F'], q: ['Q', ''], loadFreqHz: ['f at datasheet load', 'Hz'],
+  fsHz: ['fs', 'Hz'],
+  r1Ohm: ['R1', 'Ω'],
+  c1F: ['C1', 'F'],
+  l1H: ['L1', 'H'],
+  c0F: ['C0', 'F'],
+  q: ['Q', ''],
+  loadFreqHz: ['f at datasheet load', 'Hz'],
 };
 
 /** Build the part page's view model; `base` is the site base path ending in '/'. */
 export function makePartView(d: PartData, base: string): PartView {
   const s = d.summary;
   const ds = d.datasheet;
-  const sub = [KIND_LABEL[d.kind], d.package && `package ${d.package}`, d.supplier && `from ${d.supplier}`, d.supplierPart && `(${d.supplierPart})`].filter(Boolean).join(' · ');
+  const sub = [
+    KIND_LABEL[d.kind],
+    d.package && `package ${d.package}`,
+    d.supplier && `from ${d.supplier}`,
+    d.supplierPart && `(${d.supplierPart})`,
+  ]
+    .filter(Boolean)
+    .join(' · ');
   return {
     id: d.id,
     title: d.title,
@@ -328,19 +445,35 @@ export function makePartView(d: PartData, base: string): PartView {
       { label: 'Shunt capacitance C0', value: formatQty(s.c0F, 'F', DISPLAY_DIGITS.c0F), si: s.c0F },
       { label: 'Quality factor Q', value: formatNumber(s.q, DISPLAY_DIGITS.q), si: s.q },
       { label: 'Mode', value: s.overtone === undefined ? '—' : overtoneLabel(s.overtone) },
-      { label: 'CL for the nominal frequency', value: formatQty(s.clForNominalF, 'F', DISPLAY_DIGITS.clF), si: s.clForNominalF, note: ds?.frequencyHz === undefined ? 'no datasheet frequency' : s.clForNominalF === undefined ? 'not reachable with a positive load' : undefined },
+      {
+        label: 'CL for the nominal frequency',
+        value: formatQty(s.clForNominalF, 'F', DISPLAY_DIGITS.clF),
+        si: s.clForNominalF,
+        note:
+          ds?.frequencyHz === undefined
+            ? 'no datasheet frequency'
+            : s.clForNominalF === undefined
+              ? 'not reachable with a positive load'
+              : undefined,
+      },
     ],
     datasheet: ds
       ? [
           ds.frequencyHz !== undefined && { label: 'Nominal frequency', value: formatHz(ds.frequencyHz, 9) },
           ds.tolerancePpm !== undefined && { label: 'Tolerance', value: `±${ds.tolerancePpm} ppm` },
           ds.stabilityPpm !== undefined && { label: 'Stability', value: `±${ds.stabilityPpm} ppm` },
-          ds.loadCapacitanceF !== undefined && { label: 'Load capacitance', value: ds.loadCapacitanceF === 'series' ? 'series resonance' : formatQty(ds.loadCapacitanceF, 'F', 3) },
+          ds.loadCapacitanceF !== undefined && {
+            label: 'Load capacitance',
+            value: ds.loadCapacitanceF === 'series' ? 'series resonance' : formatQty(ds.loadCapacitanceF, 'F', 3),
+          },
           ds.esrMaxOhm !== undefined && { label: 'ESR at most', value: formatQty(ds.esrMaxOhm, 'Ω', 3) },
           ds.c0MaxF !== undefined && { label: 'C0 at most', value: formatQty(ds.c0MaxF, 'F', 3) },
           ds.driveMaxW !== undefined && { label: 'Drive at most', value: formatQty(ds.driveMaxW, 'W', 3) },
           ds.overtone !== undefined && { label: 'Overtone', value: String(ds.overtone) },
-          ds.operatingRangeC !== undefined && { label: 'Operating range', value: `${ds.operatingRangeC.min} to ${ds.operatingRangeC.max} °C` },
+          ds.operatingRangeC !== undefined && {
+            label: 'Operating range',
+            value: `${ds.operatingRangeC.min} to ${ds.operatingRangeC.max} °C`,
+          },
         ].filter((r): r is Row => !!r)
       : [],
     compliance: d.compliance.map((c) => ({
@@ -351,7 +484,12 @@ export function makePartView(d: PartData, base: string): PartView {
       cells: COMPLIANCE_COLUMNS.map((col) => {
         const i = c.items.find((x) => x.check === col.check);
         if (!i) return { text: '—', state: 'unknown', title: '', label: col.header };
-        return { text: i.value === undefined ? '' : col.value(i.value), state: i.verdict, title: i.reason, label: col.header };
+        return {
+          text: i.value === undefined ? '' : col.value(i.value),
+          state: i.verdict,
+          title: i.reason,
+          label: col.header,
+        };
       }),
     })),
     complianceHeaders: COMPLIANCE_COLUMNS.map((col) => col.header),
@@ -361,12 +499,20 @@ export function makePartView(d: PartData, base: string): PartView {
           n: d.lotStats.n,
           rule: d.lotStats.outlierRule,
           notes: d.lotStats.notes,
-          table: tableView(lotColumns(), d.lotStats.parameters, { header: 'Parameter', text: (p) => (LOT_LABEL[p.parameter] ?? [p.parameter])[0] }),
+          table: tableView(lotColumns(), d.lotStats.parameters, {
+            header: 'Parameter',
+            text: (p) => (LOT_LABEL[p.parameter] ?? [p.parameter])[0],
+          }),
         }
       : undefined,
     pierce: d.pierce.map((a, i) => pierceView(a, d.calculator, i)),
     cautions: [...PART_CAUTIONS],
-    downloads: d.downloads.map((x) => ({ href: `${base}downloads/${encodeURIComponent(d.id)}/${x.name.split('/').map(encodeURIComponent).join('/')}`, label: x.label, name: x.name, size: formatBytes(x.bytes) })),
+    downloads: d.downloads.map((x) => ({
+      href: `${base}downloads/${encodeURIComponent(d.id)}/${x.name.split('/').map(encodeURIComponent).join('/')}`,
+      label: x.label,
+      name: x.name,
+      size: formatBytes(x.bytes),
+    })),
     recordWarnings: d.recordWarnings,
   };
 }

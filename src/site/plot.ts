@@ -125,7 +125,7 @@ function decimalsFor(step: number, scale: number): number {
 /** Format a number with a given number of decimals, using a proper minus sign. */
 function fixed(v: number, decimals: number): string {
   const t = v.toFixed(decimals);
-  return (t.startsWith('-') && Number(t) !== 0 ? `−${t.slice(1)}` : t.replace(/^-/, ''));
+  return t.startsWith('-') && Number(t) !== 0 ? `−${t.slice(1)}` : t.replace(/^-/, '');
 }
 
 /** Short SI label of one value on a log axis: 1e3 → "1k", 2.2e-12 → "2.2p". */
@@ -160,7 +160,11 @@ function padDomain([lo, hi]: [number, number], type: 'log' | 'linear', pad: numb
   return [lo - d, hi + d];
 }
 
-function makeScale(type: 'log' | 'linear', domain: [number, number], range: [number, number]): ScaleContinuousNumeric<number, number> {
+function makeScale(
+  type: 'log' | 'linear',
+  domain: [number, number],
+  range: [number, number],
+): ScaleContinuousNumeric<number, number> {
   return (type === 'log' ? scaleLog() : scaleLinear()).domain(domain).range(range);
 }
 
@@ -174,12 +178,19 @@ function tickValues(scale: ScaleContinuousNumeric<number, number>, type: 'log' |
 }
 
 /** Axis label with its unit; linear axes share one prefix: ("Frequency", "Hz") → "Frequency (MHz)". */
-function axisLabels(name: string, unit: string, type: 'log' | 'linear', values: number[], domain: [number, number]): { label: string; labels: string[] } {
+function axisLabels(
+  name: string,
+  unit: string,
+  type: 'log' | 'linear',
+  values: number[],
+  domain: [number, number],
+): { label: string; labels: string[] } {
   if (type === 'log') {
     return { label: unit ? `${name} (${unit})` : name, labels: values.map(siTickLabel) };
   }
   const maxAbs = Math.max(Math.abs(domain[0]), Math.abs(domain[1]));
-  const [scale, prefix] = unit && unit !== '%' && unit !== '°' && unit !== 'ppm' && unit !== '°C' ? prefixFor(maxAbs) : [1, ''];
+  const [scale, prefix] =
+    unit && unit !== '%' && unit !== '°' && unit !== 'ppm' && unit !== '°C' ? prefixFor(maxAbs) : [1, ''];
   const step = values.length > 1 ? values[1] - values[0] : maxAbs;
   const decimals = decimalsFor(step, scale);
   const u = `${prefix}${unit}`;
@@ -192,7 +203,9 @@ export function layoutPlot(spec: PlotSpec): PlotLayout {
   const height = spec.height ?? DEFAULT_HEIGHT;
   const left = MARGIN.left;
   const right = width - MARGIN.right;
-  const allX = spec.panels.flatMap((p) => p.series.flatMap((s) => s.curve.x)).concat((spec.links ?? []).map((l) => l.x));
+  const allX = spec.panels
+    .flatMap((p) => p.series.flatMap((s) => s.curve.x))
+    .concat((spec.links ?? []).map((l) => l.x));
   const xExt = spec.xDomain ?? extent(allX, spec.xScale === 'log') ?? [1, 10];
   const xDomain = spec.xDomain ?? padDomain(xExt, spec.xScale, spec.links?.length ? 0.05 : 0);
   const x = makeScale(spec.xScale, xDomain, [left, right]);
@@ -230,7 +243,8 @@ export function layoutPlot(spec: PlotSpec): PlotLayout {
       pointsY = s.curve.y;
       if (s.style === 'points') {
         s.curve.x.forEach((xv, i) => {
-          if (ok(xv, spec.xScale) && ok(s.curve.y[i], p.yScale)) dots.push({ cx: round1(x(xv)), cy: round1(y(s.curve.y[i])), style: s.style, label: s.label });
+          if (ok(xv, spec.xScale) && ok(s.curve.y[i], p.yScale))
+            dots.push({ cx: round1(x(xv)), cy: round1(y(s.curve.y[i])), style: s.style, label: s.label });
         });
         continue;
       }
@@ -241,7 +255,9 @@ export function layoutPlot(spec: PlotSpec): PlotLayout {
       top: round1(panelTop),
       height: round1(h),
       yLabel: yAxis.label,
-      yTicks: yTickValues.map((v, i) => ({ pos: round1(y(v)), label: yAxis.labels[i] })).filter((t) => t.pos >= panelTop - 0.5 && t.pos <= panelTop + h + 0.5),
+      yTicks: yTickValues
+        .map((v, i) => ({ pos: round1(y(v)), label: yAxis.labels[i] }))
+        .filter((t) => t.pos >= panelTop - 0.5 && t.pos <= panelTop + h + 0.5),
       showXLabels: pi === spec.panels.length - 1,
       paths,
       dots,
@@ -256,8 +272,21 @@ export function layoutPlot(spec: PlotSpec): PlotLayout {
     .filter((m) => m.x >= Math.min(...xDomain) && m.x <= Math.max(...xDomain))
     .map((m) => ({ x: round1(x(m.x)), label: m.label, top: first.top, bottom: round1(last.top + last.height) }));
   const links = (spec.links ?? [])
-    .filter((l) => Number.isFinite(l.x) && Number.isFinite(l.y) && (spec.xScale === 'linear' || l.x > 0) && (spec.panels[0].yScale === 'linear' || l.y > 0))
-    .map((l) => ({ cx: round1(x(l.x)), cy: round1(firstY(l.y)), href: l.href, label: l.label, group: l.group ?? 0, id: l.id }));
+    .filter(
+      (l) =>
+        Number.isFinite(l.x) &&
+        Number.isFinite(l.y) &&
+        (spec.xScale === 'linear' || l.x > 0) &&
+        (spec.panels[0].yScale === 'linear' || l.y > 0),
+    )
+    .map((l) => ({
+      cx: round1(x(l.x)),
+      cy: round1(firstY(l.y)),
+      href: l.href,
+      label: l.label,
+      group: l.group ?? 0,
+      id: l.id,
+    }));
   const seen = new Set<string>();
   let lx = left;
   const legend: PlotLayout['legend'] = [];

@@ -27,7 +27,10 @@ export interface Searcher {
 }
 
 function haystack(e: IndexEntry): string {
-  return [e.id, e.title, e.supplier, e.supplierPart, e.package, e.kind, e.notes].filter(Boolean).join('\n').toLowerCase();
+  return [e.id, e.title, e.supplier, e.supplierPart, e.package, e.kind, e.notes]
+    .filter(Boolean)
+    .join('\n')
+    .toLowerCase();
 }
 
 export function createSearcher(entries: IndexEntry[]): Searcher {

@@ -29,7 +29,11 @@ export interface TableView {
 }
 
 /** Lay out `items` with `columns`; `rowHead` (header and text) makes the first column a row header. */
-export function tableView<T>(columns: ReadonlyArray<Column<T>>, items: readonly T[], rowHead?: { header: string; text: (row: T) => string }): TableView {
+export function tableView<T>(
+  columns: ReadonlyArray<Column<T>>,
+  items: readonly T[],
+  rowHead?: { header: string; text: (row: T) => string },
+): TableView {
   return {
     rowHeader: rowHead?.header,
     headers: columns.map((c) => c.header),

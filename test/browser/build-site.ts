@@ -24,8 +24,11 @@ export interface BuiltSite {
 function realBuildPossible(): boolean {
   if (process.env.MOTIONAL_SITE_TEST_FIXTURE === '1') return false;
   const parts = join(ROOT, 'content', 'parts');
-  return existsSync(join(ROOT, 'src', 'lib', 'extract', 'extract-part.ts'))
-    && existsSync(parts) && readdirSync(parts).some((d) => existsSync(join(parts, d, 'part.yaml')));
+  return (
+    existsSync(join(ROOT, 'src', 'lib', 'extract', 'extract-part.ts')) &&
+    existsSync(parts) &&
+    readdirSync(parts).some((d) => existsSync(join(parts, d, 'part.yaml')))
+  );
 }
 
 export async function buildTestSite(base: string): Promise<BuiltSite> {
@@ -33,7 +36,24 @@ export async function buildTestSite(base: string): Promise<BuiltSite> {
   const site = join(work, 'site');
   const real = realBuildPossible();
   if (real) {
-    const run = spawnSync(process.execPath, [join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), join(ROOT, 'scripts', 'motional.ts'), 'build', '--content', 'content', '--out', site, '--base', base, '--quiet', '--cache-dir', join(work, 'cache')], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' } });
+    const run = spawnSync(
+      process.execPath,
+      [
+        join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'),
+        join(ROOT, 'scripts', 'motional.ts'),
+        'build',
+        '--content',
+        'content',
+        '--out',
+        site,
+        '--base',
+        base,
+        '--quiet',
+        '--cache-dir',
+        join(work, 'cache'),
+      ],
+      { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' } },
+    );
     if (run.status !== 0) throw new Error(`motional build failed (${run.status}):\n${run.stdout}\n${run.stderr}`);
   } else {
     console.warn('browser test: demo content or pipeline missing — building the synthetic fixture catalogue instead');

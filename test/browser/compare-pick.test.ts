@@ -15,7 +15,15 @@ import { buildFixtureSite } from './fixture-site.ts';
 import type { IndexEntry } from '../../src/site/types.ts';
 
 const BASE = '/cat/';
-const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 const haveChromium = requireTool('chromium');
 
 describe.skipIf(!haveChromium)('pick parts to compare from the catalogue, in chromium', () => {

@@ -17,7 +17,15 @@ import { fitFor, FIT_VERDICT_LABEL } from '../../src/lib/report/fits.ts';
 import { DEMO_CIRCUIT } from '../site/fixture.ts';
 
 const BASE = '/cat/';
-const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 const haveChromium = requireTool('chromium');
 
 describe.skipIf(!haveChromium)('catalogue "fits circuit" columns in chromium', () => {
@@ -65,7 +73,10 @@ describe.skipIf(!haveChromium)('catalogue "fits circuit" columns in chromium', (
     await expect.poll(() => page.locator('#catalogue-table thead th.fit-col').count()).toBe(5);
     expect(await page.locator('#catalogue-table thead th.fit-col').last().textContent()).toBe(`Fits ${circuit}`);
     const rows = await page.locator('#catalogue-table tbody tr').evaluateAll((trs) =>
-      trs.map((tr) => ({ id: (tr as HTMLElement).dataset.id ?? '', cells: Array.from(tr.querySelectorAll('td.fit-col')).map((td) => td.textContent ?? '') })),
+      trs.map((tr) => ({
+        id: (tr as HTMLElement).dataset.id ?? '',
+        cells: Array.from(tr.querySelectorAll('td.fit-col')).map((td) => td.textContent ?? ''),
+      })),
     );
     expect(rows.length).toBe(Math.min(index.length, 100));
     for (const r of rows) {
@@ -107,7 +118,10 @@ describe.skipIf(!haveChromium)('catalogue "fits circuit" columns in chromium', (
   });
 
   it('the compare page overlays the negative-resistance curves for the chosen circuit', async () => {
-    const ids = index.filter((e) => e.fits?.some((f) => f.circuit === circuit)).slice(0, 2).map((e) => e.id);
+    const ids = index
+      .filter((e) => e.fits?.some((f) => f.circuit === circuit))
+      .slice(0, 2)
+      .map((e) => e.id);
     expect(ids).toHaveLength(2);
     const page = await browser.newPage();
     await page.goto(`${server.url}compare/?parts=${ids.join(',')}&circuit=${encodeURIComponent(circuit)}`);

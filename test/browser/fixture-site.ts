@@ -12,7 +12,20 @@ import { DEMO_CIRCUIT, fixtureCatalogue, makeFixturePart } from '../site/fixture
 /** The environment without the variables a test runner sets for its own vite (BASE_URL, MODE, …). */
 function cleanEnv(): NodeJS.ProcessEnv {
   const env = { ...process.env };
-  for (const k of ['BASE_URL', 'MODE', 'DEV', 'PROD', 'SSR', 'NODE_ENV', 'VITEST', 'VITEST_MODE', 'VITEST_POOL_ID', 'VITEST_WORKER_ID', 'TEST']) delete env[k];
+  for (const k of [
+    'BASE_URL',
+    'MODE',
+    'DEV',
+    'PROD',
+    'SSR',
+    'NODE_ENV',
+    'VITEST',
+    'VITEST_MODE',
+    'VITEST_POOL_ID',
+    'VITEST_WORKER_ID',
+    'TEST',
+  ])
+    delete env[k];
   return env;
 }
 
@@ -28,13 +41,26 @@ export async function buildFixtureSite(dataDir: string, siteDir: string, base = 
   const root = resolve(import.meta.dirname, '..', '..');
   const run = spawnSync(process.execPath, [join(root, 'node_modules', 'astro', 'astro.js'), 'build'], {
     cwd: root,
-    env: { ...cleanEnv(), MOTIONAL_DATA: dataDir, MOTIONAL_SITE_OUT: siteDir, MOTIONAL_BASE: base, ASTRO_TELEMETRY_DISABLED: '1' },
+    env: {
+      ...cleanEnv(),
+      MOTIONAL_DATA: dataDir,
+      MOTIONAL_SITE_OUT: siteDir,
+      MOTIONAL_BASE: base,
+      ASTRO_TELEMETRY_DISABLED: '1',
+    },
     encoding: 'utf8',
   });
   if (run.status !== 0) throw new Error(`astro build failed:\n${run.stdout}\n${run.stderr}`);
 }
 
 if (process.argv[1] && resolve(process.argv[1]) === resolve(import.meta.filename)) {
-  const [dataDir = '/tmp/motional-fixture/data', siteDir = '/tmp/motional-fixture/site', base = '/'] = process.argv.slice(2);
-  buildFixtureSite(resolve(dataDir), resolve(siteDir), base).then(() => console.log(`built ${siteDir}`), (e) => { console.error(e); process.exit(1); });
+  const [dataDir = '/tmp/motional-fixture/data', siteDir = '/tmp/motional-fixture/site', base = '/'] =
+    process.argv.slice(2);
+  buildFixtureSite(resolve(dataDir), resolve(siteDir), base).then(
+    () => console.log(`built ${siteDir}`),
+    (e) => {
+      console.error(e);
+      process.exit(1);
+    },
+  );
 }

@@ -20,7 +20,15 @@ const BASE = '/nojs/';
 const PARTS = 120;
 /** More pages than this means the crawl is running away (a link loop with changing URLs). */
 const MAX_PAGES = 2000;
-const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 const haveChromium = requireTool('chromium');
 
 describe.skipIf(!haveChromium)('every part reachable with JavaScript off', () => {
@@ -33,7 +41,20 @@ describe.skipIf(!haveChromium)('every part reachable with JavaScript off', () =>
     await writeSyntheticCatalogue(join(work, 'content'), PARTS, { points: 121, samples: 1 });
     const build = spawnSync(
       process.execPath,
-      [join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), join(ROOT, 'scripts', 'motional.ts'), 'build', '--content', join(work, 'content'), '--out', join(work, 'site'), '--base', BASE, '--cache-dir', join(work, 'cache'), '--quiet'],
+      [
+        join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'),
+        join(ROOT, 'scripts', 'motional.ts'),
+        'build',
+        '--content',
+        join(work, 'content'),
+        '--out',
+        join(work, 'site'),
+        '--base',
+        BASE,
+        '--cache-dir',
+        join(work, 'cache'),
+        '--quiet',
+      ],
       { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' } },
     );
     if (build.status !== 0) throw new Error(`build failed (exit ${build.status}):\n${build.stdout}\n${build.stderr}`);
@@ -73,7 +94,13 @@ describe.skipIf(!haveChromium)('every part reachable with JavaScript off', () =>
         const url = new URL(m[1].replace(/&amp;/g, '&'), `${origin}${path}`);
         if (url.origin !== origin || !url.pathname.startsWith(BASE)) continue;
         const rest = url.pathname.slice(BASE.length);
-        if (rest.startsWith('downloads/') || rest.startsWith('data/') || rest.startsWith('_astro/') || /\.[a-z0-9]+$/i.test(rest)) continue;
+        if (
+          rest.startsWith('downloads/') ||
+          rest.startsWith('data/') ||
+          rest.startsWith('_astro/') ||
+          /\.[a-z0-9]+$/i.test(rest)
+        )
+          continue;
         const next = `${url.pathname}${url.search}`;
         if (!seen.has(next)) queue.push(next);
       }

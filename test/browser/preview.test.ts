@@ -15,7 +15,15 @@ import { requireTool } from '../support/tools.ts';
 import { startPreview, type Preview } from '../../src/pipeline/preview.ts';
 import { syntheticPartId, writeSyntheticCatalogue } from '../../scripts/bench/lib/synthetic-catalogue.ts';
 
-const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 const haveChromium = requireTool('chromium');
 /** Bound on a save showing up, ms: generous, a hung preview only (the speed target is in the bench). */
 const WAIT_MS = 60_000;
@@ -34,7 +42,13 @@ describe.skipIf(!haveChromium)('motional preview in chromium', () => {
     content = join(work, 'content');
     await writeSyntheticCatalogue(content, 2, { points: 121, samples: 1 });
     yaml = join(content, 'parts', id, 'part.yaml');
-    preview = await startPreview({ contentDir: content, outDir: join(work, 'preview', 'site'), cacheDir: join(work, 'cache'), port: 0, base: '/pv/' });
+    preview = await startPreview({
+      contentDir: content,
+      outDir: join(work, 'preview', 'site'),
+      cacheDir: join(work, 'cache'),
+      port: 0,
+      base: '/pv/',
+    });
     browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
     page = await browser.newPage();
   }, 300_000);
@@ -72,7 +86,10 @@ describe.skipIf(!haveChromium)('motional preview in chromium', () => {
   it('shows new numbers after a sweep file is saved', async () => {
     const before = await page.locator('#summary-table').innerText();
     // the second part's sweep has another model: the extracted values change
-    await copyFile(join(content, 'parts', syntheticPartId(2), 'a1-narrow.s1p'), join(content, 'parts', id, 'a1-narrow.s1p'));
+    await copyFile(
+      join(content, 'parts', syntheticPartId(2), 'a1-narrow.s1p'),
+      join(content, 'parts', id, 'a1-narrow.s1p'),
+    );
     const after = await pageShows((t) => t.includes('renamed while previewing') && !t.includes(before));
     expect(after).not.toContain(before);
   });

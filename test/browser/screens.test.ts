@@ -21,7 +21,15 @@ import type { IndexEntry } from '../../src/site/types.ts';
 const ARTIFACTS = join(ROOT, 'test-artifacts');
 const SCREENSHOTS = join(ROOT, 'content', 'screenshots');
 const BASE = '/cat/';
-const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 const haveChromium = requireTool('chromium');
 /** Phone width of the issue (a common 6.1-inch phone in CSS pixels). */
 const PHONE = { width: 390, height: 844 };
@@ -49,7 +57,10 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
   let index: IndexEntry[];
   const shots = process.env.MOTIONAL_SCREENSHOTS === '1';
 
-  async function open(path: string, options: { viewport?: { width: number; height: number }; ctx?: BrowserContext; ready?: boolean } = {}): Promise<Page> {
+  async function open(
+    path: string,
+    options: { viewport?: { width: number; height: number }; ctx?: BrowserContext; ready?: boolean } = {},
+  ): Promise<Page> {
     const page = await (options.ctx ?? browser).newPage({ viewport: options.viewport ?? { width: 1280, height: 900 } });
     await page.goto(`${server.url}${path}`);
     if (options.ready) await page.waitForSelector('body[data-ready="true"]');
@@ -88,11 +99,20 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
       const m = await page.evaluate(() => {
         const doc = document.documentElement;
         // Elements that stick out to the right of the viewport (names the culprit when it fails).
-        const wide = Array.from(document.querySelectorAll('body *')).filter((el) => el.getBoundingClientRect().right > doc.clientWidth + 0.5)
-          .slice(0, 5).map((el) => `${el.tagName.toLowerCase()}.${(el.getAttribute('class') ?? '').replace(/\s+/g, '.')} ${Math.round(el.getBoundingClientRect().right)}`);
+        const wide = Array.from(document.querySelectorAll('body *'))
+          .filter((el) => el.getBoundingClientRect().right > doc.clientWidth + 0.5)
+          .slice(0, 5)
+          .map(
+            (el) =>
+              `${el.tagName.toLowerCase()}.${(el.getAttribute('class') ?? '').replace(/\s+/g, '.')} ${Math.round(el.getBoundingClientRect().right)}`,
+          );
         const tick = document.querySelector('svg.plot-svg text.tick') as SVGTextElement | null;
         const svg = tick?.ownerSVGElement;
-        const px = tick && svg ? parseFloat(getComputedStyle(tick).fontSize) * (svg.getBoundingClientRect().width / svg.viewBox.baseVal.width) : undefined;
+        const px =
+          tick && svg
+            ? parseFloat(getComputedStyle(tick).fontSize) *
+              (svg.getBoundingClientRect().width / svg.viewBox.baseVal.width)
+            : undefined;
         return { scrollWidth: doc.scrollWidth, clientWidth: doc.clientWidth, wide, px };
       });
       widths.push([e.id, m.scrollWidth]);
@@ -100,22 +120,37 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
       expect(m.scrollWidth, `${e.id} at ${PHONE.width} px: ${m.wide.join(', ')}`).toBeLessThanOrEqual(m.clientWidth);
       if (e === index[0]) {
         // From the first sample's heading: provenance, sweeps and the parameters as labelled blocks.
-        const top = await page.locator('section.sample h2').first().evaluate((h) => h.getBoundingClientRect().top + window.scrollY);
-        await page.screenshot({ path: keep('part-phone.png'), clip: { x: 0, y: Math.max(0, top - 8), width: PHONE.width, height: 1500 }, fullPage: true });
+        const top = await page
+          .locator('section.sample h2')
+          .first()
+          .evaluate((h) => h.getBoundingClientRect().top + window.scrollY);
+        await page.screenshot({
+          path: keep('part-phone.png'),
+          clip: { x: 0, y: Math.max(0, top - 8), width: PHONE.width, height: 1500 },
+          fullPage: true,
+        });
         publish('part-phone.png');
       }
       await page.close();
     }
     // The catalogue and the compare page too.
     const [a, b] = index.filter((x) => x.fsHz);
-    for (const [path, ready] of [['', true], [`compare/?parts=${a.id},${b.id}`, true]] as const) {
+    for (const [path, ready] of [
+      ['', true],
+      [`compare/?parts=${a.id},${b.id}`, true],
+    ] as const) {
       const page = await open(path, { ctx, ready });
-      const m = await page.evaluate(() => ({ scrollWidth: document.documentElement.scrollWidth, clientWidth: document.documentElement.clientWidth }));
+      const m = await page.evaluate(() => ({
+        scrollWidth: document.documentElement.scrollWidth,
+        clientWidth: document.documentElement.clientWidth,
+      }));
       expect(m.scrollWidth, path || 'catalogue').toBeLessThanOrEqual(m.clientWidth);
       await page.close();
     }
     const sorted = widths.map(([, w]) => w).sort((a, b) => a - b);
-    console.log(`phone ${PHONE.width} px: document width of ${widths.length} part pages ${sorted[0]}–${sorted[sorted.length - 1]} px; plot tick text ${Math.min(...tickPx).toFixed(1)}–${Math.max(...tickPx).toFixed(1)} px`);
+    console.log(
+      `phone ${PHONE.width} px: document width of ${widths.length} part pages ${sorted[0]}–${sorted[sorted.length - 1]} px; plot tick text ${Math.min(...tickPx).toFixed(1)}–${Math.max(...tickPx).toFixed(1)} px`,
+    );
     // 9 px: text below it is hard to read on a phone (the issue measured 6.6 px before).
     expect(Math.min(...tickPx)).toBeGreaterThanOrEqual(9);
     await ctx.close();
@@ -135,25 +170,39 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
           if (!t.checkVisibility()) continue;
           const r = t.getBoundingClientRect();
           const name = `${t.className} "${t.caption?.textContent?.slice(0, 40) ?? t.id}"`;
-          if (r.right > width + 0.5 || r.left < -0.5) bad.push(`${name} spans ${Math.round(r.left)}–${Math.round(r.right)} of ${width}`);
+          if (r.right > width + 0.5 || r.left < -0.5)
+            bad.push(`${name} spans ${Math.round(r.left)}–${Math.round(r.right)} of ${width}`);
           if (t.scrollWidth > t.clientWidth + 1) bad.push(`${name} scrolls: ${t.scrollWidth} > ${t.clientWidth}`);
           for (let a = t.parentElement; a; a = a.parentElement) {
             const o = getComputedStyle(a).overflowX;
-            if ((o === 'auto' || o === 'scroll' || o === 'hidden') && a.scrollWidth > a.clientWidth + 1) bad.push(`${name} inside a ${o} box ${a.tagName}.${a.className}`);
+            if ((o === 'auto' || o === 'scroll' || o === 'hidden') && a.scrollWidth > a.clientWidth + 1)
+              bad.push(`${name} inside a ${o} box ${a.tagName}.${a.className}`);
           }
         }
         const hiddenDetails = Array.from(document.querySelectorAll('details:not(.no-print)')).filter((d) => {
           const inner = Array.from(d.children).filter((c) => c.tagName !== 'SUMMARY');
-          return d.checkVisibility() && inner.some((c) => !c.checkVisibility() || c.getBoundingClientRect().height === 0);
+          return (
+            d.checkVisibility() && inner.some((c) => !c.checkVisibility() || c.getBoundingClientRect().height === 0)
+          );
         }).length;
-        return { bad, count: all.filter((t) => t.checkVisibility()).length, hiddenDetails, docWidth: document.documentElement.scrollWidth, width };
+        return {
+          bad,
+          count: all.filter((t) => t.checkVisibility()).length,
+          hiddenDetails,
+          docWidth: document.documentElement.scrollWidth,
+          width,
+        };
       });
       tables += m.count;
       expect(m.bad, e.id).toEqual([]);
       expect(m.docWidth, e.id).toBeLessThanOrEqual(m.width);
       expect(m.hiddenDetails, `${e.id}: closed sections that do not print`).toBe(0);
       if (e === index[0]) {
-        await page.screenshot({ path: keep('part-print.png'), clip: { x: 0, y: 0, width: A4_CONTENT_PX, height: 1400 }, fullPage: true });
+        await page.screenshot({
+          path: keep('part-print.png'),
+          clip: { x: 0, y: 0, width: A4_CONTENT_PX, height: 1400 },
+          fullPage: true,
+        });
         publish('part-print.png');
         // The real print path: A4 PDF through the print stylesheet.
         const pdf = await page.pdf({ format: 'A4', printBackground: false, preferCSSPageSize: true });
@@ -161,7 +210,9 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
       }
       await page.close();
     }
-    console.log(`print at A4 (${A4_CONTENT_PX} px content width): ${tables} tables on ${index.length} part pages, none clipped or scrolled`);
+    console.log(
+      `print at A4 (${A4_CONTENT_PX} px content width): ${tables} tables on ${index.length} part pages, none clipped or scrolled`,
+    );
     await ctx.close();
   });
 
@@ -171,16 +222,39 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
     const [a, b] = index.filter((e) => e.fsHz);
     const part = index.find((e) => e.samples > 1) ?? index[0];
     const report: string[] = [];
-    for (const [path, ready] of [['', true], [`parts/${encodeURIComponent(part.id)}/`, false], [`compare/?parts=${a.id},${b.id}`, true]] as const) {
+    for (const [path, ready] of [
+      ['', true],
+      [`parts/${encodeURIComponent(part.id)}/`, false],
+      [`compare/?parts=${a.id},${b.id}`, true],
+    ] as const) {
       const page = await open(path, { ctx, ready });
       await page.evaluate(AXE_SOURCE);
       const violations = await page.evaluate(async () => {
-        const axe = (window as unknown as { axe: { run: (c: Document, o: object) => Promise<{ violations: Array<{ id: string; impact: string; nodes: Array<{ target: string[] }> }> }> } }).axe;
+        const axe = (
+          window as unknown as {
+            axe: {
+              run: (
+                c: Document,
+                o: object,
+              ) => Promise<{ violations: Array<{ id: string; impact: string; nodes: Array<{ target: string[] }> }> }>;
+            };
+          }
+        ).axe;
         const r = await axe.run(document, { resultTypes: ['violations'] });
-        return r.violations.map((v) => ({ id: v.id, impact: v.impact, nodes: v.nodes.length, first: v.nodes[0]?.target.join(' ') }));
+        return r.violations.map((v) => ({
+          id: v.id,
+          impact: v.impact,
+          nodes: v.nodes.length,
+          first: v.nodes[0]?.target.join(' '),
+        }));
       });
-      report.push(`${path || 'catalogue'}: ${violations.length ? violations.map((v) => `${v.id} (${v.impact}, ${v.nodes})`).join(', ') : 'no violations'}`);
-      expect(violations.filter((v) => v.impact === 'serious' || v.impact === 'critical'), path || 'catalogue').toEqual([]);
+      report.push(
+        `${path || 'catalogue'}: ${violations.length ? violations.map((v) => `${v.id} (${v.impact}, ${v.nodes})`).join(', ') : 'no violations'}`,
+      );
+      expect(
+        violations.filter((v) => v.impact === 'serious' || v.impact === 'critical'),
+        path || 'catalogue',
+      ).toEqual([]);
       await page.close();
     }
     console.log(`axe-core: ${report.join('; ')}`);
@@ -214,9 +288,19 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
       let bg = 'rgb(255, 255, 255)';
       for (let a: HTMLElement | null = el.parentElement; a; a = a.parentElement) {
         const c = getComputedStyle(a).backgroundColor;
-        if (c !== 'rgba(0, 0, 0, 0)' && c !== 'transparent') { bg = c; break; }
+        if (c !== 'rgba(0, 0, 0, 0)' && c !== 'transparent') {
+          bg = c;
+          break;
+        }
       }
-      return { tag: el.tagName, inHeader: !!el.closest('.site-header'), color: style.outlineColor, width: parseFloat(style.outlineWidth), styleName: style.outlineStyle, bg };
+      return {
+        tag: el.tagName,
+        inHeader: !!el.closest('.site-header'),
+        color: style.outlineColor,
+        width: parseFloat(style.outlineWidth),
+        styleName: style.outlineStyle,
+        bg,
+      };
     });
     expect(ring.inHeader).toBe(false);
     expect(ring.styleName).toBe('solid');
@@ -268,11 +352,23 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
   });
 
   it('compare plots tell parts apart by line style as well as colour', async () => {
-    const ids = index.filter((e) => e.fsHz).slice(0, 4).map((e) => e.id);
+    const ids = index
+      .filter((e) => e.fsHz)
+      .slice(0, 4)
+      .map((e) => e.id);
     const page = await open(`compare/?parts=${ids.join(',')}`, { ready: true });
     // One curve per part and panel; each part's class gives its colour and its dash pattern.
-    const styles = await page.locator('figure.plot').first().locator('svg.plot-svg path[class^="s-c"]').evaluateAll((paths) =>
-      paths.map((p) => [p.getAttribute('class') ?? '', getComputedStyle(p).stroke, getComputedStyle(p).strokeDasharray]));
+    const styles = await page
+      .locator('figure.plot')
+      .first()
+      .locator('svg.plot-svg path[class^="s-c"]')
+      .evaluateAll((paths) =>
+        paths.map((p) => [
+          p.getAttribute('class') ?? '',
+          getComputedStyle(p).stroke,
+          getComputedStyle(p).strokeDasharray,
+        ]),
+      );
     const byPart = new Map(styles.map(([cls, stroke, dash]) => [cls, `${stroke}|${dash}`]));
     expect(byPart.size).toBe(ids.length);
     const dashes = new Set([...byPart.values()].map((v) => v.split('|')[1]));
@@ -280,7 +376,11 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
     expect(dashes.size).toBe(ids.length);
     expect(colours.size).toBe(ids.length);
     // The legend draws the same pattern as the curves.
-    const legend = await page.locator('figure.plot').first().locator('.plot-legend line').evaluateAll((ls) => ls.map((l) => getComputedStyle(l).strokeDasharray));
+    const legend = await page
+      .locator('figure.plot')
+      .first()
+      .locator('.plot-legend line')
+      .evaluateAll((ls) => ls.map((l) => getComputedStyle(l).strokeDasharray));
     expect(new Set(legend).size).toBe(ids.length);
     await page.screenshot({ path: keep('compare-styles.png'), fullPage: true });
     await page.close();
@@ -289,14 +389,23 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
   it('desktop screenshots for the README come from this run', async () => {
     const entry = index.find((e) => e.samples > 1) ?? index[0];
     const page = await open(`parts/${encodeURIComponent(entry.id)}/`);
-    await page.screenshot({ path: keep('part-page.png'), clip: { x: 0, y: 0, width: 1280, height: 1500 }, fullPage: true });
-    await page.locator('figure.plot').first().screenshot({ path: keep('part-plots.png') });
+    await page.screenshot({
+      path: keep('part-page.png'),
+      clip: { x: 0, y: 0, width: 1280, height: 1500 },
+      fullPage: true,
+    });
+    await page
+      .locator('figure.plot')
+      .first()
+      .screenshot({ path: keep('part-plots.png') });
     publish('part-page.png');
     publish('part-plots.png');
     // The parameters table fits the desktop column: no inner scroller, nothing sticks out of main.
     const fits = await page.evaluate(() => {
       const main = document.querySelector('main')!.getBoundingClientRect();
-      return Array.from(document.querySelectorAll('main table')).filter((t) => t.getBoundingClientRect().right > main.right + 0.5).map((t) => t.className);
+      return Array.from(document.querySelectorAll('main table'))
+        .filter((t) => t.getBoundingClientRect().right > main.right + 0.5)
+        .map((t) => t.className);
     });
     expect(fits).toEqual([]);
     await page.close();

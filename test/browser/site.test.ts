@@ -23,26 +23,53 @@ import { DEMO_CIRCUIT, fixtureCatalogue, makeFixturePart } from '../site/fixture
 const ROOT = resolve(import.meta.dirname, '..', '..');
 const ARTIFACTS = join(ROOT, 'test-artifacts');
 const BASE = '/cat/';
-const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 const haveChromium = requireTool('chromium');
 
 /** The real pipeline can build the demo content (env MOTIONAL_SITE_TEST_FIXTURE=1 forces the fixture site). */
 function realBuildPossible(): boolean {
   if (process.env.MOTIONAL_SITE_TEST_FIXTURE === '1') return false;
   const parts = join(ROOT, 'content', 'parts');
-  return existsSync(join(ROOT, 'src', 'lib', 'extract', 'extract-part.ts'))
-    && existsSync(parts) && readdirSync(parts).some((d) => existsSync(join(parts, d, 'part.yaml')));
+  return (
+    existsSync(join(ROOT, 'src', 'lib', 'extract', 'extract-part.ts')) &&
+    existsSync(parts) &&
+    readdirSync(parts).some((d) => existsSync(join(parts, d, 'part.yaml')))
+  );
 }
 
 function cli(args: string[]): string {
-  return execFileSync(process.execPath, [join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), join(ROOT, 'scripts', 'motional.ts'), ...args], { cwd: ROOT, encoding: 'utf8', maxBuffer: 64 << 20 });
+  return execFileSync(
+    process.execPath,
+    [join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), join(ROOT, 'scripts', 'motional.ts'), ...args],
+    { cwd: ROOT, encoding: 'utf8', maxBuffer: 64 << 20 },
+  );
 }
 
 /** Parse engineering text such as "15.9154943 MHz" or "20 Ω" into [value, relative half-step of its last digit]. */
 function parseDisplayed(text: string): [number, number] {
   const m = /^([+−-]?[\d.]+)\s*([TGMkmµnpfa]?)/.exec(text.trim());
   if (!m) throw new Error(`not a number: ${text}`);
-  const mult: Record<string, number> = { T: 1e12, G: 1e9, M: 1e6, k: 1e3, '': 1, m: 1e-3, 'µ': 1e-6, n: 1e-9, p: 1e-12, f: 1e-15, a: 1e-18 };
+  const mult: Record<string, number> = {
+    T: 1e12,
+    G: 1e9,
+    M: 1e6,
+    k: 1e3,
+    '': 1,
+    m: 1e-3,
+    µ: 1e-6,
+    n: 1e-9,
+    p: 1e-12,
+    f: 1e-15,
+    a: 1e-18,
+  };
   const digits = m[1].replace(/^[+−-]/, '');
   const decimals = digits.includes('.') ? digits.split('.')[1].length : 0;
   const v = Number(m[1].replace('−', '-')) * mult[m[2]];
@@ -70,7 +97,8 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
       return route.continue();
     });
     page.on('console', (m) => {
-      if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) consoleErrors.push(`${page.url()}: ${m.text()}`);
+      if (m.type() === 'error' || /Content Security Policy/i.test(m.text()))
+        consoleErrors.push(`${page.url()}: ${m.text()}`);
     });
     page.on('pageerror', (e) => consoleErrors.push(`${page.url()}: ${e.message}`));
     return page;
@@ -81,7 +109,22 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     site = join(work, 'site');
     real = realBuildPossible();
     if (real) {
-      const run = spawnSync(process.execPath, [join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), join(ROOT, 'scripts', 'motional.ts'), 'build', '--content', 'content', '--out', site, '--base', BASE, '--quiet'], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' } });
+      const run = spawnSync(
+        process.execPath,
+        [
+          join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'),
+          join(ROOT, 'scripts', 'motional.ts'),
+          'build',
+          '--content',
+          'content',
+          '--out',
+          site,
+          '--base',
+          BASE,
+          '--quiet',
+        ],
+        { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' } },
+      );
       if (run.status !== 0) throw new Error(`motional build failed (${run.status}):\n${run.stdout}\n${run.stderr}`);
     } else {
       console.warn('site test: demo content or pipeline missing — building the synthetic fixture catalogue instead');
@@ -101,11 +144,12 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
 
   it('every page is static HTML without inline scripts or styles, and part pages stay under 250 KB', () => {
     const pages: string[] = [];
-    const walk = (d: string) => readdirSync(d).forEach((n) => {
-      const p = join(d, n);
-      if (statSync(p).isDirectory()) walk(p);
-      else if (n.endsWith('.html')) pages.push(p);
-    });
+    const walk = (d: string) =>
+      readdirSync(d).forEach((n) => {
+        const p = join(d, n);
+        if (statSync(p).isDirectory()) walk(p);
+        else if (n.endsWith('.html')) pages.push(p);
+      });
     walk(site);
     expect(pages.length).toBeGreaterThanOrEqual(index.length + 2);
     for (const p of pages) {
@@ -117,7 +161,9 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
       expect(html, p).toContain("script-src 'self'");
     }
     const sizes = index.map((e) => statSync(join(site, 'parts', e.id, 'index.html')).size);
-    console.log(`part page sizes (bytes): min ${Math.min(...sizes)}, max ${Math.max(...sizes)}, mean ${Math.round(sizes.reduce((a, b) => a + b, 0) / sizes.length)}; catalogue ${statSync(join(site, 'index.html')).size}`);
+    console.log(
+      `part page sizes (bytes): min ${Math.min(...sizes)}, max ${Math.max(...sizes)}, mean ${Math.round(sizes.reduce((a, b) => a + b, 0) / sizes.length)}; catalogue ${statSync(join(site, 'index.html')).size}`,
+    );
     for (const s of sizes) expect(s).toBeLessThanOrEqual(250_000);
   });
 
@@ -129,7 +175,9 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     expect(all).toBe(index.length);
     const target = index.find((e) => e.kind === 'quartz-tuning-fork') ?? index[index.length - 1];
     await page.fill('#f-q', target.id);
-    const visible = await page.locator('#catalogue-table tbody tr:not([hidden])').evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.id));
+    const visible = await page
+      .locator('#catalogue-table tbody tr:not([hidden])')
+      .evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.id));
     expect(visible.length).toBeLessThan(all);
     expect(visible).toContain(target.id);
     expect(await page.textContent('#result-count')).toContain(`${visible.length} of ${index.length}`);
@@ -140,7 +188,9 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     await again.goto(url);
     await again.waitForSelector('body[data-ready="true"]');
     expect(await again.inputValue('#f-q')).toBe(target.id);
-    const visible2 = await again.locator('#catalogue-table tbody tr:not([hidden])').evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.id));
+    const visible2 = await again
+      .locator('#catalogue-table tbody tr:not([hidden])')
+      .evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.id));
     expect(visible2).toEqual(visible);
     await page.close();
     await again.close();
@@ -160,15 +210,24 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     await page.fill('#f-esr', `${esr} ohm`);
     const loR = Number((lo / 1e6).toFixed(4)) * 1e6;
     const hiR = Number((hi / 1e6).toFixed(4)) * 1e6;
-    const expected = index.filter((e) => e.fsHz !== undefined && e.fsHz >= loR && e.fsHz <= hiR && e.r1Ohm !== undefined && e.r1Ohm <= esr).map((e) => e.id).sort();
-    const visible = (await page.locator('#catalogue-table tbody tr:not([hidden])').evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.id as string))).sort();
+    const expected = index
+      .filter((e) => e.fsHz !== undefined && e.fsHz >= loR && e.fsHz <= hiR && e.r1Ohm !== undefined && e.r1Ohm <= esr)
+      .map((e) => e.id)
+      .sort();
+    const visible = (
+      await page
+        .locator('#catalogue-table tbody tr:not([hidden])')
+        .evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.id as string))
+    ).sort();
     expect(expected.length).toBeGreaterThan(0);
     expect(visible).toEqual(expected);
     // Sorting by R1 descending through the header button keeps the same set, in order.
     await page.click('button.sort[data-key="r1Ohm"]');
     await page.click('button.sort[data-key="r1Ohm"]');
     expect(await page.getAttribute('th[data-key="r1Ohm"]', 'aria-sort')).toBe('descending');
-    const sorted = await page.locator('#catalogue-table tbody tr:not([hidden])').evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.id as string));
+    const sorted = await page
+      .locator('#catalogue-table tbody tr:not([hidden])')
+      .evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.id as string));
     const r1 = new Map(index.map((e) => [e.id, e.r1Ohm ?? 0]));
     expect(sorted.map((id) => r1.get(id)!)).toEqual([...sorted.map((id) => r1.get(id)!)].sort((a, b) => b - a));
     expect(new URL(page.url()).searchParams.get('f')).toBe(text);
@@ -192,11 +251,20 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
       const b = spec.samples[0].branches[0];
       expected = { fsHz: b.fsHz, r1Ohm: b.r1Ohm, c1F: b.c1F, c0F: spec.samples[0].c0F };
     }
-    const cells = await page.locator('#summary-table td[data-si]').evaluateAll((tds) => tds.map((td) => [td.previousElementSibling?.textContent ?? '', td.textContent ?? '']));
+    const cells = await page
+      .locator('#summary-table td[data-si]')
+      .evaluateAll((tds) => tds.map((td) => [td.previousElementSibling?.textContent ?? '', td.textContent ?? '']));
     const shown = (label: string) => cells.find(([l]) => l.includes(label))![1];
-    for (const [label, value] of [['fs', expected.fsHz], ['R1', expected.r1Ohm], ['C1', expected.c1F], ['C0', expected.c0F]] as const) {
+    for (const [label, value] of [
+      ['fs', expected.fsHz],
+      ['R1', expected.r1Ohm],
+      ['C1', expected.c1F],
+      ['C0', expected.c0F],
+    ] as const) {
       const [v, halfStep] = parseDisplayed(shown(label));
-      expect(Math.abs(v / value - 1), `${label}: shown ${shown(label)}, extract ${value}`).toBeLessThanOrEqual(halfStep * 1.0000001);
+      expect(Math.abs(v / value - 1), `${label}: shown ${shown(label)}, extract ${value}`).toBeLessThanOrEqual(
+        halfStep * 1.0000001,
+      );
     }
     // Plots: SVG with a title, a description, and axis labels carrying units.
     const plots = page.locator('figure.plot svg.plot-svg');
@@ -213,7 +281,10 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     await page.mouse.move(box.x + box.width / 2, box.y + box.height / 3);
     expect(await page.locator('figure.plot output.readout').first().textContent()).toMatch(/Frequency .*Hz/);
     await page.screenshot({ path: join(ARTIFACTS, 'part.png'), fullPage: true });
-    await page.locator('figure.plot').first().screenshot({ path: join(ARTIFACTS, 'part-plot.png') });
+    await page
+      .locator('figure.plot')
+      .first()
+      .screenshot({ path: join(ARTIFACTS, 'part-plot.png') });
     await page.close();
   });
 
@@ -245,14 +316,27 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
     await page.fill('#c-stray', '2.5');
     const target = data.datasheet?.frequencyHz ?? data.model.branches[data.mainBranch].fsHz;
     await page.fill('#c-target', String(target));
-    const rows = await page.locator('#calc-table tr').evaluateAll((trs) => trs.map((tr) => [tr.querySelector('th')?.textContent ?? '', tr.querySelector('td')?.textContent ?? '']));
+    const rows = await page
+      .locator('#calc-table tr')
+      .evaluateAll((trs) =>
+        trs.map((tr) => [tr.querySelector('th')?.textContent ?? '', tr.querySelector('td')?.textContent ?? '']),
+      );
     const got = Object.fromEntries(rows);
     const circuit = { ...data.circuits[0], boardStrayF: 2.5e-12 };
-    const advice = advisePierce({ partId: data.partId, datasheet: { ...(data.datasheet ?? {}), frequencyHz: target }, model: data.model, mainBranch: data.mainBranch, circuit });
+    const advice = advisePierce({
+      partId: data.partId,
+      datasheet: { ...(data.datasheet ?? {}), frequencyHz: target },
+      model: data.model,
+      mainBranch: data.mainBranch,
+      circuit,
+    });
     expect(advice.ok).toBe(true);
     if (!advice.ok) return;
     const pair = got['Closest pair (input / output)'];
-    const [inF, outF] = pair.split('(')[0].split('/').map((t: string) => parseDisplayed(t)[0]);
+    const [inF, outF] = pair
+      .split('(')[0]
+      .split('/')
+      .map((t: string) => parseDisplayed(t)[0]);
     expect(inF / advice.best.inputCapF).toBeCloseTo(1, 6);
     expect(outF / advice.best.outputCapF).toBeCloseTo(1, 6);
     const offset = Number(got['Frequency offset'].replace('−', '-').replace(/[^\d.+-]/g, ''));
@@ -263,9 +347,15 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
       // The command line with the page's default circuit and the datasheet target.
       const out = cli(['advise', join('content', 'parts', entry.id), '--circuit', data.circuits[0].name, '--json']);
       const cliAdvice = JSON.parse(out);
-      const first = Array.isArray(cliAdvice) ? cliAdvice[0] : cliAdvice.advice?.[0] ?? cliAdvice;
+      const first = Array.isArray(cliAdvice) ? cliAdvice[0] : (cliAdvice.advice?.[0] ?? cliAdvice);
       await page.fill('#c-stray', String(data.circuits[0].boardStrayF * 1e12));
-      const rows2 = Object.fromEntries(await page.locator('#calc-table tr').evaluateAll((trs) => trs.map((tr) => [tr.querySelector('th')?.textContent ?? '', tr.querySelector('td')?.textContent ?? ''])));
+      const rows2 = Object.fromEntries(
+        await page
+          .locator('#calc-table tr')
+          .evaluateAll((trs) =>
+            trs.map((tr) => [tr.querySelector('th')?.textContent ?? '', tr.querySelector('td')?.textContent ?? '']),
+          ),
+      );
       const off2 = Number(rows2['Frequency offset'].replace('−', '-').replace(/[^\d.+-]/g, ''));
       expect(Math.abs(off2 - first.best.offsetPpm)).toBeLessThanOrEqual(0.0005);
     } else {
@@ -303,7 +393,11 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
   });
 
   it('no request left 127.0.0.1 and the console stayed clean (no CSP violations)', () => {
-    if (process.env.MOTIONAL_KEEP_SITE) console.log(site, server.requests.filter((r) => r.status >= 400));
+    if (process.env.MOTIONAL_KEEP_SITE)
+      console.log(
+        site,
+        server.requests.filter((r) => r.status >= 400),
+      );
     expect(external).toEqual([]);
     expect(consoleErrors).toEqual([]);
     expect(server.requests.filter((r) => r.status >= 400)).toEqual([]);

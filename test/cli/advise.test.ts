@@ -77,13 +77,39 @@ describe('motional advise', () => {
   });
 
   it('takes a whole circuit from flags and validates each value', async () => {
-    const r = await run(['advise', part, '--gm', '5mA/V', '--pin-in', '3pF', '--pin-out', '4pF', '--stray', '1pF', '--supply', '3.3V', '--json']);
+    const r = await run([
+      'advise',
+      part,
+      '--gm',
+      '5mA/V',
+      '--pin-in',
+      '3pF',
+      '--pin-out',
+      '4pF',
+      '--stray',
+      '1pF',
+      '--supply',
+      '3.3V',
+      '--json',
+    ]);
     expect(r.code).toBe(0);
     expect(JSON.parse(r.out)[0].circuit).toBe('command-line');
   });
 
   it('rejects a transconductance in the wrong unit and a negative capacitance, naming the flag', async () => {
-    const gm = await run(['advise', part, '--gm', '5pF', '--pin-in', '3pF', '--pin-out=-3pF', '--stray', '1pF', '--supply', '3.3V']);
+    const gm = await run([
+      'advise',
+      part,
+      '--gm',
+      '5pF',
+      '--pin-in',
+      '3pF',
+      '--pin-out=-3pF',
+      '--stray',
+      '1pF',
+      '--supply',
+      '3.3V',
+    ]);
     expect(gm.code).toBe(2);
     expect(gm.err).toContain('--gm: expected a transconductance such as "5 mA/V" or "5 mS", got "5pF" (a capacitance)');
     expect(gm.err).toContain('--pin-out: expected a non-negative capacitance, got "-3pF"');
@@ -92,8 +118,18 @@ describe('motional advise', () => {
     expect(missing.err).toContain('--supply: missing (needed without --circuit)');
   });
 
-  it('replaces a named circuit\'s values with flags', async () => {
-    const r = await run(['advise', part, '--circuits', circuits, '--circuit', 'test-pierce', '--gm', '0.2mS', '--json']);
+  it("replaces a named circuit's values with flags", async () => {
+    const r = await run([
+      'advise',
+      part,
+      '--circuits',
+      circuits,
+      '--circuit',
+      'test-pierce',
+      '--gm',
+      '0.2mS',
+      '--json',
+    ]);
     const [a] = JSON.parse(r.out);
     expect(a.best.checks.gainMargin.verdict).toBe('warn');
   });
@@ -119,7 +155,11 @@ describe('motional advise', () => {
   it('--json carries the start-up time constant in seconds (startupTauS) for every pair', async () => {
     const r = await run(['advise', part, '--circuits', circuits, '--json']);
     expect(r.code).toBe(0);
-    const advice = JSON.parse(r.out) as Array<{ ok: boolean; equal: Record<string, unknown>; best: Record<string, unknown> }>;
+    const advice = JSON.parse(r.out) as Array<{
+      ok: boolean;
+      equal: Record<string, unknown>;
+      best: Record<string, unknown>;
+    }>;
     expect(advice.length).toBeGreaterThan(0);
     for (const a of advice) {
       for (const p of [a.equal, a.best]) {
@@ -148,14 +188,23 @@ describe('motional advise', () => {
     writeFileSync(join(content, 'oscillators.yaml'), CIRCUITS);
     const text = await run(['advise', '--all', content]);
     expect(text.code).toBe(0);
-    expect(text.out.split('\n')[0]).toMatch(/^part\s+circuit\s+verdict\s+pair in \/ out\s+offset\s+gain margin\s+start-up/);
+    expect(text.out.split('\n')[0]).toMatch(
+      /^part\s+circuit\s+verdict\s+pair in \/ out\s+offset\s+gain margin\s+start-up/,
+    );
     expect(text.out).toMatch(/dsn-16m\s+rtc-only\s+outside range/);
     const csv = await run(['advise', '--all', content, '--format', 'csv']);
     const lines = csv.out.trim().split('\n');
-    expect(lines[0]).toBe('part,circuit,verdict,inputCapF,outputCapF,offsetPpm,gainMargin,startupTauS,startupTimeS,budgetWorstPpm,reason');
+    expect(lines[0]).toBe(
+      'part,circuit,verdict,inputCapF,outputCapF,offsetPpm,gainMargin,startupTauS,startupTimeS,budgetWorstPpm,reason',
+    );
     expect(lines).toHaveLength(3);
     const json = await run(['advise', '--all', content, '--format', 'json', '--circuit', 'test-pierce']);
-    const rows = JSON.parse(json.out) as Array<{ part: string; circuit: string; verdict: string; startupTauS?: number }>;
+    const rows = JSON.parse(json.out) as Array<{
+      part: string;
+      circuit: string;
+      verdict: string;
+      startupTauS?: number;
+    }>;
     expect(rows).toHaveLength(1);
     expect(rows[0]).toMatchObject({ part: 'dsn-16m', circuit: 'test-pierce' });
     expect(['fits', 'check', 'no']).toContain(rows[0].verdict);

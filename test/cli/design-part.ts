@@ -46,7 +46,9 @@ export function writeDesignPart(dir: string, scales: number[] = [1]): string {
     sweeps:
 ${['main', 'spur', 'wide'].map((k) => `      - file: ${id}-${k}.s1p\n        fixture: reflection\n        drive: 10 uW`).join('\n')}`;
   });
-  writeFileSync(join(folder, 'part.yaml'), `id: dsn-16m
+  writeFileSync(
+    join(folder, 'part.yaml'),
+    `id: dsn-16m
 title: 16 MHz design check part (synthetic)
 kind: quartz-at
 datasheet:
@@ -58,6 +60,7 @@ datasheet:
   overtone: 1
 samples:
 ${samples.join('\n')}
-`);
+`,
+  );
   return folder;
 }

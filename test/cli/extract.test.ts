@@ -26,21 +26,48 @@ beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'motional-extract-'));
   good = join(dir, 'xt-test');
   mkdirSync(good);
-  writeFileSync(join(good, 'a1-narrow.csv'), formatSweepCsv(synthSweep(X1, linGrid(FS - 1600, FS + 1600, 801), { noiseDb: -70, seed: 1 })));
-  writeFileSync(join(good, 'a1-wide.csv'), formatSweepCsv(synthSweep(X1, linGrid(0.995 * FS, 1.005 * FS, 2001), { noiseDb: -70, seed: 2 })));
-  writeFileSync(join(good, 'part.yaml'), [
-    'id: XT-TEST', 'title: test crystal (synthetic)', 'kind: quartz-at', 'samples:', '  - id: A1',
-    '    instrumentMaxFrequency: 15.95 MHz', '    sweeps:',
-    '      - file: a1-narrow.csv', '        fixture: impedance', '      - file: a1-wide.csv', '        fixture: impedance', '',
-  ].join('\n'));
+  writeFileSync(
+    join(good, 'a1-narrow.csv'),
+    formatSweepCsv(synthSweep(X1, linGrid(FS - 1600, FS + 1600, 801), { noiseDb: -70, seed: 1 })),
+  );
+  writeFileSync(
+    join(good, 'a1-wide.csv'),
+    formatSweepCsv(synthSweep(X1, linGrid(0.995 * FS, 1.005 * FS, 2001), { noiseDb: -70, seed: 2 })),
+  );
+  writeFileSync(
+    join(good, 'part.yaml'),
+    [
+      'id: XT-TEST',
+      'title: test crystal (synthetic)',
+      'kind: quartz-at',
+      'samples:',
+      '  - id: A1',
+      '    instrumentMaxFrequency: 15.95 MHz',
+      '    sweeps:',
+      '      - file: a1-narrow.csv',
+      '        fixture: impedance',
+      '      - file: a1-wide.csv',
+      '        fixture: impedance',
+      '',
+    ].join('\n'),
+  );
   empty = join(dir, 'xt-empty');
   mkdirSync(empty);
   const below: BvdModel = { c0F: 5e-12, branches: [{ fsHz: 4.2e6, r1Ohm: 50, c1F: 20e-15 }] };
-  writeFileSync(join(empty, 'a1.csv'), formatSweepCsv(synthSweep(below, linGrid(3.97e6, 4.03e6, 401), { noiseDb: -70 })));
-  writeFileSync(join(empty, 'part.yaml'), 'id: XT-EMPTY\ntitle: no resonance\nkind: quartz-at\nsamples:\n  - id: A1\n    sweeps:\n      - file: a1.csv\n        fixture: impedance\n');
+  writeFileSync(
+    join(empty, 'a1.csv'),
+    formatSweepCsv(synthSweep(below, linGrid(3.97e6, 4.03e6, 401), { noiseDb: -70 })),
+  );
+  writeFileSync(
+    join(empty, 'part.yaml'),
+    'id: XT-EMPTY\ntitle: no resonance\nkind: quartz-at\nsamples:\n  - id: A1\n    sweeps:\n      - file: a1.csv\n        fixture: impedance\n',
+  );
   bad = join(dir, 'xt-bad');
   mkdirSync(bad);
-  writeFileSync(join(bad, 'part.yaml'), 'id: XT-BAD\ntitle: bad\nkind: quartz-at\ndatasheet:\n  c0Max: 80 ohm\nsamples:\n  - id: A1\n    sweeps:\n      - file: missing.csv\n        fixture: impedance\n');
+  writeFileSync(
+    join(bad, 'part.yaml'),
+    'id: XT-BAD\ntitle: bad\nkind: quartz-at\ndatasheet:\n  c0Max: 80 ohm\nsamples:\n  - id: A1\n    sweeps:\n      - file: missing.csv\n        fixture: impedance\n',
+  );
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
@@ -58,7 +85,9 @@ describe('motional extract', () => {
     expect(Math.abs(m.fsHz / FS - 1)).toBeLessThan(1e-7);
     expect(m.r1Ohm).toBeCloseTo(20, 1);
     for (const k of ['fsHz', 'r1Ohm', 'l1H', 'c1F', 'c0F']) expect(m.uncertainty[k]).toBeGreaterThan(0);
-    expect(s.warnings).toEqual([`sweep a1-wide.csv: above instrumentMaxFrequency from 15.95 MHz; modes there are flagged`]);
+    expect(s.warnings).toEqual([
+      `sweep a1-wide.csv: above instrumentMaxFrequency from 15.95 MHz; modes there are flagged`,
+    ]);
     expect(r.out).not.toMatch(/NaN|Infinity|null/);
   });
 
@@ -67,13 +96,17 @@ describe('motional extract', () => {
     expect(r.code).toBe(0);
     expect(r.out).toMatch(/^part XT-TEST\n\nsample A1\n  C0 (2\.99\d*|3(\.0\d*)?)\(\d{1,2}\) pF/); // GUM concise form, at most two digits of u
     expect(r.out).toMatch(/\n {2}fundamental +15915494\.3\d*\(\d{1,2}\) Hz /);
-    expect(r.out).toContain('warnings:\n    - sweep a1-wide.csv: above instrumentMaxFrequency from 15.95 MHz; modes there are flagged');
+    expect(r.out).toContain(
+      'warnings:\n    - sweep a1-wide.csv: above instrumentMaxFrequency from 15.95 MHz; modes there are flagged',
+    );
   });
 
   it('exits 1 with the clear message when no sample shows a resonance', async () => {
     const r = await run([empty, '--json']);
     expect(r.code).toBe(1);
-    expect(r.err).toContain('a1.csv:1: sample A1: sweep a1.csv: no resonance: capacitive only between 3.97 and 4.03 MHz');
+    expect(r.err).toContain(
+      'a1.csv:1: sample A1: sweep a1.csv: no resonance: capacitive only between 3.97 and 4.03 MHz',
+    );
     expect(JSON.parse(r.out).samples[0].modes).toEqual([]);
   });
 

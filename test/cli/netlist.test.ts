@@ -51,7 +51,13 @@ describe('motional netlist', () => {
     expect(Math.abs(chosen.model.branches[1].fsHz / FS_SPUR - 1)).toBeLessThan(1e-6);
     expect(chosen.model.branches[0].r1Ohm).toBeCloseTo(20, 1);
     const name = /^\.subckt (\S+)/m.exec(r.out)![1];
-    const rows = await engineImpedance(impedanceDeck('cli netlist', `${r.out}XDUT in 0 ${name}\n`, { startHz: FS_X1 - 1000, stopHz: FS_SPUR + 1000, points: 4001 }));
+    const rows = await engineImpedance(
+      impedanceDeck('cli netlist', `${r.out}XDUT in 0 ${name}\n`, {
+        startHz: FS_X1 - 1000,
+        stopHz: FS_SPUR + 1000,
+        points: 4001,
+      }),
+    );
     let worst = 0;
     for (const [f, re, im] of rows) {
       const [mr, mi] = impedanceAt(chosen.model, f);
@@ -83,10 +89,26 @@ describe('motional netlist', () => {
   });
 
   it('prints the model as Touchstone and the parameters as CSV and JSON on request', async () => {
-    const ts = await run(['netlist', part, '--format', 'touchstone', '--start', '15.9MHz', '--stop', '15.93MHz', '--points', '11']);
+    const ts = await run([
+      'netlist',
+      part,
+      '--format',
+      'touchstone',
+      '--start',
+      '15.9MHz',
+      '--stop',
+      '15.93MHz',
+      '--points',
+      '11',
+    ]);
     expect(ts.code).toBe(0);
     expect(ts.out).toContain('# Hz S RI R 50');
-    expect(ts.out.trimEnd().split('\n').filter((l) => /^\d/.test(l))).toHaveLength(11);
+    expect(
+      ts.out
+        .trimEnd()
+        .split('\n')
+        .filter((l) => /^\d/.test(l)),
+    ).toHaveLength(11);
     const csv = await run(['netlist', part, '--format', 'csv']);
     expect(csv.out.split('\n')[0]).toMatch(/^mode,overtone,spurious,fs \(Hz\)/);
     const json = JSON.parse((await run(['netlist', part, '--format', 'json'])).out);
@@ -99,8 +121,14 @@ describe('motional netlist', () => {
     const s = extractPart(loaded.part!, loaded.sweeps).samples[0];
     const chosen = modelFromResult(s);
     const r = await run(['netlist', part]);
-    const body = (t: string) => t.split('\n').filter((l) => !l.startsWith('*')).join('\n');
-    expect(body(r.out)).toBe(body(formatNetlist(chosen.model, { partId: 'dsn-16m', sample: 'S1', labels: chosen.labels })));
+    const body = (t: string) =>
+      t
+        .split('\n')
+        .filter((l) => !l.startsWith('*'))
+        .join('\n');
+    expect(body(r.out)).toBe(
+      body(formatNetlist(chosen.model, { partId: 'dsn-16m', sample: 'S1', labels: chosen.labels })),
+    );
   });
 
   it('exits 1 naming the part for an unknown sample, and 2 for usage errors', async () => {
@@ -109,7 +137,9 @@ describe('motional netlist', () => {
     expect(r.err).toContain('no sample "Z9" in dsn-16m (samples: S1)');
     expect((await run(['netlist'])).code).toBe(2);
     expect((await run(['netlist', part, '--bogus'])).code).toBe(2);
-    expect((await run(['netlist', part, '--format', 'pdf'])).err).toContain('--format: expected one of spice, touchstone, csv, json, got "pdf"');
+    expect((await run(['netlist', part, '--format', 'pdf'])).err).toContain(
+      '--format: expected one of spice, touchstone, csv, json, got "pdf"',
+    );
     expect((await run(['netlist', part, '--sample', 'S1', '--lot-median'])).code).toBe(2);
   });
 

@@ -39,7 +39,16 @@ export interface WrittenFolder {
   compensation?: { open: string; short: string };
 }
 
-const ext = (f: SynthFileFormat, ports: number) => (f.kind === 'csv' ? (f.delimiter === '\t' ? 'tsv' : 'csv') : f.version === 2 ? (ports === 1 ? 's1p' : 's2p') : `s${ports}p`);
+const ext = (f: SynthFileFormat, ports: number) =>
+  f.kind === 'csv'
+    ? f.delimiter === '\t'
+      ? 'tsv'
+      : 'csv'
+    : f.version === 2
+      ? ports === 1
+        ? 's1p'
+        : 's2p'
+      : `s${ports}p`;
 
 /** Write a folder of one part's sweeps. */
 export function writeFolder(folder: string, spec: FolderSpec): WrittenFolder {
@@ -47,11 +56,27 @@ export function writeFolder(folder: string, spec: FolderSpec): WrittenFolder {
   const b = spec.model.branches[0];
   const q = 1 / (2 * Math.PI * b.fsHz * b.c1F * b.r1Ohm);
   const bw = b.fsHz / q;
-  const parasitics: FixtureParasitics | undefined = spec.compensation ? { rsOhm: 0.3, lsH: 2e-9, cpF: 0.6e-12 } : undefined;
-  const ports: 1 | 2 = spec.fixture === 'series-thru' || spec.fixture === 'shunt-thru' ? 2 : spec.fixture === 'impedance' ? 1 : (spec.ports ?? 1);
+  const parasitics: FixtureParasitics | undefined = spec.compensation
+    ? { rsOhm: 0.3, lsH: 2e-9, cpF: 0.6e-12 }
+    : undefined;
+  const ports: 1 | 2 =
+    spec.fixture === 'series-thru' || spec.fixture === 'shunt-thru'
+      ? 2
+      : spec.fixture === 'impedance'
+        ? 1
+        : (spec.ports ?? 1);
   const x = ext(spec.format, ports);
   const z0Ohm = spec.fixture === 'impedance' ? (b.r1Ohm > 1e3 ? 1e4 : 100) : 50;
-  const common = { fixture: spec.fixture, ports, parameter: spec.parameter, z0Ohm, parasitics, floorDb: -90, traceNoise: 2e-5, freqResolutionHz: b.fsHz > 1e6 ? 0.001 : 1e-6 };
+  const common = {
+    fixture: spec.fixture,
+    ports,
+    parameter: spec.parameter,
+    z0Ohm,
+    parasitics,
+    floorDb: -90,
+    traceNoise: 2e-5,
+    freqResolutionHz: b.fsHz > 1e6 ? 0.001 : 1e-6,
+  };
   const out: WrittenFolder = { folder, files: {} };
   let seed = spec.seed ?? 11;
   const write = (name: string, grid: FreqGridSpec, added?: AddedCapacitor) => {
@@ -83,7 +108,13 @@ export function writeFolder(folder: string, spec: FolderSpec): WrittenFolder {
   if (spec.compensation) {
     const fa = b.fsHz * Math.sqrt(1 + b.c1F / spec.model.c0F);
     const span = 4 * (fa - b.fsHz);
-    const comp = synthesizeCompensation({ ...common, parasitics: parasitics!, grid: { kind: 'linear', startHz: b.fsHz - 2 * span, stopHz: b.fsHz + 3 * span, points: 801 }, seed: 900, source: 'c' });
+    const comp = synthesizeCompensation({
+      ...common,
+      parasitics: parasitics!,
+      grid: { kind: 'linear', startHz: b.fsHz - 2 * span, stopHz: b.fsHz + 3 * span, points: 801 },
+      seed: 900,
+      source: 'c',
+    });
     writeFileSync(join(folder, `open.${x}`), formatSynthFile({ ...comp.open, seed: 900 }, spec.format));
     writeFileSync(join(folder, `short.${x}`), formatSynthFile({ ...comp.short, seed: 901 }, spec.format));
     out.compensation = { open: `open.${x}`, short: `short.${x}` };

@@ -16,7 +16,8 @@ export function compareSample(result: SampleResult, model: BvdModel, modes: read
   const problems: string[] = [];
   const rel = (got: number, want: number) => (got - want) / want;
   const c0Err = rel(result.c0F, model.c0F);
-  if (!(Math.abs(c0Err) <= TOLERANCE.c0)) problems.push(`c0F ${result.c0F} vs ${model.c0F} (${(c0Err * 100).toFixed(3)} %)`);
+  if (!(Math.abs(c0Err) <= TOLERANCE.c0))
+    problems.push(`c0F ${result.c0F} vs ${model.c0F} (${(c0Err * 100).toFixed(3)} %)`);
   for (const m of modes) {
     const b = model.branches[m.branch];
     const label = `mode ${m.overtone}${m.spurious ? ' spurious' : ''} @${(b.fsHz / 1e6).toFixed(6)} MHz`;
@@ -25,7 +26,9 @@ export function compareSample(result: SampleResult, model: BvdModel, modes: read
       problems.push(`${label}: not found (extracted: ${result.modes.map(describe).join(', ') || 'none'})`);
       continue;
     }
-    const got: ModeResult = candidates.reduce((a, x) => (Math.abs(x.fsHz - b.fsHz) < Math.abs(a.fsHz - b.fsHz) ? x : a));
+    const got: ModeResult = candidates.reduce((a, x) =>
+      Math.abs(x.fsHz - b.fsHz) < Math.abs(a.fsHz - b.fsHz) ? x : a,
+    );
     if (m.aboveInstrumentRange) {
       if (got.flagged !== true) problems.push(`${label}: above the instrument range but not flagged`);
       continue;
@@ -39,7 +42,8 @@ export function compareSample(result: SampleResult, model: BvdModel, modes: read
       ['l1H', got.l1H, inductanceOf(b), rel(got.l1H, inductanceOf(b)) * 100, TOLERANCE.l1 * 100],
     ];
     for (const [name, g, w, err, tol] of checks) {
-      if (!(Math.abs(err) <= tol)) problems.push(`${label}: ${name} ${g} vs ${w} (${err.toFixed(4)} ${name.startsWith('f') ? 'ppm' : '%'})`);
+      if (!(Math.abs(err) <= tol))
+        problems.push(`${label}: ${name} ${g} vs ${w} (${err.toFixed(4)} ${name.startsWith('f') ? 'ppm' : '%'})`);
     }
   }
   return problems;

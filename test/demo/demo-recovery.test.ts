@@ -87,7 +87,9 @@ describe('demo catalogue scenarios', () => {
     const model = p.samples[0].model;
     const spur = (await extracted(p.id)).samples[0].modes.find((m) => m.spurious)!;
     expect(spur).toBeDefined();
-    expect(Math.abs(spur.resistanceRatio! / (model.branches[1].r1Ohm / model.branches[0].r1Ohm) - 1)).toBeLessThan(0.02);
+    expect(Math.abs(spur.resistanceRatio! / (model.branches[1].r1Ohm / model.branches[0].r1Ohm) - 1)).toBeLessThan(
+      0.02,
+    );
   });
 
   it('the overtone swept above the instrument range is flagged with a warning', async () => {

@@ -36,7 +36,10 @@ export async function goldenOf(id: string): Promise<string> {
 }
 
 export function demoIds(): string[] {
-  return readdirSync(PARTS_DIR, { withFileTypes: true }).filter((d) => d.isDirectory()).map((d) => d.name).sort();
+  return readdirSync(PARTS_DIR, { withFileTypes: true })
+    .filter((d) => d.isDirectory())
+    .map((d) => d.name)
+    .sort();
 }
 
 export function goldenFile(id: string): string {

@@ -53,12 +53,20 @@ describe('README record example', () => {
       writeFileSync(join(dir, s.file), formatSynthFile(r, { kind: 'csv', form: 'magphase', freqUnit: 'MHz' }));
     } else {
       const added = s.addedCapacitance ? { capacitanceF: 10e-12, connection: 'parallel' as const } : undefined;
-      const grid = added ? { kind: 'segments' as const, segments: [narrow, wideGrid] } : { kind: 'segments' as const, segments: [narrow, wideGrid] };
+      const grid = added
+        ? { kind: 'segments' as const, segments: [narrow, wideGrid] }
+        : { kind: 'segments' as const, segments: [narrow, wideGrid] };
       const r = synthesizeSweep({ model, grid, fixture: 'series-thru', parasitics, added, noiseDb: -75, seed: 10 + i });
       writeFileSync(join(dir, s.file), formatSynthFile(r, { kind: 'touchstone' }));
     }
   }
-  const comp = synthesizeCompensation({ parasitics, grid: { kind: 'linear', startHz: 11.6e6, stopHz: 12.4e6, points: 201 }, fixture: 'series-thru', noiseDb: -90, seed: 3 });
+  const comp = synthesizeCompensation({
+    parasitics,
+    grid: { kind: 'linear', startHz: 11.6e6, stopHz: 12.4e6, points: 201 },
+    fixture: 'series-thru',
+    noiseDb: -90,
+    seed: 3,
+  });
   writeFileSync(join(dir, record.samples[0].compensation.open), formatSynthFile(comp.open, { kind: 'touchstone' }));
   writeFileSync(join(dir, record.samples[0].compensation.short), formatSynthFile(comp.short, { kind: 'touchstone' }));
 

@@ -11,7 +11,15 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { formatSweepCsv, parseSweepCsv, type FormatSweepCsvOptions } from '../../src/lib/io/sweep-csv.ts';
 import type { ImpedanceSweep } from '../../src/lib/sweep/sweep.ts';
 import {
-  expectLocatedOrValue, firstNonFinite, FUZZ_SEED, FuzzCounter, mutate, mutationsArb, randomTextArb, ROOT, tokenSoupArb,
+  expectLocatedOrValue,
+  firstNonFinite,
+  FUZZ_SEED,
+  FuzzCounter,
+  mutate,
+  mutationsArb,
+  randomTextArb,
+  ROOT,
+  tokenSoupArb,
 } from './fuzz-support.ts';
 
 const counter = new FuzzCounter('csv');
@@ -23,7 +31,10 @@ const head = (text: string, lines = 40) => text.split('\n').slice(0, lines).join
 function csvFiles(dir: string): Array<{ name: string; text: string }> {
   const abs = join(ROOT, dir);
   if (!existsSync(abs)) return [];
-  return readdirSync(abs).filter((n) => /\.(csv|tsv|txt)$/i.test(n)).sort().map((name) => ({ name, text: head(readFileSync(join(abs, name), 'utf8')) }));
+  return readdirSync(abs)
+    .filter((n) => /\.(csv|tsv|txt)$/i.test(n))
+    .sort()
+    .map((name) => ({ name, text: head(readFileSync(join(abs, name), 'utf8')) }));
 }
 
 const HAND_WRITTEN = [
@@ -39,13 +50,64 @@ const SEEDS = [
   ...HAND_WRITTEN.map((text, i) => ({ name: `hand-${i}.csv`, text })),
   ...csvFiles('test/fixtures/bad-sweeps'),
   ...csvFiles('test/fixtures/good-records/nested/xo-good-b'),
-  ...(existsSync(join(ROOT, 'content/parts')) ? readdirSync(join(ROOT, 'content/parts')).sort().flatMap((d) => csvFiles(`content/parts/${d}`)).slice(0, 8) : []),
+  ...(existsSync(join(ROOT, 'content/parts'))
+    ? readdirSync(join(ROOT, 'content/parts'))
+        .sort()
+        .flatMap((d) => csvFiles(`content/parts/${d}`))
+        .slice(0, 8)
+    : []),
 ];
 
 const WORDS = [
-  'frequency', 'freq', 'f', 'r', 're', 'real', 'resistance', 'x', 'im', 'imag', 'reactance', 'z', '|z|', 'mag', 'magnitude',
-  'phase', 'theta', '(Hz)', '(kHz)', '(MHz)', '[GHz]', '(ohm)', '(kohm)', '(mohm)', '(Ω)', '(deg)', '(rad)', '(pF)', '()', '[',
-  ',', ',', ';', '\t', '"', '""', '#', '!', '0', '1', '-1', '1e6', '1,5', '.5', 'NaN', 'inf', '1e999', '', ' ',
+  'frequency',
+  'freq',
+  'f',
+  'r',
+  're',
+  'real',
+  'resistance',
+  'x',
+  'im',
+  'imag',
+  'reactance',
+  'z',
+  '|z|',
+  'mag',
+  'magnitude',
+  'phase',
+  'theta',
+  '(Hz)',
+  '(kHz)',
+  '(MHz)',
+  '[GHz]',
+  '(ohm)',
+  '(kohm)',
+  '(mohm)',
+  '(Ω)',
+  '(deg)',
+  '(rad)',
+  '(pF)',
+  '()',
+  '[',
+  ',',
+  ',',
+  ';',
+  '\t',
+  '"',
+  '""',
+  '#',
+  '!',
+  '0',
+  '1',
+  '-1',
+  '1e6',
+  '1,5',
+  '.5',
+  'NaN',
+  'inf',
+  '1e999',
+  '',
+  ' ',
 ];
 
 function check(text: string, name: string, property: string): void {
@@ -65,23 +127,36 @@ function check(text: string, name: string, property: string): void {
 
 describe('parseSweepCsv on hostile input', () => {
   it('random text: a located InputError or sane data, never another exception, each within the budget', () => {
-    fc.assert(fc.property(randomTextArb, (text) => check(text, 'x.csv', 'random-text')), { seed: FUZZ_SEED, numRuns: 1500 });
+    fc.assert(
+      fc.property(randomTextArb, (text) => check(text, 'x.csv', 'random-text')),
+      { seed: FUZZ_SEED, numRuns: 1500 },
+    );
   });
 
   it('CSV-word soup: a located InputError or sane data', () => {
-    fc.assert(fc.property(tokenSoupArb(WORDS, 80), (text) => check(text, 'x.csv', 'word-soup')), { seed: FUZZ_SEED, numRuns: 2500 });
+    fc.assert(
+      fc.property(tokenSoupArb(WORDS, 80), (text) => check(text, 'x.csv', 'word-soup')),
+      { seed: FUZZ_SEED, numRuns: 2500 },
+    );
   });
 
   it('mutated valid and bad CSV files (flips, truncation, duplicated lines, NaN/huge numbers, NUL, unicode): located errors or sane data', () => {
     expect(SEEDS.length).toBeGreaterThanOrEqual(15);
     fc.assert(
-      fc.property(fc.nat({ max: SEEDS.length - 1 }), mutationsArb, (k, ms) => check(mutate(SEEDS[k].text, ms, WORDS), SEEDS[k].name, 'mutated-file')),
+      fc.property(fc.nat({ max: SEEDS.length - 1 }), mutationsArb, (k, ms) =>
+        check(mutate(SEEDS[k].text, ms, WORDS), SEEDS[k].name, 'mutated-file'),
+      ),
       { seed: FUZZ_SEED, numRuns: 3000 },
     );
   });
 });
 
-const valueArb = fc.oneof(fc.constant(0), fc.double({ min: -1e3, max: 1e3, noNaN: true }), fc.double({ min: -1e12, max: 1e12, noNaN: true }), fc.double({ min: -1e-6, max: 1e-6, noNaN: true }));
+const valueArb = fc.oneof(
+  fc.constant(0),
+  fc.double({ min: -1e3, max: 1e3, noNaN: true }),
+  fc.double({ min: -1e12, max: 1e12, noNaN: true }),
+  fc.double({ min: -1e-6, max: 1e-6, noNaN: true }),
+);
 
 const sweepArb: fc.Arbitrary<{ sweep: ImpedanceSweep; opts: FormatSweepCsvOptions }> = fc
   .record({
@@ -99,7 +174,10 @@ const sweepArb: fc.Arbitrary<{ sweep: ImpedanceSweep; opts: FormatSweepCsvOption
     for (let i = 1; i < n; i++) freqHz[i] = freqHz[i - 1] + r.steps[i - 1];
     const zRe = Float64Array.from({ length: n }, (_, i) => r.values[(2 * i) % 50]);
     const zIm = Float64Array.from({ length: n }, (_, i) => r.values[(2 * i + 1) % 50]);
-    return { sweep: { freqHz, zRe, zIm, source: 'x.csv' }, opts: { form: r.form, delimiter: r.delimiter, freqUnit: r.freqUnit } };
+    return {
+      sweep: { freqHz, zRe, zIm, source: 'x.csv' },
+      opts: { form: r.form, delimiter: r.delimiter, freqUnit: r.freqUnit },
+    };
   });
 
 describe('formatSweepCsv → parseSweepCsv', () => {

@@ -20,8 +20,18 @@ export const FUZZ_SEED = 20_260_502;
 
 /** What a mutation does to a text. */
 export type MutationOp =
-  | 'bit-flip' | 'replace-char' | 'truncate' | 'duplicate-line' | 'drop-line' | 'swap-lines'
-  | 'bad-number' | 'insert-nul' | 'insert-unicode' | 'insert-token' | 'line-endings' | 'repeat-line';
+  | 'bit-flip'
+  | 'replace-char'
+  | 'truncate'
+  | 'duplicate-line'
+  | 'drop-line'
+  | 'swap-lines'
+  | 'bad-number'
+  | 'insert-nul'
+  | 'insert-unicode'
+  | 'insert-token'
+  | 'line-endings'
+  | 'repeat-line';
 
 export interface Mutation {
   op: MutationOp;
@@ -31,22 +41,121 @@ export interface Mutation {
   pick: number;
 }
 
-const OPS: MutationOp[] = ['bit-flip', 'replace-char', 'truncate', 'duplicate-line', 'drop-line', 'swap-lines', 'bad-number', 'insert-nul', 'insert-unicode', 'insert-token', 'line-endings', 'repeat-line'];
+const OPS: MutationOp[] = [
+  'bit-flip',
+  'replace-char',
+  'truncate',
+  'duplicate-line',
+  'drop-line',
+  'swap-lines',
+  'bad-number',
+  'insert-nul',
+  'insert-unicode',
+  'insert-token',
+  'line-endings',
+  'repeat-line',
+];
 
 /** Numbers a sweep or record should never accept silently. */
 export const BAD_NUMBERS = [
-  'NaN', 'nan', 'Infinity', '-Infinity', 'inf', '1e999', '-1e999', '1e-400', '9'.repeat(400), `-${'9'.repeat(400)}`,
-  '-5', '0', '-0', '1e308', '-1e308', '0x1F', '1,5', '1.2.3', '--1', '+-1', '.', 'e5', '1e', '1e+', '١٢٣', '１２', '½', '',
+  'NaN',
+  'nan',
+  'Infinity',
+  '-Infinity',
+  'inf',
+  '1e999',
+  '-1e999',
+  '1e-400',
+  '9'.repeat(400),
+  `-${'9'.repeat(400)}`,
+  '-5',
+  '0',
+  '-0',
+  '1e308',
+  '-1e308',
+  '0x1F',
+  '1,5',
+  '1.2.3',
+  '--1',
+  '+-1',
+  '.',
+  'e5',
+  '1e',
+  '1e+',
+  '١٢٣',
+  '１２',
+  '½',
+  '',
 ];
 
 /** Characters that trip text handling: controls, bidi and invisible marks, surrogates, odd line breaks. */
 export const ODD_UNICODE = [
-  '\u0000', '\u0001', '\u0007', '\u001b', '\u007f', '\u0085', '\u00a0', '\u00ad', '\u200b', '\u200d', '\u200e', '\u202e', '\u2066',
-  '\u2028', '\u2029', '\ufeff', '\ufffd', '\ud800', '\udc00', '😀', 'e\u0301', 'Ω', 'µ', '°', '\r', '\t', '\f', '\v', 'İ', 'ß', 'ﬀ',
+  '\u0000',
+  '\u0001',
+  '\u0007',
+  '\u001b',
+  '\u007f',
+  '\u0085',
+  '\u00a0',
+  '\u00ad',
+  '\u200b',
+  '\u200d',
+  '\u200e',
+  '\u202e',
+  '\u2066',
+  '\u2028',
+  '\u2029',
+  '\ufeff',
+  '\ufffd',
+  '\ud800',
+  '\udc00',
+  '😀',
+  'e\u0301',
+  'Ω',
+  'µ',
+  '°',
+  '\r',
+  '\t',
+  '\f',
+  '\v',
+  'İ',
+  'ß',
+  'ﬀ',
 ];
 
 /** Characters a random "replace" writes. */
-const REPLACE_CHARS = [' ', '\t', '\n', '-', '+', '.', ',', ';', ':', 'e', 'E', '0', '9', '!', '#', '[', ']', '{', '}', '"', "'", '&', '*', '|', '>', '%', '@', '`', 'x', ...ODD_UNICODE];
+const REPLACE_CHARS = [
+  ' ',
+  '\t',
+  '\n',
+  '-',
+  '+',
+  '.',
+  ',',
+  ';',
+  ':',
+  'e',
+  'E',
+  '0',
+  '9',
+  '!',
+  '#',
+  '[',
+  ']',
+  '{',
+  '}',
+  '"',
+  "'",
+  '&',
+  '*',
+  '|',
+  '>',
+  '%',
+  '@',
+  '`',
+  'x',
+  ...ODD_UNICODE,
+];
 
 const NUMBER_TOKEN = /[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?/g;
 
@@ -86,7 +195,9 @@ export function applyMutation(text: string, m: Mutation, tokens: readonly string
       const found = [...text.matchAll(NUMBER_TOKEN)];
       if (found.length === 0) return text;
       const hit = found[Math.min(found.length - 1, Math.floor(m.at * found.length))];
-      return text.slice(0, hit.index) + BAD_NUMBERS[m.pick % BAD_NUMBERS.length] + text.slice(hit.index! + hit[0].length);
+      return (
+        text.slice(0, hit.index) + BAD_NUMBERS[m.pick % BAD_NUMBERS.length] + text.slice(hit.index! + hit[0].length)
+      );
     }
     case 'insert-nul':
       return `${text.slice(0, pos)}\u0000${text.slice(pos)}`;
@@ -102,7 +213,11 @@ export function applyMutation(text: string, m: Mutation, tokens: readonly string
 
 /** 1 to 4 mutations. */
 export const mutationsArb: fc.Arbitrary<Mutation[]> = fc.array(
-  fc.record({ op: fc.constantFrom(...OPS), at: fc.double({ min: 0, max: 1, maxExcluded: true, noNaN: true }), pick: fc.nat({ max: 1000 }) }),
+  fc.record({
+    op: fc.constantFrom(...OPS),
+    at: fc.double({ min: 0, max: 1, maxExcluded: true, noNaN: true }),
+    pick: fc.nat({ max: 1000 }),
+  }),
   { minLength: 1, maxLength: 4 },
 );
 
@@ -113,7 +228,9 @@ export function mutate(text: string, ms: readonly Mutation[], tokens: readonly s
 /** Text made of a format's own words, numbers and separators: random, but it reaches deep into a parser. */
 export function tokenSoupArb(words: readonly string[], maxLength = 60): fc.Arbitrary<string> {
   const seps = [' ', ' ', '\t', '\n', '\n', '\r\n', ''];
-  return fc.array(fc.tuple(fc.constantFrom(...words), fc.constantFrom(...seps)), { maxLength }).map((parts) => parts.map(([w, s]) => w + s).join(''));
+  return fc
+    .array(fc.tuple(fc.constantFrom(...words), fc.constantFrom(...seps)), { maxLength })
+    .map((parts) => parts.map(([w, s]) => w + s).join(''));
 }
 
 /** Arbitrary text: any UTF-16 code units (lone surrogates included), or printable grapheme soup. */
@@ -166,11 +283,13 @@ export function expectLocated(issue: Issue, source: string, text: string): void 
   } else if (!Number.isInteger(issue.line) || issue.line < 1 || issue.line > lineCount(text) + 1) {
     throw new Error(`issue line ${issue.line} outside the text (${lineCount(text)} lines): ${where}`);
   }
-  if (issue.col !== undefined && (!Number.isInteger(issue.col) || issue.col < 1)) throw new Error(`bad column: ${where}`);
+  if (issue.col !== undefined && (!Number.isInteger(issue.col) || issue.col < 1))
+    throw new Error(`bad column: ${where}`);
   const msg = issue.message;
   if (typeof msg !== 'string' || msg.length === 0) throw new Error(`empty message: ${where}`);
   if (/\bundefined\b|\[object |\bat .*\.ts:\d+/.test(msg)) throw new Error(`message shows internals: ${where}`);
-  if (msg.length > 600) throw new Error(`message of ${msg.length} characters (should quote a shortened value): ${msg.slice(0, 200)}…`);
+  if (msg.length > 600)
+    throw new Error(`message of ${msg.length} characters (should quote a shortened value): ${msg.slice(0, 200)}…`);
 }
 
 /**
@@ -180,10 +299,15 @@ export function expectLocated(issue: Issue, source: string, text: string): void 
  */
 export function expectLocatedOrValue<T>(run: () => T, source: string, text: string): T | undefined {
   const r = timed(run);
-  if (r.ms >= INPUT_BUDGET_MS) throw new Error(`took ${r.ms.toFixed(0)} ms (budget ${INPUT_BUDGET_MS} ms) on ${JSON.stringify(text.slice(0, 300))}`);
+  if (r.ms >= INPUT_BUDGET_MS)
+    throw new Error(
+      `took ${r.ms.toFixed(0)} ms (budget ${INPUT_BUDGET_MS} ms) on ${JSON.stringify(text.slice(0, 300))}`,
+    );
   if (r.error === undefined) return r.value;
   if (!(r.error instanceof InputError)) {
-    throw new Error(`threw ${(r.error as Error)?.name}: ${(r.error as Error)?.message} (expected InputError) on ${JSON.stringify(text.slice(0, 300))}`);
+    throw new Error(
+      `threw ${(r.error as Error)?.name}: ${(r.error as Error)?.message} (expected InputError) on ${JSON.stringify(text.slice(0, 300))}`,
+    );
   }
   if (r.error.issues.length === 0) throw new Error('InputError without issues');
   for (const issue of r.error.issues) expectLocated(issue, source, text);
@@ -240,7 +364,9 @@ export class FuzzCounter {
         // a lock older than 10 s was left by a killed run
         try {
           if (Date.now() - statSync(lock).mtimeMs > 10_000) rmSync(lock, { recursive: true, force: true });
-        } catch { /* gone already */ }
+        } catch {
+          /* gone already */
+        }
         if (Date.now() > until) return;
         Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 20);
       }
@@ -249,10 +375,17 @@ export class FuzzCounter {
       let all: { readers: Record<string, { properties: Record<string, number>; total: number }> } = { readers: {} };
       try {
         all = JSON.parse(readFileSync(file, 'utf8'));
-      } catch { /* first writer */ }
+      } catch {
+        /* first writer */
+      }
       all.readers[this.reader] = { properties: { ...this.counts }, total: this.total };
       const total = Object.values(all.readers).reduce((a, r) => a + r.total, 0);
-      const out = { note: 'inputs tried by test/hardening/fuzz-*.test.ts (fast-check, fixed seed)', seed: FUZZ_SEED, total, readers: all.readers };
+      const out = {
+        note: 'inputs tried by test/hardening/fuzz-*.test.ts (fast-check, fixed seed)',
+        seed: FUZZ_SEED,
+        total,
+        readers: all.readers,
+      };
       writeFileSync(`${file}.tmp`, `${JSON.stringify(out, null, 2)}\n`);
       renameSync(`${file}.tmp`, file);
     } finally {

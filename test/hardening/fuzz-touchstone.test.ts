@@ -12,10 +12,23 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
-import { formatTouchstone, parseTouchstone, type TouchstoneFormat, type TouchstoneFreqUnit } from '../../src/lib/io/touchstone.ts';
+import {
+  formatTouchstone,
+  parseTouchstone,
+  type TouchstoneFormat,
+  type TouchstoneFreqUnit,
+} from '../../src/lib/io/touchstone.ts';
 import type { NetworkData } from '../../src/lib/sweep/sweep.ts';
 import {
-  expectLocatedOrValue, firstNonFinite, FUZZ_SEED, FuzzCounter, mutate, mutationsArb, randomTextArb, ROOT, tokenSoupArb,
+  expectLocatedOrValue,
+  firstNonFinite,
+  FUZZ_SEED,
+  FuzzCounter,
+  mutate,
+  mutationsArb,
+  randomTextArb,
+  ROOT,
+  tokenSoupArb,
 } from './fuzz-support.ts';
 
 const counter = new FuzzCounter('touchstone');
@@ -23,7 +36,10 @@ afterAll(() => counter.write());
 
 function filesIn(dir: string, pattern: RegExp): Array<{ name: string; text: string }> {
   const abs = join(ROOT, dir);
-  return readdirSync(abs).filter((n) => pattern.test(n)).sort().map((name) => ({ name, text: readFileSync(join(abs, name), 'latin1') }));
+  return readdirSync(abs)
+    .filter((n) => pattern.test(n))
+    .sort()
+    .map((name) => ({ name, text: readFileSync(join(abs, name), 'latin1') }));
 }
 
 const SEEDS = [
@@ -34,11 +50,64 @@ const SEEDS = [
 ];
 
 const WORDS = [
-  '#', 'Hz', 'kHz', 'MHz', 'GHz', 'S', 'Z', 'Y', 'H', 'G', 'RI', 'MA', 'DB', 'R', '50', '75', '!', '! comment',
-  '[Version]', '2.0', '2.1', '[Number of Ports]', '1', '2', '3', '[Two-Port Data Order]', '12_21', '21_12',
-  '[Number of Frequencies]', '[Number of Noise Frequencies]', '[Reference]', '[Network Data]', '[Noise Data]', '[End]',
-  '[Matrix Format]', 'Full', 'Lower', 'Upper', '[Begin Information]', '[End Information]', '[Mixed-Mode Order]', '[',
-  ']', '0', '1e9', '-1', '0.5', '.5', '5.', '1e', '--1', '+.e1', 'NaN', 'inf', '1e400', '-0', '12000000', '1e-300',
+  '#',
+  'Hz',
+  'kHz',
+  'MHz',
+  'GHz',
+  'S',
+  'Z',
+  'Y',
+  'H',
+  'G',
+  'RI',
+  'MA',
+  'DB',
+  'R',
+  '50',
+  '75',
+  '!',
+  '! comment',
+  '[Version]',
+  '2.0',
+  '2.1',
+  '[Number of Ports]',
+  '1',
+  '2',
+  '3',
+  '[Two-Port Data Order]',
+  '12_21',
+  '21_12',
+  '[Number of Frequencies]',
+  '[Number of Noise Frequencies]',
+  '[Reference]',
+  '[Network Data]',
+  '[Noise Data]',
+  '[End]',
+  '[Matrix Format]',
+  'Full',
+  'Lower',
+  'Upper',
+  '[Begin Information]',
+  '[End Information]',
+  '[Mixed-Mode Order]',
+  '[',
+  ']',
+  '0',
+  '1e9',
+  '-1',
+  '0.5',
+  '.5',
+  '5.',
+  '1e',
+  '--1',
+  '+.e1',
+  'NaN',
+  'inf',
+  '1e400',
+  '-0',
+  '12000000',
+  '1e-300',
 ];
 
 /** Names decide the v1 port count; the odd ones test the name rules. */
@@ -65,17 +134,25 @@ function check(text: string, name: string, property: string): void {
 
 describe('parseTouchstone on hostile input', () => {
   it('random text: a located InputError or sane data, never another exception, each within the budget', () => {
-    fc.assert(fc.property(randomTextArb, fc.constantFrom(...NAMES), (text, name) => check(text, name, 'random-text')), { seed: FUZZ_SEED, numRuns: 1500 });
+    fc.assert(
+      fc.property(randomTextArb, fc.constantFrom(...NAMES), (text, name) => check(text, name, 'random-text')),
+      { seed: FUZZ_SEED, numRuns: 1500 },
+    );
   });
 
   it('Touchstone-word soup: a located InputError or sane data', () => {
-    fc.assert(fc.property(tokenSoupArb(WORDS, 80), fc.constantFrom(...NAMES), (text, name) => check(text, name, 'word-soup')), { seed: FUZZ_SEED, numRuns: 2500 });
+    fc.assert(
+      fc.property(tokenSoupArb(WORDS, 80), fc.constantFrom(...NAMES), (text, name) => check(text, name, 'word-soup')),
+      { seed: FUZZ_SEED, numRuns: 2500 },
+    );
   });
 
   it('mutated spec, scikit-rf and bad-sweep files (flips, truncation, duplicated lines, NaN/huge numbers, NUL, unicode): located errors or sane data', () => {
     expect(SEEDS.length).toBeGreaterThanOrEqual(30);
     fc.assert(
-      fc.property(fc.nat({ max: SEEDS.length - 1 }), mutationsArb, (k, ms) => check(mutate(SEEDS[k].text, ms, WORDS), SEEDS[k].name, 'mutated-file')),
+      fc.property(fc.nat({ max: SEEDS.length - 1 }), mutationsArb, (k, ms) =>
+        check(mutate(SEEDS[k].text, ms, WORDS), SEEDS[k].name, 'mutated-file'),
+      ),
       { seed: FUZZ_SEED, numRuns: 3000 },
     );
   });
@@ -85,12 +162,14 @@ describe('parseTouchstone on hostile input', () => {
 
 // Subnormal values are left out: divided by R (v1 Z) they underflow to a zero magnitude, which
 // DB cannot write (the separate test below).
-const valueArb = fc.oneof(
-  fc.constant(0),
-  fc.double({ min: -2, max: 2, noNaN: true }),
-  fc.double({ min: -1e12, max: 1e12, noNaN: true }),
-  fc.double({ min: -1e-9, max: 1e-9, noNaN: true }),
-).map((x) => (Math.abs(x) < 1e-200 ? 0 : x));
+const valueArb = fc
+  .oneof(
+    fc.constant(0),
+    fc.double({ min: -2, max: 2, noNaN: true }),
+    fc.double({ min: -1e12, max: 1e12, noNaN: true }),
+    fc.double({ min: -1e-9, max: 1e-9, noNaN: true }),
+  )
+  .map((x) => (Math.abs(x) < 1e-200 ? 0 : x));
 
 const refArb = fc.oneof(fc.constantFrom(50, 75, 1, 12.5, 100), fc.double({ min: 1e-3, max: 1e6, noNaN: true }));
 
@@ -134,7 +213,17 @@ const caseArb: fc.Arbitrary<Case> = fc
       }
     }
     const z0Ohm = r.version === 1 ? Array.from({ length: r.ports }, () => r.refs[0]) : r.refs.slice(0, r.ports);
-    const data: NetworkData = { parameter: r.parameter, ports: r.ports, z0Ohm, freqHz, re, im, source: 'x', format: '', comments: [] };
+    const data: NetworkData = {
+      parameter: r.parameter,
+      ports: r.ports,
+      z0Ohm,
+      freqHz,
+      re,
+      im,
+      source: 'x',
+      format: '',
+      comments: [],
+    };
     return { data, version: r.version, format: r.format, unit: r.unit, comments: r.comments };
   });
 
@@ -151,7 +240,8 @@ function expectSameNetwork(got: NetworkData, want: NetworkData, format: Touchsto
       // MA/DB: polar conversion, error relative to the complex magnitude (common practice)
       const scale = format === 'RI' ? Math.max(Math.abs(x), Math.abs(y)) : Math.hypot(x, y);
       const tol = (format === 'RI' ? 1e-15 : format === 'MA' ? 1e-14 : 1e-12) * scale + 1e-300;
-      if (Math.abs(a - x) > tol || Math.abs(b - y) > tol) throw new Error(`entry ${e} point ${i}: read ${a}, ${b}; wrote ${x}, ${y}`);
+      if (Math.abs(a - x) > tol || Math.abs(b - y) > tol)
+        throw new Error(`entry ${e} point ${i}: read ${a}, ${b}; wrote ${x}, ${y}`);
     }
   }
 }
@@ -161,7 +251,12 @@ describe('formatTouchstone → parseTouchstone', () => {
     fc.assert(
       fc.property(caseArb, (c) => {
         counter.tick('round-trip');
-        const text = formatTouchstone(c.data, { version: c.version, format: c.format, freqUnit: c.unit, comments: c.comments });
+        const text = formatTouchstone(c.data, {
+          version: c.version,
+          format: c.format,
+          freqUnit: c.unit,
+          comments: c.comments,
+        });
         const name = c.version === 2 ? 'x.ts' : `x.s${c.data.ports}p`;
         const got = expectLocatedOrValue(() => parseTouchstone(text, name), name, text);
         if (!got) throw new Error(`written file refused:\n${text}`);
@@ -174,8 +269,15 @@ describe('formatTouchstone → parseTouchstone', () => {
   it('writes a zero magnitude in DB format as a number it can read back', () => {
     // An exact zero entry (an RI file's `0 0`, ideal isolation) written as DB becomes 20·log10(0) = -Infinity.
     const data: NetworkData = {
-      parameter: 'S', ports: 1, z0Ohm: [50], freqHz: Float64Array.of(1e6, 2e6),
-      re: [Float64Array.of(0, 0.5)], im: [Float64Array.of(0, 0)], source: 'x', format: '', comments: [],
+      parameter: 'S',
+      ports: 1,
+      z0Ohm: [50],
+      freqHz: Float64Array.of(1e6, 2e6),
+      re: [Float64Array.of(0, 0.5)],
+      im: [Float64Array.of(0, 0)],
+      source: 'x',
+      format: '',
+      comments: [],
     };
     const text = formatTouchstone(data, { format: 'DB' });
     const got = expectLocatedOrValue(() => parseTouchstone(text, 'x.s1p'), 'x.s1p', text);

@@ -6,7 +6,18 @@
  * search depth, or behind a linked folder) is reported, not silently left out.
  * The interrupted-build case is test/pipeline/build-site.test.ts.
  */
-import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
+import {
+  cpSync,
+  existsSync,
+  mkdirSync,
+  mkdtempSync,
+  readdirSync,
+  readFileSync,
+  rmSync,
+  statSync,
+  symlinkSync,
+  writeFileSync,
+} from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, relative } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -16,38 +27,56 @@ import { syntheticPartFiles, syntheticPartId } from '../../scripts/bench/lib/syn
 import { ROOT } from './fuzz-support.ts';
 
 const BAD = join(ROOT, 'test/fixtures/bad-records');
-const GOOD_FIXTURES = [['test/fixtures/good-records/xo-good-a', 'XO-GOOD-A'], ['test/fixtures/good-records/nested/xo-good-b', 'XO-GOOD-B'], ['test/fixtures/good-records/nested/xo-good-warn', 'XO-GOOD-WARN'], ['test/fixtures/hostile/HOSTILE-1', 'HOSTILE-1']] as const;
+const GOOD_FIXTURES = [
+  ['test/fixtures/good-records/xo-good-a', 'XO-GOOD-A'],
+  ['test/fixtures/good-records/nested/xo-good-b', 'XO-GOOD-B'],
+  ['test/fixtures/good-records/nested/xo-good-warn', 'XO-GOOD-WARN'],
+  ['test/fixtures/hostile/HOSTILE-1', 'HOSTILE-1'],
+] as const;
 const SYNTHETIC = 3;
 
 let work: string;
 const goodIds: string[] = [];
-const badCases = readdirSync(BAD).filter((d) => statSync(join(BAD, d)).isDirectory()).sort();
+const badCases = readdirSync(BAD)
+  .filter((d) => statSync(join(BAD, d)).isDirectory())
+  .sort();
 
-const opts = (extra: BuildCatalogueOptions): BuildCatalogueOptions => ({ jobs: 2, cache: false, progress: false, log: () => undefined, ...extra });
+const opts = (extra: BuildCatalogueOptions): BuildCatalogueOptions => ({
+  jobs: 2,
+  cache: false,
+  progress: false,
+  log: () => undefined,
+  ...extra,
+});
 
 function writeGood(content: string): void {
   for (const [dir, id] of GOOD_FIXTURES) cpSync(join(ROOT, dir), join(content, 'good', id), { recursive: true });
   for (let n = 1; n <= SYNTHETIC; n++) {
     const folder = join(content, 'good', syntheticPartId(n));
     mkdirSync(folder, { recursive: true });
-    for (const [name, text] of syntheticPartFiles(n, { points: 121, samples: 1 })) writeFileSync(join(folder, name), text);
+    for (const [name, text] of syntheticPartFiles(n, { points: 121, samples: 1 }))
+      writeFileSync(join(folder, name), text);
   }
 }
 
 function snapshot(dir: string): Record<string, string> {
   const out: Record<string, string> = {};
-  const walk = (d: string) => readdirSync(d).forEach((n) => {
-    const p = join(d, n);
-    if (statSync(p).isDirectory()) walk(p);
-    else out[relative(dir, p)] = readFileSync(p, 'utf8');
-  });
+  const walk = (d: string) =>
+    readdirSync(d).forEach((n) => {
+      const p = join(d, n);
+      if (statSync(p).isDirectory()) walk(p);
+      else out[relative(dir, p)] = readFileSync(p, 'utf8');
+    });
   walk(dir);
   return out;
 }
 
 beforeAll(() => {
   work = mkdtempSync(join(tmpdir(), 'motional-nothing-lost-'));
-  goodIds.push(...GOOD_FIXTURES.map(([, id]) => id), ...Array.from({ length: SYNTHETIC }, (_, i) => syntheticPartId(i + 1)));
+  goodIds.push(
+    ...GOOD_FIXTURES.map(([, id]) => id),
+    ...Array.from({ length: SYNTHETIC }, (_, i) => syntheticPartId(i + 1)),
+  );
 });
 afterAll(() => rmSync(work, { recursive: true, force: true }));
 
@@ -56,7 +85,8 @@ describe('a catalogue of good and bad records', () => {
     const content = join(work, 'mixed');
     writeGood(content);
     // every case of the bad-input suite, links kept as links
-    for (const c of badCases) cpSync(join(BAD, c), join(content, 'bad', c), { recursive: true, verbatimSymlinks: true });
+    for (const c of badCases)
+      cpSync(join(BAD, c), join(content, 'bad', c), { recursive: true, verbatimSymlinks: true });
     const out = join(work, 'mixed-out');
     mkdirSync(out);
     writeFileSync(join(out, 'index.html'), 'previous site');
@@ -103,15 +133,20 @@ describe('records the build cannot reach', () => {
     const content = join(work, 'unreachable');
     const shallow = join(content, 'parts', syntheticPartId(1));
     mkdirSync(shallow, { recursive: true });
-    for (const [name, text] of syntheticPartFiles(1, { points: 121, samples: 1 })) writeFileSync(join(shallow, name), text);
+    for (const [name, text] of syntheticPartFiles(1, { points: 121, samples: 1 }))
+      writeFileSync(join(shallow, name), text);
     const deep = join(content, ...Array.from({ length: 10 }, (_, i) => `d${i}`), syntheticPartId(2));
     mkdirSync(deep, { recursive: true });
-    for (const [name, text] of syntheticPartFiles(2, { points: 121, samples: 1 })) writeFileSync(join(deep, name), text);
+    for (const [name, text] of syntheticPartFiles(2, { points: 121, samples: 1 }))
+      writeFileSync(join(deep, name), text);
     const elsewhere = join(work, 'elsewhere', syntheticPartId(3));
     mkdirSync(elsewhere, { recursive: true });
-    for (const [name, text] of syntheticPartFiles(3, { points: 121, samples: 1 })) writeFileSync(join(elsewhere, name), text);
+    for (const [name, text] of syntheticPartFiles(3, { points: 121, samples: 1 }))
+      writeFileSync(join(elsewhere, name), text);
     symlinkSync(elsewhere, join(content, 'parts', 'linked'));
-    const summary = await buildCatalogue(opts({ contentDir: content, outDir: join(work, 'unreachable-out'), dataOnly: true }));
+    const summary = await buildCatalogue(
+      opts({ contentDir: content, outDir: join(work, 'unreachable-out'), dataOnly: true }),
+    );
     const said = summary.issues.map((i) => `${i.file}: ${i.message}`).join('\n');
     const reached = summary.recordsFound === 3;
     const reported = said.includes('d9') && said.includes('linked');

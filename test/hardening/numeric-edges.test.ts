@@ -26,12 +26,27 @@ const FP = FS * Math.sqrt(1 + 10e-15 / 3e-12);
 const BW = FS / 50_000; // fs/Q, Q = 1/(ω R1 C1) = 50,000
 
 /** Words that tell the user what to do next. */
-const ADVICE = /\b(use|widen|re-?measure|check|add|average|reduce|increase|remove|move|repeat|try|sweep (across|around|a wider|wider|finer))\b/i;
+const ADVICE =
+  /\b(use|widen|re-?measure|check|add|average|reduce|increase|remove|move|repeat|try|sweep (across|around|a wider|wider|finer))\b/i;
 
 function run(sweeps: Array<{ z: ImpedanceSweep; ref?: Partial<SweepRef> }>, part: Partial<Part> = {}): SampleResult {
   const refs: SweepRef[] = sweeps.map((s, i) => ({ file: `s${i}.csv`, fixture: 'impedance', ...s.ref }));
-  const p: Part = { id: 'EDGE-1', title: 'edge case', kind: 'quartz-at', samples: [{ id: 'A', sweeps: refs }], ...part };
-  const result: PartResult = extractPart(p, sweeps.map((s, i) => ({ sampleId: 'A', ref: refs[i], file: refs[i].file, impedance: { ...s.z, source: refs[i].file } })));
+  const p: Part = {
+    id: 'EDGE-1',
+    title: 'edge case',
+    kind: 'quartz-at',
+    samples: [{ id: 'A', sweeps: refs }],
+    ...part,
+  };
+  const result: PartResult = extractPart(
+    p,
+    sweeps.map((s, i) => ({
+      sampleId: 'A',
+      ref: refs[i],
+      file: refs[i].file,
+      impedance: { ...s.z, source: refs[i].file },
+    })),
+  );
   expectNothingBadPublished(result);
   return result.samples[0];
 }
@@ -42,7 +57,8 @@ function expectNothingBadPublished(result: PartResult): void {
   if (bad) throw new Error(`published ${bad[1]} at ${bad[0]}`);
   for (const s of result.samples) {
     for (const m of s.modes) {
-      for (const k of ['fsHz', 'fpHz', 'r1Ohm', 'l1H', 'c1F', 'q'] as const) expect(m[k], `${k} of a published mode`).toBeGreaterThan(0);
+      for (const k of ['fsHz', 'fpHz', 'r1Ohm', 'l1H', 'c1F', 'q'] as const)
+        expect(m[k], `${k} of a published mode`).toBeGreaterThan(0);
       expect(m.fpHz).toBeGreaterThan(m.fsHz);
       for (const [k, u] of Object.entries(m.uncertainty)) expect(u, `uncertainty ${k}`).toBeGreaterThanOrEqual(0);
     }
@@ -81,7 +97,16 @@ describe('extraction never publishes a bad number', () => {
     expect(flat.modes).toEqual([]);
     warningMatching(flat, /no resonance|no conductance peak/);
     const rng = createRng(7);
-    const noise = run([{ z: { freqHz: f, zRe: f.map(() => 50 + 10 * rng.gaussian()), zIm: f.map(() => 10 * rng.gaussian()), source: 'n' } }]);
+    const noise = run([
+      {
+        z: {
+          freqHz: f,
+          zRe: f.map(() => 50 + 10 * rng.gaussian()),
+          zIm: f.map(() => 10 * rng.gaussian()),
+          source: 'n',
+        },
+      },
+    ]);
     for (const m of noise.modes) expect(m.q).toBeGreaterThan(0); // anything published is still physical
     expect(noise.warnings.length).toBeGreaterThan(0);
   });
@@ -90,7 +115,9 @@ describe('extraction never publishes a bad number', () => {
     const twin: BvdModel = { c0F: 3e-12, branches: [X1.branches[0], { fsHz: FS + 0.3 * BW, r1Ohm: 25, c1F: 8e-15 }] };
     // step 4 bandwidths: the two modes fall between neighbouring points
     const s = run([{ z: synthSweep(twin, linGrid(FS - 200 * BW, FS + 200 * BW, 101), { noiseDb: -80, seed: 3 }) }]);
-    expect(warningMatching(s, /closer than the sweep resolves|points per resonance bandwidth/)).toMatch(/finer step|step of at most/);
+    expect(warningMatching(s, /closer than the sweep resolves|points per resonance bandwidth/)).toMatch(
+      /finer step|step of at most/,
+    );
   });
 
   it('a resonance at the sweep edge: a warning to widen the span', () => {
@@ -118,10 +145,15 @@ describe('extraction never publishes a bad number', () => {
 
   it('zero impedance (a shorted fixture) and a 0 Hz point: no Infinity or NaN reaches the result', () => {
     const f = linGrid(0, FS + 20 * BW, 401);
-    const short = run([{ z: { freqHz: f, zRe: new Float64Array(f.length), zIm: new Float64Array(f.length), source: 'short' } }]);
+    const short = run([
+      { z: { freqHz: f, zRe: new Float64Array(f.length), zIm: new Float64Array(f.length), source: 'short' } },
+    ]);
     expect(short.modes).toEqual([]);
     warningMatching(short, /no resonance/);
-    const withDc = synthSweep(X1, Float64Array.from([0, ...linGrid(FS - 20 * BW, FS + 20 * BW, 400)]), { noiseDb: -80, seed: 8 });
+    const withDc = synthSweep(X1, Float64Array.from([0, ...linGrid(FS - 20 * BW, FS + 20 * BW, 400)]), {
+      noiseDb: -80,
+      seed: 8,
+    });
     withDc.zRe[0] = 1e12;
     withDc.zIm[0] = -1e15;
     run([{ z: withDc }]);

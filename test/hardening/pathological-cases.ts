@@ -28,7 +28,8 @@ const LINE = MAX_SWEEP_LINE_CHARS - 100;
 const YLINE = MAX_PART_YAML_LINE_CHARS - 20;
 
 function sweepOutcome(e: unknown): string {
-  if (e instanceof InputError) return `InputError ${e.issues.length}: ${e.issues[0].file}:${e.issues[0].line ?? '-'}: ${e.issues[0].message.slice(0, 120)}`;
+  if (e instanceof InputError)
+    return `InputError ${e.issues.length}: ${e.issues[0].file}:${e.issues[0].line ?? '-'}: ${e.issues[0].message.slice(0, 120)}`;
   if (e instanceof Error) return `EXCEPTION ${e.name}: ${e.message.slice(0, 120)}`;
   return 'ok';
 }
@@ -47,7 +48,9 @@ function sweep(read: () => unknown): () => unknown {
 function yamlOutcome(r: unknown): string {
   const res = r as ReturnType<typeof parsePartYaml>;
   const first = res.issues.find((i) => i.severity === 'error');
-  return first ? `issues ${res.issues.length}: ${first.file}:${first.line ?? '-'}: ${first.message.slice(0, 120)}` : 'ok';
+  return first
+    ? `issues ${res.issues.length}: ${first.file}:${first.line ?? '-'}: ${first.message.slice(0, 120)}`
+    : 'ok';
 }
 
 function quantityOutcome(r: unknown): string {

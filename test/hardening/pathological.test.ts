@@ -23,7 +23,11 @@ const killAfter = (name: string) => Math.max(3 * CASES[name].budgetMs, 4000);
 
 function runBatch(names: string[]): Promise<string[]> {
   return new Promise((done) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'test/hardening/pathological-cases.ts'), ...names], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(
+      process.execPath,
+      ['--import', 'tsx', join(ROOT, 'test/hardening/pathological-cases.ts'), ...names],
+      { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] },
+    );
     let buffer = '';
     let stderr = '';
     let current: { name: string; t0: number; timer: NodeJS.Timeout } | undefined;
@@ -47,7 +51,11 @@ function runBatch(names: string[]): Promise<string[]> {
     child.on('close', () => {
       if (current) {
         clearTimeout(current.timer);
-        results.set(current.name, { ms: Date.now() - current.t0, outcome: `killed after ${Date.now() - current.t0} ms`, hung: true });
+        results.set(current.name, {
+          ms: Date.now() - current.t0,
+          outcome: `killed after ${Date.now() - current.t0} ms`,
+          hung: true,
+        });
       }
       const left = names.filter((n) => !results.has(n));
       if (left.length > 0 && !current) {
@@ -62,18 +70,25 @@ function runBatch(names: string[]): Promise<string[]> {
 beforeAll(async () => {
   let left = Object.keys(CASES);
   while (left.length > 0) left = await runBatch(left);
-  const rows = [...results].map(([n, r]) => `${n.padEnd(36)} ${r.hung ? 'HUNG' : `${r.ms.toFixed(0)} ms`.padStart(9)}  (budget ${CASES[n].budgetMs} ms)  ${r.outcome}`);
+  const rows = [...results].map(
+    ([n, r]) =>
+      `${n.padEnd(36)} ${r.hung ? 'HUNG' : `${r.ms.toFixed(0)} ms`.padStart(9)}  (budget ${CASES[n].budgetMs} ms)  ${r.outcome}`,
+  );
   console.log(`worst-case reader inputs:\n${rows.join('\n')}`);
 }, 300_000);
 
 describe('readers on worst-case inputs at their size limits', () => {
-  it.each(Object.entries(CASES).map(([name, c]) => [name, c.what, c.budgetMs] as const))('%s (%s): a located result within %d ms', (name, _what, budgetMs) => {
-    const r = results.get(name)!;
-    expect(r, 'no result').toBeDefined();
-    expect(r.hung ?? false, `${name} hung: ${r.outcome}`).toBe(false);
-    expect(r.outcome).not.toMatch(/^(EXCEPTION|child process failed)/);
-    // a located refusal names the file and a line (sweep files) or the record's file
-    if (r.outcome !== 'ok' && !r.outcome.startsWith('message:')) expect(r.outcome).toMatch(/^(InputError|issues) \d+: (p\.csv|p\.s1p|p\.ts|part\.yaml):\d+: /);
-    expect(r.ms, `${name} took ${r.ms.toFixed(0)} ms`).toBeLessThan(budgetMs);
-  });
+  it.each(Object.entries(CASES).map(([name, c]) => [name, c.what, c.budgetMs] as const))(
+    '%s (%s): a located result within %d ms',
+    (name, _what, budgetMs) => {
+      const r = results.get(name)!;
+      expect(r, 'no result').toBeDefined();
+      expect(r.hung ?? false, `${name} hung: ${r.outcome}`).toBe(false);
+      expect(r.outcome).not.toMatch(/^(EXCEPTION|child process failed)/);
+      // a located refusal names the file and a line (sweep files) or the record's file
+      if (r.outcome !== 'ok' && !r.outcome.startsWith('message:'))
+        expect(r.outcome).toMatch(/^(InputError|issues) \d+: (p\.csv|p\.s1p|p\.ts|part\.yaml):\d+: /);
+      expect(r.ms, `${name} took ${r.ms.toFixed(0)} ms`).toBeLessThan(budgetMs);
+    },
+  );
 });

@@ -29,7 +29,10 @@ function part(names: string[], files: string[] = names): string {
   const dir = join(root, `p${++n}`);
   mkdirSync(dir, { recursive: true });
   const sweeps = names.map((f) => `      - file: ${JSON.stringify(f)}\n        fixture: reflection\n`).join('');
-  writeFileSync(join(dir, 'part.yaml'), `id: P-${n}\ntitle: path test\nkind: quartz-at\nsamples:\n  - id: A1\n    sweeps:\n${sweeps}`);
+  writeFileSync(
+    join(dir, 'part.yaml'),
+    `id: P-${n}\ntitle: path test\nkind: quartz-at\nsamples:\n  - id: A1\n    sweeps:\n${sweeps}`,
+  );
   for (const f of files) {
     mkdirSync(join(dir, f, '..'), { recursive: true });
     writeFileSync(join(dir, f), SWEEP);
@@ -65,7 +68,10 @@ describe('links', () => {
   it('accepts a link that stays inside the part folder', async () => {
     const dir = part(['a1.s1p']);
     symlinkSync('a1.s1p', join(dir, 'alias.s1p'));
-    writeFileSync(join(dir, 'part.yaml'), readFileSync(join(dir, 'part.yaml'), 'utf8').replace('"a1.s1p"', '"alias.s1p"'));
+    writeFileSync(
+      join(dir, 'part.yaml'),
+      readFileSync(join(dir, 'part.yaml'), 'utf8').replace('"a1.s1p"', '"alias.s1p"'),
+    );
     expect(await check(dir)).toMatchObject({ code: 0, err: '' });
   });
 
@@ -159,7 +165,10 @@ describe('letter case', () => {
   });
 
   it('refuses a name whose case differs from the file on disk', async () => {
-    await expectFieldError(part(['A1.S1P'], ['a1.s1p']), /letter case of "A1\.S1P" differs from the file on disk "a1\.s1p"|did you mean "a1\.s1p"/);
+    await expectFieldError(
+      part(['A1.S1P'], ['a1.s1p']),
+      /letter case of "A1\.S1P" differs from the file on disk "a1\.s1p"|did you mean "a1\.s1p"/,
+    );
   });
 });
 
@@ -171,7 +180,10 @@ describe('folders of parts', () => {
     symlinkSync(real, join(cat, 'linked-part'));
     const own = part(['a1.s1p']);
     mkdirSync(join(cat, 'own'));
-    writeFileSync(join(cat, 'own', 'part.yaml'), readFileSync(join(own, 'part.yaml'), 'utf8').replace(/^id: .*/m, 'id: OWN-1'));
+    writeFileSync(
+      join(cat, 'own', 'part.yaml'),
+      readFileSync(join(own, 'part.yaml'), 'utf8').replace(/^id: .*/m, 'id: OWN-1'),
+    );
     writeFileSync(join(cat, 'own', 'a1.s1p'), SWEEP);
     const r = await check(cat);
     // either checked (2 parts) or named as a problem; never silently left out

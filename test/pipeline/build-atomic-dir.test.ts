@@ -2,7 +2,14 @@ import { mkdir, mkdtemp, readFile, readdir, rm, writeFile } from 'node:fs/promis
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { OUTPUT_MARKER, cleanStale, createStaging, discardStaging, refuseReplace, swapInto } from '../../src/pipeline/atomic-dir.ts';
+import {
+  OUTPUT_MARKER,
+  cleanStale,
+  createStaging,
+  discardStaging,
+  refuseReplace,
+  swapInto,
+} from '../../src/pipeline/atomic-dir.ts';
 
 let tmp: string;
 beforeEach(async () => {
@@ -60,7 +67,9 @@ describe('atomic output folder', () => {
   it('refuses to replace a folder holding the content, or a non-empty folder it did not write', async () => {
     const content = join(tmp, 'site', 'content');
     await mkdir(content, { recursive: true });
-    expect(await refuseReplace(join(tmp, 'site'), [content])).toMatch(/contains .*content; choose a folder of its own$/);
+    expect(await refuseReplace(join(tmp, 'site'), [content])).toMatch(
+      /contains .*content; choose a folder of its own$/,
+    );
     expect(await refuseReplace(content, [content])).toMatch(/contains/);
     const other = join(tmp, 'notes');
     await mkdir(other);

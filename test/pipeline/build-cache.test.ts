@@ -2,7 +2,15 @@ import { mkdir, mkdtemp, readdir, rm, symlink, utimes, writeFile } from 'node:fs
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { RACY_MS, cacheKey, hashPartFolder, loadFingerprintMemo, openCache, pruneCache, sha256 } from '../../src/pipeline/cache.ts';
+import {
+  RACY_MS,
+  cacheKey,
+  hashPartFolder,
+  loadFingerprintMemo,
+  openCache,
+  pruneCache,
+  sha256,
+} from '../../src/pipeline/cache.ts';
 
 let tmp: string;
 beforeEach(async () => {

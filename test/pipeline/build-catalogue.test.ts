@@ -53,21 +53,24 @@ describe('buildCatalogue', () => {
     // and a Touchstone row with too few numbers
     const bad = join(content, 'parts', 'BAD-1');
     await mkdir(bad, { recursive: true });
-    await writeFile(join(bad, 'part.yaml'), [
-      'id: BAD-1',
-      'title: broken record',
-      'kind: quartz-at',
-      'datasheet:',
-      '  loadCapacitance: 8 ohm',
-      'samples:',
-      '  - id: A1',
-      '    sweeps:',
-      '      - file: missing.s1p',
-      '        fixture: reflection',
-      '      - file: short-row.s1p',
-      '        fixture: reflection',
-      '',
-    ].join('\n'));
+    await writeFile(
+      join(bad, 'part.yaml'),
+      [
+        'id: BAD-1',
+        'title: broken record',
+        'kind: quartz-at',
+        'datasheet:',
+        '  loadCapacitance: 8 ohm',
+        'samples:',
+        '  - id: A1',
+        '    sweeps:',
+        '      - file: missing.s1p',
+        '        fixture: reflection',
+        '      - file: short-row.s1p',
+        '        fixture: reflection',
+        '',
+      ].join('\n'),
+    );
     await writeFile(join(bad, 'short-row.s1p'), '# Hz S RI R 50\n1000000 0.5 0.1\n1000100 0.5\n1000200 0.5 0.1\n');
     const out = join(tmp, 'broken-out');
     await mkdir(out);
@@ -83,11 +86,13 @@ describe('buildCatalogue', () => {
     expect(summary.partsPublished).toBe(0);
     const lines = summary.issues.filter((i) => i.severity === 'error').map(formatIssue);
     const yaml = join(bad, 'part.yaml');
-    expect(lines).toEqual(expect.arrayContaining([
-      expect.stringMatching(new RegExp(`^${yaml}:5: datasheet\\.loadCapacitance: .*`)),
-      expect.stringMatching(new RegExp(`^${yaml}:9: samples\\[0\\]\\.sweeps\\[0\\]\\.file: .*missing\\.s1p.*`)),
-      expect.stringMatching(new RegExp(`^${join(bad, 'short-row.s1p')}:3: .*`)),
-    ]));
+    expect(lines).toEqual(
+      expect.arrayContaining([
+        expect.stringMatching(new RegExp(`^${yaml}:5: datasheet\\.loadCapacitance: .*`)),
+        expect.stringMatching(new RegExp(`^${yaml}:9: samples\\[0\\]\\.sweeps\\[0\\]\\.file: .*missing\\.s1p.*`)),
+        expect.stringMatching(new RegExp(`^${join(bad, 'short-row.s1p')}:3: .*`)),
+      ]),
+    );
     expect(await snapshot(out)).toEqual(before);
     // no staging or old folder left next to the output
     expect((await readdir(tmp)).filter((n) => n.includes('.broken-out.'))).toEqual([]);
@@ -101,7 +106,9 @@ describe('buildCatalogue', () => {
     await writeFile(join(out, 'thesis.tex'), 'precious');
     const s = await buildCatalogue(options({ contentDir: content, outDir: out, cache: false }));
     expect(s.exitCode).toBe(1);
-    expect(s.issues.map(formatIssue)).toEqual([`${out}:1: the output folder ${out} is not empty and was not written by a build (no ${OUTPUT_MARKER}); remove it or choose another folder`]);
+    expect(s.issues.map(formatIssue)).toEqual([
+      `${out}:1: the output folder ${out} is not empty and was not written by a build (no ${OUTPUT_MARKER}); remove it or choose another folder`,
+    ]);
     expect(await readdir(out)).toEqual(['thesis.tex']);
     const inside = await buildCatalogue(options({ contentDir: content, outDir: tmp, cache: false }));
     expect(inside.exitCode).toBe(1);
@@ -141,11 +148,16 @@ describe('buildCatalogue', () => {
       expect(await snapshot(out)).toEqual(first);
 
       const yaml = join(content, 'parts', syntheticPartId(2), 'part.yaml');
-      await writeFile(yaml, (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: retitled synthetic crystal'));
+      await writeFile(
+        yaml,
+        (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: retitled synthetic crystal'),
+      );
       const touched = await buildCatalogue(options({ contentDir: content, outDir: out, cacheDir }));
       expect(touched.exitCode).toBe(0);
       expect(touched.cache).toEqual({ enabled: true, hits: PARTS - 1, misses: 1 });
-      const part = JSON.parse(await readFile(join(out, 'parts', `${syntheticPartId(2)}.json`), 'utf8')) as { title: string };
+      const part = JSON.parse(await readFile(join(out, 'parts', `${syntheticPartId(2)}.json`), 'utf8')) as {
+        title: string;
+      };
       expect(part.title).toBe('retitled synthetic crystal');
     });
 
@@ -163,7 +175,8 @@ describe('buildCatalogue', () => {
       // and the cached build gives the same bytes as the fresh ones (all but the marker, which
       // records the cache keys)
       const cached = await snapshot(join(tmp, 'good-out'));
-      for (const [name, bytes] of sa) if (name !== OUTPUT_MARKER) expect(cached.get(name)?.equals(bytes), name).toBe(true);
+      for (const [name, bytes] of sa)
+        if (name !== OUTPUT_MARKER) expect(cached.get(name)?.equals(bytes), name).toBe(true);
     });
   });
 });

@@ -3,7 +3,19 @@ import { parseBuildArgs, run } from '../../scripts/cli/build.ts';
 
 describe('motional build arguments', () => {
   it('reads every option, in both --flag value and --flag=value forms', () => {
-    expect(parseBuildArgs(['--content', 'c', '--out=o', '--base', '/tools/crystals/', '--jobs', '2', '--no-cache', '--quiet'])).toEqual({
+    expect(
+      parseBuildArgs([
+        '--content',
+        'c',
+        '--out=o',
+        '--base',
+        '/tools/crystals/',
+        '--jobs',
+        '2',
+        '--no-cache',
+        '--quiet',
+      ]),
+    ).toEqual({
       options: { contentDir: 'c', outDir: 'o', base: '/tools/crystals/', jobs: 2, cache: false },
       quiet: true,
       summaryFile: undefined,
@@ -12,7 +24,9 @@ describe('motional build arguments', () => {
 
   it('rejects bad values with a message naming the value and what was expected', () => {
     expect(parseBuildArgs(['--jobs', '0'])).toEqual({ usage: '--jobs expects a whole number from 1 to 256, got "0"' });
-    expect(parseBuildArgs(['--base', 'tools'])).toEqual({ usage: `--base expects a path starting with '/', e.g. /tools/crystals/, got "tools"` });
+    expect(parseBuildArgs(['--base', 'tools'])).toEqual({
+      usage: `--base expects a path starting with '/', e.g. /tools/crystals/, got "tools"`,
+    });
     expect(parseBuildArgs(['--out'])).toEqual({ usage: '--out needs a value' });
     expect(parseBuildArgs(['--fast'])).toEqual({ usage: 'unknown option "--fast"' });
     expect(parseBuildArgs(['content'])).toEqual({ usage: 'unexpected argument "content"' });

@@ -45,7 +45,9 @@ function startBuild(args: string[]) {
   let stderr = '';
   child.stdout.on('data', (c) => (stdout += c));
   child.stderr.on('data', (c) => (stderr += c));
-  const done = new Promise<Run>((resolve) => child.on('close', (code, signal) => resolve({ code, signal, stdout, stderr })));
+  const done = new Promise<Run>((resolve) =>
+    child.on('close', (code, signal) => resolve({ code, signal, stdout, stderr })),
+  );
   return { child, done };
 }
 
@@ -74,7 +76,17 @@ describe('motional build (with the site)', () => {
     await mkdir(out);
     await writeFile(join(out, 'stale.html'), 'from an older build');
     await writeFile(join(out, OUTPUT_MARKER), '');
-    const run = await startBuild(['--content', content, '--out', out, '--base', BASE, '--cache-dir', join(tmp, 'cache'), '--quiet']).done;
+    const run = await startBuild([
+      '--content',
+      content,
+      '--out',
+      out,
+      '--base',
+      BASE,
+      '--cache-dir',
+      join(tmp, 'cache'),
+      '--quiet',
+    ]).done;
     expect(run.stderr).not.toMatch(/error/i);
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(/^records found: 2 \(2 valid, 0 invalid\)$/m);
@@ -106,17 +118,31 @@ describe('motional build (with the site)', () => {
     const keptInode = (await stat(keptPage)).ino;
     const yaml = join(content, 'parts', syntheticPartId(2), 'part.yaml');
     await writeFile(yaml, (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: retitled crystal two'));
-    const run = await startBuild(['--content', content, '--out', out, '--base', BASE, '--cache-dir', join(tmp, 'cache'), '--quiet']).done;
+    const run = await startBuild([
+      '--content',
+      content,
+      '--out',
+      out,
+      '--base',
+      BASE,
+      '--cache-dir',
+      join(tmp, 'cache'),
+      '--quiet',
+    ]).done;
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(/^parts published: 2$/m);
     expect(run.stdout).toMatch(/^cache: 1 hits, 1 misses/m);
-    expect(await readFile(join(out, 'parts', syntheticPartId(2), 'index.html'), 'utf8')).toContain('retitled crystal two');
+    expect(await readFile(join(out, 'parts', syntheticPartId(2), 'index.html'), 'utf8')).toContain(
+      'retitled crystal two',
+    );
     expect(await readFile(join(out, 'index.html'), 'utf8')).toContain('retitled crystal two');
     if (await siteSupportsPartialPages()) {
       expect(run.stdout).toMatch(/^site: 1 changed part pages rendered, 0 removed/m);
       expect((await stat(keptPage)).ino).toBe(keptInode); // the unchanged page was carried over, not rendered
     } else {
-      console.warn('\n!!! the site cannot render a subset of part pages (src/site/catalogue.ts has no partPageIds): every page was rendered; see src/pipeline/partial-site.ts\n');
+      console.warn(
+        '\n!!! the site cannot render a subset of part pages (src/site/catalogue.ts has no partPageIds): every page was rendered; see src/pipeline/partial-site.ts\n',
+      );
       expect(run.stdout).toMatch(/^site: all 2 part pages rendered$/m);
     }
   });
@@ -125,19 +151,52 @@ describe('motional build (with the site)', () => {
     const out = join(tmp, 'site');
     const yaml = join(content, 'parts', syntheticPartId(1), 'part.yaml');
     await writeFile(yaml, (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: retitled crystal one'));
-    const run = await startBuild(['--content', content, '--out', out, '--base', BASE, '--cache-dir', join(tmp, 'cache'), '--quiet']).done;
+    const run = await startBuild([
+      '--content',
+      content,
+      '--out',
+      out,
+      '--base',
+      BASE,
+      '--cache-dir',
+      join(tmp, 'cache'),
+      '--quiet',
+    ]).done;
     expect(run.code).toBe(0);
     if (!(await siteSupportsPartialPages())) return;
     // the first build (full, with the cache) kept the generator's page modules and checked them
-    expect(run.stdout).toMatch(/^site: 1 changed part pages rendered, 0 removed, .*\(without starting the site generator\)$/m);
+    expect(run.stdout).toMatch(
+      /^site: 1 changed part pages rendered, 0 removed, .*\(without starting the site generator\)$/m,
+    );
     const full = join(tmp, 'site-full');
-    const reference = await startBuild(['--content', content, '--out', full, '--base', BASE, '--cache-dir', join(tmp, 'cache'), '--full-site', '--quiet']).done;
+    const reference = await startBuild([
+      '--content',
+      content,
+      '--out',
+      full,
+      '--base',
+      BASE,
+      '--cache-dir',
+      join(tmp, 'cache'),
+      '--full-site',
+      '--quiet',
+    ]).done;
     expect(reference.code).toBe(0);
     expect(reference.stdout).toMatch(/^site: all 2 part pages rendered$/m);
-    for (const rel of ['index.html', `parts/${syntheticPartId(1)}/index.html`, 'compare/index.html', '404.html', 'data/index.json']) {
-      expect(await readFile(join(out, ...rel.split('/')), 'utf8'), rel).toBe(await readFile(join(full, ...rel.split('/')), 'utf8'));
+    for (const rel of [
+      'index.html',
+      `parts/${syntheticPartId(1)}/index.html`,
+      'compare/index.html',
+      '404.html',
+      'data/index.json',
+    ]) {
+      expect(await readFile(join(out, ...rel.split('/')), 'utf8'), rel).toBe(
+        await readFile(join(full, ...rel.split('/')), 'utf8'),
+      );
     }
-    expect(await readFile(join(out, 'parts', syntheticPartId(1), 'index.html'), 'utf8')).toContain('retitled crystal one');
+    expect(await readFile(join(out, 'parts', syntheticPartId(1), 'index.html'), 'utf8')).toContain(
+      'retitled crystal one',
+    );
   });
 
   it('leaves the previous site intact when killed during the site stage, and stops its Astro process', async () => {
@@ -160,7 +219,16 @@ describe('motional build (with the site)', () => {
 
     // the next build clears the leftovers of the killed one
     expect(existsSync(staging)).toBe(true);
-    const next = await startBuild(['--content', content, '--out', out, '--cache-dir', join(tmp, 'cache'), '--quiet', '--data-only']).done;
+    const next = await startBuild([
+      '--content',
+      content,
+      '--out',
+      out,
+      '--cache-dir',
+      join(tmp, 'cache'),
+      '--quiet',
+      '--data-only',
+    ]).done;
     expect(next.code).toBe(0);
     expect(existsSync(staging)).toBe(false);
   });

@@ -8,7 +8,13 @@ import { normalizeBase, refusePath, startStaticServer, type StaticServer } from 
 const CANARY = 'canary-outside-the-site-4e1f';
 const NOT_FOUND_PAGE = '<h1>page not found</h1>';
 /** Sweep file names a record may hold: reserved URL characters, a literal percent sign, non-ASCII. */
-const ODD_NAMES = ["a1 narrow & 'q' #1 {{7*7}}.s1p", 'a1 wide $(id) %3Cb%3E;.csv', 'why?+=,@:.txt', '100% drive.ts', 'größe.s2p'];
+const ODD_NAMES = [
+  "a1 narrow & 'q' #1 {{7*7}}.s1p",
+  'a1 wide $(id) %3Cb%3E;.csv',
+  'why?+=,@:.txt',
+  '100% drive.ts',
+  'größe.s2p',
+];
 
 let tmp: string;
 let site: string;
@@ -49,14 +55,27 @@ interface RawResponse {
 }
 
 /** One request with the path sent exactly as given (fetch and URL would normalise it). */
-function rawRequest(port: number, path: string, options: { method?: string; headers?: Record<string, string> } = {}): Promise<RawResponse> {
+function rawRequest(
+  port: number,
+  path: string,
+  options: { method?: string; headers?: Record<string, string> } = {},
+): Promise<RawResponse> {
   return new Promise((resolveResponse, reject) => {
-    const req = request({ host: '127.0.0.1', port, path, method: options.method ?? 'GET', headers: options.headers, agent: false }, (res) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => resolveResponse({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(chunks).toString('utf8') }));
-      res.on('error', reject);
-    });
+    const req = request(
+      { host: '127.0.0.1', port, path, method: options.method ?? 'GET', headers: options.headers, agent: false },
+      (res) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () =>
+          resolveResponse({
+            status: res.statusCode ?? 0,
+            headers: res.headers,
+            body: Buffer.concat(chunks).toString('utf8'),
+          }),
+        );
+        res.on('error', reject);
+      },
+    );
     req.on('error', reject);
     req.end();
   });
@@ -98,7 +117,10 @@ const HOSTILE_PATHS = [
 ];
 
 describe('static server: hostile request paths', () => {
-  for (const [name, srv] of [['under a base', () => underBase], ['at the root', () => atRoot]] as const) {
+  for (const [name, srv] of [
+    ['under a base', () => underBase],
+    ['at the root', () => atRoot],
+  ] as const) {
     it.each(HOSTILE_PATHS)(`${name}: %s neither redirects off the site nor leaks files`, async (path) => {
       const res = await rawRequest(srv().port, path);
       expect(res.status, path).toBeGreaterThanOrEqual(400);
@@ -198,7 +220,10 @@ describe('static server: base path, pages and 404', () => {
       expect(res.body, name).toBe(`file ${name}`);
     }
     // a percent sign is a file name character only when encoded: '%3Cb%3E' names '<b>'
-    const decodedOnce = await rawRequest(underBase.port, `/base/downloads/XO-1/${encodeURIComponent('a1 wide $(id) <b>;.csv')}`);
+    const decodedOnce = await rawRequest(
+      underBase.port,
+      `/base/downloads/XO-1/${encodeURIComponent('a1 wide $(id) <b>;.csv')}`,
+    );
     expect(decodedOnce.status).toBe(404);
   });
 

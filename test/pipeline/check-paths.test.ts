@@ -6,7 +6,8 @@ import { checkPaths } from '../../src/pipeline/check-paths.ts';
 import { formatIssue } from '../../src/lib/issues.ts';
 
 const CSV = 'f (Hz),r (ohm),x (ohm)\n1000,10,0\n2000,10,1\n';
-const yaml = (id: string) => `id: ${id}\ntitle: t\nkind: other\nsamples:\n  - id: A1\n    sweeps:\n      - file: a.csv\n        fixture: impedance\n`;
+const yaml = (id: string) =>
+  `id: ${id}\ntitle: t\nkind: other\nsamples:\n  - id: A1\n    sweeps:\n      - file: a.csv\n        fixture: impedance\n`;
 
 let root: string;
 function part(rel: string, id: string): void {
@@ -47,7 +48,9 @@ describe('checkPaths', () => {
   it('reports a duplicate part id naming both files', async () => {
     const r = await checkPaths([join(root, 'dups')]);
     const two = join(root, 'dups', 'two', 'part.yaml');
-    expect(r.issues.map(formatIssue)).toEqual([`${two}:1: id: duplicate part id "SAME" (also in ${join(root, 'dups', 'one', 'part.yaml')})`]);
+    expect(r.issues.map(formatIssue)).toEqual([
+      `${two}:1: id: duplicate part id "SAME" (also in ${join(root, 'dups', 'one', 'part.yaml')})`,
+    ]);
     expect(r.parts[1].issues).toHaveLength(1);
   });
 

@@ -7,7 +7,12 @@ import { cp, mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CACHED_RESULT_ENTRY, extractionCodeHash, importedPaths, moduleClosureHash } from '../../src/pipeline/code-hash.ts';
+import {
+  CACHED_RESULT_ENTRY,
+  extractionCodeHash,
+  importedPaths,
+  moduleClosureHash,
+} from '../../src/pipeline/code-hash.ts';
 
 const ROOT = resolve(import.meta.dirname, '..', '..');
 let copy: string;

@@ -3,7 +3,12 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { execFileSync } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { checkPartFileName, findCaseCollisions, resolveInPartFolder, sweepFormatOf } from '../../src/pipeline/safe-path.ts';
+import {
+  checkPartFileName,
+  findCaseCollisions,
+  resolveInPartFolder,
+  sweepFormatOf,
+} from '../../src/pipeline/safe-path.ts';
 
 // Rules: README: The part record ("a record may name only files inside its own folder") and
 // README: Limits and robustness (no absolute paths, no `..`, no links that resolve outside);
@@ -25,8 +30,16 @@ describe('checkPartFileName', () => {
   it.each([
     ['', 'path-empty', 'expected a file name, got an empty text'],
     ['/etc/a.s1p', 'path-escape', 'absolute path "/etc/a.s1p" not allowed; name a file inside the part folder'],
-    ['../other/a.s1p', 'path-escape', `'..' in "../other/a.s1p" not allowed; a record may only name files inside its own folder`],
-    ['raw/../a.s1p', 'path-escape', `'..' in "raw/../a.s1p" not allowed; a record may only name files inside its own folder`],
+    [
+      '../other/a.s1p',
+      'path-escape',
+      `'..' in "../other/a.s1p" not allowed; a record may only name files inside its own folder`,
+    ],
+    [
+      'raw/../a.s1p',
+      'path-escape',
+      `'..' in "raw/../a.s1p" not allowed; a record may only name files inside its own folder`,
+    ],
     ['C:a.s1p', 'path-escape', 'drive letter in "C:a.s1p" not allowed; name a file inside the part folder'],
     ['c:/data/a.s1p', 'path-escape', 'drive letter in "c:/data/a.s1p" not allowed; name a file inside the part folder'],
     ['raw\\a.s1p', 'path-unsafe', `file name "raw\\\\a.s1p" contains a backslash; use '/' between folders`],
@@ -34,9 +47,21 @@ describe('checkPartFileName', () => {
     ['a\u0000.s1p', 'path-unsafe', 'file name "a<U+0000>.s1p" contains control character U+0000'],
     ['a\n.s1p', 'path-unsafe', 'file name "a<U+000A>.s1p" contains control character U+000A'],
     ['a\u0085.s1p', 'path-unsafe', 'file name "a<U+0085>.s1p" contains control character U+0085'],
-    ['a\u202egnp.s1p', 'path-unsafe', 'file name "a<U+202E>gnp.s1p" contains invisible or direction-changing character U+202E'],
-    ['a\u2066b.s1p', 'path-unsafe', 'file name "a<U+2066>b.s1p" contains invisible or direction-changing character U+2066'],
-    ['a\u200bb.s1p', 'path-unsafe', 'file name "a<U+200B>b.s1p" contains invisible or direction-changing character U+200B'],
+    [
+      'a\u202egnp.s1p',
+      'path-unsafe',
+      'file name "a<U+202E>gnp.s1p" contains invisible or direction-changing character U+202E',
+    ],
+    [
+      'a\u2066b.s1p',
+      'path-unsafe',
+      'file name "a<U+2066>b.s1p" contains invisible or direction-changing character U+2066',
+    ],
+    [
+      'a\u200bb.s1p',
+      'path-unsafe',
+      'file name "a<U+200B>b.s1p" contains invisible or direction-changing character U+200B',
+    ],
     [' a.s1p', 'path-unsafe', 'file name " a.s1p" has leading or trailing spaces'],
     ['raw/', 'path-unsafe', '"raw/" names a folder, expected a file'],
   ])('refuses %j', (name, code, message) => {
@@ -54,7 +79,10 @@ describe('sweepFormatOf', () => {
 
 describe('findCaseCollisions', () => {
   it('pairs names that differ only by letter case, and ignores exact repeats', () => {
-    expect(findCaseCollisions(['a1.s1p', 'b.s1p', 'a1.s1p', 'A1.s1p', './B.S1P'])).toEqual([['a1.s1p', 'A1.s1p'], ['b.s1p', './B.S1P']]);
+    expect(findCaseCollisions(['a1.s1p', 'b.s1p', 'a1.s1p', 'A1.s1p', './B.S1P'])).toEqual([
+      ['a1.s1p', 'A1.s1p'],
+      ['b.s1p', './B.S1P'],
+    ]);
     expect(findCaseCollisions(['a.s1p', './a.s1p'])).toEqual([]);
   });
 });
@@ -80,12 +108,22 @@ describe('resolveInPartFolder (real file system)', () => {
 
   it('resolves a plain name, a subfolder name and a link that stays inside', async () => {
     expect(await resolveInPartFolder(part, 'a1.s1p')).toEqual({ ok: true, path: join(part, 'a1.s1p'), sizeBytes: 15 });
-    expect(await resolveInPartFolder(part, './raw/b.s1p')).toMatchObject({ ok: true, path: join(part, 'raw', 'b.s1p') });
-    expect(await resolveInPartFolder(part, 'inner-link.s1p')).toMatchObject({ ok: true, path: join(part, 'inner-link.s1p') });
+    expect(await resolveInPartFolder(part, './raw/b.s1p')).toMatchObject({
+      ok: true,
+      path: join(part, 'raw', 'b.s1p'),
+    });
+    expect(await resolveInPartFolder(part, 'inner-link.s1p')).toMatchObject({
+      ok: true,
+      path: join(part, 'inner-link.s1p'),
+    });
   });
 
   it('refuses a link to a file outside the folder', async () => {
-    expect(await resolveInPartFolder(part, 'escape.s1p')).toEqual({ ok: false, code: 'path-escape', message: '"escape.s1p" is a link that leads outside the part folder' });
+    expect(await resolveInPartFolder(part, 'escape.s1p')).toEqual({
+      ok: false,
+      code: 'path-escape',
+      message: '"escape.s1p" is a link that leads outside the part folder',
+    });
   });
 
   it('refuses a file reached through a linked folder that leads outside', async () => {
@@ -93,7 +131,11 @@ describe('resolveInPartFolder (real file system)', () => {
   });
 
   it('reports a missing file and suggests a name that differs only by case', async () => {
-    expect(await resolveInPartFolder(part, 'nope.s1p')).toEqual({ ok: false, code: 'missing', message: 'file "nope.s1p" not found in the part folder' });
+    expect(await resolveInPartFolder(part, 'nope.s1p')).toEqual({
+      ok: false,
+      code: 'missing',
+      message: 'file "nope.s1p" not found in the part folder',
+    });
     expect(await resolveInPartFolder(part, 'dangling.s1p')).toMatchObject({ ok: false, code: 'missing' });
     const upper = await resolveInPartFolder(part, 'A1.S1P');
     // Linux is case-sensitive (missing + hint); a case-insensitive system finds it and flags the case.
@@ -102,7 +144,11 @@ describe('resolveInPartFolder (real file system)', () => {
   });
 
   it('refuses a folder where a file is expected', async () => {
-    expect(await resolveInPartFolder(part, 'folder.s1p')).toEqual({ ok: false, code: 'not-file', message: '"folder.s1p" is a folder, expected a file' });
+    expect(await resolveInPartFolder(part, 'folder.s1p')).toEqual({
+      ok: false,
+      code: 'not-file',
+      message: '"folder.s1p" is a folder, expected a file',
+    });
   });
 
   it('refuses a FIFO, which would block a reader forever', async () => {
@@ -112,11 +158,18 @@ describe('resolveInPartFolder (real file system)', () => {
       console.warn('mkfifo not available: FIFO case not checked');
       return;
     }
-    expect(await resolveInPartFolder(part, 'pipe.s1p')).toMatchObject({ ok: false, code: 'not-file', message: '"pipe.s1p" is not a regular file, expected a file' });
+    expect(await resolveInPartFolder(part, 'pipe.s1p')).toMatchObject({
+      ok: false,
+      code: 'not-file',
+      message: '"pipe.s1p" is not a regular file, expected a file',
+    });
   });
 
   it('refuses unsafe names before touching the disk', async () => {
     expect(await resolveInPartFolder(part, '../outside/secret.s1p')).toMatchObject({ ok: false, code: 'path-escape' });
-    expect(await resolveInPartFolder(part, join(root, 'outside', 'secret.s1p'))).toMatchObject({ ok: false, code: 'path-escape' });
+    expect(await resolveInPartFolder(part, join(root, 'outside', 'secret.s1p'))).toMatchObject({
+      ok: false,
+      code: 'path-escape',
+    });
   });
 });

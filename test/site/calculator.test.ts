@@ -19,13 +19,21 @@ describe('runCalculator', async () => {
   const folder = join('content', 'parts', 'xt-16m-3225-lots');
   const loaded = await loadPart(folder);
   const result = extractPart(loaded.part!, loaded.sweeps);
-  const circuits = parseOscillatorsYaml(readFileSync(join('content', 'oscillators.yaml'), 'utf8'), 'oscillators.yaml').circuits;
+  const circuits = parseOscillatorsYaml(
+    readFileSync(join('content', 'oscillators.yaml'), 'utf8'),
+    'oscillators.yaml',
+  ).circuits;
   const data = makePartData(loaded, result, circuits).calculator!;
 
   it('with a circuit file entry and the datasheet target equals `advise --circuit NAME`', async () => {
     for (const c of data.circuits) {
       const got = runCalculator(data, formFromCircuit(data, c));
-      const cli = (await adviseCli([folder, '--circuit', c.name])) as Array<{ ok: boolean; best?: unknown; equal?: unknown; reason?: string }>;
+      const cli = (await adviseCli([folder, '--circuit', c.name])) as Array<{
+        ok: boolean;
+        best?: unknown;
+        equal?: unknown;
+        reason?: string;
+      }>;
       expect(got.ok, c.name).toBe(cli[0].ok);
       if (got.ok) {
         expect(JSON.parse(JSON.stringify(got.advice.best))).toEqual(cli[0].best);
@@ -38,7 +46,17 @@ describe('runCalculator', async () => {
     const c = data.circuits[0];
     const form = { ...formFromCircuit(data, c), stray: '2.5', pinIn: '5p', gm: '12' };
     const got = runCalculator(data, form);
-    const cli = (await adviseCli([folder, '--circuit', c.name, '--stray', '2.5pF', '--pin-in', '5pF', '--gm', '12mA/V'])) as Array<{ best: unknown }>;
+    const cli = (await adviseCli([
+      folder,
+      '--circuit',
+      c.name,
+      '--stray',
+      '2.5pF',
+      '--pin-in',
+      '5pF',
+      '--gm',
+      '12mA/V',
+    ])) as Array<{ best: unknown }>;
     expect(got.ok).toBe(true);
     if (got.ok) expect(JSON.parse(JSON.stringify(got.advice.best))).toEqual(cli[0].best);
   });

@@ -6,9 +6,28 @@ import { compileFilters, emptyFilterState, readFilterState, writeFilterState } f
 import { fitCells } from '../../src/site/catalogue-fits.ts';
 import type { IndexEntry } from '../../src/site/types.ts';
 
-const entry = (id: string, fits: IndexEntry['fits']): IndexEntry => ({ id, title: id, kind: 'quartz-at', samples: 1, state: 'pass', fits });
-const A = entry('A', [{ circuit: 'hub', verdict: 'fits', inputCapF: 18e-12, outputCapF: 12e-12, offsetPpm: 0.288, gainMargin: 52, startupTimeS: 4.64e-4 }]);
-const B = entry('B', [{ circuit: 'hub', verdict: 'no', inputCapF: 6.8e-12, outputCapF: 6.8e-12, offsetPpm: -3, gainMargin: 0.4 }]);
+const entry = (id: string, fits: IndexEntry['fits']): IndexEntry => ({
+  id,
+  title: id,
+  kind: 'quartz-at',
+  samples: 1,
+  state: 'pass',
+  fits,
+});
+const A = entry('A', [
+  {
+    circuit: 'hub',
+    verdict: 'fits',
+    inputCapF: 18e-12,
+    outputCapF: 12e-12,
+    offsetPpm: 0.288,
+    gainMargin: 52,
+    startupTimeS: 4.64e-4,
+  },
+]);
+const B = entry('B', [
+  { circuit: 'hub', verdict: 'no', inputCapF: 6.8e-12, outputCapF: 6.8e-12, offsetPpm: -3, gainMargin: 0.4 },
+]);
 const C = entry('C', []);
 
 describe('fits circuit filter state', () => {
@@ -20,7 +39,8 @@ describe('fits circuit filter state', () => {
     expect(readFilterState(new URLSearchParams('circuit=hub&fit=maybe')).fit).toBe('');
   });
   it('filters by verdict only when a circuit is chosen; a part without the circuit is outside', () => {
-    const t = (fit: string, circuit = 'hub') => [A, B, C].filter(compileFilters({ ...emptyFilterState(), circuit, fit: fit as never }).test).map((e) => e.id);
+    const t = (fit: string, circuit = 'hub') =>
+      [A, B, C].filter(compileFilters({ ...emptyFilterState(), circuit, fit: fit as never }).test).map((e) => e.id);
     expect(t('fits')).toEqual(['A']);
     expect(t('no')).toEqual(['B']);
     expect(t('outside')).toEqual(['C']);

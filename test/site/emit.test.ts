@@ -39,7 +39,8 @@ describe('makeDownloads on a demo record', async () => {
   });
   it('copies the record and its sweeps unchanged under raw/', () => {
     expect(file('raw/part.yaml')).toBe(readFileSync(join(folder, 'part.yaml'), 'utf8'));
-    for (const s of loaded.part!.samples.flatMap((x) => x.sweeps)) expect(file(`raw/${s.file}`)).toBe(readFileSync(join(folder, s.file), 'utf8'));
+    for (const s of loaded.part!.samples.flatMap((x) => x.sweeps))
+      expect(file(`raw/${s.file}`)).toBe(readFileSync(join(folder, s.file), 'utf8'));
   });
 
   const out = mkdtempSync(join(tmpdir(), 'motional-emit-'));
@@ -47,7 +48,9 @@ describe('makeDownloads on a demo record', async () => {
   it('writeCatalogueData writes the part data, compare data, index and downloads', async () => {
     const data = makePartData(loaded, result, [DEMO_CIRCUIT], { downloads });
     await writeCatalogueData(out, [{ data, downloads }]);
-    expect(JSON.parse(readFileSync(join(out, 'parts', `${id}.json`), 'utf8'))).toEqual(JSON.parse(JSON.stringify(data)));
+    expect(JSON.parse(readFileSync(join(out, 'parts', `${id}.json`), 'utf8'))).toEqual(
+      JSON.parse(JSON.stringify(data)),
+    );
     const index = JSON.parse(readFileSync(join(out, 'index.json'), 'utf8'));
     expect(index.map((e: { id: string }) => e.id)).toEqual([id]);
     expect(JSON.parse(readFileSync(join(out, 'compare', `${id}.json`), 'utf8')).id).toBe(id);
@@ -57,6 +60,8 @@ describe('makeDownloads on a demo record', async () => {
 
   it('refuses a download name that leaves its folder', async () => {
     const data = makePartData(loaded, result, []);
-    await expect(writeCatalogueData(out, [{ data, downloads: [{ name: '../evil.txt', content: 'x' }] }])).rejects.toThrow(/leaves its folder/);
+    await expect(
+      writeCatalogueData(out, [{ data, downloads: [{ name: '../evil.txt', content: 'x' }] }]),
+    ).rejects.toThrow(/leaves its folder/);
   });
 });

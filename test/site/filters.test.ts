@@ -1,5 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { compareEntries, compileFilters, emptyFilterState, parseAtMostFilter, parseEngValue, parseRangeFilter, readFilterState, writeFilterState } from '../../src/site/filters.ts';
+import {
+  compareEntries,
+  compileFilters,
+  emptyFilterState,
+  parseAtMostFilter,
+  parseEngValue,
+  parseRangeFilter,
+  readFilterState,
+  writeFilterState,
+} from '../../src/site/filters.ts';
 import type { IndexEntry } from '../../src/site/types.ts';
 
 // SI prefixes: BIPM SI Brochure (M = 1e6, k = 1e3, p = 1e-12); the range forms are the
@@ -12,7 +21,14 @@ const range = (text: string, unit: 'Hz' | 'F' | 'ohm') => {
 
 describe('parseRangeFilter', () => {
   it('reads 11.9M–12.1M (en dash) and 11.9M-12.1M as [11.9e6, 12.1e6]', () => {
-    for (const t of ['11.9M–12.1M', '11.9M-12.1M', '11.9 MHz - 12.1 MHz', '11.9M..12.1M', '11.9M to 12.1M', '11.9e6-12.1e6']) {
+    for (const t of [
+      '11.9M–12.1M',
+      '11.9M-12.1M',
+      '11.9 MHz - 12.1 MHz',
+      '11.9M..12.1M',
+      '11.9M to 12.1M',
+      '11.9e6-12.1e6',
+    ]) {
       const [lo, hi] = range(t, 'Hz');
       expect(lo, t).toBeCloseTo(11.9e6, 3);
       expect(hi, t).toBeCloseTo(12.1e6, 3);
@@ -47,7 +63,14 @@ describe('parseRangeFilter', () => {
 
 describe('parseAtMostFilter and parseEngValue', () => {
   it('reads ESR limits 50, 50 ohm, 50Ω and 1k', () => {
-    for (const [t, v] of [['50', 50], ['50 ohm', 50], ['50Ω', 50], ['1k', 1000], ['<= 80 ohms', 80], ['2.2kOhm', 2200]] as const) {
+    for (const [t, v] of [
+      ['50', 50],
+      ['50 ohm', 50],
+      ['50Ω', 50],
+      ['1k', 1000],
+      ['<= 80 ohms', 80],
+      ['2.2kOhm', 2200],
+    ] as const) {
       const r = parseAtMostFilter(t, 'ohm');
       expect(r?.ok && r.range.max, t).toBe(v);
     }
@@ -58,10 +81,24 @@ describe('parseAtMostFilter and parseEngValue', () => {
   });
 });
 
-const entry = (id: string, fsHz: number, r1Ohm: number, extra: Partial<IndexEntry> = {}): IndexEntry => ({ id, title: id, kind: 'quartz-at', samples: 1, state: 'pass', fsHz, r1Ohm, ...extra });
+const entry = (id: string, fsHz: number, r1Ohm: number, extra: Partial<IndexEntry> = {}): IndexEntry => ({
+  id,
+  title: id,
+  kind: 'quartz-at',
+  samples: 1,
+  state: 'pass',
+  fsHz,
+  r1Ohm,
+  ...extra,
+});
 
 describe('compileFilters', () => {
-  const entries = [entry('A', 12e6, 30), entry('B', 12.05e6, 60), entry('C', 16e6, 20), entry('D', 11.95e6, 45, { package: '3225', overtone: 1 })];
+  const entries = [
+    entry('A', 12e6, 30),
+    entry('B', 12.05e6, 60),
+    entry('C', 16e6, 20),
+    entry('D', 11.95e6, 45, { package: '3225', overtone: 1 }),
+  ];
 
   it('combines a frequency range and an ESR limit', () => {
     const { test, errors } = compileFilters({ ...emptyFilterState(), f: '11.9M–12.1M', esr: '50' });

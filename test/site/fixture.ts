@@ -37,7 +37,12 @@ function fpOf(model: BvdModel, k: number): number {
 }
 
 /** Sweep around branch k of a model: from fs − w to fp + w, n points, 0.2 % noise. */
-export function sweepAround(model: BvdModel, k: number, n = 1601, seed = 1): { freqHz: Float64Array; zRe: Float64Array; zIm: Float64Array } {
+export function sweepAround(
+  model: BvdModel,
+  k: number,
+  n = 1601,
+  seed = 1,
+): { freqHz: Float64Array; zRe: Float64Array; zIm: Float64Array } {
   const fs = model.branches[k].fsHz;
   const fp = fpOf(model, k);
   const w = 0.4 * (fp - fs);
@@ -68,7 +73,15 @@ function modeOf(model: BvdModel, k: number, overtone: number, spurious: boolean)
     q,
     m,
     r,
-    uncertainty: { fsHz: b.fsHz * 2e-9, fpHz: b.fsHz * 5e-9, r1Ohm: b.r1Ohm * 1e-3, l1H: l1H * 2e-4, c1F: b.c1F * 2e-4, c0F: model.c0F * 1e-3, q: q * 1e-3 },
+    uncertainty: {
+      fsHz: b.fsHz * 2e-9,
+      fpHz: b.fsHz * 5e-9,
+      r1Ohm: b.r1Ohm * 1e-3,
+      l1H: l1H * 2e-4,
+      c1F: b.c1F * 2e-4,
+      c0F: model.c0F * 1e-3,
+      q: q * 1e-3,
+    },
     crossCheck: [
       {
         quantity: 'r1Ohm',
@@ -109,10 +122,18 @@ export function makeFixturePart(spec: FixturePartSpec): { loaded: LoadedPart; re
   const samples: SampleResult[] = spec.samples.map((model, i) => {
     model.branches.forEach((_, k) => {
       const z = sweepAround(model, k, 1601, i * 10 + k);
-      sweeps.push({ sampleId: `S${i + 1}`, index: k, ref: part.samples[i].sweeps[k], file: `/nowhere/${spec.id}/s${i + 1}-mode${k + 1}.csv`, impedance: { ...z, source: `s${i + 1}-mode${k + 1}.csv` } });
+      sweeps.push({
+        sampleId: `S${i + 1}`,
+        index: k,
+        ref: part.samples[i].sweeps[k],
+        file: `/nowhere/${spec.id}/s${i + 1}-mode${k + 1}.csv`,
+        impedance: { ...z, source: `s${i + 1}-mode${k + 1}.csv` },
+      });
     });
     const modes = model.branches.map((_, k) => modeOf(model, k, spec.overtones?.[k] ?? 1, spec.spurious?.[k] ?? false));
-    const allF = sweeps.filter((s) => s.sampleId === `S${i + 1}`).flatMap((s) => [s.impedance!.freqHz[0], s.impedance!.freqHz[s.impedance!.freqHz.length - 1]]);
+    const allF = sweeps
+      .filter((s) => s.sampleId === `S${i + 1}`)
+      .flatMap((s) => [s.impedance!.freqHz[0], s.impedance!.freqHz[s.impedance!.freqHz.length - 1]]);
     return {
       sample: `S${i + 1}`,
       c0F: model.c0F,
@@ -122,14 +143,27 @@ export function makeFixturePart(spec: FixturePartSpec): { loaded: LoadedPart; re
       warnings: [],
       model,
       temperatureC: 25,
-      c0CrossCheck: { quantity: 'c0F', values: [{ method: 'capacitive-region', value: model.c0F }], verdict: 'single', rule: 'one method' },
+      c0CrossCheck: {
+        quantity: 'c0F',
+        values: [{ method: 'capacitive-region', value: model.c0F }],
+        verdict: 'single',
+        rule: 'one method',
+      },
       fit: { converged: true, reason: 'small step', iterations: 12, rmsResidual: 0.002, points: 1601 },
       diagnostics: [],
       otherConditions: [],
       spanHz: { min: Math.min(...allF), max: Math.max(...allF) },
     };
   });
-  const loaded: LoadedPart = { yamlFile: `/nowhere/${spec.id}/part.yaml`, folder: `/nowhere/${spec.id}`, part, issues: [], sweeps, id: spec.id, locate: () => ({}) };
+  const loaded: LoadedPart = {
+    yamlFile: `/nowhere/${spec.id}/part.yaml`,
+    folder: `/nowhere/${spec.id}`,
+    part,
+    issues: [],
+    sweeps,
+    id: spec.id,
+    locate: () => ({}),
+  };
   return { loaded, result: { part: spec.id, samples }, part };
 }
 
@@ -154,13 +188,73 @@ export const DEMO_CIRCUIT: OscillatorCircuit = {
 
 /** A small varied catalogue of synthetic parts. */
 export function fixtureCatalogue(): FixturePartSpec[] {
-  const at = (fs: number, c1: number, r1: number, c0: number): BvdModel => ({ c0F: c0, branches: [{ fsHz: fs, r1Ohm: r1, c1F: c1 }] });
+  const at = (fs: number, c1: number, r1: number, c0: number): BvdModel => ({
+    c0F: c0,
+    branches: [{ fsHz: fs, r1Ohm: r1, c1F: c1 }],
+  });
   return [
-    { id: 'XT-0001', title: '16 MHz reference resonator', kind: 'quartz-at', package: '3225', supplier: 'Example Crystals', notes: 'Reference part **X1**. See [the guide](https://example.invalid/guide).', datasheet: { frequencyHz: 15.92e6, tolerancePpm: 20, loadCapacitanceF: 8e-12, esrMaxOhm: 60, c0MaxF: 5e-12, overtone: 1 }, samples: [X1, { ...X1, branches: [{ ...X1.branches[0], r1Ohm: 22, fsHz: X1.branches[0].fsHz * (1 + 3e-6) }] }] },
-    { id: 'XT-0002', title: '12 MHz crystal, HC-49/S', kind: 'quartz-at', package: 'HC-49/S', supplier: 'Sample Quartz Works', datasheet: { frequencyHz: 12e6, tolerancePpm: 30, loadCapacitanceF: 18e-12, esrMaxOhm: 50 }, samples: [at(11.9985e6, 14e-15, 28, 4.2e-12)] },
-    { id: 'XT-0003', title: '12 MHz crystal, 2520 SMD <b>bold</b>', kind: 'quartz-at', package: '2520', supplier: 'Example Crystals', notes: '<script>alert(1)</script> second source', datasheet: { frequencyHz: 12e6, tolerancePpm: 10, loadCapacitanceF: 8e-12, esrMaxOhm: 60 }, samples: [at(11.9982e6, 6e-15, 45, 1.8e-12)] },
-    { id: 'XT-0004', title: '25 MHz crystal, 2016 SMD', kind: 'quartz-at', package: '2016', supplier: 'Sample Quartz Works', datasheet: { frequencyHz: 25e6, tolerancePpm: 10, loadCapacitanceF: 10e-12, esrMaxOhm: 40 }, samples: [at(24.9975e6, 4e-15, 55, 1.5e-12)] },
-    { id: 'XT-0005', title: '32.768 kHz tuning fork', kind: 'quartz-tuning-fork', package: '3215', supplier: 'Example Crystals', datasheet: { frequencyHz: 32768, tolerancePpm: 20, loadCapacitanceF: 12.5e-12, esrMaxOhm: 70e3 }, samples: [{ c0F: 1.2e-12, branches: [{ fsHz: 32764.4, r1Ohm: 35e3, c1F: 3e-15 }] }] },
-    { id: 'XT-0006', title: '4 MHz ceramic resonator', kind: 'ceramic', package: '3-pin', supplier: 'Sample Ceramics', datasheet: { frequencyHz: 4e6 }, samples: [{ c0F: 20.6e-12, branches: [{ fsHz: 4.005879e6, r1Ohm: 8, c1F: 4.1e-12 }] }] },
+    {
+      id: 'XT-0001',
+      title: '16 MHz reference resonator',
+      kind: 'quartz-at',
+      package: '3225',
+      supplier: 'Example Crystals',
+      notes: 'Reference part **X1**. See [the guide](https://example.invalid/guide).',
+      datasheet: {
+        frequencyHz: 15.92e6,
+        tolerancePpm: 20,
+        loadCapacitanceF: 8e-12,
+        esrMaxOhm: 60,
+        c0MaxF: 5e-12,
+        overtone: 1,
+      },
+      samples: [X1, { ...X1, branches: [{ ...X1.branches[0], r1Ohm: 22, fsHz: X1.branches[0].fsHz * (1 + 3e-6) }] }],
+    },
+    {
+      id: 'XT-0002',
+      title: '12 MHz crystal, HC-49/S',
+      kind: 'quartz-at',
+      package: 'HC-49/S',
+      supplier: 'Sample Quartz Works',
+      datasheet: { frequencyHz: 12e6, tolerancePpm: 30, loadCapacitanceF: 18e-12, esrMaxOhm: 50 },
+      samples: [at(11.9985e6, 14e-15, 28, 4.2e-12)],
+    },
+    {
+      id: 'XT-0003',
+      title: '12 MHz crystal, 2520 SMD <b>bold</b>',
+      kind: 'quartz-at',
+      package: '2520',
+      supplier: 'Example Crystals',
+      notes: '<script>alert(1)</script> second source',
+      datasheet: { frequencyHz: 12e6, tolerancePpm: 10, loadCapacitanceF: 8e-12, esrMaxOhm: 60 },
+      samples: [at(11.9982e6, 6e-15, 45, 1.8e-12)],
+    },
+    {
+      id: 'XT-0004',
+      title: '25 MHz crystal, 2016 SMD',
+      kind: 'quartz-at',
+      package: '2016',
+      supplier: 'Sample Quartz Works',
+      datasheet: { frequencyHz: 25e6, tolerancePpm: 10, loadCapacitanceF: 10e-12, esrMaxOhm: 40 },
+      samples: [at(24.9975e6, 4e-15, 55, 1.5e-12)],
+    },
+    {
+      id: 'XT-0005',
+      title: '32.768 kHz tuning fork',
+      kind: 'quartz-tuning-fork',
+      package: '3215',
+      supplier: 'Example Crystals',
+      datasheet: { frequencyHz: 32768, tolerancePpm: 20, loadCapacitanceF: 12.5e-12, esrMaxOhm: 70e3 },
+      samples: [{ c0F: 1.2e-12, branches: [{ fsHz: 32764.4, r1Ohm: 35e3, c1F: 3e-15 }] }],
+    },
+    {
+      id: 'XT-0006',
+      title: '4 MHz ceramic resonator',
+      kind: 'ceramic',
+      package: '3-pin',
+      supplier: 'Sample Ceramics',
+      datasheet: { frequencyHz: 4e6 },
+      samples: [{ c0F: 20.6e-12, branches: [{ fsHz: 4.005879e6, r1Ohm: 8, c1F: 4.1e-12 }] }],
+    },
   ];
 }

@@ -17,9 +17,19 @@ describe('renderMarkdown', () => {
   });
 
   it('renders links only for http(s) and relative URLs, with rel=noopener', () => {
-    expect(renderMarkdown('[guide](https://example.invalid/a?b=1&c=2)')).toBe('<p><a href="https://example.invalid/a?b&#61;1&amp;c&#61;2" rel="noopener noreferrer">guide</a></p>');
-    expect(renderMarkdown('[sheet](../docs/sheet.pdf)')).toBe('<p><a href="../docs/sheet.pdf" rel="noopener noreferrer">sheet</a></p>');
-    for (const bad of ['javascript:alert(1)', 'JaVaScRiPt:alert(1)', 'data:text/html,x', '//evil.invalid/x', 'vbscript:x']) {
+    expect(renderMarkdown('[guide](https://example.invalid/a?b=1&c=2)')).toBe(
+      '<p><a href="https://example.invalid/a?b&#61;1&amp;c&#61;2" rel="noopener noreferrer">guide</a></p>',
+    );
+    expect(renderMarkdown('[sheet](../docs/sheet.pdf)')).toBe(
+      '<p><a href="../docs/sheet.pdf" rel="noopener noreferrer">sheet</a></p>',
+    );
+    for (const bad of [
+      'javascript:alert(1)',
+      'JaVaScRiPt:alert(1)',
+      'data:text/html,x',
+      '//evil.invalid/x',
+      'vbscript:x',
+    ]) {
       const html = renderMarkdown(`[x](${bad})`);
       expect(html, bad).not.toContain('<a ');
       expect(html, bad).not.toContain('href');
@@ -28,7 +38,9 @@ describe('renderMarkdown', () => {
 
   it('a link label cannot break out of the anchor', () => {
     const html = renderMarkdown('[<b onmouseover=alert(1)>hi</b>](https://example.invalid/)');
-    expect(html).toBe('<p><a href="https://example.invalid/" rel="noopener noreferrer">&lt;b onmouseover&#61;alert(1)&gt;hi&lt;/b&gt;</a></p>');
+    expect(html).toBe(
+      '<p><a href="https://example.invalid/" rel="noopener noreferrer">&lt;b onmouseover&#61;alert(1)&gt;hi&lt;/b&gt;</a></p>',
+    );
   });
 
   it('quotes in a URL cannot close the href attribute', () => {
@@ -55,7 +67,9 @@ describe('renderMarkdown', () => {
 
 describe('helpers', () => {
   it('escapeHtml escapes the five HTML specials plus backtick and equals', () => {
-    expect(escapeHtml(`<a href='x' b="y">&\`=`)).toBe('&lt;a href&#61;&#39;x&#39; b&#61;&quot;y&quot;&gt;&amp;&#96;&#61;');
+    expect(escapeHtml(`<a href='x' b="y">&\`=`)).toBe(
+      '&lt;a href&#61;&#39;x&#39; b&#61;&quot;y&quot;&gt;&amp;&#96;&#61;',
+    );
   });
 
   it('isSafeUrl accepts http(s) and relative, refuses schemes and protocol-relative URLs', () => {

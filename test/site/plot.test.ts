@@ -7,12 +7,32 @@ import { formatWithUncertainty } from '../../src/site/format.ts';
 describe('layoutPlot', () => {
   const xs = Array.from({ length: 41 }, (_, i) => 11.99e6 + i * 1000);
   const plot = layoutPlot({
-    id: 'p', title: 't', description: 'd', xName: 'Frequency', xUnit: 'Hz', xScale: 'linear',
+    id: 'p',
+    title: 't',
+    description: 'd',
+    xName: 'Frequency',
+    xUnit: 'Hz',
+    xScale: 'linear',
     panels: [
-      { yName: '|Z|', yUnit: 'Ω', yScale: 'log', series: [{ label: 'measured', style: 'measured', curve: { x: xs, y: xs.map((x) => 20 + Math.abs(x - 12e6)) } }] },
-      { yName: 'Phase', yUnit: '°', yScale: 'linear', yDomain: [-90, 90], yTicks: [-90, 0, 90], series: [{ label: 'measured', style: 'measured', curve: { x: xs, y: xs.map(() => 0) } }] },
+      {
+        yName: '|Z|',
+        yUnit: 'Ω',
+        yScale: 'log',
+        series: [{ label: 'measured', style: 'measured', curve: { x: xs, y: xs.map((x) => 20 + Math.abs(x - 12e6)) } }],
+      },
+      {
+        yName: 'Phase',
+        yUnit: '°',
+        yScale: 'linear',
+        yDomain: [-90, 90],
+        yTicks: [-90, 0, 90],
+        series: [{ label: 'measured', style: 'measured', curve: { x: xs, y: xs.map(() => 0) } }],
+      },
     ],
-    markers: [{ x: 12e6, label: 'fs' }, { x: 99e6, label: 'outside' }],
+    markers: [
+      { x: 12e6, label: 'fs' },
+      { x: 99e6, label: 'outside' },
+    ],
   });
 
   it('labels a linear frequency axis with one prefix and enough decimals to tell ticks apart', () => {
@@ -36,7 +56,22 @@ describe('layoutPlot', () => {
   });
 
   it('leaves a gap where a log-axis value is not positive', () => {
-    const p = layoutPlot({ id: 'g', title: '', description: '', xName: 'x', xUnit: '', xScale: 'linear', panels: [{ yName: 'y', yUnit: '', yScale: 'log', series: [{ label: 's', style: 'fit', curve: { x: [1, 2, 3, 4], y: [1, 0, 3, 4] } }] }] });
+    const p = layoutPlot({
+      id: 'g',
+      title: '',
+      description: '',
+      xName: 'x',
+      xUnit: '',
+      xScale: 'linear',
+      panels: [
+        {
+          yName: 'y',
+          yUnit: '',
+          yScale: 'log',
+          series: [{ label: 's', style: 'fit', curve: { x: [1, 2, 3, 4], y: [1, 0, 3, 4] } }],
+        },
+      ],
+    });
     expect(p.panels[0].paths[0].d.match(/M/g)).toHaveLength(2);
   });
 });

@@ -2,7 +2,14 @@ import { describe, expect, it } from 'vitest';
 import { createSearcher } from '../../src/site/search.ts';
 import type { IndexEntry } from '../../src/site/types.ts';
 
-const e = (id: string, title: string, extra: Partial<IndexEntry> = {}): IndexEntry => ({ id, title, kind: 'quartz-at', samples: 1, state: 'pass', ...extra });
+const e = (id: string, title: string, extra: Partial<IndexEntry> = {}): IndexEntry => ({
+  id,
+  title,
+  kind: 'quartz-at',
+  samples: 1,
+  state: 'pass',
+  ...extra,
+});
 const entries = [
   e('XT-0001', '16 MHz crystal, 3225', { supplier: 'Example Crystals' }),
   e('XT-0005', '32.768 kHz tuning fork', { kind: 'quartz-tuning-fork', notes: 'RTC clock' }),

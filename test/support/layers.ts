@@ -46,7 +46,8 @@ export const TOP_LAYERS: Layer[] = [
 ];
 
 const SOURCE = /\.(ts|mts|mjs|js|astro)$/;
-const IMPORT = /(?:\bimport\s+(?:type\s+)?(?:[\w*{}\s,$]+?\s+from\s+)?|\bexport\s+(?:type\s+)?(?:\*(?:\s+as\s+\w+)?|\{[^}]*\})\s+from\s+|\bimport\s*\(\s*)['"]([^'"]+)['"]/g;
+const IMPORT =
+  /(?:\bimport\s+(?:type\s+)?(?:[\w*{}\s,$]+?\s+from\s+)?|\bexport\s+(?:type\s+)?(?:\*(?:\s+as\s+\w+)?|\{[^}]*\})\s+from\s+|\bimport\s*\(\s*)['"]([^'"]+)['"]/g;
 
 /** Source files under `dirs` of `root`, as posix paths relative to `root`. */
 export function sourceFiles(root: string, dirs: string[]): string[] {
@@ -78,7 +79,10 @@ export function importGraph(root: string, files: string[]): Map<string, string[]
   const graph = new Map<string, string[]>();
   for (const f of files) {
     const text = readFileSync(join(root, f), 'utf8');
-    graph.set(f, importSpecifiers(text).map((s) => posix.normalize(posix.join(posix.dirname(f), s))));
+    graph.set(
+      f,
+      importSpecifiers(text).map((s) => posix.normalize(posix.join(posix.dirname(f), s))),
+    );
   }
   return graph;
 }
@@ -110,7 +114,10 @@ export function layerViolations(graph: Map<string, string[]>, layers: Layer[]): 
       const b = layerOf(to, layers);
       if (!b || b === a) continue;
       if (b.rank > a.rank) out.push(`${from} (${a.name}) imports ${to} (${b.name}): ${b.name} is above ${a.name}`);
-      else if (b.rank === a.rank) out.push(`${from} (${a.name}) imports ${to} (${b.name}): ${a.name} and ${b.name} are side by side and may not import each other`);
+      else if (b.rank === a.rank)
+        out.push(
+          `${from} (${a.name}) imports ${to} (${b.name}): ${a.name} and ${b.name} are side by side and may not import each other`,
+        );
     }
   }
   return out;

@@ -92,7 +92,8 @@ export async function engineImpedance(deck: string): Promise<ImpedanceRow[]> {
   const result = await sim.runSim();
   const errors = sim.getError();
   if (errors.length) throw new Error(`eecircuit-engine: ${errors.join('; ')}`);
-  if (result.dataType !== 'complex') throw new Error(`eecircuit-engine: expected AC (complex) data, got ${result.dataType}`);
+  if (result.dataType !== 'complex')
+    throw new Error(`eecircuit-engine: expected AC (complex) data, got ${result.dataType}`);
   type C = { real: number; img: number };
   const col = (name: string) => {
     const d = result.data.find((x) => x.name.toLowerCase() === name);

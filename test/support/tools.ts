@@ -21,7 +21,14 @@ function probe(tool: ReferenceTool): boolean {
       case 'chromium':
         return existsSync('/usr/bin/chromium');
       case 'scikit-rf':
-        execFileSync(DEBIAN_PYTHON, ['-c', 'import numpy as np\nfor a,t in (("complex",complex),("float",float),("int",int),("bool",bool),("object",object)): a in np.__dict__ or setattr(np,a,t)\nimport skrf'], { stdio: 'ignore', timeout: 60_000 });
+        execFileSync(
+          DEBIAN_PYTHON,
+          [
+            '-c',
+            'import numpy as np\nfor a,t in (("complex",complex),("float",float),("int",int),("bool",bool),("object",object)): a in np.__dict__ or setattr(np,a,t)\nimport skrf',
+          ],
+          { stdio: 'ignore', timeout: 60_000 },
+        );
         return true;
       case 'scipy':
         execFileSync(DEBIAN_PYTHON, ['-c', 'import scipy.optimize'], { stdio: 'ignore', timeout: 60_000 });

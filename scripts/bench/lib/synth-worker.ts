@@ -5,4 +5,6 @@
 import { serveTasks } from '../../../src/pipeline/worker-pool.ts';
 import { writeSyntheticCatalogue, type SynthSliceTask } from './synthetic-catalogue.ts';
 
-serveTasks<SynthSliceTask, number>(async (task) => (await writeSyntheticCatalogue(task.dir, task.count, { ...task.options, first: task.first })).length);
+serveTasks<SynthSliceTask, number>(
+  async (task) => (await writeSyntheticCatalogue(task.dir, task.count, { ...task.options, first: task.first })).length,
+);

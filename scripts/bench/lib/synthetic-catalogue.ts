@@ -107,13 +107,27 @@ export function syntheticPartFiles(n: number, options: SyntheticCatalogueOptions
     files.set(`${s}-narrow.s1p`, formatSynthFile(refl, { kind: 'touchstone', format: 'RI' }, { digits: 8 }));
     // with 10 pF across the part fp moves down towards fs: the narrow span still covers it
     const thru = synthesizeSweep({
-      model, grid: narrow, fixture: 'series-thru', added: { capacitanceF: 10e-12, connection: 'parallel' },
-      ...noise, seed: noise.seed + 1, source: `${s}-cl10.s2p`,
+      model,
+      grid: narrow,
+      fixture: 'series-thru',
+      added: { capacitanceF: 10e-12, connection: 'parallel' },
+      ...noise,
+      seed: noise.seed + 1,
+      source: `${s}-cl10.s2p`,
     });
     files.set(`${s}-cl10.s2p`, formatSynthFile(thru, { kind: 'touchstone', format: 'RI' }, { digits: 8 }));
     const wide = synthesizeSweep({
-      model, grid: { kind: 'linear', startHz: 0.7 * b.fsHz, stopHz: 1.3 * b.fsHz, points: Math.max(11, Math.round(points / 2)) },
-      fixture: 'impedance', ...noise, seed: noise.seed + 2, source: `${s}-wide.csv`,
+      model,
+      grid: {
+        kind: 'linear',
+        startHz: 0.7 * b.fsHz,
+        stopHz: 1.3 * b.fsHz,
+        points: Math.max(11, Math.round(points / 2)),
+      },
+      fixture: 'impedance',
+      ...noise,
+      seed: noise.seed + 2,
+      source: `${s}-wide.csv`,
     });
     files.set(`${s}-wide.csv`, formatSynthFile(wide, { kind: 'csv', form: 'magphase' }, { digits: 8 }));
   });
@@ -124,7 +138,11 @@ export function syntheticPartFiles(n: number, options: SyntheticCatalogueOptions
  * Write `count` synthetic parts as `<dir>/parts/<id>/…`.
  * @returns the part folders written
  */
-export async function writeSyntheticCatalogue(dir: string, count: number, options: SyntheticCatalogueOptions = {}): Promise<string[]> {
+export async function writeSyntheticCatalogue(
+  dir: string,
+  count: number,
+  options: SyntheticCatalogueOptions = {},
+): Promise<string[]> {
   const first = options.first ?? 1;
   const folders: string[] = [];
   for (let n = first; n < first + count; n++) {
@@ -140,10 +158,18 @@ export async function writeSyntheticCatalogue(dir: string, count: number, option
  * {@link writeSyntheticCatalogue} on every core: slices of parts written by worker threads.
  * Same files as the serial version.
  */
-export async function writeSyntheticCatalogueParallel(dir: string, count: number, options: SyntheticCatalogueOptions = {}, threads = defaultJobs()): Promise<void> {
+export async function writeSyntheticCatalogueParallel(
+  dir: string,
+  count: number,
+  options: SyntheticCatalogueOptions = {},
+  threads = defaultJobs(),
+): Promise<void> {
   const first = options.first ?? 1;
   const slice = 50;
-  const pool = createWorkerPool<SynthSliceTask, number>({ moduleUrl: new URL('./synth-worker.ts', import.meta.url), size: Math.max(1, Math.min(threads, Math.ceil(count / slice))) });
+  const pool = createWorkerPool<SynthSliceTask, number>({
+    moduleUrl: new URL('./synth-worker.ts', import.meta.url),
+    size: Math.max(1, Math.min(threads, Math.ceil(count / slice))),
+  });
   try {
     const tasks: Array<Promise<number>> = [];
     for (let start = 0; start < count; start += slice) {

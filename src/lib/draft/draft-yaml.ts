@@ -23,13 +23,17 @@ export function draftYaml(plan: DraftPlan, id: string, sourceNote: string): stri
   L.push('# below a key are placeholders for what only you know: fill them in and remove the "#".');
   L.push('# Then run: npm run -s motional -- check <this folder>');
   L.push(`id: ${q(id)}  # from the folder name (or --id); check it is unique in the catalogue`);
-  L.push(`title: ${q(`${fmt(plan.nominalHz, 'Hz', 5)} ${plan.kind} part (draft)`)}  # placeholder: say what the part is and where it is used`);
+  L.push(
+    `title: ${q(`${fmt(plan.nominalHz, 'Hz', 5)} ${plan.kind} part (draft)`)}  # placeholder: say what the part is and where it is used`,
+  );
   L.push(`kind: ${plan.kind}  # ${c(plan.kindNote)}; check`);
   L.push('# package: "3225"  # the package, from the datasheet');
   L.push('# supplier: ""  # only you know: the supplier');
   L.push('# supplierPart: ""  # only you know: the supplier\'s part number');
   L.push('datasheet:');
-  L.push(`  frequency: ${fmt(plan.nominalHz, 'Hz', 5)}  # inferred: the main mode's fs (${fmt(plan.mainFsHz, 'Hz', 9)}) to 5 digits; write the datasheet's nominal frequency`);
+  L.push(
+    `  frequency: ${fmt(plan.nominalHz, 'Hz', 5)}  # inferred: the main mode's fs (${fmt(plan.mainFsHz, 'Hz', 9)}) to 5 digits; write the datasheet's nominal frequency`,
+  );
   L.push('  # tolerance: 10 ppm  # from the datasheet, at 25 °C');
   L.push('  # stability: 20 ppm  # from the datasheet, over the operating range');
   L.push('  # loadCapacitance: 8 pF  # from the datasheet (or: series)');
@@ -49,9 +53,12 @@ export function draftYaml(plan: DraftPlan, id: string, sourceNote: string): stri
     L.push(`    compensation:  # inferred: ${c(comp.note)}; check they were taken in the same fixture`);
     L.push(`      open: ${q(comp.open)}`);
     L.push(`      short: ${q(comp.short)}`);
-    if (plan.sweeps[0] && plan.sweeps[0].fixture !== comp.fixture) L.push(`      fixture: ${comp.fixture}  # inferred: the fixture of the sweeps these correct`);
+    if (plan.sweeps[0] && plan.sweeps[0].fixture !== comp.fixture)
+      L.push(`      fixture: ${comp.fixture}  # inferred: the fixture of the sweeps these correct`);
     if (comp.load) {
-      L.push(`      # load: ${q(comp.load)}  # found; give the standard's true resistance, then remove the "#" on both lines`);
+      L.push(
+        `      # load: ${q(comp.load)}  # found; give the standard's true resistance, then remove the "#" on both lines`,
+      );
       L.push('      # loadResistance: 50 ohm');
     }
   }
@@ -60,12 +67,17 @@ export function draftYaml(plan: DraftPlan, id: string, sourceNote: string): stri
     L.push(`      - file: ${q(s.file)}  # ${c(s.formatNote)}`);
     L.push(`        # inferred role: ${c(s.roleNote)}`);
     L.push(`        fixture: ${s.fixture}  # inferred: ${c(s.fixtureNote)}${s.fixtureUnsure ? '' : '; check'}`);
-    if (s.referenceImpedanceOhm !== undefined) L.push(`        referenceImpedance: ${fmt(s.referenceImpedanceOhm, 'ohm', 9)}  # from the file's option line`);
+    if (s.referenceImpedanceOhm !== undefined)
+      L.push(`        referenceImpedance: ${fmt(s.referenceImpedanceOhm, 'ohm', 9)}  # from the file's option line`);
     if (s.addedCapacitanceF !== undefined && s.addedConnection) {
-      L.push(`        addedCapacitance: ${fmt(s.addedCapacitanceF, 'F', 3)}  # inferred from the shift it caused; write the capacitor's measured value`);
+      L.push(
+        `        addedCapacitance: ${fmt(s.addedCapacitanceF, 'F', 3)}  # inferred from the shift it caused; write the capacitor's measured value`,
+      );
       L.push(`        addedConnection: ${s.addedConnection}  # inferred; check how the capacitor was connected`);
     } else if (s.role === 'loaded') {
-      L.push('        # addedCapacitance: 10 pF  # loaded, but the data do not say how much: write the capacitor\'s measured value');
+      L.push(
+        "        # addedCapacitance: 10 pF  # loaded, but the data do not say how much: write the capacitor's measured value",
+      );
       L.push('        # addedConnection: parallel');
     }
     L.push('        # drive: 10 uW  # only you know: the power into the part');

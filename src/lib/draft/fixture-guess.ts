@@ -23,7 +23,8 @@ export interface FixtureGuess {
 
 /** Guess the fixture of a network record. */
 export function guessFixture(net: NetworkData): FixtureGuess {
-  if (net.parameter !== 'S') return { fixture: 'impedance', reason: `${net.parameter} data are the impedance (or admittance) of the part` };
+  if (net.parameter !== 'S')
+    return { fixture: 'impedance', reason: `${net.parameter} data are the impedance (or admittance) of the part` };
   if (net.ports === 1) return { fixture: 'reflection', reason: 'one-port S data are a reflection measurement' };
   const n = net.freqHz.length;
   const mag = (k: number, i: number) => Math.hypot(net.re[k][i], net.im[k][i]);
@@ -36,7 +37,10 @@ export function guessFixture(net: NetworkData): FixtureGuess {
   }
   asym /= n;
   if (s21Max < 1e-3 && asym > 0.05) {
-    return { fixture: 'reflection', reason: `|S21| stays below ${(20 * Math.log10(Math.max(s21Max, 1e-12))).toFixed(0)} dB and S22 differs from S11: port 2 is not connected through the part` };
+    return {
+      fixture: 'reflection',
+      reason: `|S21| stays below ${(20 * Math.log10(Math.max(s21Max, 1e-12))).toFixed(0)} dB and S22 differs from S11: port 2 is not connected through the part`,
+    };
   }
   let imax = 0;
   let imin = 0;
@@ -48,10 +52,20 @@ export function guessFixture(net: NetworkData): FixtureGuess {
   const db = (a: number, b: number) => (20 * Math.log10(a / b)).toFixed(1);
   const sorted = Float64Array.from(s21).sort();
   const median = sorted[n >> 1];
-  const series = { fixture: 'series-thru' as const, reason: `|S21| peaks at the series resonance (${db(s21[imax], median)} dB above its median): the part passes the signal between the ports` };
-  const shunt = { fixture: 'shunt-thru' as const, reason: `|S21| notches at the series resonance (${db(median, s21[imin])} dB below its median): the part shorts the line to ground` };
+  const series = {
+    fixture: 'series-thru' as const,
+    reason: `|S21| peaks at the series resonance (${db(s21[imax], median)} dB above its median): the part passes the signal between the ports`,
+  };
+  const shunt = {
+    fixture: 'shunt-thru' as const,
+    reason: `|S21| notches at the series resonance (${db(median, s21[imin])} dB below its median): the part shorts the line to ground`,
+  };
   if (inside(imax) && inside(imin)) return imax < imin ? series : shunt;
   if (inside(imax)) return series;
   if (inside(imin)) return shunt;
-  return { fixture: 'series-thru', reason: '|S21| shows neither a peak nor a notch inside the sweep; check the fixture', unsure: true };
+  return {
+    fixture: 'series-thru',
+    reason: '|S21| shows neither a peak nor a notch inside the sweep; check the fixture',
+    unsure: true,
+  };
 }

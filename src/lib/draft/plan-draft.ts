@@ -58,7 +58,8 @@ export interface DraftPlan {
   skipped: Array<{ file: string; reason: string }>;
 }
 
-export type DraftOutcome = { ok: true; plan: DraftPlan } | { ok: false; message: string; skipped: Array<{ file: string; reason: string }> };
+export type DraftOutcome =
+  { ok: true; plan: DraftPlan } | { ok: false; message: string; skipped: Array<{ file: string; reason: string }> };
 
 const COMPENSATION_NAME = /(?:^|[^a-z])(open|short|load)(?:[^a-z]|$)/i;
 
@@ -86,11 +87,34 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
       const g = guessFixture(f.network);
       const net = f.network;
       const z0 = net.parameter === 'S' ? net.z0Ohm[0] : undefined;
-      const formatNote = `${net.format.replace('touchstone-', 'Touchstone ').replace(/ (\d)$/, ' $1.x').replace('2.x', '2.0')}, ${net.ports}-port ${net.parameter}${z0 !== undefined ? `, reference ${fmt(z0, 'ohm', 6)}` : ''}`;
-      cands.push({ file: f, fixture: g.fixture, fixtureNote: g.reason, fixtureUnsure: !!g.unsure, formatNote, z0, network: net });
+      const formatNote = `${net.format
+        .replace('touchstone-', 'Touchstone ')
+        .replace(/ (\d)$/, ' $1.x')
+        .replace(
+          '2.x',
+          '2.0',
+        )}, ${net.ports}-port ${net.parameter}${z0 !== undefined ? `, reference ${fmt(z0, 'ohm', 6)}` : ''}`;
+      cands.push({
+        file: f,
+        fixture: g.fixture,
+        fixtureNote: g.reason,
+        fixtureUnsure: !!g.unsure,
+        formatNote,
+        z0,
+        network: net,
+      });
     } else {
-      const pre = f.csv.preambleLines ? `, header on line ${f.csv.headerLine} after ${f.csv.preambleLines} preamble line${f.csv.preambleLines === 1 ? '' : 's'}` : '';
-      cands.push({ file: f, fixture: 'impedance', fixtureNote: 'a CSV export holds the impedance itself', fixtureUnsure: false, formatNote: `CSV impedance (${f.csv.columns})${pre}`, raw: f.impedance });
+      const pre = f.csv.preambleLines
+        ? `, header on line ${f.csv.headerLine} after ${f.csv.preambleLines} preamble line${f.csv.preambleLines === 1 ? '' : 's'}`
+        : '';
+      cands.push({
+        file: f,
+        fixture: 'impedance',
+        fixtureNote: 'a CSV export holds the impedance itself',
+        fixtureUnsure: false,
+        formatNote: `CSV impedance (${f.csv.columns})${pre}`,
+        raw: f.impedance,
+      });
     }
   }
   // Impedance per candidate (raw: no compensation yet).
@@ -101,7 +125,10 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
       try {
         raw = networkToImpedance(c.network, c.fixture, c.file.name);
       } catch (e) {
-        skipped.push({ file: c.file.name, reason: `cannot convert as ${c.fixture}: ${e instanceof Error ? e.message : String(e)}` });
+        skipped.push({
+          file: c.file.name,
+          reason: `cannot convert as ${c.fixture}: ${e instanceof Error ? e.message : String(e)}`,
+        });
         continue;
       }
     }
@@ -117,7 +144,10 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
       continue;
     }
     if (!c.features.resonant) {
-      skipped.push({ file: c.file.name, reason: 'no resonance in the sweep (the reactance never changes sign) and its name says neither open nor short' });
+      skipped.push({
+        file: c.file.name,
+        reason: 'no resonance in the sweep (the reactance never changes sign) and its name says neither open nor short',
+      });
       continue;
     }
     measured.push(c);
@@ -129,12 +159,19 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
   if (comp.open && comp.short) {
     const ref = measured.find((m) => sameKind(m, comp.open!)) ?? measured[0];
     const fixture = ref.fixture;
-    const zOf = (c: (typeof withZ)[number]) => (c.network ? networkToImpedance(c.network, fixture, c.file.name) : c.raw);
+    const zOf = (c: (typeof withZ)[number]) =>
+      c.network ? networkToImpedance(c.network, fixture, c.file.name) : c.raw;
     try {
       const open = zOf(comp.open);
       const short = zOf(comp.short);
       if (sweepFeatures(open).resonant || sweepFeatures(short).resonant) throw new Error('a resonance');
-      compensation = { open: comp.open.file.name, short: comp.short.file.name, load: comp.load?.file.name, fixture, note: `named open and short, flat (no resonance) as ${fixture} records` };
+      compensation = {
+        open: comp.open.file.name,
+        short: comp.short.file.name,
+        load: comp.load?.file.name,
+        fixture,
+        note: `named open and short, flat (no resonance) as ${fixture} records`,
+      };
       for (const m of measured) {
         if (m.fixture !== fixture) continue;
         try {
@@ -145,17 +182,26 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
         }
       }
     } catch {
-      for (const k of ['open', 'short'] as const) skipped.push({ file: comp[k]!.file.name, reason: `named ${k} but shows a resonance as a ${fixture} record; not used as compensation` });
+      for (const k of ['open', 'short'] as const)
+        skipped.push({
+          file: comp[k]!.file.name,
+          reason: `named ${k} but shows a resonance as a ${fixture} record; not used as compensation`,
+        });
     }
   } else {
     for (const k of ['open', 'short', 'load'] as const) {
-      if (comp[k]) skipped.push({ file: comp[k]!.file.name, reason: `a ${k} sweep without its ${k === 'open' ? 'short' : 'open'} partner; not used` });
+      if (comp[k])
+        skipped.push({
+          file: comp[k]!.file.name,
+          reason: `a ${k} sweep without its ${k === 'open' ? 'short' : 'open'} partner; not used`,
+        });
     }
   }
   // Roles.
   const spans = measured.map((m) => m.features.stopHz - m.features.startHz);
   const minSpan = Math.min(...spans);
-  const isWide = (i: number) => (measured.length > 1 ? spans[i] >= 10 * minSpan : spans[i] > 0.003 * (measured[i].features.fsHz ?? 1));
+  const isWide = (i: number) =>
+    measured.length > 1 ? spans[i] >= 10 * minSpan : spans[i] > 0.003 * (measured[i].features.fsHz ?? 1);
   const out: DraftSweep[] = [];
   const narrow = measured.map((m, i) => ({ m, i })).filter(({ i }) => !isWide(i));
   const groups: Array<typeof narrow> = [];
@@ -169,12 +215,16 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
   const roleOf = new Map<number, Pick<DraftSweep, 'role' | 'roleNote' | 'addedCapacitanceF' | 'addedConnection'>>();
   for (const g of groups) {
     const lowest = Math.min(...g.map((x) => x.m.features.fsHz!));
-    const bwOf = (x: (typeof g)[number]) => (x.m.features.q ? x.m.features.fsHz! / x.m.features.q : 1e-5 * x.m.features.fsHz!);
+    const bwOf = (x: (typeof g)[number]) =>
+      x.m.features.q ? x.m.features.fsHz! / x.m.features.q : 1e-5 * x.m.features.fsHz!;
     const near = g.filter((x) => x.m.features.fsHz! - lowest < 2 * bwOf(x));
     const base = near.reduce((a, b) => ((b.m.features.shuntF ?? Infinity) < (a.m.features.shuntF ?? Infinity) ? b : a));
     bases.push(base);
     const bf = base.m.features;
-    roleOf.set(base.i, { role: 'narrow', roleNote: `narrow around the mode at ${fmt(bf.fsHz!, 'Hz', 9)} (span ${fmt(bf.stopHz - bf.startHz, 'Hz', 3)})` });
+    roleOf.set(base.i, {
+      role: 'narrow',
+      roleNote: `narrow around the mode at ${fmt(bf.fsHz!, 'Hz', 9)} (span ${fmt(bf.stopHz - bf.startHz, 'Hz', 3)})`,
+    });
     for (const x of g) {
       if (x === base) continue;
       const f = x.m.features;
@@ -194,7 +244,10 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
           addedConnection: 'parallel',
         });
       } else {
-        roleOf.set(x.i, { role: 'repeat', roleNote: `the same mode and span as ${base.m.file.name}: a repeat, or another drive level or temperature (say which with drive: or temperature:)` });
+        roleOf.set(x.i, {
+          role: 'repeat',
+          roleNote: `the same mode and span as ${base.m.file.name}: a repeat, or another drive level or temperature (say which with drive: or temperature:)`,
+        });
       }
     }
   }
@@ -209,15 +262,24 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
       const cb = bases[b].m.features.shuntF;
       const sameC0 = ca === undefined || cb === undefined || Math.abs(ca - cb) <= 0.3 * Math.max(ca, cb);
       if (!related || !sameC0) {
-        const why = !related ? `modes at ${fmt(fa, 'Hz', 6)} and ${fmt(fb, 'Hz', 6)} are not one part's (neither close nor an odd overtone)` : `shunt capacitances ${fmt(ca!, 'F', 3)} and ${fmt(cb!, 'F', 3)} differ by over 30 %`;
-        return { ok: false, message: `the sweeps look like more than one part: ${bases[a].m.file.name} and ${bases[b].m.file.name}: ${why}; put each part's sweeps in its own folder`, skipped };
+        const why = !related
+          ? `modes at ${fmt(fa, 'Hz', 6)} and ${fmt(fb, 'Hz', 6)} are not one part's (neither close nor an odd overtone)`
+          : `shunt capacitances ${fmt(ca!, 'F', 3)} and ${fmt(cb!, 'F', 3)} differ by over 30 %`;
+        return {
+          ok: false,
+          message: `the sweeps look like more than one part: ${bases[a].m.file.name} and ${bases[b].m.file.name}: ${why}; put each part's sweeps in its own folder`,
+          skipped,
+        };
       }
     }
   }
   measured.forEach((m, i) => {
     if (isWide(i)) {
       const f = m.features;
-      roleOf.set(i, { role: 'wide', roleNote: `wide: ${fmt(f.startHz, 'Hz', 4)} to ${fmt(f.stopHz, 'Hz', 4)} across C0 and the modes${f.faHz ? ` (main anti-resonance near ${fmt(f.faHz, 'Hz', 6)})` : ''}` });
+      roleOf.set(i, {
+        role: 'wide',
+        roleNote: `wide: ${fmt(f.startHz, 'Hz', 4)} to ${fmt(f.stopHz, 'Hz', 4)} across C0 and the modes${f.faHz ? ` (main anti-resonance near ${fmt(f.faHz, 'Hz', 6)})` : ''}`,
+      });
     }
   });
   const order: SweepRole[] = ['narrow', 'loaded', 'repeat', 'wide'];
@@ -243,7 +305,10 @@ export function planDraft(files: DraftInputFile[], opts: { kind?: PartKind } = {
   const inferred = inferKind(main);
   const kind = opts.kind ?? inferred.kind;
   const kindNote = opts.kind ? 'given with --kind' : inferred.note;
-  return { ok: true, plan: { kind, kindNote, mainFsHz, nominalHz: Number(mainFsHz.toPrecision(5)), compensation, sweeps: out, skipped } };
+  return {
+    ok: true,
+    plan: { kind, kindNote, mainFsHz, nominalHz: Number(mainFsHz.toPrecision(5)), compensation, sweeps: out, skipped },
+  };
 }
 
 function sameKind(a: Candidate, b: Candidate): boolean {
@@ -256,8 +321,13 @@ function inferKind(f: SweepFeatures): { kind: PartKind; note: string } {
   const fs = f.fsHz!;
   const q = f.q;
   const qText = q !== undefined ? `, Q about ${Number(q.toPrecision(2))}` : '';
-  if (q !== undefined && q < 5000) return { kind: 'ceramic', note: `inferred from Q${qText.slice(1)} (ceramic resonators stay below a few thousand)` };
-  if (fs < 1e6) return { kind: 'quartz-tuning-fork', note: `inferred from fs ${fmt(fs, 'Hz', 5)}${qText} (a tuning fork below 1 MHz)` };
+  if (q !== undefined && q < 5000)
+    return { kind: 'ceramic', note: `inferred from Q${qText.slice(1)} (ceramic resonators stay below a few thousand)` };
+  if (fs < 1e6)
+    return {
+      kind: 'quartz-tuning-fork',
+      note: `inferred from fs ${fmt(fs, 'Hz', 5)}${qText} (a tuning fork below 1 MHz)`,
+    };
   return { kind: 'quartz-at', note: `inferred from fs ${fmt(fs, 'Hz', 5)}${qText} (an AT-cut crystal above 1 MHz)` };
 }
 

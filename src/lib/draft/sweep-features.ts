@@ -80,7 +80,10 @@ export function sweepFeatures(sweep: ImpedanceSweep): SweepFeatures {
         out.fsHz = zero / (2 * Math.PI);
         const near = ws.map((w, k) => ({ w, x: xs[k] })).filter((p) => Math.abs(p.x) < 2 * out.r1Ohm!);
         if (near.length >= 3) {
-          const slope = regressionSlope(near.map((p) => p.w), near.map((p) => p.x));
+          const slope = regressionSlope(
+            near.map((p) => p.w),
+            near.map((p) => p.x),
+          );
           if (slope > 0) {
             out.l1H = slope / 2;
             out.c1F = 1 / (zero * zero * out.l1H);
@@ -105,7 +108,12 @@ export function sweepFeatures(sweep: ImpedanceSweep): SweepFeatures {
 }
 
 /** Kåsa circle fit of the points (x, y) from lo to hi: centre and radius. */
-function fitCircle(x: Float64Array, y: Float64Array, lo: number, hi: number): { cx: number; cy: number; radius: number } | undefined {
+function fitCircle(
+  x: Float64Array,
+  y: Float64Array,
+  lo: number,
+  hi: number,
+): { cx: number; cy: number; radius: number } | undefined {
   // Scale to the data to keep the normal equations well conditioned.
   let scale = 0;
   for (let i = lo; i <= hi; i++) scale = Math.max(scale, Math.abs(x[i]), Math.abs(y[i]));

@@ -65,7 +65,16 @@ export interface C0EstimateOptions {
 export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options: C0EstimateOptions = {}): C0Estimate {
   const exclusion = options.exclusion ?? 10;
   const minPoints = options.minPoints ?? 5;
-  const fail = (reason: string, points = 0): C0Estimate => ({ ok: false, reason, c0F: 0, uncertaintyF: 0, points, branchCF: [], fitted: [], sweeps: [] });
+  const fail = (reason: string, points = 0): C0Estimate => ({
+    ok: false,
+    reason,
+    c0F: 0,
+    uncertaintyF: 0,
+    points,
+    branchCF: [],
+    fitted: [],
+    sweeps: [],
+  });
   let total = 0;
   for (const s of sweeps) total += s.freqHz.length;
   const fsAll = new Float64Array(total);
@@ -80,7 +89,11 @@ export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options:
       const f = s.freqHz[i];
       if (f >= maxF) continue;
       let near = false;
-      for (let k = 0; k < modes.length; k++) if (Math.abs(f / modes[k].fsHz - 1) < excl[k]) { near = true; break; }
+      for (let k = 0; k < modes.length; k++)
+        if (Math.abs(f / modes[k].fsHz - 1) < excl[k]) {
+          near = true;
+          break;
+        }
       if (near) continue;
       const w = 2 * Math.PI * f;
       const c = s.bS[i] / w;
@@ -95,14 +108,19 @@ export function estimateC0(sweeps: C0SweepInput[], modes: C0ModeHint[], options:
   const fs = fsAll.subarray(0, count);
   const ceff = ceffAll.subarray(0, count);
   const yOverW = yAll.subarray(0, count);
-  if (fs.length < minPoints) return fail(`only ${fs.length} points lie away from the resonances (need ${minPoints}); sweep a wider span for C0`, fs.length);
+  if (fs.length < minPoints)
+    return fail(
+      `only ${fs.length} points lie away from the resonances (need ${minPoints}); sweep a wider span for C0`,
+      fs.length,
+    );
 
   // Fit Ck only when kept points lie on both sides of fk, with some above-lossless leverage.
   const fitted = modes.map((m) => {
     let below = 0;
     let above = 0;
     for (let i = 0; i < count; i++) {
-      if (fs[i] < m.fsHz) below++; else above++;
+      if (fs[i] < m.fsHz) below++;
+      else above++;
     }
     return (below >= 2 && above >= 2) || m.c1F === undefined;
   });

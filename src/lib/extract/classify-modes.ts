@@ -86,11 +86,16 @@ function better(a: Observation, b: Observation): boolean {
 }
 
 /** Merge sightings into modes and classify them; result sorted fundamental, overtones, spurious. */
-export function classifyModes(observations: Observation[], options: ClassifyModesOptions): { modes: ModeCandidate[]; diagnostics: Diagnostic[] } {
+export function classifyModes(
+  observations: Observation[],
+  options: ClassifyModesOptions,
+): { modes: ModeCandidate[]; diagnostics: Diagnostic[] } {
   const window = options.spuriousWindow ?? 0.25;
   const tol = options.overtoneTolerance ?? 0.05;
   const diagnostics: Diagnostic[] = [];
-  const usable = observations.filter((o) => !o.resonance.atBoundary).sort((a, b) => a.resonance.fsHz - b.resonance.fsHz);
+  const usable = observations
+    .filter((o) => !o.resonance.atBoundary)
+    .sort((a, b) => a.resonance.fsHz - b.resonance.fsHz);
 
   // Cluster sightings of the same mode.
   const clusters: Observation[][] = [];
@@ -105,15 +110,23 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
         const gap = Math.abs(r.fsHz - s.fsHz);
         return gap <= Math.max(2 * r.bandwidthHz, 2 * s.bandwidthHz, 1.5 * r.stepHz, 1.5 * s.stepHz);
       });
-      if (near) { cl.push(o); placed = true; }
+      if (near) {
+        cl.push(o);
+        placed = true;
+      }
     }
     if (!placed) clusters.push([o]);
   }
   const modes: ModeCandidate[] = clusters.map((cl) => {
     const best = cl.reduce((a, b) => (better(b, a) ? b : a));
     return {
-      fsHz: best.resonance.fsHz, r1Ohm: best.resonance.r1Ohm, bandwidthHz: best.resonance.bandwidthHz,
-      observations: cl, best, overtone: 1, spurious: false,
+      fsHz: best.resonance.fsHz,
+      r1Ohm: best.resonance.r1Ohm,
+      bandwidthHz: best.resonance.bandwidthHz,
+      observations: cl,
+      best,
+      overtone: 1,
+      spurious: false,
     };
   });
   if (modes.length === 0) return { modes, diagnostics };
@@ -124,7 +137,10 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
   for (const i of byStrength) {
     const m = modes[i];
     const owner = mains.find((j) => Math.abs(m.fsHz / modes[j].fsHz - 1) < window);
-    if (owner !== undefined) { m.spurious = true; m.mainIndex = owner; } else mains.push(i);
+    if (owner !== undefined) {
+      m.spurious = true;
+      m.mainIndex = owner;
+    } else mains.push(i);
   }
 
   // Overtone orders of the main modes.
@@ -134,8 +150,14 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
   if (options.datasheetFrequencyHz && options.datasheetFrequencyHz > 0) {
     f1 = options.datasheetFrequencyHz / (options.datasheetOvertone ?? 1);
     // Anchor on the measured mode nearest the datasheet frequency when it is close.
-    const near = sortedMains.reduce((a, b) => (Math.abs(modes[b].fsHz / options.datasheetFrequencyHz! - 1) < Math.abs(modes[a].fsHz / options.datasheetFrequencyHz! - 1) ? b : a));
-    if (Math.abs(modes[near].fsHz / options.datasheetFrequencyHz - 1) < tol) f1 = modes[near].fsHz / (options.datasheetOvertone ?? 1);
+    const near = sortedMains.reduce((a, b) =>
+      Math.abs(modes[b].fsHz / options.datasheetFrequencyHz! - 1) <
+      Math.abs(modes[a].fsHz / options.datasheetFrequencyHz! - 1)
+        ? b
+        : a,
+    );
+    if (Math.abs(modes[near].fsHz / options.datasheetFrequencyHz - 1) < tol)
+      f1 = modes[near].fsHz / (options.datasheetOvertone ?? 1);
   } else {
     f1 = modes[sortedMains[0]].fsHz;
   }
@@ -144,7 +166,10 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
     const m = modes[i];
     m.spurious = true;
     const others = mains.filter((j) => j !== i && !modes[j].spurious);
-    if (others.length) m.mainIndex = others.reduce((a, b) => (Math.abs(Math.log(modes[b].fsHz / m.fsHz)) < Math.abs(Math.log(modes[a].fsHz / m.fsHz)) ? b : a));
+    if (others.length)
+      m.mainIndex = others.reduce((a, b) =>
+        Math.abs(Math.log(modes[b].fsHz / m.fsHz)) < Math.abs(Math.log(modes[a].fsHz / m.fsHz)) ? b : a,
+      );
   };
   for (const i of [...mains].sort((a, b) => modes[a].r1Ohm - modes[b].r1Ohm)) {
     const ratio = modes[i].fsHz / f1;
@@ -152,7 +177,10 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
     const offBy = Math.abs(ratio / n - 1);
     if (!series && n > 1) n = -1;
     if (n < 0 || offBy > tol || taken.has(n)) {
-      if (mains.length > 1 || n < 0) { demote(i); continue; }
+      if (mains.length > 1 || n < 0) {
+        demote(i);
+        continue;
+      }
       n = Math.max(1, n);
     }
     modes[i].overtone = n;
@@ -168,7 +196,9 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
     if (!m.spurious) continue;
     if (m.mainIndex === undefined || modes[m.mainIndex].spurious) {
       const candidates = modes.map((_, j) => j).filter((j) => !modes[j].spurious);
-      m.mainIndex = candidates.reduce((a, b) => (Math.abs(Math.log(modes[b].fsHz / m.fsHz)) < Math.abs(Math.log(modes[a].fsHz / m.fsHz)) ? b : a));
+      m.mainIndex = candidates.reduce((a, b) =>
+        Math.abs(Math.log(modes[b].fsHz / m.fsHz)) < Math.abs(Math.log(modes[a].fsHz / m.fsHz)) ? b : a,
+      );
     }
     const main = modes[m.mainIndex];
     m.overtone = main.overtone;
@@ -177,13 +207,15 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
   }
 
   // Sort: main modes by overtone, then spurious by frequency; remap mainIndex.
-  const order = modes.map((_, i) => i).sort((a, b) => {
-    const ma = modes[a];
-    const mb = modes[b];
-    if (ma.spurious !== mb.spurious) return ma.spurious ? 1 : -1;
-    if (!ma.spurious && ma.overtone !== mb.overtone) return ma.overtone - mb.overtone;
-    return ma.fsHz - mb.fsHz;
-  });
+  const order = modes
+    .map((_, i) => i)
+    .sort((a, b) => {
+      const ma = modes[a];
+      const mb = modes[b];
+      if (ma.spurious !== mb.spurious) return ma.spurious ? 1 : -1;
+      if (!ma.spurious && ma.overtone !== mb.overtone) return ma.overtone - mb.overtone;
+      return ma.fsHz - mb.fsHz;
+    });
   const where = new Map(order.map((old, neu) => [old, neu]));
   const sorted = order.map((i) => modes[i]);
   for (const m of sorted) if (m.mainIndex !== undefined) m.mainIndex = where.get(m.mainIndex);
@@ -192,7 +224,11 @@ export function classifyModes(observations: Observation[], options: ClassifyMode
     const want = options.datasheetOvertone ?? 1;
     const main = sorted.find((m) => !m.spurious && Math.abs(m.fsHz / options.datasheetFrequencyHz! - 1) < tol);
     if (!main) {
-      diagnostics.push({ code: 'other', severity: 'warning', message: `no main mode found near the datasheet frequency ${formatFrequency(options.datasheetFrequencyHz, 7)} (overtone ${want}); check the sweep spans` });
+      diagnostics.push({
+        code: 'other',
+        severity: 'warning',
+        message: `no main mode found near the datasheet frequency ${formatFrequency(options.datasheetFrequencyHz, 7)} (overtone ${want}); check the sweep spans`,
+      });
     }
   }
   return { modes: sorted, diagnostics };

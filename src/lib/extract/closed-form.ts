@@ -52,7 +52,8 @@ export function effectiveCapacitanceOf(model: BvdModel, freqHz: number): number 
 function bisect(fn: (d: number) => number, lo: number, hi: number, scale: number): number {
   for (let i = 0; i < 200 && hi - lo > 1e-15 * scale; i++) {
     const mid = 0.5 * (lo + hi);
-    if (fn(mid) < 0) lo = mid; else hi = mid;
+    if (fn(mid) < 0) lo = mid;
+    else hi = mid;
   }
   return 0.5 * (lo + hi);
 }
@@ -77,7 +78,7 @@ export function parallelResonanceOf(model: BvdModel, k: number): number | undefi
     for (let i = 0; i < 200 && !(fn(hi) > 0); i++) hi *= 2;
     if (!(fn(hi) > 0)) return undefined;
   }
-  const lo = Math.min(hi, fk * 1e-15) ;
+  const lo = Math.min(hi, fk * 1e-15);
   if (!(fn(lo) < 0)) return undefined;
   const d = bisect(fn, lo, hi, fk);
   const f = fk + d;
@@ -126,7 +127,12 @@ export function zeroPhaseOf(model: BvdModel, k: number): ZeroPhase | undefined {
  * resistance and total shunt capacitance (C0 plus any capacitor across the part).
  * Undefined when the data admit no zero phase (4ω²Ct²R1² > 1) or fa ≤ fs.
  */
-export function motionalFromAntiresonance(p: { fsHz: number; faHz: number; r1Ohm: number; shuntCF: number }): { c1F: number; l1H: number } | undefined {
+export function motionalFromAntiresonance(p: {
+  fsHz: number;
+  faHz: number;
+  r1Ohm: number;
+  shuntCF: number;
+}): { c1F: number; l1H: number } | undefined {
   const { fsHz, faHz, r1Ohm, shuntCF } = p;
   if (!(faHz > fsHz) || !(shuntCF > 0) || !(r1Ohm >= 0)) return undefined;
   const w = 2 * Math.PI * faHz;

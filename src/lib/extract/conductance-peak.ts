@@ -41,7 +41,16 @@ export interface ConductancePeakOptions {
 }
 
 const FAIL = (reason: string, points = 0): ConductancePeakResult => ({
-  ok: false, reason, fsHz: 0, r1Ohm: 0, l1H: 0, c1F: 0, q: 0, bandwidthHz: 0, points, rmsRelative: 0,
+  ok: false,
+  reason,
+  fsHz: 0,
+  r1Ohm: 0,
+  l1H: 0,
+  c1F: 0,
+  q: 0,
+  bandwidthHz: 0,
+  points,
+  rmsRelative: 0,
 });
 
 /**
@@ -50,7 +59,13 @@ const FAIL = (reason: string, points = 0): ConductancePeakResult => ({
  * @param gS conductance of the part, S
  * @param yAbsS |Y| of the part, S (sets the weights; noise taken proportional to |Y|)
  */
-export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<number>, yAbsS: ArrayLike<number>, peakIndex: number, options: ConductancePeakOptions = {}): ConductancePeakResult {
+export function fitConductancePeak(
+  freqHz: ArrayLike<number>,
+  gS: ArrayLike<number>,
+  yAbsS: ArrayLike<number>,
+  peakIndex: number,
+  options: ConductancePeakOptions = {},
+): ConductancePeakResult {
   const minFraction = options.minFraction ?? 0.2;
   const minPoints = options.minPoints ?? 5;
   const n = freqHz.length;
@@ -76,14 +91,18 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
     x[count] = freqHz[i] - f0;
     h[count] = 1 / gS[i];
     const y = Math.max(yAbsS[i], gS[i]);
-    w[count] = (gS[i] ** 4) / (y * y);
+    w[count] = gS[i] ** 4 / (y * y);
     count++;
   }
   if (count < 3) return FAIL('fewer than 3 points with positive conductance around the peak', count);
 
   // Start: weighted parabola in (f − f0), scaled by the span for conditioning.
   const span = Math.max(Math.abs(x[0]), Math.abs(x[count - 1]), 1e-300);
-  const ata = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+  const ata = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
   const aty = [0, 0, 0];
   for (let i = 0; i < count; i++) {
     const u = x[i] / span;
@@ -100,15 +119,29 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
   let delta = (-pb / (2 * pc)) * span; // fs − f0
   let r1 = pa - (pb * pb) / (4 * pc);
   let k = pc / (4 * span * span);
-  if (!(r1 > 0)) { r1 = Infinity; for (let i = 0; i < count; i++) r1 = Math.min(r1, h[i]); }
+  if (!(r1 > 0)) {
+    r1 = Infinity;
+    for (let i = 0; i < count; i++) r1 = Math.min(r1, h[i]);
+  }
 
   // Weighted SSE and (optionally) the normal equations JᵀWJ, JᵀWr at (delta, R1, K);
   // parameter order R1, K, fs.
-  const normal = { a: [[0, 0, 0], [0, 0, 0], [0, 0, 0]], g: [0, 0, 0] };
+  const normal = {
+    a: [
+      [0, 0, 0],
+      [0, 0, 0],
+      [0, 0, 0],
+    ],
+    g: [0, 0, 0],
+  };
   const evaluate = (d0: number, rr: number, kk: number, withNormal: boolean): number => {
     const fs = f0 + d0;
     let sse = 0;
-    if (withNormal) for (let p = 0; p < 3; p++) { normal.g[p] = 0; for (let q = 0; q < 3; q++) normal.a[p][q] = 0; }
+    if (withNormal)
+      for (let p = 0; p < 3; p++) {
+        normal.g[p] = 0;
+        for (let q = 0; q < 3; q++) normal.a[p][q] = 0;
+      }
     for (let i = 0; i < count; i++) {
       const d = x[i] - d0; // f − fs
       const f = fs + d;
@@ -153,7 +186,10 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
         const next = evaluate(nd, nr, nk, false);
         if (next <= sse) {
           gain = sse - next;
-          delta = nd; r1 = nr; k = nk; sse = next;
+          delta = nd;
+          r1 = nr;
+          k = nk;
+          sse = next;
           lambda = Math.max(lambda / 10, 1e-12);
           accepted = true;
           break;
@@ -173,10 +209,15 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
   const c1F = 1 / (ws * ws * l1H);
   const q = (ws * l1H) / r1;
   const bandwidthHz = fsHz / q;
-  if (![fsHz, r1, l1H, c1F, q].every((v) => Number.isFinite(v) && v > 0)) return FAIL('conductance-peak fit gave non-physical values', xLen);
+  if (![fsHz, r1, l1H, c1F, q].every((v) => Number.isFinite(v) && v > 0))
+    return FAIL('conductance-peak fit gave non-physical values', xLen);
   // The vertex must be at the sampled peak (within a bandwidth or two steps), not elsewhere.
-  const stepHz = Math.max(Math.abs(x[Math.min(xLen - 1, peakIndex - lo + 1)] - x[Math.max(0, peakIndex - lo - 1)]) / 2, 0);
-  if (Math.abs(delta) > Math.max(bandwidthHz, 2 * stepHz)) return FAIL('conductance-peak vertex lies away from the sampled peak', xLen);
+  const stepHz = Math.max(
+    Math.abs(x[Math.min(xLen - 1, peakIndex - lo + 1)] - x[Math.max(0, peakIndex - lo - 1)]) / 2,
+    0,
+  );
+  if (Math.abs(delta) > Math.max(bandwidthHz, 2 * stepHz))
+    return FAIL('conductance-peak vertex lies away from the sampled peak', xLen);
 
   let uncertainty: ConductancePeakResult['uncertainty'];
   const dof = xLen - 3;
@@ -188,7 +229,7 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
       const cov = inv.map((row) => row.map((v) => v * s2)); // order R, K, fs
       // ln L1 = ½ ln K + ½ ln R − ln 2π; ln C1 = −2 ln fs − ln L1 + const; ln Q = ln fs + ln L1 − ln R.
       const gL = [l1H / (2 * r1), l1H / (2 * k), 0];
-      const gC = [-c1F / (2 * r1), -c1F / (2 * k), -2 * c1F / fsHz];
+      const gC = [-c1F / (2 * r1), -c1F / (2 * k), (-2 * c1F) / fsHz];
       const gQ = [q * (1 / (2 * r1) - 1 / r1), q / (2 * k), q / fsHz];
       uncertainty = {
         fsHz: Math.sqrt(Math.max(0, cov[2][2])),
@@ -199,5 +240,17 @@ export function fitConductancePeak(freqHz: ArrayLike<number>, gS: ArrayLike<numb
       };
     }
   }
-  return { ok: true, reason: 'ok', fsHz, r1Ohm: r1, l1H, c1F, q, bandwidthHz, uncertainty, points: xLen, rmsRelative: Math.sqrt(cur.sse / xLen) };
+  return {
+    ok: true,
+    reason: 'ok',
+    fsHz,
+    r1Ohm: r1,
+    l1H,
+    c1F,
+    q,
+    bandwidthHz,
+    uncertainty,
+    points: xLen,
+    rmsRelative: Math.sqrt(cur.sse / xLen),
+  };
 }

@@ -42,12 +42,18 @@ function describeTolerance(q: CrossCheck['quantity']): string {
 
 function formatValue(q: CrossCheck['quantity'], v: number): string {
   switch (q) {
-    case 'fsHz': return `${v.toFixed(3)} Hz`;
-    case 'r1Ohm': return `${v.toPrecision(5)} Ω`;
-    case 'c1F': return `${(v * 1e15).toPrecision(5)} fF`;
-    case 'l1H': return `${(v * 1e3).toPrecision(5)} mH`;
-    case 'c0F': return `${(v * 1e12).toPrecision(5)} pF`;
-    case 'q': return v.toPrecision(5);
+    case 'fsHz':
+      return `${v.toFixed(3)} Hz`;
+    case 'r1Ohm':
+      return `${v.toPrecision(5)} Ω`;
+    case 'c1F':
+      return `${(v * 1e15).toPrecision(5)} fF`;
+    case 'l1H':
+      return `${(v * 1e3).toPrecision(5)} mH`;
+    case 'c0F':
+      return `${(v * 1e12).toPrecision(5)} pF`;
+    case 'q':
+      return v.toPrecision(5);
   }
 }
 
@@ -55,8 +61,14 @@ function formatValue(q: CrossCheck['quantity'], v: number): string {
  * Compare the methods' values of one quantity. Non-finite values are dropped.
  * @param likelyCause text for a disagreement, e.g. "too few points across the resonance"
  */
-export function crossCheck(quantity: CrossCheck['quantity'], values: MethodValue[], likelyCause = 'fixture parasitics or a model that misses a mode'): CrossCheck {
-  const vals = values.filter((v) => Number.isFinite(v.value) && (v.uncertainty === undefined || Number.isFinite(v.uncertainty)));
+export function crossCheck(
+  quantity: CrossCheck['quantity'],
+  values: MethodValue[],
+  likelyCause = 'fixture parasitics or a model that misses a mode',
+): CrossCheck {
+  const vals = values.filter(
+    (v) => Number.isFinite(v.value) && (v.uncertainty === undefined || Number.isFinite(v.uncertainty)),
+  );
   const rule = `within ${AGREEMENT_SIGMAS} combined standard uncertainties or ${describeTolerance(quantity)}`;
   if (vals.length < 2) return { quantity, values: vals, verdict: 'single', rule };
   const ref = vals[0];
@@ -73,5 +85,11 @@ export function crossCheck(quantity: CrossCheck['quantity'], values: MethodValue
     const size = quantity === 'fsHz' ? `${(rel * 1e6).toPrecision(3)} ppm` : `${(rel * 100).toPrecision(3)} %`;
     return `${v.method} ${formatValue(quantity, v.value)} differs from ${ref.method} ${formatValue(quantity, ref.value)} by ${size}`;
   });
-  return { quantity, values: vals, verdict: 'disagree', rule, message: `${quantity}: ${parts.join('; ')}; likely cause: ${likelyCause}` };
+  return {
+    quantity,
+    values: vals,
+    verdict: 'disagree',
+    rule,
+    message: `${quantity}: ${parts.join('; ')}; likely cause: ${likelyCause}`,
+  };
 }

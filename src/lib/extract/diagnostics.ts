@@ -37,20 +37,34 @@ export function minimumCapacitanceRatio(overtone: number, coupling = AT_COUPLING
 }
 
 /** A sweep reaching above the instrument's trusted range (wording fixed by `extract --json`, README: Commands). */
-export function instrumentRangeDiagnostic(source: string, sweepMaxHz: number, instrumentMaxHz: number | undefined): Diagnostic | undefined {
+export function instrumentRangeDiagnostic(
+  source: string,
+  sweepMaxHz: number,
+  instrumentMaxHz: number | undefined,
+): Diagnostic | undefined {
   if (instrumentMaxHz === undefined || !(sweepMaxHz > instrumentMaxHz)) return undefined;
   return {
-    code: 'above-instrument-range', severity: 'warning', sweep: source,
+    code: 'above-instrument-range',
+    severity: 'warning',
+    sweep: source,
     message: `sweep ${source}: above instrumentMaxFrequency from ${formatSi(instrumentMaxHz, 'Hz')}; modes there are flagged`,
   };
 }
 
 /** Too few points across a resonance. */
-export function resolutionDiagnostic(p: { source: string; fsHz: number; bandwidthHz: number; stepHz: number; pointsPerBandwidth: number }): Diagnostic | undefined {
+export function resolutionDiagnostic(p: {
+  source: string;
+  fsHz: number;
+  bandwidthHz: number;
+  stepHz: number;
+  pointsPerBandwidth: number;
+}): Diagnostic | undefined {
   if (!(p.pointsPerBandwidth < MIN_POINTS_PER_BANDWIDTH)) return undefined;
   const want = p.bandwidthHz / MIN_POINTS_PER_BANDWIDTH;
   return {
-    code: 'points-per-bandwidth', severity: 'warning', sweep: p.source,
+    code: 'points-per-bandwidth',
+    severity: 'warning',
+    sweep: p.source,
     message: `mode near ${formatFrequency(p.fsHz, 8)}: only ${p.pointsPerBandwidth.toFixed(1)} points per resonance bandwidth (${formatSi(p.bandwidthHz, 'Hz', 3)}) in the best sweep ${p.source}; use a step of at most ${formatSi(want, 'Hz', 2)}`,
   };
 }
@@ -58,7 +72,8 @@ export function resolutionDiagnostic(p: { source: string; fsHz: number; bandwidt
 /** No sweep covers the anti-resonance of a main mode. */
 export function spanMissingFaDiagnostic(fsHz: number, fpHz: number): Diagnostic {
   return {
-    code: 'span-missing-fa', severity: 'info',
+    code: 'span-missing-fa',
+    severity: 'info',
     message: `mode near ${formatFrequency(fsHz, 8)}: no sweep covers its anti-resonance near ${formatFrequency(fpHz, 8)}; sweep there too for the fs–fa and C0 cross-checks`,
   };
 }
@@ -69,7 +84,8 @@ export function noiseDiagnostic(what: string, rmsResidual: number): Diagnostic |
   const snrDb = -20 * Math.log10(rmsResidual);
   const noisy = rmsResidual > NOISY_RESIDUAL;
   return {
-    code: 'signal-to-noise', severity: noisy ? 'warning' : 'info',
+    code: 'signal-to-noise',
+    severity: noisy ? 'warning' : 'info',
     message: noisy
       ? `${what}: residual only ${snrDb.toFixed(1)} dB below the signal; average more, check the calibration or the fixture`
       : `${what}: signal-to-noise about ${snrDb.toFixed(1)} dB (from the fit residual)`,
@@ -77,16 +93,33 @@ export function noiseDiagnostic(what: string, rmsResidual: number): Diagnostic |
 }
 
 /** Low M and implausible AT-cut values. */
-export function plausibilityDiagnostics(p: { fsHz: number; q: number; r: number; m: number; overtone: number; spurious: boolean }, kind: string): Diagnostic[] {
+export function plausibilityDiagnostics(
+  p: { fsHz: number; q: number; r: number; m: number; overtone: number; spurious: boolean },
+  kind: string,
+): Diagnostic[] {
   const out: Diagnostic[] = [];
   const where = `mode near ${formatFrequency(p.fsHz, 8)}`;
   if (!p.spurious && p.m < MIN_FIGURE_OF_MERIT) {
-    out.push({ code: 'low-m', severity: 'warning', message: `${where}: figure of merit M = ${p.m.toPrecision(3)} is below ${MIN_FIGURE_OF_MERIT}; zero-phase and load-capacitance values are unreliable` });
+    out.push({
+      code: 'low-m',
+      severity: 'warning',
+      message: `${where}: figure of merit M = ${p.m.toPrecision(3)} is below ${MIN_FIGURE_OF_MERIT}; zero-phase and load-capacitance values are unreliable`,
+    });
   }
   if (kind === 'quartz-at' && !p.spurious) {
     const rMin = minimumCapacitanceRatio(p.overtone);
-    if (p.r < rMin) out.push({ code: 'implausible', severity: 'warning', message: `${where}: capacitance ratio r = ${p.r.toPrecision(4)} is below ${rMin.toPrecision(4)}, the minimum for an AT plate at overtone ${p.overtone}; check C0 and the overtone order` });
-    if (p.q * p.fsHz > AT_MAX_Q_TIMES_F) out.push({ code: 'implausible', severity: 'warning', message: `${where}: Q·f = ${(p.q * p.fsHz).toPrecision(3)} Hz exceeds the plausible ${AT_MAX_Q_TIMES_F.toPrecision(2)} Hz for AT quartz; check for fixture loss compensation errors` });
+    if (p.r < rMin)
+      out.push({
+        code: 'implausible',
+        severity: 'warning',
+        message: `${where}: capacitance ratio r = ${p.r.toPrecision(4)} is below ${rMin.toPrecision(4)}, the minimum for an AT plate at overtone ${p.overtone}; check C0 and the overtone order`,
+      });
+    if (p.q * p.fsHz > AT_MAX_Q_TIMES_F)
+      out.push({
+        code: 'implausible',
+        severity: 'warning',
+        message: `${where}: Q·f = ${(p.q * p.fsHz).toPrecision(3)} Hz exceeds the plausible ${AT_MAX_Q_TIMES_F.toPrecision(2)} Hz for AT quartz; check for fixture loss compensation errors`,
+      });
   }
   return out;
 }

@@ -14,11 +14,18 @@ export type { ExtractSweepInput } from './reference-conditions.ts';
 function failedSample(sample: Sample, error: unknown): SampleResult {
   const message = `sample ${sample.id}: extraction failed unexpectedly (${error instanceof Error ? error.message : String(error)}); please report this with the part record`;
   return {
-    sample: sample.id, c0F: 0, modes: [], warnings: [message], model: { c0F: 0, branches: [] },
+    sample: sample.id,
+    c0F: 0,
+    modes: [],
+    warnings: [message],
+    model: { c0F: 0, branches: [] },
     c0CrossCheck: { quantity: 'c0F', values: [], verdict: 'single', rule: 'no estimate' },
     fit: { converged: false, reason: 'extraction failed', iterations: 0, rmsResidual: 0, points: 0 },
-    diagnostics: [{ code: 'other', severity: 'error', message }], otherConditions: [], spanHz: { min: 0, max: 0 },
-    mainMode: { index: -1, rule: 'no modes' }, referenceSweeps: [],
+    diagnostics: [{ code: 'other', severity: 'error', message }],
+    otherConditions: [],
+    spanHz: { min: 0, max: 0 },
+    mainMode: { index: -1, rule: 'no modes' },
+    referenceSweeps: [],
   };
 }
 
@@ -28,7 +35,12 @@ export function extractPart(part: Part, sweeps: ExtractSweepInput[], options: Ex
     part: part.id,
     samples: part.samples.map((sample) => {
       try {
-        return extractSample(part, sample, sweeps.filter((s) => s.sampleId === sample.id), options);
+        return extractSample(
+          part,
+          sample,
+          sweeps.filter((s) => s.sampleId === sample.id),
+          options,
+        );
       } catch (e) {
         return failedSample(sample, e);
       }

@@ -19,7 +19,12 @@ import type { Part, Sample } from '../schema/part.ts';
 import type { BvdModel } from '../models/bvd.ts';
 import type { Diagnostic, FitSummary, SampleResult } from './types.ts';
 import { referenceMethodsOf } from './mode-methods.ts';
-import { prepareSweeps, referenceConditions, type ExtractSweepInput, type PreparedSweep } from './reference-conditions.ts';
+import {
+  prepareSweeps,
+  referenceConditions,
+  type ExtractSweepInput,
+  type PreparedSweep,
+} from './reference-conditions.ts';
 import { instrumentRangeDiagnostic, noiseDiagnostic } from './diagnostics.ts';
 import { mainMode } from './main-mode.ts';
 import { timed, type TimingCollector } from './timing.ts';
@@ -40,7 +45,13 @@ export interface ExtractOptions {
 const NO_FIT: FitSummary = { converged: false, reason: 'no fit attempted', iterations: 0, rmsResidual: 0, points: 0 };
 
 function summary(f: FitSummary): FitSummary {
-  return { converged: f.converged, reason: f.reason, iterations: f.iterations, rmsResidual: f.rmsResidual, points: f.points };
+  return {
+    converged: f.converged,
+    reason: f.reason,
+    iterations: f.iterations,
+    rmsResidual: f.rmsResidual,
+    points: f.points,
+  };
 }
 
 function warningsOf(diagnostics: Diagnostic[]): string[] {
@@ -54,28 +65,54 @@ function spanOf(prepared: PreparedSweep[]): { min: number; max: number } {
 }
 
 /** A sample with no modes: C0 (when known) and the diagnostics that say why. */
-function noModes(sampleId: string, prepared: PreparedSweep[], referenceSweeps: string[], diagnostics: Diagnostic[], c0F = 0): SampleResult {
+function noModes(
+  sampleId: string,
+  prepared: PreparedSweep[],
+  referenceSweeps: string[],
+  diagnostics: Diagnostic[],
+  c0F = 0,
+): SampleResult {
   return {
-    sample: sampleId, c0F, modes: [], warnings: warningsOf(diagnostics), model: { c0F, branches: [] },
-    c0CrossCheck: { quantity: 'c0F', values: [], verdict: 'single', rule: 'no estimate' }, fit: NO_FIT, diagnostics,
-    otherConditions: [], spanHz: spanOf(prepared), mainMode: { index: -1, rule: 'no modes' }, referenceSweeps,
+    sample: sampleId,
+    c0F,
+    modes: [],
+    warnings: warningsOf(diagnostics),
+    model: { c0F, branches: [] },
+    c0CrossCheck: { quantity: 'c0F', values: [], verdict: 'single', rule: 'no estimate' },
+    fit: NO_FIT,
+    diagnostics,
+    otherConditions: [],
+    spanHz: spanOf(prepared),
+    mainMode: { index: -1, rule: 'no modes' },
+    referenceSweeps,
   };
 }
 
 /** The fit that speaks for the sample: the joint fit, else the first converged window fit, else any attempted. */
 function sampleFitSummary(fits: SampleFits): FitSummary | undefined {
-  return fits.converged ?? fits.joint ?? fits.perMode.find((f) => f?.converged) ?? fits.perMode.find((f) => f !== undefined);
+  return (
+    fits.converged ?? fits.joint ?? fits.perMode.find((f) => f?.converged) ?? fits.perMode.find((f) => f !== undefined)
+  );
 }
 
 /** Extract one sample of a part from its sweeps (those with `sampleId` = sample.id). */
-export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepInput[], options: ExtractOptions = {}): SampleResult {
+export function extractSample(
+  part: Part,
+  sample: Sample,
+  inputs: ExtractSweepInput[],
+  options: ExtractOptions = {},
+): SampleResult {
   const timing = options.timing;
   const diagnostics: Diagnostic[] = [];
 
   // 1. Prepare and split.
   const prepared = timed(timing, 'prepare', () => prepareSweeps(inputs, sample.temperatureC));
   if (prepared.length === 0) {
-    diagnostics.push({ code: 'other', severity: 'error', message: `sample ${sample.id}: no readable sweep with at least 3 points` });
+    diagnostics.push({
+      code: 'other',
+      severity: 'error',
+      message: `sample ${sample.id}: no readable sweep with at least 3 points`,
+    });
     return noModes(sample.id, prepared, [], diagnostics);
   }
   const split = referenceConditions(prepared, sample.temperatureC);
@@ -95,19 +132,25 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
   const peaks = timed(timing, 'quick', () => quickMethods(candidates, split.reference));
   const c0Est = timed(timing, 'c0', () => capacitiveRegionC0(split.reference, peaks, trustedMax, diagnostics));
   if (candidates.length === 0) {
-    diagnostics.push({ code: 'no-resonance', severity: 'error', message: `sample ${sample.id}: no resonance found in the sweeps at the reference conditions` });
+    diagnostics.push({
+      code: 'no-resonance',
+      severity: 'error',
+      message: `sample ${sample.id}: no resonance found in the sweeps at the reference conditions`,
+    });
     return empty(c0Est.ok ? c0Est.c0F : 0);
   }
   const start = startC0(candidates, peaks, c0Est, split.reference, diagnostics);
   if (!start) return empty();
   const initial: BvdModel = { c0F: start.c0F, branches: peaks.map((p) => ({ ...p.branch })) };
-  const modes: SampleMode[] = timed(timing, 'load-shift', () => candidates.map((candidate, k) => ({
-    index: k,
-    candidate,
-    peak: peaks[k],
-    reference: referenceMethodsOf(candidate, k, initial, split.reference),
-    flagged: trustedMax !== undefined && candidate.fsHz > trustedMax,
-  })));
+  const modes: SampleMode[] = timed(timing, 'load-shift', () =>
+    candidates.map((candidate, k) => ({
+      index: k,
+      candidate,
+      peak: peaks[k],
+      reference: referenceMethodsOf(candidate, k, initial, split.reference),
+      flagged: trustedMax !== undefined && candidate.fsHz > trustedMax,
+    })),
+  );
 
   // 4. Fits.
   const fits = fitSample(modes, initial, split.reference, trustedMax, diagnostics, timing);
@@ -118,10 +161,20 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     const c0 = c0OfPartAlone(sample.id, fits, c0Est, start, kept, diagnostics);
     if (!c0) return empty();
     const model: BvdModel = { c0F: c0.value, branches: kept.map((m) => m.branch) };
-    const results = reportModes(kept, model, c0, unloadedNoisySweeps(split.reference, fits.jointNoise), part.kind, diagnostics);
+    const results = reportModes(
+      kept,
+      model,
+      c0,
+      unloadedNoisySweeps(split.reference, fits.jointNoise),
+      part.kind,
+      diagnostics,
+    );
 
     // 6. C0 cross-check, with the main mode's own estimates.
-    const mainPick = mainMode(results, { frequencyHz: part.datasheet?.frequencyHz, overtone: part.datasheet?.overtone });
+    const mainPick = mainMode(results, {
+      frequencyHz: part.datasheet?.frequencyHz,
+      overtone: part.datasheet?.overtone,
+    });
     const main = mainPick.index >= 0 ? kept[mainPick.index] : undefined;
     const c0CrossCheck = c0CrossCheckOf(c0, c0Est, main, diagnostics);
 
@@ -149,7 +202,10 @@ export function extractSample(part: Part, sample: Sample, inputs: ExtractSweepIn
     };
 
     // 7. Other conditions: temperature and drive.
-    if (main) timed(timing, 'conditions', () => addOtherConditions(result, split, found, model, mainPick.index, part, main.candidate));
+    if (main)
+      timed(timing, 'conditions', () =>
+        addOtherConditions(result, split, found, model, mainPick.index, part, main.candidate),
+      );
     result.warnings = warningsOf(diagnostics);
     return result;
   });

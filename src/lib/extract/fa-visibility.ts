@@ -24,7 +24,12 @@ export interface NoisySweep {
 }
 
 /** Evidence for fa in the sweep that shows it best; `undefined` when no sweep reaches fa. */
-export function antiResonanceEvidence(model: BvdModel, k: number, fpHz: number, sweeps: NoisySweep[]): { snr: number; source: string } | undefined {
+export function antiResonanceEvidence(
+  model: BvdModel,
+  k: number,
+  fpHz: number,
+  sweeps: NoisySweep[],
+): { snr: number; source: string } | undefined {
   const br = model.branches[k];
   if (!br || !(fpHz > 0)) return undefined;
   const bandwidthHz = 2 * Math.PI * br.fsHz * br.fsHz * br.r1Ohm * br.c1F;

@@ -84,7 +84,18 @@ export interface FindResonancesOptions {
 }
 
 /** Stand-in for peaks that are not fitted (not confirmed on both sides). */
-const NOT_FITTED: ConductancePeakResult = { ok: false, reason: 'peak not inside the sweep', fsHz: 0, r1Ohm: 0, l1H: 0, c1F: 0, q: 0, bandwidthHz: 0, points: 0, rmsRelative: 0 };
+const NOT_FITTED: ConductancePeakResult = {
+  ok: false,
+  reason: 'peak not inside the sweep',
+  fsHz: 0,
+  r1Ohm: 0,
+  l1H: 0,
+  c1F: 0,
+  q: 0,
+  bandwidthHz: 0,
+  points: 0,
+  rmsRelative: 0,
+};
 
 /**
  * A peak's susceptance swing must be at least this fraction of the one its conductance peak
@@ -122,11 +133,12 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
   const floorThreshold = (i: number) => minRel * Math.max(yAbs[i], yFloor);
   // Prominence needed at i: the larger of the local relative noise (times |Y|, floored) and the
   // local absolute noise of G, times `sigmas`, and never below the ripple floor.
-  const threshold = (i: number) => Math.max(
-    floorThreshold(i),
-    sigmas * noiseOf.relativeAt(i) * Math.max(yAbs[i], yFloor),
-    sigmas * noiseOf.conductanceAt(i),
-  );
+  const threshold = (i: number) =>
+    Math.max(
+      floorThreshold(i),
+      sigmas * noiseOf.relativeAt(i) * Math.max(yAbs[i], yFloor),
+      sigmas * noiseOf.conductanceAt(i),
+    );
 
   // Walk each side of maximum i until a higher point (not a peak), a drop by `thr` (confirmed),
   // or the sweep end (judged by the other side; then flagged as one-sided).
@@ -138,8 +150,14 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     for (let dir = -1; dir <= 1; dir += 2) {
       let side = 0; // 0 edge, 1 dropped, −1 higher
       for (let k = i + dir; k >= 0 && k < n; k += dir) {
-        if (g[k] > g[i]) { side = -1; break; }
-        if (g[k] < level) { side = 1; break; }
+        if (g[k] > g[i]) {
+          side = -1;
+          break;
+        }
+        if (g[k] < level) {
+          side = 1;
+          break;
+        }
       }
       if (side < 0) return 0;
       if (side === 1) sides++;
@@ -173,7 +191,10 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
   for (const p of peaks) {
     const last = merged[merged.length - 1];
     if (last && p - last.i < 3) {
-      if (g[p] > g[last.i]) { last.i = p; last.oneSided = oneSided.has(p); }
+      if (g[p] > g[last.i]) {
+        last.i = p;
+        last.oneSided = oneSided.has(p);
+      }
       last.unresolved = true;
     } else merged.push({ i: p, unresolved: false, oneSided: oneSided.has(p) });
   }
@@ -202,14 +223,20 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
       bandwidthHz = Math.max(step, f[hi] - f[lo]);
       if (!atBoundary) {
         const v = parabolaVertex([f[i - 1], f[i], f[i + 1]], [1 / g[i - 1], 1 / g[i], 1 / g[i + 1]]);
-        if (v && v.y > 0 && v.y <= 1 / g[i] && Math.abs(v.x - f[i]) <= step) { fsHz = v.x; r1Ohm = v.y; }
+        if (v && v.y > 0 && v.y <= 1 / g[i] && Math.abs(v.x - f[i]) <= step) {
+          fsHz = v.x;
+          r1Ohm = v.y;
+        }
       }
     }
     const strong = g[i] - noiseOf.backgroundAt(i) > STRONG_PEAK_SIGMAS * noiseOf.conductanceAt(i);
     if (!atBoundary && !strong) {
       // Judged against the sampled peak height when the fit extrapolates far above it.
       const swing = susceptanceSwing(f, b, i, fsHz, Math.max(r1Ohm, 0.5 / g[i]), bandwidthHz, step);
-      if (swing && !(swing.gamma >= MIN_SWING && swing.gamma >= MIN_SWING_SIGMAS * swing.gammaSigma)) { noSwing++; continue; }
+      if (swing && !(swing.gamma >= MIN_SWING && swing.gamma >= MIN_SWING_SIGMAS * swing.gammaSigma)) {
+        noSwing++;
+        continue;
+      }
     }
     const ppbw = bandwidthHz / step;
     const fLow = fsHz - bandwidthHz / 2;
@@ -218,13 +245,23 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
     // Peak shape: a lone mode fits the conductance model to the noise; two close modes do not.
     const misfit = (options.shapeCheck ?? true) && fit.ok && ppbw >= 4 && fit.rmsRelative > Math.max(20 * noise, 2e-3);
     refined.push({
-      peakIndex: i, fsHz, r1Ohm, bandwidthHz, stepHz: step, pointsPerBandwidth: ppbw,
-      atEdge, atBoundary, unresolved: m.unresolved || misfit, conductance: fit,
+      peakIndex: i,
+      fsHz,
+      r1Ohm,
+      bandwidthHz,
+      stepHz: step,
+      pointsPerBandwidth: ppbw,
+      atEdge,
+      atBoundary,
+      unresolved: m.unresolved || misfit,
+      conductance: fit,
     });
   }
   if (noSwing > 0) {
     diagnostics.push({
-      code: 'signal-to-noise', severity: 'info', sweep: sweep.source,
+      code: 'signal-to-noise',
+      severity: 'info',
+      sweep: sweep.source,
       message: `sweep ${sweep.source}: ${noSwing} conductance peak${noSwing > 1 ? 's' : ''} without the susceptance swing of a resonance ignored as noise`,
     });
   }
@@ -233,7 +270,12 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
   const resonances: Resonance[] = [];
   for (const r of refined) {
     const last = resonances[resonances.length - 1];
-    if (last && !r.atBoundary && !last.atBoundary && Math.abs(r.fsHz - last.fsHz) < 0.5 * Math.max(r.bandwidthHz, last.bandwidthHz)) {
+    if (
+      last &&
+      !r.atBoundary &&
+      !last.atBoundary &&
+      Math.abs(r.fsHz - last.fsHz) < 0.5 * Math.max(r.bandwidthHz, last.bandwidthHz)
+    ) {
       if (g[r.peakIndex] > g[last.peakIndex]) resonances[resonances.length - 1] = r;
       continue;
     }
@@ -264,25 +306,36 @@ export function findResonances(sweep: AdmittanceSweep, options: FindResonancesOp
   for (const r of resonances) {
     if (r.unresolved) {
       diagnostics.push({
-        code: 'modes-unresolved', severity: 'warning', sweep: sweep.source,
+        code: 'modes-unresolved',
+        severity: 'warning',
+        sweep: sweep.source,
         message: `sweep ${sweep.source}: two or more modes near ${formatFrequency(r.fsHz, 7)} are closer than the sweep resolves; use a finer step there`,
       });
     }
     if (r.atEdge && !r.atBoundary) {
       diagnostics.push({
-        code: 'resonance-at-edge', severity: 'info', sweep: sweep.source,
+        code: 'resonance-at-edge',
+        severity: 'info',
+        sweep: sweep.source,
         message: `sweep ${sweep.source}: resonance near ${formatFrequency(r.fsHz, 7)} is cut by the sweep edge; widen the span to ±5 bandwidths`,
       });
     } else if (r.atBoundary) {
       diagnostics.push({
-        code: 'resonance-at-edge', severity: 'warning', sweep: sweep.source,
+        code: 'resonance-at-edge',
+        severity: 'warning',
+        sweep: sweep.source,
         message: `sweep ${sweep.source}: conductance rises to the sweep edge at ${formatFrequency(f[r.peakIndex], 7)}; a resonance may lie just outside — widen the span`,
       });
     }
   }
 
   if (!resonances.some((r) => !r.atBoundary) && n > 0) {
-    diagnostics.push({ code: 'no-resonance', severity: 'error', sweep: sweep.source, message: `sweep ${sweep.source}: no resonance: ${describeFlat(sweep)}` });
+    diagnostics.push({
+      code: 'no-resonance',
+      severity: 'error',
+      sweep: sweep.source,
+      message: `sweep ${sweep.source}: no resonance: ${describeFlat(sweep)}`,
+    });
   }
   return { resonances, diagnostics, noiseRelative: noise };
 }

@@ -157,7 +157,12 @@ export interface SweepResiduals {
 const MAX_POINT_LEVERAGE = 1.98;
 
 /** Leverage factor 2/(2 − h) per point at x (see SweepResiduals). */
-function leverageFactors(problem: ReturnType<typeof createBvdResiduals>, x: Float64Array, inverseNormal: Float64Array, np: number): Float64Array {
+function leverageFactors(
+  problem: ReturnType<typeof createBvdResiduals>,
+  x: Float64Array,
+  inverseNormal: Float64Array,
+  np: number,
+): Float64Array {
   const out = new Float64Array(np).fill(1);
   const m = problem.residualCount;
   const n = problem.parameterCount;
@@ -226,14 +231,16 @@ function resolveOptions(model: BvdModel, options: FitBvdOptions): ResolvedOption
   const freeBranches = options.freeBranches ?? all;
   const seen = new Set<number>();
   for (const k of freeBranches) {
-    if (!Number.isInteger(k) || k < 0 || k >= model.branches.length) return `free branch ${k}: expected an index 0…${model.branches.length - 1}`;
+    if (!Number.isInteger(k) || k < 0 || k >= model.branches.length)
+      return `free branch ${k}: expected an index 0…${model.branches.length - 1}`;
     if (seen.has(k)) return `free branch ${k} given twice`;
     seen.add(k);
   }
   const windowHz = options.windowHz ?? Infinity;
   if (!(windowHz > 0)) return `windowHz ${windowHz}: expected a positive number`;
   const maxIterations = options.maxIterations ?? 200;
-  if (!Number.isInteger(maxIterations) || maxIterations < 1) return `maxIterations ${maxIterations}: expected a positive integer`;
+  if (!Number.isInteger(maxIterations) || maxIterations < 1)
+    return `maxIterations ${maxIterations}: expected a positive integer`;
   return {
     freeBranches: [...freeBranches].sort((a, b) => a - b),
     fitC0: options.fitC0 ?? true,
@@ -245,7 +252,11 @@ function resolveOptions(model: BvdModel, options: FitBvdOptions): ResolvedOption
 }
 
 /** Flatten the sweeps into fit points (window applied), or return a reason. */
-function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions): (BvdFitPoints & { starts: number[] }) | string {
+function collectPoints(
+  sweeps: FitSweep[],
+  model: BvdModel,
+  o: ResolvedOptions,
+): (BvdFitPoints & { starts: number[] }) | string {
   if (!Array.isArray(sweeps) || sweeps.length === 0) return 'no sweeps to fit';
   const centres = o.freeBranches.map((k) => model.branches[k].fsHz);
   const all = !Number.isFinite(o.windowHz);
@@ -257,12 +268,14 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
   let count = 0;
   for (const s of sweeps) {
     const n = s.freqHz?.length ?? 0;
-    if (s.zRe?.length !== n || s.zIm?.length !== n) return `${s.source}: frequency and impedance arrays differ in length`;
+    if (s.zRe?.length !== n || s.zIm?.length !== n)
+      return `${s.source}: frequency and impedance arrays differ in length`;
     if (s.sigmaZOhm && s.sigmaZOhm.length !== n) return `${s.source}: frequency and noise arrays differ in length`;
     const weight = s.weight ?? 1;
     if (!isPositive(weight)) return `${s.source}: weight ${weight}: expected a positive number`;
     if (s.addedCapacitanceF !== undefined) {
-      if (!isPositive(s.addedCapacitanceF)) return `${s.source}: added capacitance ${s.addedCapacitanceF} F: expected a positive number`;
+      if (!isPositive(s.addedCapacitanceF))
+        return `${s.source}: added capacitance ${s.addedCapacitanceF} F: expected a positive number`;
       if (s.addedConnection !== 'parallel' && s.addedConnection !== 'series') {
         return `${s.source}: added capacitor connection ${String(s.addedConnection)}: expected parallel or series`;
       }
@@ -273,9 +286,11 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
       if (!inWindow(f)) continue;
       const zr = s.zRe[i];
       const zi = s.zIm[i];
-      if (!Number.isFinite(zr) || !Number.isFinite(zi)) return `${s.source}: point ${i}: impedance ${zr} ${zi}: expected finite numbers`;
+      if (!Number.isFinite(zr) || !Number.isFinite(zi))
+        return `${s.source}: point ${i}: impedance ${zr} ${zi}: expected finite numbers`;
       if (zr === 0 && zi === 0) return `${s.source}: point ${i}: impedance is zero, so no relative residual`;
-      if (s.sigmaZOhm && !isPositive(s.sigmaZOhm[i])) return `${s.source}: point ${i}: noise ${s.sigmaZOhm[i]} Ω: expected a positive number`;
+      if (s.sigmaZOhm && !isPositive(s.sigmaZOhm[i]))
+        return `${s.source}: point ${i}: noise ${s.sigmaZOhm[i]} Ω: expected a positive number`;
       count++;
     }
   }
@@ -287,12 +302,15 @@ function collectPoints(sweeps: FitSweep[], model: BvdModel, o: ResolvedOptions):
     parallelCapF: new Float64Array(count),
     seriesCapF: new Float64Array(count),
     sigmaZOhm: sweeps.some((s) => s.sigmaZOhm) ? new Float64Array(count) : undefined,
-    zForWeight: sweeps.some((s) => s.zForWeight) ? { re: new Float64Array(count), im: new Float64Array(count) } : undefined,
+    zForWeight: sweeps.some((s) => s.zForWeight)
+      ? { re: new Float64Array(count), im: new Float64Array(count) }
+      : undefined,
     starts: [],
   };
   let j = 0;
   for (const s of sweeps) {
-    const addedParallelF = s.addedCapacitanceF !== undefined && s.addedConnection === 'parallel' ? s.addedCapacitanceF : 0;
+    const addedParallelF =
+      s.addedCapacitanceF !== undefined && s.addedConnection === 'parallel' ? s.addedCapacitanceF : 0;
     const cSer = s.addedCapacitanceF !== undefined && s.addedConnection === 'series' ? s.addedCapacitanceF : 0;
     const weight = s.weight ?? 1;
     const { freqHz, zRe, zIm } = s;
@@ -367,9 +385,17 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
   const m = problem.residualCount;
   const np = points.freqHz.length;
   if (n === 0) return fail('no free parameters', { points: np }, o);
-  if (m <= n) return fail(`${np} points (${m} residuals) for ${n} parameters: need more residuals than parameters`, { points: np }, o);
+  if (m <= n)
+    return fail(
+      `${np} points (${m} residuals) for ${n} parameters: need more residuals than parameters`,
+      { points: np },
+      o,
+    );
 
-  const lm = levenbergMarquardt(problem, problem.x0, { maxIterations: o.maxIterations, ...(options.offsetTolerance !== undefined ? { offsetTolerance: options.offsetTolerance } : {}) });
+  const lm = levenbergMarquardt(problem, problem.x0, {
+    maxIterations: o.maxIterations,
+    ...(options.offsetTolerance !== undefined ? { offsetTolerance: options.offsetTolerance } : {}),
+  });
   const rmsFinal = problem.relativeRms(lm.x);
   const summary = {
     iterations: lm.iterations,
@@ -387,7 +413,11 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
   const model = problem.toModel(lm.x);
   const map = problem.map;
   if (!(rmsFinal <= MAX_RMS_RESIDUAL)) {
-    return fail(`model does not describe the data: rms relative residual ${rmsFinal.toPrecision(3)} (limit ${MAX_RMS_RESIDUAL})`, failed(), o);
+    return fail(
+      `model does not describe the data: rms relative residual ${rmsFinal.toPrecision(3)} (limit ${MAX_RMS_RESIDUAL})`,
+      failed(),
+      o,
+    );
   }
 
   // Covariance of the parameters, scaled by the reduced χ² and widened when the residuals are
@@ -403,12 +433,22 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     const br = model.branches[e.branch];
     const name = `branches[${e.branch}]`;
     const failedBranch = e.branch;
-    if (![br.fsHz, br.r1Ohm, br.c1F].every(isPositive)) return fail(`${name}: fitted values not finite and positive`, { ...failed(), failedBranch }, o);
-    if (br.fsHz < fLo || br.fsHz > fHi) return fail(`${name}: fitted fs ${br.fsHz.toPrecision(10)} Hz outside the measured span ${fLo}…${fHi} Hz`, { ...failed(), failedBranch }, o);
+    if (![br.fsHz, br.r1Ohm, br.c1F].every(isPositive))
+      return fail(`${name}: fitted values not finite and positive`, { ...failed(), failedBranch }, o);
+    if (br.fsHz < fLo || br.fsHz > fHi)
+      return fail(
+        `${name}: fitted fs ${br.fsHz.toPrecision(10)} Hz outside the measured span ${fLo}…${fHi} Hz`,
+        { ...failed(), failedBranch },
+        o,
+      );
     const factorR = Math.exp(Math.abs(lm.x[e.lnR1] - x0[e.lnR1]));
     const factorC = Math.exp(Math.abs(lm.x[e.lnC1] - x0[e.lnC1]));
     if (factorR > RESULT_FACTOR_LIMIT || factorC > RESULT_FACTOR_LIMIT) {
-      return fail(`${name}: r1 or c1 moved by a factor ${Math.max(factorR, factorC).toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT}): the data do not determine it`, { ...failed(), failedBranch }, o);
+      return fail(
+        `${name}: r1 or c1 moved by a factor ${Math.max(factorR, factorC).toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT}): the data do not determine it`,
+        { ...failed(), failedBranch },
+        o,
+      );
     }
     const dFs = e.fs0Hz * 1e-6; // ∂fs/∂p
     const vP = cov(e.fsOffset, e.fsOffset);
@@ -424,7 +464,11 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
     const relR = Math.sqrt(Math.max(vR, 0));
     const relC = Math.sqrt(Math.max(vC, 0));
     if (!(relR <= MAX_RELATIVE_UNCERTAINTY) || !(relC <= MAX_RELATIVE_UNCERTAINTY)) {
-      return fail(`${name}: not determined by the data (relative uncertainty r1 ${(100 * relR).toPrecision(3)} %, c1 ${(100 * relC).toPrecision(3)} %)`, { ...failed(), failedBranch }, o);
+      return fail(
+        `${name}: not determined by the data (relative uncertainty r1 ${(100 * relR).toPrecision(3)} %, c1 ${(100 * relC).toPrecision(3)} %)`,
+        { ...failed(), failedBranch },
+        o,
+      );
     }
     const l1H = 1 / ((2 * Math.PI * br.fsHz) ** 2 * br.c1F);
     const q = 1 / (2 * Math.PI * br.fsHz * br.r1Ohm * br.c1F);
@@ -439,23 +483,39 @@ export function fitBvd(sweeps: FitSweep[], initial: BvdModel, options: FitBvdOpt
   if (map.c0 >= 0) {
     if (!isPositive(model.c0F)) return fail('fitted c0 not finite and positive', failed(), o);
     const factor = Math.exp(Math.abs(lm.x[map.c0] - x0[map.c0]));
-    if (factor > RESULT_FACTOR_LIMIT) return fail(`c0 moved by a factor ${factor.toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT})`, failed(), o);
+    if (factor > RESULT_FACTOR_LIMIT)
+      return fail(
+        `c0 moved by a factor ${factor.toPrecision(3)} from its start (limit ${RESULT_FACTOR_LIMIT})`,
+        failed(),
+        o,
+      );
     const rel = Math.sqrt(Math.max(cov(map.c0, map.c0), 0));
-    if (!(rel <= MAX_RELATIVE_UNCERTAINTY)) return fail(`c0 not determined by the data (relative uncertainty ${(100 * rel).toPrecision(3)} %)`, failed(), o);
+    if (!(rel <= MAX_RELATIVE_UNCERTAINTY))
+      return fail(`c0 not determined by the data (relative uncertainty ${(100 * rel).toPrecision(3)} %)`, failed(), o);
     u.c0F = model.c0F * rel;
   }
   if (map.rs >= 0) {
     const rs = model.rsOhm ?? 0;
     const ur = Math.sqrt(Math.max(cov(map.rs, map.rs), 0));
     if (!Number.isFinite(rs)) return fail('fitted rs not finite', failed(), o);
-    if (rs < -NEGATIVE_PARASITIC_SIGMAS * ur) return fail(`fitted rs ${rs.toPrecision(3)} Ω is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ur.toPrecision(2)} Ω)`, failed(), o);
+    if (rs < -NEGATIVE_PARASITIC_SIGMAS * ur)
+      return fail(
+        `fitted rs ${rs.toPrecision(3)} Ω is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ur.toPrecision(2)} Ω)`,
+        failed(),
+        o,
+      );
     u.rsOhm = ur;
   }
   if (map.ls >= 0) {
     const ls = model.lsH ?? 0;
     const ul = Math.sqrt(Math.max(cov(map.ls, map.ls), 0)) * 1e-9;
     if (!Number.isFinite(ls)) return fail('fitted ls not finite', failed(), o);
-    if (ls < -NEGATIVE_PARASITIC_SIGMAS * ul) return fail(`fitted ls ${ls.toPrecision(3)} H is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ul.toPrecision(2)} H)`, failed(), o);
+    if (ls < -NEGATIVE_PARASITIC_SIGMAS * ul)
+      return fail(
+        `fitted ls ${ls.toPrecision(3)} H is negative beyond ${NEGATIVE_PARASITIC_SIGMAS} standard uncertainties (${ul.toPrecision(2)} H)`,
+        failed(),
+        o,
+      );
     u.lsH = ul;
   }
 

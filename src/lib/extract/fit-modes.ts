@@ -61,8 +61,21 @@ function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): SelectedS
   const idx: number[] = [];
   for (let i = 0; i < f.length; i++) if (keep(f[i])) idx.push(i);
   if (idx.length === 0) return undefined;
-  const base = { source: s.source, noise: s.noise, addedCapacitanceF: s.loaded ? s.addedCF : undefined, addedConnection: s.loaded ? s.connection : undefined };
-  if (idx.length === f.length) return { freqHz: f, zRe: s.impedance.zRe, zIm: s.impedance.zIm, sigmaZOhm: s.sigmaZOhm, recorded: s.recorded, ...base };
+  const base = {
+    source: s.source,
+    noise: s.noise,
+    addedCapacitanceF: s.loaded ? s.addedCF : undefined,
+    addedConnection: s.loaded ? s.connection : undefined,
+  };
+  if (idx.length === f.length)
+    return {
+      freqHz: f,
+      zRe: s.impedance.zRe,
+      zIm: s.impedance.zIm,
+      sigmaZOhm: s.sigmaZOhm,
+      recorded: s.recorded,
+      ...base,
+    };
   const pick = (a: Float64Array) => Float64Array.from(idx, (i) => a[i]);
   const r = s.recorded;
   return {
@@ -70,7 +83,12 @@ function selectPoints(s: PreparedSweep, keep: (f: number) => boolean): SelectedS
     zRe: pick(s.impedance.zRe),
     zIm: pick(s.impedance.zIm),
     sigmaZOhm: pick(s.sigmaZOhm),
-    recorded: { name: r.name, re: pick(r.re), im: pick(r.im), map: Float64Array.from({ length: 8 * idx.length }, (_, j) => r.map[8 * idx[j >> 3] + (j & 7)]) },
+    recorded: {
+      name: r.name,
+      re: pick(r.re),
+      im: pick(r.im),
+      map: Float64Array.from({ length: 8 * idx.length }, (_, j) => r.map[8 * idx[j >> 3] + (j & 7)]),
+    },
     ...base,
   };
 }
@@ -86,7 +104,11 @@ export const NOISE_ROUNDS = 1;
 const FIRST_FIT_OFFSET_TOLERANCE = 0.01;
 
 /** Refit with each sweep's noise taken from the residuals of `fit`; returns the last converged fit and the noise used. */
-function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedSweep[], start: BvdModel) => FitBvdResult): { fit: FitBvdResult; noise: RecordedNoise[] } {
+function reweighted(
+  data: SelectedSweep[],
+  fit: FitBvdResult,
+  run: (d: SelectedSweep[], start: BvdModel) => FitBvdResult,
+): { fit: FitBvdResult; noise: RecordedNoise[] } {
   let current = fit;
   const estimate = (fitted: FitBvdResult) => {
     const residuals = fitted.residualsBySweep!();
@@ -95,7 +117,11 @@ function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedS
   let estimates = estimate(current);
   for (let round = 0; round < NOISE_ROUNDS; round++) {
     // Weights at the model's values, so no point's weight depends on its own noise.
-    const next = data.map((d, s) => ({ ...d, sigmaZOhm: impedanceSigmaOhm(d.recorded, estimates[s].noise, estimates[s].modelM), zForWeight: estimates[s].modelZ }));
+    const next = data.map((d, s) => ({
+      ...d,
+      sigmaZOhm: impedanceSigmaOhm(d.recorded, estimates[s].noise, estimates[s].modelM),
+      zForWeight: estimates[s].modelZ,
+    }));
     const refit = run(next, current.model);
     if (!refit.converged || !refit.residualsBySweep) break;
     current = refit;
@@ -105,7 +131,12 @@ function reweighted(data: SelectedSweep[], fit: FitBvdResult, run: (d: SelectedS
 }
 
 /** Window fit of mode k on its best sweep. */
-export function fitModeWindow(mode: ModeCandidate, k: number, initial: BvdModel, sweeps: PreparedSweep[]): FitBvdResult | undefined {
+export function fitModeWindow(
+  mode: ModeCandidate,
+  k: number,
+  initial: BvdModel,
+  sweeps: PreparedSweep[],
+): FitBvdResult | undefined {
   const sweep = sweeps.find((s) => s.index === mode.best.sweepIndex);
   if (!sweep) return undefined;
   const res = mode.best.resonance;
@@ -135,8 +166,18 @@ export function fitModeWindow(mode: ModeCandidate, k: number, initial: BvdModel,
  * @param flagged modes above the instrument's trusted range: held fixed in the joint fit
  * @param trustedMaxHz points above this frequency are left out of the joint fit
  */
-export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: PreparedSweep[], quickOk: boolean[], flagged: boolean[], trustedMaxHz: number | undefined, timing?: TimingCollector): ModeFits {
-  const perMode: Array<FitBvdResult | undefined> = modes.map((mode, k) => timed(timing, 'fit-mode', () => fitModeWindow(mode, k, initial, sweeps)));
+export function fitModes(
+  modes: ModeCandidate[],
+  initial: BvdModel,
+  sweeps: PreparedSweep[],
+  quickOk: boolean[],
+  flagged: boolean[],
+  trustedMaxHz: number | undefined,
+  timing?: TimingCollector,
+): ModeFits {
+  const perMode: Array<FitBvdResult | undefined> = modes.map((mode, k) =>
+    timed(timing, 'fit-mode', () => fitModeWindow(mode, k, initial, sweeps)),
+  );
   const converged = perMode.map((r) => r?.converged === true);
   const estimates: Array<ModeEstimate | undefined> = modes.map((_, k) => {
     if (!converged[k] && !quickOk[k]) return undefined;
@@ -146,7 +187,10 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
   const screen = screenModes(modes, estimates);
   const included = modes.map((_, k) => k).filter((k) => (converged[k] || quickOk[k]) && !screen.excluded[k]);
   const jointIndex = modes.map((_, k) => included.indexOf(k));
-  const start: BvdModel = { ...initial, branches: included.map((k) => ({ ...(converged[k] ? perMode[k]!.model.branches[k] : initial.branches[k]) })) };
+  const start: BvdModel = {
+    ...initial,
+    branches: included.map((k) => ({ ...(converged[k] ? perMode[k]!.model.branches[k] : initial.branches[k]) })),
+  };
   let free = included.filter((k) => converged[k] && !flagged[k]);
   const none: ModeFits = { perMode, jointFree: [], jointIndex, screen, jointNoise: [] };
   if (free.length === 0) return none;
@@ -155,7 +199,9 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
     .filter((d): d is SelectedSweep => d !== undefined);
   if (data.length === 0) return none;
   const fitJoint = (d: SelectedSweep[], from: BvdModel, ks: number[], offsetTolerance?: number) =>
-    timed(timing, 'fit-joint', () => fitBvd(d, from, { freeBranches: ks.map((k) => jointIndex[k]), fitC0: true, offsetTolerance }));
+    timed(timing, 'fit-joint', () =>
+      fitBvd(d, from, { freeBranches: ks.map((k) => jointIndex[k]), fitC0: true, offsetTolerance }),
+    );
   // The first joint fit only has to come close enough for the noise estimate: its weights are
   // refined and the fit run again from its result to full precision.
   const run = (ks: number[]) => fitJoint(data, start, ks, FIRST_FIT_OFFSET_TOLERANCE);
@@ -171,7 +217,10 @@ export function fitModes(modes: ModeCandidate[], initial: BvdModel, sweeps: Prep
     const mains = free.filter((k) => !modes[k].spurious);
     if (mains.length && mains.length < free.length) {
       const retry = run(mains);
-      if (retry.converged) { joint = retry; free = mains; }
+      if (retry.converged) {
+        joint = retry;
+        free = mains;
+      }
     }
   }
   let jointNoise: ModeFits['jointNoise'] = data.map((d) => ({ source: d.source, noise: d.noise }));

@@ -3,7 +3,12 @@
  * ends apart ("3.97 and 4.03 MHz").
  */
 
-const PREFIXES: Array<[number, string]> = [[1e9, 'GHz'], [1e6, 'MHz'], [1e3, 'kHz'], [1, 'Hz']];
+const PREFIXES: Array<[number, string]> = [
+  [1e9, 'GHz'],
+  [1e6, 'MHz'],
+  [1e3, 'kHz'],
+  [1, 'Hz'],
+];
 
 function unitFor(hz: number): [number, string] {
   const a = Math.abs(hz);

@@ -27,17 +27,29 @@ function pad(s: string, n: number): string {
 }
 
 function verdicts(list: CrossCheck[]): string {
-  return list.map((c) => `${c.quantity} ${c.verdict}${c.verdict === 'single' ? '' : ` (${c.values.length})`}`).join(', ');
+  return list
+    .map((c) => `${c.quantity} ${c.verdict}${c.verdict === 'single' ? '' : ` (${c.values.length})`}`)
+    .join(', ');
 }
 
 function table(rows: string[][]): string[] {
   const widths = rows[0].map((_, j) => Math.max(...rows.map((r) => r[j].length)));
-  return rows.map((r) => r.map((c, j) => pad(c, widths[j])).join('  ').trimEnd());
+  return rows.map((r) =>
+    r
+      .map((c, j) => pad(c, widths[j]))
+      .join('  ')
+      .trimEnd(),
+  );
 }
 
 function sampleText(s: SampleResult): string[] {
   const out: string[] = [];
-  const cond = [s.temperatureC !== undefined ? `${s.temperatureC} °C` : undefined, s.driveW !== undefined ? formatSi(s.driveW, 'W', 3) : undefined].filter(Boolean).join(', ');
+  const cond = [
+    s.temperatureC !== undefined ? `${s.temperatureC} °C` : undefined,
+    s.driveW !== undefined ? formatSi(s.driveW, 'W', 3) : undefined,
+  ]
+    .filter(Boolean)
+    .join(', ');
   out.push(`sample ${s.sample}${cond ? ` (reference: ${cond})` : ''}`);
   if (s.modes.length === 0) {
     out.push('  no modes extracted');
@@ -46,7 +58,8 @@ function sampleText(s: SampleResult): string[] {
     const rows: string[][] = [['  mode', 'fs', 'fp', 'R1', 'L1', 'C1', 'Q', 'M', 'note']];
     for (const m of s.modes) {
       const notes: string[] = [];
-      if (m.spurious && m.strengthDb !== undefined) notes.push(`${m.strengthDb.toFixed(1)} dB (R ratio ${m.resistanceRatio!.toFixed(2)})`);
+      if (m.spurious && m.strengthDb !== undefined)
+        notes.push(`${m.strengthDb.toFixed(1)} dB (R ratio ${m.resistanceRatio!.toFixed(2)})`);
       if (m.flagged) notes.push('FLAGGED: above instrument range');
       rows.push([
         `  ${modeLabel(m)}`,
@@ -64,14 +77,26 @@ function sampleText(s: SampleResult): string[] {
     out.push('  cross-checks:');
     for (const m of s.modes) out.push(`    ${modeLabel(m)} at ${formatSi(m.fsHz, 'Hz', 8)}: ${verdicts(m.crossCheck)}`);
   }
-  out.push(`  fit: ${s.fit.converged ? 'converged' : 'not converged'} (${s.fit.reason}), ${s.fit.points} points, rms residual ${s.fit.rmsResidual.toExponential(2)}`);
+  out.push(
+    `  fit: ${s.fit.converged ? 'converged' : 'not converged'} (${s.fit.reason}), ${s.fit.points} points, rms residual ${s.fit.rmsResidual.toExponential(2)}`,
+  );
   if (s.temperature) {
     const t = s.temperature;
-    out.push(`  temperature (${t.form}): turnover ${t.turnoverC.map((x) => `${x.toFixed(1)} °C`).join(', ') || 'none'}; span ${t.spanPpm.toFixed(2)} ppm over ${t.spanRangeC.min}…${t.spanRangeC.max} °C`);
+    out.push(
+      `  temperature (${t.form}): turnover ${t.turnoverC.map((x) => `${x.toFixed(1)} °C`).join(', ') || 'none'}; span ${t.spanPpm.toFixed(2)} ppm over ${t.spanRangeC.min}…${t.spanRangeC.max} °C`,
+    );
   }
-  if (s.drive) out.push(`  drive level: R1 max/min ${s.drive.resistanceRatio.toFixed(3)}, frequency shift ${s.drive.frequencyShiftPpm.toFixed(3)} ppm over ${s.drive.points.length} levels`);
+  if (s.drive)
+    out.push(
+      `  drive level: R1 max/min ${s.drive.resistanceRatio.toFixed(3)}, frequency shift ${s.drive.frequencyShiftPpm.toFixed(3)} ppm over ${s.drive.points.length} levels`,
+    );
   for (const o of s.otherConditions) {
-    const c = [o.temperatureC !== undefined ? `${o.temperatureC} °C` : '', o.driveW !== undefined ? formatSi(o.driveW, 'W', 3) : ''].filter(Boolean).join(', ');
+    const c = [
+      o.temperatureC !== undefined ? `${o.temperatureC} °C` : '',
+      o.driveW !== undefined ? formatSi(o.driveW, 'W', 3) : '',
+    ]
+      .filter(Boolean)
+      .join(', ');
     out.push(`  at ${c || 'other conditions'} (${o.sweep}): fs ${hz(o.fsHz)}, R1 ${formatSi(o.r1Ohm, 'Ω', 5)}`);
   }
   if (s.warnings.length) {

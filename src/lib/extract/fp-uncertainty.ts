@@ -15,8 +15,14 @@ function withChange(model: BvdModel, change: (m: BvdModel) => void): BvdModel {
 
 /** ∂fp/∂(relative change) of one model quantity, by a central difference. */
 function sensitivity(model: BvdModel, k: number, apply: (m: BvdModel, factor: number) => void, h: number): number {
-  const up = parallelResonanceOf(withChange(model, (m) => apply(m, 1 + h)), k);
-  const dn = parallelResonanceOf(withChange(model, (m) => apply(m, 1 - h)), k);
+  const up = parallelResonanceOf(
+    withChange(model, (m) => apply(m, 1 + h)),
+    k,
+  );
+  const dn = parallelResonanceOf(
+    withChange(model, (m) => apply(m, 1 - h)),
+    k,
+  );
   if (up === undefined || dn === undefined) return 0;
   return (up - dn) / (2 * h);
 }
@@ -27,8 +33,23 @@ function sensitivity(model: BvdModel, k: number, apply: (m: BvdModel, factor: nu
  * @param extraC0F a C0 uncertainty not in the covariance (C0 held in the fit), F
  * @param mapIndex branch index in the fit's names → branch index in `model`
  */
-export function fpUncertaintyOf(model: BvdModel, k: number, names: string[] | undefined, covariance: number[][] | undefined, extraC0F = 0, fallback?: { fsHz: number; c1F: number }, mapIndex: (j: number) => number = (j) => j): number {
-  const sC0 = sensitivity(model, k, (m, f) => { m.c0F *= f; }, 1e-5); // ∂fp/∂ln C0
+export function fpUncertaintyOf(
+  model: BvdModel,
+  k: number,
+  names: string[] | undefined,
+  covariance: number[][] | undefined,
+  extraC0F = 0,
+  fallback?: { fsHz: number; c1F: number },
+  mapIndex: (j: number) => number = (j) => j,
+): number {
+  const sC0 = sensitivity(
+    model,
+    k,
+    (m, f) => {
+      m.c0F *= f;
+    },
+    1e-5,
+  ); // ∂fp/∂ln C0
   let variance = 0;
   if (names && covariance) {
     const g = names.map((name) => {
@@ -36,8 +57,25 @@ export function fpUncertaintyOf(model: BvdModel, k: number, names: string[] | un
       if (m) {
         const j = mapIndex(Number(m[1]));
         if (!(j >= 0 && j < model.branches.length)) return 0;
-        if (m[2] === 'fsOffsetPpm') return sensitivity(model, k, (mm, f) => { mm.branches[j].fsHz *= f; }, 1e-8) * 1e-6;
-        return sensitivity(model, k, (mm, f) => { mm.branches[j].c1F *= f; }, 1e-5);
+        if (m[2] === 'fsOffsetPpm')
+          return (
+            sensitivity(
+              model,
+              k,
+              (mm, f) => {
+                mm.branches[j].fsHz *= f;
+              },
+              1e-8,
+            ) * 1e-6
+          );
+        return sensitivity(
+          model,
+          k,
+          (mm, f) => {
+            mm.branches[j].c1F *= f;
+          },
+          1e-5,
+        );
       }
       if (name === 'lnC0F') return sC0;
       return 0;
@@ -45,11 +83,25 @@ export function fpUncertaintyOf(model: BvdModel, k: number, names: string[] | un
     for (let i = 0; i < g.length; i++) for (let j = 0; j < g.length; j++) variance += g[i] * covariance[i][j] * g[j];
   } else if (fallback) {
     // No covariance: independent fs and C1 of this branch.
-    const sFs = sensitivity(model, k, (mm, f) => { mm.branches[k].fsHz *= f; }, 1e-8);
-    const sC1 = sensitivity(model, k, (mm, f) => { mm.branches[k].c1F *= f; }, 1e-5);
+    const sFs = sensitivity(
+      model,
+      k,
+      (mm, f) => {
+        mm.branches[k].fsHz *= f;
+      },
+      1e-8,
+    );
+    const sC1 = sensitivity(
+      model,
+      k,
+      (mm, f) => {
+        mm.branches[k].c1F *= f;
+      },
+      1e-5,
+    );
     const br = model.branches[k];
-    variance += (sFs * fallback.fsHz / br.fsHz) ** 2 + (sC1 * fallback.c1F / br.c1F) ** 2;
+    variance += ((sFs * fallback.fsHz) / br.fsHz) ** 2 + ((sC1 * fallback.c1F) / br.c1F) ** 2;
   }
-  variance += (sC0 * extraC0F / model.c0F) ** 2;
+  variance += ((sC0 * extraC0F) / model.c0F) ** 2;
   return Math.sqrt(Math.max(0, variance));
 }

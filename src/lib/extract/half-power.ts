@@ -26,11 +26,26 @@ export interface HalfPowerResult {
 }
 
 const FAIL = (reason: string): HalfPowerResult => ({
-  ok: false, reason, fLowHz: 0, fHighHz: 0, bandwidthHz: 0, fsHz: 0, r1Ohm: 0, l1H: 0, c1F: 0, q: 0,
+  ok: false,
+  reason,
+  fLowHz: 0,
+  fHighHz: 0,
+  bandwidthHz: 0,
+  fsHz: 0,
+  r1Ohm: 0,
+  l1H: 0,
+  c1F: 0,
+  q: 0,
 });
 
 /** Frequency where G falls to `half` between indices i (below) and j (above or at), from 3 points. */
-function crossing(freqHz: ArrayLike<number>, gS: ArrayLike<number>, outer: number, inner: number, half: number): number {
+function crossing(
+  freqHz: ArrayLike<number>,
+  gS: ArrayLike<number>,
+  outer: number,
+  inner: number,
+  half: number,
+): number {
   const n = freqHz.length;
   const dir = inner > outer ? 1 : -1;
   // Three points: outer, inner, and the next one toward the peak (or beyond outer at the edge).
@@ -54,7 +69,12 @@ function crossing(freqHz: ArrayLike<number>, gS: ArrayLike<number>, outer: numbe
  * @param gMaxS the peak conductance 1/R1, S; default: the sampled maximum refined by a
  *   parabola through 1/G at the three top points
  */
-export function halfPower(freqHz: ArrayLike<number>, gS: ArrayLike<number>, peakIndex: number, gMaxS?: number): HalfPowerResult {
+export function halfPower(
+  freqHz: ArrayLike<number>,
+  gS: ArrayLike<number>,
+  peakIndex: number,
+  gMaxS?: number,
+): HalfPowerResult {
   const n = freqHz.length;
   if (peakIndex <= 0 || peakIndex >= n - 1) return FAIL('conductance peak at the sweep edge');
   let gMax = gMaxS;
@@ -81,5 +101,16 @@ export function halfPower(freqHz: ArrayLike<number>, gS: ArrayLike<number>, peak
   const r1 = 1 / gMax;
   const l1 = r1 / (2 * Math.PI * bw);
   const ws = 2 * Math.PI * fs;
-  return { ok: true, reason: 'ok', fLowHz: fLow, fHighHz: fHigh, bandwidthHz: bw, fsHz: fs, r1Ohm: r1, l1H: l1, c1F: 1 / (ws * ws * l1), q: fs / bw };
+  return {
+    ok: true,
+    reason: 'ok',
+    fLowHz: fLow,
+    fHighHz: fHigh,
+    bandwidthHz: bw,
+    fsHz: fs,
+    r1Ohm: r1,
+    l1H: l1,
+    c1F: 1 / (ws * ws * l1),
+    q: fs / bw,
+  };
 }

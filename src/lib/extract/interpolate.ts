@@ -8,7 +8,10 @@
  * Newton form of the quadratic through three points, in coordinates local to x0:
  * y = y0 + d1·u + d2·u·(u − u1), u = x − x0.
  */
-function newtonQuadratic(xs: readonly number[], ys: readonly number[]): { x0: number; y0: number; u1: number; d1: number; d2: number } {
+function newtonQuadratic(
+  xs: readonly number[],
+  ys: readonly number[],
+): { x0: number; y0: number; u1: number; d1: number; d2: number } {
   const [x0, x1, x2] = xs;
   const [y0, y1, y2] = ys;
   const u1 = x1 - x0;
@@ -22,7 +25,13 @@ function newtonQuadratic(xs: readonly number[], ys: readonly number[]): { x0: nu
  * x where the quadratic through (xs[k], ys[k]), k = 0..2, equals `target`, restricted to
  * [a, b] (either order); undefined when no root lies there.
  */
-export function quadraticCrossing(xs: readonly number[], ys: readonly number[], target: number, a: number, b: number): number | undefined {
+export function quadraticCrossing(
+  xs: readonly number[],
+  ys: readonly number[],
+  target: number,
+  a: number,
+  b: number,
+): number | undefined {
   const { x0, y0, u1, d1, d2 } = newtonQuadratic(xs, ys);
   // y = y0 + d1·u + d2·u·(u − u1) = A·u² + B·u + C + target
   const A = d2;
@@ -57,7 +66,13 @@ export function crossingBetween(x: ArrayLike<number>, y: ArrayLike<number>, i: n
   const third = i + 2 < n ? i + 2 : i - 1;
   if (third >= 0 && third < n) {
     const idx = [i, i + 1, third].sort((p, q) => p - q);
-    const r = quadraticCrossing(idx.map((k) => x[k]), idx.map((k) => y[k]), target, x[i], x[i + 1]);
+    const r = quadraticCrossing(
+      idx.map((k) => x[k]),
+      idx.map((k) => y[k]),
+      target,
+      x[i],
+      x[i + 1],
+    );
     if (r !== undefined) {
       // Prefer the side whose neighbour is closer in value when both exist: check the other triple too.
       const other = i - 1 >= 0 && third !== i - 1 ? i - 1 : -1;

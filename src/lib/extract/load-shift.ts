@@ -39,7 +39,13 @@ export function loadFrequency(fsHz: number, c1F: number, c0F: number, clF: numbe
  * κ = ω(C0 + CL)·X at the zero phase, for R1, C0, CL at the measured frequency (1 when R1 = 0).
  * Undefined when the loaded part has no zero phase at that resistance.
  */
-export function lossFactor(fLHz: number, r1Ohm: number, c0F: number, clF: number, connection: AddedConnection): number | undefined {
+export function lossFactor(
+  fLHz: number,
+  r1Ohm: number,
+  c0F: number,
+  clF: number,
+  connection: AddedConnection,
+): number | undefined {
   if (!(r1Ohm > 0)) return 1;
   const w = 2 * Math.PI * fLHz;
   const ct = w * (c0F + clF);
@@ -109,7 +115,9 @@ export function solveTwoLoad(fsHz: number, loads: LoadPoint[], r1Ohm = 0): TwoLo
       const cov = ls.covariance;
       out.uncertainty = {
         c1F: c1F * c1F * Math.sqrt(Math.max(0, cov[1][1])),
-        c0F: Math.sqrt(Math.max(0, c1F * c1F * cov[0][0] + (a * c1F * c1F) ** 2 * cov[1][1] - 2 * a * c1F ** 3 * cov[0][1])),
+        c0F: Math.sqrt(
+          Math.max(0, c1F * c1F * cov[0][0] + (a * c1F * c1F) ** 2 * cov[1][1] - 2 * a * c1F ** 3 * cov[0][1]),
+        ),
       };
     }
     if (!(r1Ohm > 0)) break;
@@ -170,8 +178,19 @@ export function solveThreeLoad(loads: LoadPoint[], r1Ohm = 0): ThreeLoadResult |
       let s1 = sse(Math.exp(x1));
       let s2 = sse(Math.exp(x2));
       for (let k = 0; k < 120 && hi - lo > 1e-13; k++) {
-        if (s1 < s2) { hi = x2; x2 = x1; s2 = s1; x1 = hi - phi * (hi - lo); s1 = sse(Math.exp(x1)); }
-        else { lo = x1; x1 = x2; s1 = s2; x2 = lo + phi * (hi - lo); s2 = sse(Math.exp(x2)); }
+        if (s1 < s2) {
+          hi = x2;
+          x2 = x1;
+          s2 = s1;
+          x1 = hi - phi * (hi - lo);
+          s1 = sse(Math.exp(x1));
+        } else {
+          lo = x1;
+          x1 = x2;
+          s1 = s2;
+          x2 = lo + phi * (hi - lo);
+          s2 = sse(Math.exp(x2));
+        }
       }
       c0 = Math.exp(0.5 * (lo + hi));
     }

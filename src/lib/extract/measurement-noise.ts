@@ -62,7 +62,12 @@ const VARIANCE_TOLERANCE = 1e-3;
  * from the quarter of the points with the smallest |M| and b from the quarter with the largest,
  * each as median/ln 2 (the median of an exponential is its mean·ln 2).
  */
-function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null, start?: { a: number; b: number }): { a: number; b: number } {
+function fitVariances(
+  m2: Float64Array,
+  e: Float64Array,
+  use: Uint8Array | null,
+  start?: { a: number; b: number },
+): { a: number; b: number } {
   let count = 0;
   for (let i = 0; i < m2.length; i++) if (!use || use[i]) count++;
   if (count === 0) return { a: 0, b: 0 };
@@ -76,7 +81,7 @@ function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null,
     if (m2[i] > maxM2) maxM2 = m2[i];
     j++;
   }
-  const aMin = (MIN_RELATIVE_NOISE * MIN_RELATIVE_NOISE) * Math.max(maxM2, Number.MIN_VALUE);
+  const aMin = MIN_RELATIVE_NOISE * MIN_RELATIVE_NOISE * Math.max(maxM2, Number.MIN_VALUE);
   const bMin = MIN_RELATIVE_NOISE * MIN_RELATIVE_NOISE;
   let a: number;
   let b: number;
@@ -127,8 +132,14 @@ function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null,
     let na = det > 0 ? (s11 * t0 - s01 * t1) / det : t0 / s00;
     let nb = det > 0 ? (s00 * t1 - s01 * t0) / det : 0;
     // Projection onto the smallest values: refit the other with this one held.
-    if (na < aMin) { na = aMin; nb = (t1 - aMin * s01) / s11; }
-    if (nb < bMin) { nb = bMin; na = Math.max((t0 - bMin * s01) / s00, aMin); }
+    if (na < aMin) {
+      na = aMin;
+      nb = (t1 - aMin * s01) / s11;
+    }
+    if (nb < bMin) {
+      nb = bMin;
+      na = Math.max((t0 - bMin * s01) / s00, aMin);
+    }
     let step = 1;
     let accepted = false;
     for (let h = 0; h < 30; h++) {
@@ -137,7 +148,10 @@ function fitVariances(m2: Float64Array, e: Float64Array, use: Uint8Array | null,
       const td = deviance(ta, tb);
       if (td <= dev) {
         const settled = Math.abs(ta - a) <= VARIANCE_TOLERANCE * ta && Math.abs(tb - b) <= VARIANCE_TOLERANCE * tb;
-        a = ta; b = tb; dev = td; accepted = !settled;
+        a = ta;
+        b = tb;
+        dev = td;
+        accepted = !settled;
         break;
       }
       step /= 2;
@@ -163,7 +177,11 @@ function squaredMagnitudes(rec: RecordedQuantity): Float64Array {
 
 function toNoise(v: { a: number; b: number }, m2: Float64Array, from: RecordedNoise['from']): RecordedNoise {
   const minFloor = MIN_RELATIVE_NOISE * Math.sqrt(maxOf(m2));
-  return { floor: Math.max(Math.sqrt(Math.max(v.a, 0)), minFloor), trace: Math.max(Math.sqrt(Math.max(v.b, 0)), MIN_RELATIVE_NOISE), from };
+  return {
+    floor: Math.max(Math.sqrt(Math.max(v.a, 0)), minFloor),
+    trace: Math.max(Math.sqrt(Math.max(v.b, 0)), MIN_RELATIVE_NOISE),
+    from,
+  };
 }
 
 /**
@@ -234,7 +252,11 @@ export interface NoiseFromFit {
  * @param residuals Zmeas − Zmod per point, Ω, with each point's leverage factor (fit-bvd.ts),
  *   so that |δM|²·factor has expected value 2σ_M²
  */
-export function noiseFromResiduals(rec: RecordedQuantity, measured: { zRe: Float64Array; zIm: Float64Array }, residuals: { re: Float64Array; im: Float64Array; leverageFactor: Float64Array }): NoiseFromFit {
+export function noiseFromResiduals(
+  rec: RecordedQuantity,
+  measured: { zRe: Float64Array; zIm: Float64Array },
+  residuals: { re: Float64Array; im: Float64Array; leverageFactor: Float64Array },
+): NoiseFromFit {
   const n = residuals.re.length;
   const modelM = { re: new Float64Array(n), im: new Float64Array(n) };
   const modelZ = { re: new Float64Array(n), im: new Float64Array(n) };
@@ -261,7 +283,11 @@ export function noiseFromResiduals(rec: RecordedQuantity, measured: { zRe: Float
  * both at the recorded value M.
  * @param at M per point to evaluate at (default the measured values; after a fit, the model's)
  */
-export function impedanceSigmaOhm(rec: RecordedQuantity, noise: RecordedNoise, at?: { re: Float64Array; im: Float64Array }): Float64Array {
+export function impedanceSigmaOhm(
+  rec: RecordedQuantity,
+  noise: RecordedNoise,
+  at?: { re: Float64Array; im: Float64Array },
+): Float64Array {
   const n = rec.re.length;
   const out = new Float64Array(n);
   const a = noise.floor * noise.floor;

@@ -64,9 +64,17 @@ const rawCache = new WeakMap<PreparedSweep, AdmittanceSweep>();
  * to the connection (parallel: B rises through 0, the load anti-resonance; series: B falls
  * through 0, the load resonance), within `toleranceHz`.
  */
-export function measureLoadFrequency(sweep: PreparedSweep, connection: AddedConnection, expectedHz: number, toleranceHz: number): number | undefined {
+export function measureLoadFrequency(
+  sweep: PreparedSweep,
+  connection: AddedConnection,
+  expectedHz: number,
+  toleranceHz: number,
+): number | undefined {
   let raw = rawCache.get(sweep);
-  if (!raw) { raw = admittanceOf(sweep.impedance); rawCache.set(sweep, raw); }
+  if (!raw) {
+    raw = admittanceOf(sweep.impedance);
+    rawCache.set(sweep, raw);
+  }
   const f = raw.freqHz;
   const b = raw.bS;
   let best: number | undefined;
@@ -85,7 +93,12 @@ export function measureLoadFrequency(sweep: PreparedSweep, connection: AddedConn
  * Closed form (fs, measured fa, C0) and load-shift results for branch `k` of `model`
  * (C0 and every branch from the quick estimates).
  */
-export function referenceMethodsOf(mode: ModeCandidate, k: number, model: BvdModel, sweeps: PreparedSweep[]): ReferenceMethods {
+export function referenceMethodsOf(
+  mode: ModeCandidate,
+  k: number,
+  model: BvdModel,
+  sweeps: PreparedSweep[],
+): ReferenceMethods {
   const br = model.branches[k];
   const out: ReferenceMethods = { loadShift: [] };
   // Closed form from the finest-stepped unloaded sighting of fa.
@@ -110,19 +123,32 @@ export function referenceMethodsOf(mode: ModeCandidate, k: number, model: BvdMod
     loads.push(load);
     const shunt = model.c0F + otherBranchesCF(model, k, fL);
     const c1 = c1FromLoadShift({ fsHz: br.fsHz, load, c0F: shunt, r1Ohm: br.r1Ohm });
-    if (c1 !== undefined && c1 > 0) out.loadShift.push({ c1F: c1, l1H: l1FromFsC1(br.fsHz, c1), fLHz: fL, source: s.source });
+    if (c1 !== undefined && c1 > 0)
+      out.loadShift.push({ c1F: c1, l1H: l1FromFsC1(br.fsHz, c1), fLHz: fL, source: s.source });
   }
   // The part's own anti-resonance is a load of 0 F across it.
-  if (out.closedForm) loads.push({ clF: 0, connection: 'parallel', fLHz: out.closedForm.faHz, source: out.closedForm.source });
+  if (out.closedForm)
+    loads.push({ clF: 0, connection: 'parallel', fLHz: out.closedForm.faHz, source: out.closedForm.source });
   const distinct = new Set(loads.map((l) => l.clF)).size;
   if (distinct >= 2) {
     const two = solveTwoLoad(br.fsHz, loads, br.r1Ohm);
     const other = otherBranchesCF(model, k, br.fsHz);
-    if (two) out.twoLoad = { c1F: two.c1F, c0F: two.c0F - other, uncertainty: two.uncertainty, note: `${loads.length} loads: ${loads.map((l) => l.source).join(', ')}` };
+    if (two)
+      out.twoLoad = {
+        c1F: two.c1F,
+        c0F: two.c0F - other,
+        uncertainty: two.uncertainty,
+        note: `${loads.length} loads: ${loads.map((l) => l.source).join(', ')}`,
+      };
   }
   if (distinct >= 3) {
     const three = solveThreeLoad(loads, br.r1Ohm);
-    if (three) out.threeLoad = { ...three, c0F: three.c0F - otherBranchesCF(model, k, br.fsHz), note: `${loads.length} loads, fs not assumed` };
+    if (three)
+      out.threeLoad = {
+        ...three,
+        c0F: three.c0F - otherBranchesCF(model, k, br.fsHz),
+        note: `${loads.length} loads, fs not assumed`,
+      };
   }
   return out;
 }

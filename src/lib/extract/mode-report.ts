@@ -24,7 +24,13 @@ import { FA_VISIBLE_SNR } from './fa-visibility.ts';
 export const FEW_POINTS_PER_BANDWIDTH = 3;
 
 /** Standard uncertainties of a branch's quantities. */
-export interface BranchUncertainty { fsHz: number; r1Ohm: number; c1F: number; l1H: number; q: number }
+export interface BranchUncertainty {
+  fsHz: number;
+  r1Ohm: number;
+  c1F: number;
+  l1H: number;
+  q: number;
+}
 
 /** Where the published values of a mode come from. */
 export interface ModeSource {
@@ -66,9 +72,13 @@ function branchValues(fit: FitBvdResult, k: number) {
 }
 
 function causeFor(quantity: CrossCheck['quantity'], ppbw: number, values: MethodValue[]): string {
-  if (ppbw < MIN_POINTS_PER_BANDWIDTH) return `too few points across the resonance (${ppbw.toFixed(1)} per bandwidth; want ≥ ${MIN_POINTS_PER_BANDWIDTH})`;
-  if ((quantity === 'c1F' || quantity === 'l1H') && values.some((v) => v.method === 'load-shift' || v.method === 'two-load')) {
-    return 'the added capacitor\'s value or its fixture stray capacitance, or drive level';
+  if (ppbw < MIN_POINTS_PER_BANDWIDTH)
+    return `too few points across the resonance (${ppbw.toFixed(1)} per bandwidth; want ≥ ${MIN_POINTS_PER_BANDWIDTH})`;
+  if (
+    (quantity === 'c1F' || quantity === 'l1H') &&
+    values.some((v) => v.method === 'load-shift' || v.method === 'two-load')
+  ) {
+    return "the added capacitor's value or its fixture stray capacitance, or drive level";
   }
   if (quantity === 'c0F') return 'fixture stray capacitance, or modes outside the swept span';
   return 'fixture series resistance or inductance, or drive level (re-measure at a lower drive)';
@@ -81,7 +91,10 @@ export function reportMode(input: ModeReportInput): ModeResult {
   const ppbw = mode.best.resonance.pointsPerBandwidth;
   const credibility = credibilityOf(input);
   const settled = Object.fromEntries(
-    (Object.keys(lists) as Array<keyof typeof lists>).map((key) => [key, settleQuantity(key, lists[key], credibility, causeFor(key, ppbw, lists[key]))]),
+    (Object.keys(lists) as Array<keyof typeof lists>).map((key) => [
+      key,
+      settleQuantity(key, lists[key], credibility, causeFor(key, ppbw, lists[key])),
+    ]),
   ) as Record<keyof typeof lists, SettledQuantity | undefined>;
   // The rule picks the value of the first credible method: fs, R1 and C1 of the branch follow it
   // (L1 and Q derive from them), so the model, its netlists and the page tell one story.
@@ -96,7 +109,15 @@ export function reportMode(input: ModeReportInput): ModeResult {
   const u = source.uncertainty;
   const fpHz = parallelResonanceOf(model, k) ?? br.fsHz * Math.sqrt(1 + br.c1F / model.c0F);
   const uFp = Math.hypot(
-    fpUncertaintyOf(model, k, source.fit?.parameterNames, source.fit?.covariance, c0.heldInFit ? c0.uncertainty : 0, source.fit ? undefined : { fsHz: u.fsHz, c1F: u.c1F }, source.mapIndex),
+    fpUncertaintyOf(
+      model,
+      k,
+      source.fit?.parameterNames,
+      source.fit?.covariance,
+      c0.heldInFit ? c0.uncertainty : 0,
+      source.fit ? undefined : { fsHz: u.fsHz, c1F: u.c1F },
+      source.mapIndex,
+    ),
     uRes,
   );
   const r = model.c0F / br.c1F;
@@ -124,14 +145,20 @@ export function reportMode(input: ModeReportInput): ModeResult {
     sweeps: input.sweeps,
   };
   const zp = zeroPhaseOf(model, k);
-  if (zp) { result.frHz = zp.frHz; result.faHz = zp.faHz; result.rrOhm = zp.rrOhm; }
+  if (zp) {
+    result.frHz = zp.frHz;
+    result.faHz = zp.faHz;
+    result.rrOhm = zp.rrOhm;
+  }
   if (mode.spurious && input.mainR1Ohm) {
     result.resistanceRatio = br.r1Ohm / input.mainR1Ohm;
     result.strengthDb = 20 * Math.log10(result.resistanceRatio);
   }
   if (input.flagged) result.flagged = true;
 
-  result.crossCheck = (Object.keys(lists) as Array<keyof typeof lists>).flatMap((key) => (settled[key] ? [settled[key].check] : []));
+  result.crossCheck = (Object.keys(lists) as Array<keyof typeof lists>).flatMap((key) =>
+    settled[key] ? [settled[key].check] : [],
+  );
   return result;
 }
 
@@ -142,10 +169,14 @@ function credibilityOf(input: ModeReportInput): Credibility {
   return (method) => {
     switch (method) {
       case 'closed-form':
-        return input.faEvidence === undefined || input.faEvidence < FA_VISIBLE_SNR ? 'the anti-resonance is not seen above the noise' : undefined;
+        return input.faEvidence === undefined || input.faEvidence < FA_VISIBLE_SNR
+          ? 'the anti-resonance is not seen above the noise'
+          : undefined;
       case 'conductance-peak':
       case 'half-power':
-        return ppbw < MIN_POINTS_PER_BANDWIDTH ? `${ppbw.toFixed(1)} points per bandwidth (want ≥ ${MIN_POINTS_PER_BANDWIDTH})` : undefined;
+        return ppbw < MIN_POINTS_PER_BANDWIDTH
+          ? `${ppbw.toFixed(1)} points per bandwidth (want ≥ ${MIN_POINTS_PER_BANDWIDTH})`
+          : undefined;
       case 'joint-fit':
       case 'complex-fit': {
         const fit = method === input.source.method ? input.source.fit : input.perMode;
@@ -167,8 +198,19 @@ function methodLists(input: ModeReportInput): Record<'fsHz' | 'r1Ohm' | 'c1F' | 
   const uRes = res.pointsPerBandwidth < FEW_POINTS_PER_BANDWIDTH ? res.stepHz / Math.sqrt(12) : 0;
   const u = source.uncertainty;
   // Method values, preferred first.
-  const lists: Record<'fsHz' | 'r1Ohm' | 'c1F' | 'l1H' | 'q', MethodValue[]> = { fsHz: [], r1Ohm: [], c1F: [], l1H: [], q: [] };
-  const add = (method: MethodName, v: { fsHz?: number; r1Ohm?: number; c1F?: number; l1H?: number; q?: number }, unc?: Partial<BranchUncertainty>, note?: string) => {
+  const lists: Record<'fsHz' | 'r1Ohm' | 'c1F' | 'l1H' | 'q', MethodValue[]> = {
+    fsHz: [],
+    r1Ohm: [],
+    c1F: [],
+    l1H: [],
+    q: [],
+  };
+  const add = (
+    method: MethodName,
+    v: { fsHz?: number; r1Ohm?: number; c1F?: number; l1H?: number; q?: number },
+    unc?: Partial<BranchUncertainty>,
+    note?: string,
+  ) => {
     for (const key of Object.keys(lists) as Array<keyof typeof lists>) {
       const value = v[key];
       if (value === undefined || !Number.isFinite(value)) continue;
@@ -184,13 +226,20 @@ function methodLists(input: ModeReportInput): Record<'fsHz' | 'r1Ohm' | 'c1F' | 
     const v = branchValues(input.perMode, k);
     add('complex-fit', v, v.u, `window of ${mode.best.source}`);
   }
-  if (source.method !== 'conductance-peak' && peak.conductance) add('conductance-peak', peak.conductance, peak.conductance.uncertainty, mode.best.source);
+  if (source.method !== 'conductance-peak' && peak.conductance)
+    add('conductance-peak', peak.conductance, peak.conductance.uncertainty, mode.best.source);
   if (peak.halfPower) add('half-power', peak.halfPower, undefined, mode.best.source);
-  if (reference.closedForm) add('closed-form', reference.closedForm, undefined, `fa from ${reference.closedForm.source}`);
+  if (reference.closedForm)
+    add('closed-form', reference.closedForm, undefined, `fa from ${reference.closedForm.source}`);
   for (const ls of reference.loadShift) add('load-shift', ls, undefined, ls.source);
   if (reference.twoLoad) {
     const t = reference.twoLoad;
-    add('two-load', { c1F: t.c1F, l1H: 1 / ((2 * Math.PI * br.fsHz) ** 2 * t.c1F) }, t.uncertainty ? { c1F: t.uncertainty.c1F } : undefined, t.note);
+    add(
+      'two-load',
+      { c1F: t.c1F, l1H: 1 / ((2 * Math.PI * br.fsHz) ** 2 * t.c1F) },
+      t.uncertainty ? { c1F: t.uncertainty.c1F } : undefined,
+      t.note,
+    );
   }
   if (reference.threeLoad) {
     const t = reference.threeLoad;

@@ -24,7 +24,12 @@ export interface ChosenMode extends SampleMode {
 }
 
 /** Choose every mode's values (in mode order); why a mode is not reported goes to `diagnostics`. */
-export function chooseModeValues(modes: SampleMode[], fits: SampleFits, initial: BvdModel, diagnostics: Diagnostic[]): ChosenMode[] {
+export function chooseModeValues(
+  modes: SampleMode[],
+  fits: SampleFits,
+  initial: BvdModel,
+  diagnostics: Diagnostic[],
+): ChosenMode[] {
   const joint = fits.converged;
   return modes.map((mode) => {
     const k = mode.index;
@@ -35,25 +40,52 @@ export function chooseModeValues(modes: SampleMode[], fits: SampleFits, initial:
     if (screened !== undefined) {
       const failed = m.spurious && fits.screen.duplicateOf[k] < 0 && !pm?.converged;
       diagnostics.push({
-        code: 'other', severity: failed ? 'warning' : 'info',
+        code: 'other',
+        severity: failed ? 'warning' : 'info',
         message: `${m.spurious ? 'spurious ' : ''}${where}: not reported, ${screened}${failed ? ` (${pm?.reason ?? 'not attempted'})` : ''}`,
       });
       return { ...mode, perMode: pm, branch: initial.branches[k] };
     }
     if (joint && fits.jointFree.includes(k)) {
       const j = fits.jointIndex[k];
-      return { ...mode, perMode: pm, branch: { ...joint.model.branches[j] }, source: { method: 'joint-fit', fit: joint, uncertainty: joint.uncertainty.branches[j] } };
+      return {
+        ...mode,
+        perMode: pm,
+        branch: { ...joint.model.branches[j] },
+        source: { method: 'joint-fit', fit: joint, uncertainty: joint.uncertainty.branches[j] },
+      };
     }
     if (pm?.converged) {
-      return { ...mode, perMode: pm, branch: { ...pm.model.branches[k] }, source: { method: 'complex-fit', fit: pm, uncertainty: pm.uncertainty.branches[k] } };
+      return {
+        ...mode,
+        perMode: pm,
+        branch: { ...pm.model.branches[k] },
+        source: { method: 'complex-fit', fit: pm, uncertainty: pm.uncertainty.branches[k] },
+      };
     }
     const c = mode.peak.conductance;
     if (c?.uncertainty) {
-      diagnostics.push({ code: 'fit-failed', severity: 'warning', message: `${where}: least-squares fit failed (${pm?.reason ?? 'not attempted'}); values from the conductance peak` });
-      return { ...mode, perMode: pm, branch: { fsHz: c.fsHz, r1Ohm: c.r1Ohm, c1F: c.c1F }, source: { method: 'conductance-peak', uncertainty: c.uncertainty } };
+      diagnostics.push({
+        code: 'fit-failed',
+        severity: 'warning',
+        message: `${where}: least-squares fit failed (${pm?.reason ?? 'not attempted'}); values from the conductance peak`,
+      });
+      return {
+        ...mode,
+        perMode: pm,
+        branch: { fsHz: c.fsHz, r1Ohm: c.r1Ohm, c1F: c.c1F },
+        source: { method: 'conductance-peak', uncertainty: c.uncertainty },
+      };
     }
-    const why = [pm ? `fit: ${pm.reason}` : 'fit not attempted', `conductance peak: ${m.best.resonance.conductance.reason}`].join('; ');
-    diagnostics.push({ code: 'fit-failed', severity: 'error', message: `${where}: dropped, no usable estimate (${why})` });
+    const why = [
+      pm ? `fit: ${pm.reason}` : 'fit not attempted',
+      `conductance peak: ${m.best.resonance.conductance.reason}`,
+    ].join('; ');
+    diagnostics.push({
+      code: 'fit-failed',
+      severity: 'error',
+      message: `${where}: dropped, no usable estimate (${why})`,
+    });
     return { ...mode, perMode: pm, branch: initial.branches[k] };
   });
 }
@@ -73,7 +105,11 @@ export function reportedModes(chosen: ChosenMode[], diagnostics: Diagnostic[]): 
     const why = spuriousRejection(mode.branch.r1Ohm, main?.r1Ohm, src.method !== 'conductance-peak');
     if (why === undefined) continue;
     mode.source = undefined;
-    diagnostics.push({ code: 'other', severity: src.method === 'conductance-peak' ? 'warning' : 'info', message: `spurious mode near ${formatFrequency(m.fsHz, 8)}: not reported, ${why}` });
+    diagnostics.push({
+      code: 'other',
+      severity: src.method === 'conductance-peak' ? 'warning' : 'info',
+      message: `spurious mode near ${formatFrequency(m.fsHz, 8)}: not reported, ${why}`,
+    });
   }
   const kept = chosen.filter((m) => m.source !== undefined);
   kept.forEach((mode, kk) => {

@@ -28,7 +28,12 @@ export const SAME_MODE_RELATIVE = 2e-3;
  * @param found resonances per sweep index
  * @param k index of the main mode in `model`
  */
-export function mainModeAtConditions(sweeps: PreparedSweep[], found: Map<number, Resonance[]>, model: BvdModel, k: number): ConditionPoint[] {
+export function mainModeAtConditions(
+  sweeps: PreparedSweep[],
+  found: Map<number, Resonance[]>,
+  model: BvdModel,
+  k: number,
+): ConditionPoint[] {
   const out: ConditionPoint[] = [];
   const ref = model.branches[k];
   for (const s of sweeps) {
@@ -40,9 +45,24 @@ export function mainModeAtConditions(sweeps: PreparedSweep[], found: Map<number,
     const start: BvdModel = { ...model, branches: model.branches.map((b) => ({ ...b })) };
     start.branches[k] = { fsHz: res.fsHz, r1Ohm: res.r1Ohm, c1F: ref.c1F };
     const obs = { sweepIndex: s.index, source: s.source, resonance: res, loaded: false };
-    const cand: ModeCandidate = { fsHz: res.fsHz, r1Ohm: res.r1Ohm, bandwidthHz: res.bandwidthHz, observations: [obs], best: obs, overtone: 1, spurious: false };
+    const cand: ModeCandidate = {
+      fsHz: res.fsHz,
+      r1Ohm: res.r1Ohm,
+      bandwidthHz: res.bandwidthHz,
+      observations: [obs],
+      best: obs,
+      overtone: 1,
+      spurious: false,
+    };
     const fit = fitModeWindow(cand, k, start, [s]);
-    const point: ConditionPoint = { sweep: s.source, temperatureC: s.temperatureC, driveW: s.driveW, fsHz: res.fsHz, r1Ohm: res.r1Ohm, pointsPerBandwidth: res.pointsPerBandwidth };
+    const point: ConditionPoint = {
+      sweep: s.source,
+      temperatureC: s.temperatureC,
+      driveW: s.driveW,
+      fsHz: res.fsHz,
+      r1Ohm: res.r1Ohm,
+      pointsPerBandwidth: res.pointsPerBandwidth,
+    };
     if (fit?.converged) {
       point.fsHz = fit.model.branches[k].fsHz;
       point.r1Ohm = fit.model.branches[k].r1Ohm;

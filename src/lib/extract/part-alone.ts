@@ -31,7 +31,11 @@ export type AddedConnection = 'parallel' | 'series';
  * @param addedCapacitanceF known added capacitor, F (absent or 0: nothing removed)
  * @param addedConnection how it was connected; default `parallel`
  */
-export function partAlone(sweep: ImpedanceSweep, addedCapacitanceF?: number, addedConnection: AddedConnection = 'parallel'): AdmittanceSweep {
+export function partAlone(
+  sweep: ImpedanceSweep,
+  addedCapacitanceF?: number,
+  addedConnection: AddedConnection = 'parallel',
+): AdmittanceSweep {
   const n = sweep.freqHz.length;
   const zRe = new Float64Array(n);
   const zIm = new Float64Array(n);

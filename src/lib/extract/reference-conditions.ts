@@ -97,11 +97,20 @@ export function referenceConditions(sweeps: PreparedSweep[], sampleTemperatureC?
   // carry the sample's temperature, so it wins whenever such a sweep exists.
   const target = sampleTemperatureC ?? 25;
   const temps = sweeps.map((s) => s.temperatureC).filter((t): t is number => t !== undefined);
-  const temperatureC = temps.length ? temps.reduce((a, b) => (Math.abs(b - target) < Math.abs(a - target) ? b : a)) : sampleTemperatureC;
-  const atTemp = (s: PreparedSweep) => temperatureC === undefined || s.temperatureC === undefined || Math.abs(s.temperatureC - temperatureC) < SAME_TEMPERATURE_C;
-  const drives = sweeps.filter(atTemp).map((s) => s.driveW).filter((d): d is number => d !== undefined);
+  const temperatureC = temps.length
+    ? temps.reduce((a, b) => (Math.abs(b - target) < Math.abs(a - target) ? b : a))
+    : sampleTemperatureC;
+  const atTemp = (s: PreparedSweep) =>
+    temperatureC === undefined ||
+    s.temperatureC === undefined ||
+    Math.abs(s.temperatureC - temperatureC) < SAME_TEMPERATURE_C;
+  const drives = sweeps
+    .filter(atTemp)
+    .map((s) => s.driveW)
+    .filter((d): d is number => d !== undefined);
   const driveW = drives.length ? Math.min(...drives) : undefined;
-  const atDrive = (s: PreparedSweep) => driveW === undefined || s.driveW === undefined || Math.abs(s.driveW / driveW - 1) < SAME_DRIVE;
+  const atDrive = (s: PreparedSweep) =>
+    driveW === undefined || s.driveW === undefined || Math.abs(s.driveW / driveW - 1) < SAME_DRIVE;
   const reference: PreparedSweep[] = [];
   const others: PreparedSweep[] = [];
   for (const s of sweeps) (atTemp(s) && atDrive(s) ? reference : others).push(s);

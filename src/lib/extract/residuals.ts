@@ -165,8 +165,8 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
   const ymIm = new Float64Array(np);
   const offset = new Float64Array(nb * np); // f − fk0 per free branch, exact
   const isFree = initial.branches.map((_, k) => free.freeBranches.includes(k));
-  const rsFixed = map.rs >= 0 ? 0 : initial.rsOhm ?? 0;
-  const lsFixed = map.ls >= 0 ? 0 : initial.lsH ?? 0;
+  const rsFixed = map.rs >= 0 ? 0 : (initial.rsOhm ?? 0);
+  const lsFixed = map.ls >= 0 ? 0 : (initial.lsH ?? 0);
   const c0Fixed = map.c0 >= 0 ? 0 : initial.c0F;
   const rsStart = initial.rsOhm ?? 0;
   const lsStart = initial.lsH ?? 0;
@@ -331,10 +331,13 @@ export function createBvdResiduals(points: BvdFitPoints, initial: BvdModel, free
     for (const e of map.branches) {
       const fs = e.fs0Hz + e.fs0Hz * PPM * x[e.fsOffset];
       if (!(fs >= fsMin && fs <= fsMax)) return `branches[${e.branch}] fs ${fs} Hz left the measured span`;
-      if (!(Math.abs(x[e.lnR1] - x0[e.lnR1]) <= lnLimit)) return `branches[${e.branch}] r1 moved by more than a factor ${TRIAL_FACTOR_LIMIT}`;
-      if (!(Math.abs(x[e.lnC1] - x0[e.lnC1]) <= lnLimit)) return `branches[${e.branch}] c1 moved by more than a factor ${TRIAL_FACTOR_LIMIT}`;
+      if (!(Math.abs(x[e.lnR1] - x0[e.lnR1]) <= lnLimit))
+        return `branches[${e.branch}] r1 moved by more than a factor ${TRIAL_FACTOR_LIMIT}`;
+      if (!(Math.abs(x[e.lnC1] - x0[e.lnC1]) <= lnLimit))
+        return `branches[${e.branch}] c1 moved by more than a factor ${TRIAL_FACTOR_LIMIT}`;
     }
-    if (map.c0 >= 0 && !(Math.abs(x[map.c0] - x0[map.c0]) <= lnLimit)) return `c0 moved by more than a factor ${TRIAL_FACTOR_LIMIT}`;
+    if (map.c0 >= 0 && !(Math.abs(x[map.c0] - x0[map.c0]) <= lnLimit))
+      return `c0 moved by more than a factor ${TRIAL_FACTOR_LIMIT}`;
     return null;
   };
 

@@ -18,13 +18,32 @@ export interface SampleFits extends ModeFits {
 }
 
 /** Fit every mode and all of them jointly; the candidates' roles follow the screening. */
-export function fitSample(modes: SampleMode[], initial: BvdModel, reference: PreparedSweep[], trustedMaxHz: number | undefined, diagnostics: Diagnostic[], timing?: TimingCollector): SampleFits {
+export function fitSample(
+  modes: SampleMode[],
+  initial: BvdModel,
+  reference: PreparedSweep[],
+  trustedMaxHz: number | undefined,
+  diagnostics: Diagnostic[],
+  timing?: TimingCollector,
+): SampleFits {
   const candidates = modes.map((m) => m.candidate);
   const quickOk = modes.map((m) => m.peak.conductance?.uncertainty !== undefined);
-  const fits = fitModes(candidates, initial, reference, quickOk, modes.map((m) => m.flagged), trustedMaxHz, timing);
+  const fits = fitModes(
+    candidates,
+    initial,
+    reference,
+    quickOk,
+    modes.map((m) => m.flagged),
+    trustedMaxHz,
+    timing,
+  );
   const converged = fits.joint?.converged ? fits.joint : undefined;
   if (fits.joint && !converged) {
-    diagnostics.push({ code: 'fit-failed', severity: 'warning', message: `joint fit over all sweeps failed (${fits.joint.reason}); values from the per-mode fits` });
+    diagnostics.push({
+      code: 'fit-failed',
+      severity: 'warning',
+      message: `joint fit over all sweeps failed (${fits.joint.reason}); values from the per-mode fits`,
+    });
   }
   handOverDuplicates(modes, fits.screen.duplicateOf);
   return { ...fits, converged };

@@ -20,15 +20,33 @@ export function findSweepResonances(prepared: PreparedSweep[], diagnostics: Diag
     // edge by design, and a series capacitor taken out of Z leaves noise not proportional to |Y|.
     const r = findResonances(s.part, { shapeCheck: !(s.loaded && s.connection === 'series') });
     found.set(s.index, r.resonances);
-    diagnostics.push(...r.diagnostics.filter((d) => !(s.loaded && (d.code === 'resonance-at-edge' || d.code === 'no-resonance'))));
+    diagnostics.push(
+      ...r.diagnostics.filter((d) => !(s.loaded && (d.code === 'resonance-at-edge' || d.code === 'no-resonance'))),
+    );
   }
   return found;
 }
 
 /** The modes seen in the reference sweeps, labelled fundamental / overtone / spurious. */
-export function classifyReferenceModes(part: Part, split: ReferenceSplit, found: ResonancesBySweep, diagnostics: Diagnostic[]): ModeCandidate[] {
-  const observations: Observation[] = split.reference.flatMap((s) => (found.get(s.index) ?? []).map((resonance) => ({ sweepIndex: s.index, source: s.source, resonance, loaded: s.loaded })));
-  const classified = classifyModes(observations, { kind: part.kind, datasheetFrequencyHz: part.datasheet?.frequencyHz, datasheetOvertone: part.datasheet?.overtone });
+export function classifyReferenceModes(
+  part: Part,
+  split: ReferenceSplit,
+  found: ResonancesBySweep,
+  diagnostics: Diagnostic[],
+): ModeCandidate[] {
+  const observations: Observation[] = split.reference.flatMap((s) =>
+    (found.get(s.index) ?? []).map((resonance) => ({
+      sweepIndex: s.index,
+      source: s.source,
+      resonance,
+      loaded: s.loaded,
+    })),
+  );
+  const classified = classifyModes(observations, {
+    kind: part.kind,
+    datasheetFrequencyHz: part.datasheet?.frequencyHz,
+    datasheetOvertone: part.datasheet?.overtone,
+  });
   diagnostics.push(...classified.diagnostics);
   return classified.modes;
 }

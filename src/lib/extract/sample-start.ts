@@ -31,12 +31,23 @@ export function quickMethods(candidates: ModeCandidate[], reference: PreparedSwe
 }
 
 /** C0 from the capacitive region of the reference sweeps, with the modes as hints. */
-export function capacitiveRegionC0(reference: PreparedSweep[], peaks: PeakMethods[], trustedMaxHz: number | undefined, diagnostics: Diagnostic[]): C0Estimate {
+export function capacitiveRegionC0(
+  reference: PreparedSweep[],
+  peaks: PeakMethods[],
+  trustedMaxHz: number | undefined,
+  diagnostics: Diagnostic[],
+): C0Estimate {
   const c0Est = estimateC0(
     reference.map((s) => ({ ...s.part, maxTrustedHz: trustedMaxHz })),
-    peaks.map((p) => ({ fsHz: p.branch.fsHz, q: 1 / (2 * Math.PI * p.branch.fsHz * p.branch.r1Ohm * p.branch.c1F), c1F: p.branch.c1F, r1Ohm: p.branch.r1Ohm })),
+    peaks.map((p) => ({
+      fsHz: p.branch.fsHz,
+      q: 1 / (2 * Math.PI * p.branch.fsHz * p.branch.r1Ohm * p.branch.c1F),
+      c1F: p.branch.c1F,
+      r1Ohm: p.branch.r1Ohm,
+    })),
   );
-  if (!c0Est.ok) diagnostics.push({ code: 'other', severity: 'info', message: `capacitive-region C0: ${c0Est.reason}` });
+  if (!c0Est.ok)
+    diagnostics.push({ code: 'other', severity: 'info', message: `capacitive-region C0: ${c0Est.reason}` });
   return c0Est;
 }
 
@@ -53,7 +64,13 @@ export interface C0Start {
  * resonance less the other branches.
  * @returns undefined when the record's added capacitor is larger than all the shunt capacitance seen (an error is in `diagnostics`)
  */
-export function startC0(candidates: ModeCandidate[], peaks: PeakMethods[], c0Est: C0Estimate, reference: PreparedSweep[], diagnostics: Diagnostic[]): C0Start | undefined {
+export function startC0(
+  candidates: ModeCandidate[],
+  peaks: PeakMethods[],
+  c0Est: C0Estimate,
+  reference: PreparedSweep[],
+  diagnostics: Diagnostic[],
+): C0Start | undefined {
   let c0F = c0Est.ok ? c0Est.c0F : 0;
   if (c0F > 0) return { c0F };
   // Circle centre: at fs the branch adds no susceptance, so B(fs) = ωC0 + other branches.
@@ -69,7 +86,9 @@ export function startC0(candidates: ModeCandidate[], peaks: PeakMethods[], c0Est
   const loaded = c0Est.nonPhysicalC0F !== undefined ? reference.find((x) => x.loaded) : s.loaded ? s : undefined;
   if (loaded && negativeC0F !== undefined && negativeC0F < 0) {
     diagnostics.push({
-      code: 'other', severity: 'error', sweep: loaded.source,
+      code: 'other',
+      severity: 'error',
+      sweep: loaded.source,
       message: `C0 of the part alone would be ${picofarads(negativeC0F)} pF after removing addedCapacitance ${picofarads(loaded.addedCF!)} pF of sweep ${loaded.source}; check addedCapacitance and addedConnection`,
     });
     return undefined;

@@ -62,7 +62,8 @@ export function spuriousRejection(rOhm: number, mainROhm: number | undefined, fi
   if (!(Number.isFinite(rOhm) && rOhm > 0)) return `its fitted r1 ${rOhm} Ω is not a finite positive value`;
   if (mainROhm === undefined || !(mainROhm > 0)) return undefined;
   const db = spuriousStrengthDb(rOhm, mainROhm);
-  if (db > MAX_SPURIOUS_DB) return `${db.toFixed(1)} dB below the main mode (r1 ${rOhm.toPrecision(3)} Ω against ${mainROhm.toPrecision(3)} Ω; reported down to ${MAX_SPURIOUS_DB} dB)`;
+  if (db > MAX_SPURIOUS_DB)
+    return `${db.toFixed(1)} dB below the main mode (r1 ${rOhm.toPrecision(3)} Ω against ${mainROhm.toPrecision(3)} Ω; reported down to ${MAX_SPURIOUS_DB} dB)`;
   return undefined;
 }
 
@@ -75,7 +76,10 @@ export function screenModes(modes: ModeCandidate[], estimates: Array<ModeEstimat
   const duplicateOf = new Array<number>(n).fill(-1);
   const dropped = new Array<string | undefined>(n).fill(undefined);
   const excluded = new Array<boolean>(n).fill(false);
-  const order = modes.map((_, k) => k).filter((k) => estimates[k] !== undefined).sort((a, b) => estimates[a]!.fsHz - estimates[b]!.fsHz);
+  const order = modes
+    .map((_, k) => k)
+    .filter((k) => estimates[k] !== undefined)
+    .sort((a, b) => estimates[a]!.fsHz - estimates[b]!.fsHz);
   // Strongest first, so a chain of near-equal frequencies collapses onto one survivor.
   const byStrength = [...order].sort((a, b) => estimates[a]!.r1Ohm - estimates[b]!.r1Ohm);
   for (const k of byStrength) {

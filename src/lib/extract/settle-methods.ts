@@ -38,7 +38,12 @@ export interface SettledQuantity {
  * @param credibility why a method does not apply here
  * @param likelyCause text for a disagreement
  */
-export function settleQuantity(quantity: CrossCheck['quantity'], values: MethodValue[], credibility: Credibility, likelyCause: string): SettledQuantity | undefined {
+export function settleQuantity(
+  quantity: CrossCheck['quantity'],
+  values: MethodValue[],
+  credibility: Credibility,
+  likelyCause: string,
+): SettledQuantity | undefined {
   if (values.length === 0) return undefined;
   const marked = values.map((v) => {
     const why = credibility(v.method);

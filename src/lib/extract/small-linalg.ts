@@ -42,9 +42,11 @@ export function invertSmall(a: number[][]): number[][] | undefined {
  * Returns β, its covariance scaled by the residual variance (n − p degrees of freedom;
  * unscaled when n = p), the residual RMS (weighted) and the degrees of freedom.
  */
-export function linearLeastSquares(rows: number[][], y: number[], w?: number[]):
-  | { beta: number[]; covariance: number[][]; rms: number; dof: number }
-  | undefined {
+export function linearLeastSquares(
+  rows: number[][],
+  y: number[],
+  w?: number[],
+): { beta: number[]; covariance: number[][]; rms: number; dof: number } | undefined {
   const n = rows.length;
   if (n === 0) return undefined;
   const p = rows[0].length;
@@ -77,6 +79,7 @@ export function linearLeastSquares(rows: number[][], y: number[], w?: number[]):
 /** Standard uncertainty of f(β) by first-order propagation: √(gᵀ·Cov·g). */
 export function propagate(gradient: number[], covariance: number[][]): number {
   let s = 0;
-  for (let i = 0; i < gradient.length; i++) for (let j = 0; j < gradient.length; j++) s += gradient[i] * covariance[i][j] * gradient[j];
+  for (let i = 0; i < gradient.length; i++)
+    for (let j = 0; j < gradient.length; j++) s += gradient[i] * covariance[i][j] * gradient[j];
   return Math.sqrt(Math.max(0, s));
 }

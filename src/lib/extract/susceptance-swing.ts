@@ -32,7 +32,15 @@ const MAX_SIDE_POINTS = 400;
  * @param stepHz local frequency step, Hz
  * @returns undefined with fewer than 5 points in the window or a singular fit
  */
-export function susceptanceSwing(freqHz: ArrayLike<number>, bS: ArrayLike<number>, peakIndex: number, fsHz: number, r1Ohm: number, bandwidthHz: number, stepHz: number): SusceptanceSwing | undefined {
+export function susceptanceSwing(
+  freqHz: ArrayLike<number>,
+  bS: ArrayLike<number>,
+  peakIndex: number,
+  fsHz: number,
+  r1Ohm: number,
+  bandwidthHz: number,
+  stepHz: number,
+): SusceptanceSwing | undefined {
   const n = freqHz.length;
   const half = Math.max(3 * bandwidthHz, 3.5 * stepHz);
   if (!(half > 0) || !(r1Ohm > 0) || !(bandwidthHz > 0)) return undefined;
@@ -44,7 +52,11 @@ export function susceptanceSwing(freqHz: ArrayLike<number>, bS: ArrayLike<number
   if (m < 5) return undefined;
   const g0 = 1 / r1Ohm;
   // Normal equations of B/G0 ≈ a + c·x + γ·p, x = (f − fs)/half, p = Bm/G0.
-  const ata = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+  const ata = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
   const aty = [0, 0, 0];
   const shape = (f: number): number => {
     const u = (f - (fsHz * fsHz) / f) / bandwidthHz;

@@ -55,7 +55,13 @@ export function select(a: Float64Array, k: number): number {
     while (i <= j) {
       while (a[i] < pivot) i++;
       while (a[j] > pivot) j--;
-      if (i <= j) { const t = a[i]; a[i] = a[j]; a[j] = t; i++; j--; }
+      if (i <= j) {
+        const t = a[i];
+        a[i] = a[j];
+        a[j] = t;
+        i++;
+        j--;
+      }
     }
     if (k <= j) hi = j;
     else if (k >= i) lo = i;
@@ -86,7 +92,8 @@ export function sweepNoise(g: Float64Array, b: Float64Array, yAbs: Float64Array)
     rel[i] = Math.min(d2g, d2b) / yAbs[i];
     absG[i] = d2g;
   }
-  const relative = n < 5 ? NOISE_FLOOR : Math.max(NOISE_FLOOR, median(rel.subarray(1, n - 1)) / MEDIAN_MIN_ABS_NORMAL / SQRT6);
+  const relative =
+    n < 5 ? NOISE_FLOOR : Math.max(NOISE_FLOOR, median(rel.subarray(1, n - 1)) / MEDIAN_MIN_ABS_NORMAL / SQRT6);
   // Windows are shared by blocks of LOCAL_NOISE_BLOCK points (each block's window reaches
   // LOCAL_NOISE_HALF_WIDTH beyond it) and computed when first asked for.
   const blocks = Math.ceil(n / LOCAL_NOISE_BLOCK);

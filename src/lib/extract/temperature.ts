@@ -29,7 +29,10 @@ export function relativeOffsetAt(fit: Pick<TemperatureFit, 't0C' | 'coeffs'>, te
   const t = temperatureC - fit.t0C;
   let s = 0;
   let p = 1;
-  for (const c of fit.coeffs) { p *= t; s += c * p; }
+  for (const c of fit.coeffs) {
+    p *= t;
+    s += c * p;
+  }
   return s;
 }
 
@@ -64,10 +67,19 @@ export type TemperatureFitOutcome = { ok: true; fit: TemperatureFit; note?: stri
  * Fit fs against temperature for the part kind (see module doc).
  * @param operatingRange datasheet range for the span, °C; default the measured range
  */
-export function fitTemperature(points: TemperaturePoint[], kind: PartKind, operatingRange?: { min: number; max: number }): TemperatureFitOutcome {
+export function fitTemperature(
+  points: TemperaturePoint[],
+  kind: PartKind,
+  operatingRange?: { min: number; max: number },
+): TemperatureFitOutcome {
   const temps = [...new Set(points.map((p) => p.temperatureC))];
-  if (temps.length < 3) return { ok: false, reason: `fs known at ${temps.length} temperature${temps.length === 1 ? '' : 's'}; a temperature fit needs at least 3` };
-  let form: TemperatureFit['form'] = kind === 'quartz-at' ? 'cubic' : kind === 'quartz-tuning-fork' ? 'parabola' : 'quadratic';
+  if (temps.length < 3)
+    return {
+      ok: false,
+      reason: `fs known at ${temps.length} temperature${temps.length === 1 ? '' : 's'}; a temperature fit needs at least 3`,
+    };
+  let form: TemperatureFit['form'] =
+    kind === 'quartz-at' ? 'cubic' : kind === 'quartz-tuning-fork' ? 'parabola' : 'quadratic';
   let note: string | undefined;
   if (form === 'cubic' && temps.length < 4) {
     form = 'quadratic';
@@ -91,22 +103,48 @@ export function fitTemperature(points: TemperaturePoint[], kind: PartKind, opera
     const tv = -b[1] / (2 * b[2]);
     const yv = b[0] + b[1] * tv + b[2] * tv * tv;
     const f0 = fRef * (1 + yv);
-    fit = { form, t0C: t0 + tv, f0Hz: f0, coeffs: [0, b[2] / (1 + yv)], turnoverC: [t0 + tv], spanPpm: 0, spanRangeC: { min: 0, max: 0 }, points: [], rmsResidualPpm: 0 };
+    fit = {
+      form,
+      t0C: t0 + tv,
+      f0Hz: f0,
+      coeffs: [0, b[2] / (1 + yv)],
+      turnoverC: [t0 + tv],
+      spanPpm: 0,
+      spanRangeC: { min: 0, max: 0 },
+      points: [],
+      rmsResidualPpm: 0,
+    };
   } else {
     const f0 = fRef * (1 + b[0]);
     const coeffs = b.slice(1).map((v) => v / (1 + b[0]));
-    fit = { form, t0C: t0, f0Hz: f0, coeffs, turnoverC: [], spanPpm: 0, spanRangeC: { min: 0, max: 0 }, points: [], rmsResidualPpm: 0 };
+    fit = {
+      form,
+      t0C: t0,
+      f0Hz: f0,
+      coeffs,
+      turnoverC: [],
+      spanPpm: 0,
+      spanRangeC: { min: 0, max: 0 },
+      points: [],
+      rmsResidualPpm: 0,
+    };
   }
   const tMin = Math.min(...temps);
   const tMax = Math.max(...temps);
   const range = operatingRange ?? { min: tMin, max: tMax };
   if (form !== 'parabola') {
     const margin = Math.max(30, range.max - range.min);
-    fit.turnoverC = turningPointsOf(fit).filter((t) => t >= Math.min(range.min, tMin) - margin && t <= Math.max(range.max, tMax) + margin);
+    fit.turnoverC = turningPointsOf(fit).filter(
+      (t) => t >= Math.min(range.min, tMin) - margin && t <= Math.max(range.max, tMax) + margin,
+    );
   }
   fit.spanRangeC = { min: range.min, max: range.max };
   fit.spanPpm = spanPpmOver(fit, range.min, range.max);
-  fit.points = points.map((p) => ({ temperatureC: p.temperatureC, fsHz: p.fsHz, offsetPpm: ((p.fsHz - fit.f0Hz) / fit.f0Hz) * 1e6 }));
+  fit.points = points.map((p) => ({
+    temperatureC: p.temperatureC,
+    fsHz: p.fsHz,
+    offsetPpm: ((p.fsHz - fit.f0Hz) / fit.f0Hz) * 1e6,
+  }));
   let ss = 0;
   for (const p of points) ss += ((p.fsHz - fit.f0Hz) / fit.f0Hz - relativeOffsetAt(fit, p.temperatureC)) ** 2;
   fit.rmsResidualPpm = Math.sqrt(ss / points.length) * 1e6;

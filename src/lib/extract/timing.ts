@@ -11,7 +11,12 @@ export interface TimingCollector {
 /** A collector that sums milliseconds per name. */
 export function createTiming(): TimingCollector & { totals: Record<string, number> } {
   const totals: Record<string, number> = {};
-  return { totals, add: (name, ms) => { totals[name] = (totals[name] ?? 0) + ms; } };
+  return {
+    totals,
+    add: (name, ms) => {
+      totals[name] = (totals[name] ?? 0) + ms;
+    },
+  };
 }
 
 /** Run `fn`, adding its wall time under `name` when a collector is given. */

@@ -7,15 +7,15 @@ import type { BvdModel } from '../models/bvd.ts';
 
 /** Independent estimation methods, each reported with its own value. */
 export type MethodName =
-  | 'complex-fit'        // full complex least squares on one sweep (Levenberg–Marquardt)
-  | 'joint-fit'          // one least-squares fit over all sweeps of the sample
-  | 'closed-form'        // from fs, fp (or fa) and C0
-  | 'half-power'         // ±45° / G = Gmax/2 bandwidth
-  | 'conductance-peak'   // fs at max G, R1 = 1/Gmax
-  | 'load-shift'         // one known added capacitor, C0 known
-  | 'two-load'           // two or more loads: C1 and C0 without an independent C0
-  | 'capacitive-region'  // C0 from Im Y/ω away from resonance
-  | 'zero-phase';        // fr / Rr at the lower zero-phase frequency
+  | 'complex-fit' // full complex least squares on one sweep (Levenberg–Marquardt)
+  | 'joint-fit' // one least-squares fit over all sweeps of the sample
+  | 'closed-form' // from fs, fp (or fa) and C0
+  | 'half-power' // ±45° / G = Gmax/2 bandwidth
+  | 'conductance-peak' // fs at max G, R1 = 1/Gmax
+  | 'load-shift' // one known added capacitor, C0 known
+  | 'two-load' // two or more loads: C1 and C0 without an independent C0
+  | 'capacitive-region' // C0 from Im Y/ω away from resonance
+  | 'zero-phase'; // fr / Rr at the lower zero-phase frequency
 
 /** One method's estimate of one quantity. */
 export interface MethodValue {

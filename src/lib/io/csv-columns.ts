@@ -22,7 +22,15 @@ const FREQ_UNITS: Record<string, number> = { hz: 0, khz: 3, mhz: 6, ghz: 9 };
 const OHM_WORDS = new Set(['ohm', 'ohms', 'Ω', 'Ω', 'ω']);
 const OHM_PREFIX: Record<string, number> = { k: 3, K: 3, M: 6, m: -3 };
 /** Phase units: true for radians. */
-const PHASE_UNITS: Record<string, boolean> = { deg: false, degree: false, degrees: false, '°': false, rad: true, radian: true, radians: true };
+const PHASE_UNITS: Record<string, boolean> = {
+  deg: false,
+  degree: false,
+  degrees: false,
+  '°': false,
+  rad: true,
+  radian: true,
+  radians: true,
+};
 
 const WORDS: Record<CsvColumnRole, Set<string>> = {
   frequency: new Set(['f', 'freq', 'frequency', 'frequencies', 'frequenz', 'fréquence', 'frecuencia']),
@@ -35,8 +43,43 @@ const WORDS: Record<CsvColumnRole, Set<string>> = {
 const IMPEDANCE_WORDS = new Set(['z', 'impedance', 'zs', 'imped']);
 /** Words of quantities that are not the impedance: a column naming one is never taken. */
 const OTHER_WORDS = new Set([
-  'y', '|y|', 'admittance', 'g', 'b', 'gp', 'bp', 'conductance', 'susceptance', 's11', 's21', 's12', 's22', 'db', 'log', 'vswr', 'swr',
-  'rp', 'xp', 'cs', 'cp', 'ls', 'lp', 'c', 'l', 'd', 'q', 'time', 't', 'index', 'point', 'points', 'no', 'n', 'number', 'sample', 'marker',
+  'y',
+  '|y|',
+  'admittance',
+  'g',
+  'b',
+  'gp',
+  'bp',
+  'conductance',
+  'susceptance',
+  's11',
+  's21',
+  's12',
+  's22',
+  'db',
+  'log',
+  'vswr',
+  'swr',
+  'rp',
+  'xp',
+  'cs',
+  'cp',
+  'ls',
+  'lp',
+  'c',
+  'l',
+  'd',
+  'q',
+  'time',
+  't',
+  'index',
+  'point',
+  'points',
+  'no',
+  'n',
+  'number',
+  'sample',
+  'marker',
 ]);
 /** Trace/channel prefixes and bare numbers: ignored. */
 const IGNORED_WORD = /^(?:trace|trc|tr|ch|chan|channel|mem|meas|data)?\d*$/;
@@ -69,15 +112,19 @@ export function splitUnit(text: string): { name: string; unit: string } {
     }
   }
   const slash = t.lastIndexOf('/');
-  if (slash > 0 && isKnownUnit(t.slice(slash + 1))) return { name: t.slice(0, slash).trim(), unit: t.slice(slash + 1).trim() };
+  if (slash > 0 && isKnownUnit(t.slice(slash + 1)))
+    return { name: t.slice(0, slash).trim(), unit: t.slice(slash + 1).trim() };
   const space = t.search(/\s\S+$/);
-  if (space > 0 && isKnownUnit(t.slice(space + 1))) return { name: t.slice(0, space).trim(), unit: t.slice(space + 1).trim() };
+  if (space > 0 && isKnownUnit(t.slice(space + 1)))
+    return { name: t.slice(0, space).trim(), unit: t.slice(space + 1).trim() };
   return { name: t, unit: '' };
 }
 
 /** The role a column name reads as: one role, several (ambiguous), or none. */
 export function rolesOfName(name: string): CsvColumnRole[] {
-  const tokens = (name.toLowerCase().match(/\|[^|]{0,8}\||[\p{L}\p{N}]+/gu) ?? []).map((t) => t.replace(/\s+/g, '')).filter((t) => !IGNORED_WORD.test(t));
+  const tokens = (name.toLowerCase().match(/\|[^|]{0,8}\||[\p{L}\p{N}]+/gu) ?? [])
+    .map((t) => t.replace(/\s+/g, ''))
+    .filter((t) => !IGNORED_WORD.test(t));
   if (tokens.some((t) => OTHER_WORDS.has(t))) return [];
   const roles = CSV_COLUMN_ROLES.filter((role) => tokens.some((t) => WORDS[role].has(t)));
   if (roles.length === 0 && tokens.some((t) => IMPEDANCE_WORDS.has(t))) return ['magnitude'];

@@ -19,7 +19,8 @@ export function detectDelimiter(line: string): Delimiter {
     else if (!quoted && (ch === '\t' || ch === ';' || ch === ',')) counts[ch]++;
   }
   let best: Delimiter = ',';
-  for (const d of ['\t', ';', ','] as Delimiter[]) if (counts[d] > counts[best] || (counts[d] === counts[best] && counts[d] > 0 && best === ',')) best = d;
+  for (const d of ['\t', ';', ','] as Delimiter[])
+    if (counts[d] > counts[best] || (counts[d] === counts[best] && counts[d] > 0 && best === ',')) best = d;
   return best;
 }
 

@@ -9,7 +9,15 @@
  * of impedance columns is taken, else the first that gives the frequency, else the first. A record
  * may fix the line (`headerLine:`) and say which column is which (`columns:`).
  */
-import { CSV_COLUMN_ROLES, isKnownUnit, ROLE_TEXT, rolesOfName, splitUnit, unitShift, type CsvColumnRole } from './csv-columns.ts';
+import {
+  CSV_COLUMN_ROLES,
+  isKnownUnit,
+  ROLE_TEXT,
+  rolesOfName,
+  splitUnit,
+  unitShift,
+  type CsvColumnRole,
+} from './csv-columns.ts';
 import { detectDelimiter, looksNumeric, splitFields, type Delimiter } from './csv-fields.ts';
 import { quoteToken } from './limits.ts';
 
@@ -69,7 +77,11 @@ const norm = (s: string) => s.trim().toLowerCase().replace(/\s+/g, ' ');
 const EXAMPLE = 'e.g. frequency (Hz),r (ohm),x (ohm)';
 
 /** Which column is which, from the names, a units row and the record's map. */
-export function analyzeHeader(names: string[], units: string[] | undefined, map: CsvColumnMap | undefined): HeaderAnalysis {
+export function analyzeHeader(
+  names: string[],
+  units: string[] | undefined,
+  map: CsvColumnMap | undefined,
+): HeaderAnalysis {
   const problems: HeaderProblem[] = [];
   const chosen = new Map<CsvColumnRole, number>();
   const width = names.length;
@@ -83,7 +95,10 @@ export function analyzeHeader(names: string[], units: string[] | undefined, map:
       if (typeof ref === 'number') {
         index = ref - 1;
         if (!(Number.isInteger(ref) && ref >= 1 && ref <= width)) {
-          problems.push({ message: `columns.${role} in the record: column ${ref} does not exist; the header has ${width} columns`, code: 'csv-columns' });
+          problems.push({
+            message: `columns.${role} in the record: column ${ref} does not exist; the header has ${width} columns`,
+            code: 'csv-columns',
+          });
           continue;
         }
       } else {
@@ -91,13 +106,19 @@ export function analyzeHeader(names: string[], units: string[] | undefined, map:
         index = names.findIndex((n) => norm(n) === want);
         if (index < 0) index = names.findIndex((n) => norm(splitUnit(n).name) === want);
         if (index < 0) {
-          problems.push({ message: `columns.${role} in the record: no column named ${quoteToken(ref)} in the header; its columns are ${listNames(names)}`, code: 'csv-columns' });
+          problems.push({
+            message: `columns.${role} in the record: no column named ${quoteToken(ref)} in the header; its columns are ${listNames(names)}`,
+            code: 'csv-columns',
+          });
           continue;
         }
       }
       const other = byIndex.get(index);
       if (other) {
-        problems.push({ message: `columns.${other} and columns.${role} in the record name the same column ${quoteToken(names[index].trim())}`, code: 'csv-columns' });
+        problems.push({
+          message: `columns.${other} and columns.${role} in the record name the same column ${quoteToken(names[index].trim())}`,
+          code: 'csv-columns',
+        });
         continue;
       }
       byIndex.set(index, role);
@@ -123,7 +144,10 @@ export function analyzeHeader(names: string[], units: string[] | undefined, map:
   }
   const rx = chosen.has('resistance') && chosen.has('reactance');
   const mp = chosen.has('magnitude') && chosen.has('phase');
-  const needed = (role: CsvColumnRole) => role === 'frequency' || (!rx && !mp) || (rx ? role === 'resistance' || role === 'reactance' : role === 'magnitude' || role === 'phase');
+  const needed = (role: CsvColumnRole) =>
+    role === 'frequency' ||
+    (!rx && !mp) ||
+    (rx ? role === 'resistance' || role === 'reactance' : role === 'magnitude' || role === 'phase');
   for (const role of duplicated) {
     if (!needed(role)) continue;
     const [a, b] = byName.get(role)!.map((i) => names[i].trim());
@@ -136,12 +160,20 @@ export function analyzeHeader(names: string[], units: string[] | undefined, map:
   const hint = (role: CsvColumnRole) => {
     const amb = ambiguous.find((a) => a.roles.includes(role));
     const example = amb ? names[amb.index].trim() : unassigned[0]?.n;
-    const ambText = amb ? `; column ${quoteToken(names[amb.index].trim())} could be the ${amb.roles.map((r) => ROLE_TEXT[r]).join(' or the ')}` : '';
-    const value = example !== undefined && example !== '' && example.length <= 40 && !example.includes('"') ? `"${example}"` : 'COLUMN-NUMBER';
+    const ambText = amb
+      ? `; column ${quoteToken(names[amb.index].trim())} could be the ${amb.roles.map((r) => ROLE_TEXT[r]).join(' or the ')}`
+      : '';
+    const value =
+      example !== undefined && example !== '' && example.length <= 40 && !example.includes('"')
+        ? `"${example}"`
+        : 'COLUMN-NUMBER';
     return `${ambText}; if a column holds the ${ROLE_TEXT[role]}, say which in the record: columns: { ${role}: ${value} }`;
   };
   if (!chosen.has('frequency') && !duplicated.includes('frequency')) {
-    problems.push({ message: `no frequency column (f, freq or frequency) in the header ${quoteToken(names.join(','), 80)}${hint('frequency')}`, code: 'csv-header' });
+    problems.push({
+      message: `no frequency column (f, freq or frequency) in the header ${quoteToken(names.join(','), 80)}${hint('frequency')}`,
+      code: 'csv-header',
+    });
   }
   // Units: from the name, else from the units row.
   const cols = new Map<CsvColumnRole, ResolvedColumn>();
@@ -164,10 +196,19 @@ export function analyzeHeader(names: string[], units: string[] | undefined, map:
     cols.set(role, { index, text, unit, shift });
   }
   if (!rx && !mp && !unitProblem && !duplicated.some((r) => r !== 'frequency')) {
-    const have = (['resistance', 'reactance', 'magnitude', 'phase'] as CsvColumnRole[]).filter((r) => chosen.has(r)).map((r) => quoteToken(names[chosen.get(r)!].trim()));
+    const have = (['resistance', 'reactance', 'magnitude', 'phase'] as CsvColumnRole[])
+      .filter((r) => chosen.has(r))
+      .map((r) => quoteToken(names[chosen.get(r)!].trim()));
     const found = have.length ? `; found only ${have.join(', ')}` : '';
-    const missing: CsvColumnRole =
-      chosen.has('resistance') ? 'reactance' : chosen.has('reactance') ? 'resistance' : chosen.has('magnitude') ? 'phase' : chosen.has('phase') ? 'magnitude' : 'magnitude';
+    const missing: CsvColumnRole = chosen.has('resistance')
+      ? 'reactance'
+      : chosen.has('reactance')
+        ? 'resistance'
+        : chosen.has('magnitude')
+          ? 'phase'
+          : chosen.has('phase')
+            ? 'magnitude'
+            : 'magnitude';
     problems.push({
       message: `expected resistance and reactance columns (r, x) or magnitude and phase columns (|z|, phase)${found}${hint(missing)}`,
       code: 'csv-header',
@@ -177,7 +218,8 @@ export function analyzeHeader(names: string[], units: string[] | undefined, map:
     cols.delete('magnitude');
     cols.delete('phase');
   }
-  const score = problems.length === 0 && cols.has('frequency') ? 2 : cols.has('frequency') || chosen.has('frequency') ? 1 : 0;
+  const score =
+    problems.length === 0 && cols.has('frequency') ? 2 : cols.has('frequency') || chosen.has('frequency') ? 1 : 0;
   return { cols, problems, score };
 }
 
@@ -203,7 +245,8 @@ function countNumeric(fields: string[], delim: Delimiter): number {
 }
 
 /** Outcome of the header search: the header, or why none was found (located). */
-export type HeaderSearch = { ok: true; header: FoundHeader } | { ok: false; line?: number; message: string; code: string };
+export type HeaderSearch =
+  { ok: true; header: FoundHeader } | { ok: false; line?: number; message: string; code: string };
 
 /**
  * Find the header among the first lines that are neither blank nor comments.
@@ -215,20 +258,27 @@ export function findHeader(lines: TextLine[], layout: CsvLayout = {}): HeaderSea
   const limit = layout.headerLine !== undefined ? 1 : Math.min(lines.length, MAX_PREAMBLE_LINES + 1);
   const start = layout.headerLine !== undefined ? lines.findIndex((l) => l.no === layout.headerLine) : 0;
   if (layout.headerLine !== undefined && start < 0) {
-    return { ok: false, line: layout.headerLine, message: `headerLine ${layout.headerLine} in the record: that line is blank, a comment or past the end of the file`, code: 'csv-header' };
+    return {
+      ok: false,
+      line: layout.headerLine,
+      message: `headerLine ${layout.headerLine} in the record: that line is blank, a comment or past the end of the file`,
+      code: 'csv-header',
+    };
   }
   for (let k = start; k < start + limit && k < lines.length; k++) {
     const line = lines[k];
     const delim = detectDelimiter(line.text);
     const names = splitFields(line.text, delim);
     if (names === undefined) {
-      if (layout.headerLine !== undefined || k === 0) return { ok: false, line: line.no, message: 'header: unterminated quoted field', code: 'csv-header' };
+      if (layout.headerLine !== undefined || k === 0)
+        return { ok: false, line: line.no, message: 'header: unterminated quoted field', code: 'csv-header' };
       if (candidates.length > 0) break;
       continue;
     }
     const numeric = countNumeric(names, delim);
     const firstField = names.find((n) => n.trim() !== '');
-    const isData = numeric === names.length || (numeric >= 2 && firstField !== undefined && looksNumeric(firstField, delim));
+    const isData =
+      numeric === names.length || (numeric >= 2 && firstField !== undefined && looksNumeric(firstField, delim));
     if (isData) {
       // A data row: the header came before it, unless the candidates so far name no frequency
       // (a block of settings such as `Start,Stop,Points` over a row of numbers).
@@ -243,7 +293,12 @@ export function findHeader(lines: TextLine[], layout: CsvLayout = {}): HeaderSea
     }
     if (names.length < 2) {
       if (layout.headerLine !== undefined) {
-        return { ok: false, line: line.no, message: `header has a single column ${quoteToken(line.text)}; expected columns separated by ',', ';' or tab`, code: 'csv-header' };
+        return {
+          ok: false,
+          line: line.no,
+          message: `header has a single column ${quoteToken(line.text)}; expected columns separated by ',', ';' or tab`,
+          code: 'csv-header',
+        };
       }
       continue;
     }
@@ -271,10 +326,20 @@ export function findHeader(lines: TextLine[], layout: CsvLayout = {}): HeaderSea
     const best = candidates.reduce((a, b) => (b.analysis.score > a.analysis.score ? b : a));
     return { ok: true, header: best };
   }
-  if (lines.length === 0) return { ok: false, message: `no header row (expected a line naming the columns, ${EXAMPLE})`, code: 'empty' };
+  if (lines.length === 0)
+    return { ok: false, message: `no header row (expected a line naming the columns, ${EXAMPLE})`, code: 'empty' };
   const first = lines[0];
-  if (lines.slice(0, MAX_PREAMBLE_LINES + 1).every((l) => (splitFields(l.text, detectDelimiter(l.text)) ?? ['', '']).length < 2)) {
-    return { ok: false, line: first.no, message: `header has a single column ${quoteToken(first.text)}; expected columns separated by ',', ';' or tab`, code: 'csv-header' };
+  if (
+    lines
+      .slice(0, MAX_PREAMBLE_LINES + 1)
+      .every((l) => (splitFields(l.text, detectDelimiter(l.text)) ?? ['', '']).length < 2)
+  ) {
+    return {
+      ok: false,
+      line: first.no,
+      message: `header has a single column ${quoteToken(first.text)}; expected columns separated by ',', ';' or tab`,
+      code: 'csv-header',
+    };
   }
   return {
     ok: false,

@@ -53,7 +53,11 @@ export const MAX_ISSUES_PER_FILE = 100;
  */
 export function checkSweepText(text: string, source: string, limits: SweepLimits): Issue[] {
   if (text.length > limits.maxBytes) {
-    return [errorAt(source, undefined, `file is ${text.length} bytes, over the limit of ${limits.maxBytes} bytes`, { code: 'size' })];
+    return [
+      errorAt(source, undefined, `file is ${text.length} bytes, over the limit of ${limits.maxBytes} bytes`, {
+        code: 'size',
+      }),
+    ];
   }
   const nul = text.indexOf('\u0000');
   if (nul >= 0) return [binaryIssue(text, source, nul)];
@@ -69,7 +73,9 @@ export function checkSweepText(text: string, source: string, limits: SweepLimits
 
 function binaryIssue(text: string, source: string, at: number): Issue {
   const code = text.charCodeAt(at).toString(16).padStart(4, '0');
-  return errorAt(source, lineOfIndex(text, at), `binary data (character U+${code}), expected a text file`, { code: 'binary' });
+  return errorAt(source, lineOfIndex(text, at), `binary data (character U+${code}), expected a text file`, {
+    code: 'binary',
+  });
 }
 
 /** 1-based line number of a character index. */

@@ -72,7 +72,21 @@ export function formatFieldPath(path: FieldPath): string {
 }
 
 /** Keys whose values are text even when they look like numbers or booleans. */
-const TEXT_KEYS = new Set(['id', 'title', 'package', 'supplier', 'supplierPart', 'notes', 'lot', 'by', 'instrument', 'file', 'open', 'short', 'load']);
+const TEXT_KEYS = new Set([
+  'id',
+  'title',
+  'package',
+  'supplier',
+  'supplierPart',
+  'notes',
+  'lot',
+  'by',
+  'instrument',
+  'file',
+  'open',
+  'short',
+  'load',
+]);
 
 /**
  * Parse and validate a part record.
@@ -87,7 +101,12 @@ export function parsePartYaml(text: string, file: string, opts: PartYamlOptions 
   const nowhere: PartYamlResult['locate'] = () => ({});
   const fail = (issues: Issue[]): PartYamlResult => ({ issues, locate: nowhere });
 
-  if (text.length > maxBytes) return fail([errorAt(file, undefined, `file is ${text.length} bytes, over the limit of ${maxBytes} bytes for a part record`, { code: 'size' })]);
+  if (text.length > maxBytes)
+    return fail([
+      errorAt(file, undefined, `file is ${text.length} bytes, over the limit of ${maxBytes} bytes for a part record`, {
+        code: 'size',
+      }),
+    ]);
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   const pre = checkText(body, file, { maxLineChars, maxDepth, maxLines });
   if (pre.length > 0) return fail(pre);
@@ -98,29 +117,66 @@ export function parsePartYaml(text: string, file: string, opts: PartYamlOptions 
   const locate = (path: FieldPath) => at(findOffset(doc, path));
   const issues: Issue[] = [];
   for (const e of doc.errors) {
-    const message = /call stack/i.test(e.message) ? `nesting deeper than ${maxDepth} levels` : `yaml syntax: ${yamlMessage(e.message)}`;
+    const message = /call stack/i.test(e.message)
+      ? `nesting deeper than ${maxDepth} levels`
+      : `yaml syntax: ${yamlMessage(e.message)}`;
     issues.push({ severity: 'error', file, ...at(e.pos[0]), message, code: 'yaml' });
   }
   for (const w of doc.warnings) {
-    issues.push({ severity: 'warning', file, ...at(w.pos[0]), message: `yaml: ${yamlMessage(w.message)}`, code: 'yaml' });
+    issues.push({
+      severity: 'warning',
+      file,
+      ...at(w.pos[0]),
+      message: `yaml: ${yamlMessage(w.message)}`,
+      code: 'yaml',
+    });
   }
   if (issues.some((i) => i.severity === 'error')) return { issues: capIssues(issues, file), locate };
 
   if (doc.contents === null || (isScalar(doc.contents) && doc.contents.value === null && !doc.contents.source)) {
-    return fail([errorAt(file, undefined, 'empty file, expected a part record (id, title, kind, samples)', { code: 'empty' })]);
+    return fail([
+      errorAt(file, undefined, 'empty file, expected a part record (id, title, kind, samples)', { code: 'empty' }),
+    ]);
   }
   if (!isMap(doc.contents)) {
-    const got = isSeq(doc.contents) ? 'a list' : isScalar(doc.contents) ? `${describeValue(doc.contents.value)}` : 'something else';
-    issues.push(errorAt(file, at(doc.contents?.range?.[0]).line, `expected a mapping of fields (id, title, kind, samples) at the top level, got ${got}`, { code: 'not-mapping', col: 1 }));
+    const got = isSeq(doc.contents)
+      ? 'a list'
+      : isScalar(doc.contents)
+        ? `${describeValue(doc.contents.value)}`
+        : 'something else';
+    issues.push(
+      errorAt(
+        file,
+        at(doc.contents?.range?.[0]).line,
+        `expected a mapping of fields (id, title, kind, samples) at the top level, got ${got}`,
+        { code: 'not-mapping', col: 1 },
+      ),
+    );
     return { issues, locate };
   }
 
   const built = toPlain(doc.contents, [], maxDepth);
-  for (const p of built.problems) issues.push({ severity: 'error', file, ...at(p.offset), path: formatFieldPath(p.path) || undefined, message: p.message, code: p.code });
+  for (const p of built.problems)
+    issues.push({
+      severity: 'error',
+      file,
+      ...at(p.offset),
+      path: formatFieldPath(p.path) || undefined,
+      message: p.message,
+      code: p.code,
+    });
   if (built.problems.length > 0) return { issues: capIssues(issues, file), locate };
 
   const data = built.value;
-  for (const w of unknownKeys(built.value)) issues.push({ severity: 'warning', file, ...at(built.keyOffsets.get(w.parent)?.get(w.key)), path: formatFieldPath(w.path), message: w.message, code: 'unknown-key' });
+  for (const w of unknownKeys(built.value))
+    issues.push({
+      severity: 'warning',
+      file,
+      ...at(built.keyOffsets.get(w.parent)?.get(w.key)),
+      path: formatFieldPath(w.path),
+      message: w.message,
+      code: 'unknown-key',
+    });
 
   const result = PartSchema.safeParse(built.value, { reportInput: true });
   const errors: Issue[] = [];
@@ -132,7 +188,12 @@ export function parsePartYaml(text: string, file: string, opts: PartYamlOptions 
     errors.push({ severity: 'error', file, ...locate(path), path: formatFieldPath(path) || undefined, message, code });
   };
   if (!result.success) {
-    for (const zi of result.error.issues) add(zi.path as FieldPath, zodMessage(zi, built.value), zi.code === 'custom' ? 'invalid' : zi.code.replace(/_/g, '-'));
+    for (const zi of result.error.issues)
+      add(
+        zi.path as FieldPath,
+        zodMessage(zi, built.value),
+        zi.code === 'custom' ? 'invalid' : zi.code.replace(/_/g, '-'),
+      );
   }
   for (const c of crossFieldProblems(built.value)) add(c.path, c.message, 'invalid');
   issues.push(...errors);
@@ -170,7 +231,12 @@ interface TextLimits {
 function checkText(text: string, file: string, { maxLineChars, maxDepth, maxLines }: TextLimits): Issue[] {
   const firstCr = text.search(/\r(?!\n)/);
   if (firstCr >= 0 && !text.includes('\n')) {
-    return [errorAt(file, 1, 'CR-only line endings; save the file with LF or CRLF line endings', { code: 'line-endings', col: firstCr + 1 })];
+    return [
+      errorAt(file, 1, 'CR-only line endings; save the file with LF or CRLF line endings', {
+        code: 'line-endings',
+        col: firstCr + 1,
+      }),
+    ];
   }
   const issues: Issue[] = [];
   let line = 1;
@@ -182,11 +248,19 @@ function checkText(text: string, file: string, { maxLineChars, maxDepth, maxLine
     const c = i < text.length ? text.charCodeAt(i) : 10;
     if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) {
       if (i - lineStart > maxLineChars) {
-        issues.push(errorAt(file, line, `line is ${i - lineStart} characters long, over the limit of ${maxLineChars}`, { code: 'long-line' }));
+        issues.push(
+          errorAt(file, line, `line is ${i - lineStart} characters long, over the limit of ${maxLineChars}`, {
+            code: 'long-line',
+          }),
+        );
         if (issues.length >= 5) return issues;
       }
       if (line === maxLines && i + 1 < text.length) {
-        issues.push(errorAt(file, line + 1, `file has more than ${maxLines} lines, over the limit for a part record`, { code: 'too-many-lines' }));
+        issues.push(
+          errorAt(file, line + 1, `file has more than ${maxLines} lines, over the limit for a part record`, {
+            code: 'too-many-lines',
+          }),
+        );
         return issues;
       }
       line++;
@@ -195,7 +269,10 @@ function checkText(text: string, file: string, { maxLineChars, maxDepth, maxLine
       continue;
     }
     if (c === 0 || (c < 32 && c !== 9 && c !== 13) || c === 0xfffd) {
-      const what = c === 0xfffd ? 'bytes that are not UTF-8 (decoded as U+FFFD), expected a UTF-8 text file' : `binary data (character U+${c.toString(16).padStart(4, '0')}), expected a YAML text file`;
+      const what =
+        c === 0xfffd
+          ? 'bytes that are not UTF-8 (decoded as U+FFFD), expected a UTF-8 text file'
+          : `binary data (character U+${c.toString(16).padStart(4, '0')}), expected a YAML text file`;
       return [errorAt(file, line, what, { code: 'binary', col: i - lineStart + 1 })];
     }
     if (comment) continue;
@@ -208,7 +285,10 @@ function checkText(text: string, file: string, { maxLineChars, maxDepth, maxLine
     if (ch === '#' && (i === lineStart || /\s/.test(text[i - 1]))) comment = true;
     else if ((ch === '"' || ch === "'") && (i === lineStart || /[\s:,[{-]/.test(text[i - 1]))) quote = ch;
     else if (ch === '[' || ch === '{') {
-      if (++depth > maxDepth) return [errorAt(file, line, `nesting deeper than ${maxDepth} levels`, { code: 'depth', col: i - lineStart + 1 })];
+      if (++depth > maxDepth)
+        return [
+          errorAt(file, line, `nesting deeper than ${maxDepth} levels`, { code: 'depth', col: i - lineStart + 1 }),
+        ];
     } else if ((ch === ']' || ch === '}') && depth > 0) depth--;
   }
   return issues;
@@ -236,17 +316,35 @@ function toPlain(root: Node, rootPath: FieldPath, maxDepth: number): PlainResult
   const walk = (node: Node | null | undefined, path: FieldPath, depth: number): unknown => {
     if (node == null) return null;
     if (depth > maxDepth) {
-      problems.push({ path, offset: node.range?.[0], message: `nesting deeper than ${maxDepth} levels`, code: 'depth' });
+      problems.push({
+        path,
+        offset: node.range?.[0],
+        message: `nesting deeper than ${maxDepth} levels`,
+        code: 'depth',
+      });
       return null;
     }
     if (isAlias(node)) {
       // One issue for all aliases: an alias bomb has many, and none is ever expanded.
-      if (aliases++ === 0) problems.push({ path, offset: node.range?.[0], message: `yaml alias *${node.source} not allowed in a part record; write the value out`, code: 'yaml-alias' });
+      if (aliases++ === 0)
+        problems.push({
+          path,
+          offset: node.range?.[0],
+          message: `yaml alias *${node.source} not allowed in a part record; write the value out`,
+          code: 'yaml-alias',
+        });
       return null;
     }
     if (isScalar(node)) {
       const key = path[path.length - 1];
-      if (typeof key === 'string' && TEXT_KEYS.has(key) && node.type === 'PLAIN' && typeof node.value !== 'string' && node.value !== null && typeof node.source === 'string') {
+      if (
+        typeof key === 'string' &&
+        TEXT_KEYS.has(key) &&
+        node.type === 'PLAIN' &&
+        typeof node.value !== 'string' &&
+        node.value !== null &&
+        typeof node.source === 'string'
+      ) {
         return node.source;
       }
       return node.value;
@@ -258,23 +356,46 @@ function toPlain(root: Node, rootPath: FieldPath, maxDepth: number): PlainResult
       keyOffsets.set(out, offsets);
       for (const pair of node.items) {
         const k = pair.key as Node | null;
-        if (!isScalar(k) || (typeof k.value !== 'string' && typeof k.value !== 'number' && typeof k.value !== 'boolean')) {
-          problems.push({ path, offset: k?.range?.[0], message: isAlias(k) ? 'yaml alias not allowed as a key' : 'expected a plain key such as "id"', code: 'yaml-key' });
+        if (
+          !isScalar(k) ||
+          (typeof k.value !== 'string' && typeof k.value !== 'number' && typeof k.value !== 'boolean')
+        ) {
+          problems.push({
+            path,
+            offset: k?.range?.[0],
+            message: isAlias(k) ? 'yaml alias not allowed as a key' : 'expected a plain key such as "id"',
+            code: 'yaml-key',
+          });
           continue;
         }
         const name = String(k.value);
         const offset = k.range?.[0] ?? 0;
         if (offsets.has(name)) {
-          problems.push({ path: [...path, name], offset, message: `yaml syntax: map keys must be unique; "${shorten(name)}" appears again`, code: 'yaml' });
+          problems.push({
+            path: [...path, name],
+            offset,
+            message: `yaml syntax: map keys must be unique; "${shorten(name)}" appears again`,
+            code: 'yaml',
+          });
           continue;
         }
         offsets.set(name, offset);
         // defineProperty: a key named "__proto__" stays an ordinary key.
-        Object.defineProperty(out, name, { value: walk(pair.value as Node, [...path, name], depth + 1), enumerable: true, writable: true, configurable: true });
+        Object.defineProperty(out, name, {
+          value: walk(pair.value as Node, [...path, name], depth + 1),
+          enumerable: true,
+          writable: true,
+          configurable: true,
+        });
       }
       return out;
     }
-    problems.push({ path, offset: (node as { range?: [number] }).range?.[0], message: 'unsupported yaml node', code: 'yaml' });
+    problems.push({
+      path,
+      offset: (node as { range?: [number] }).range?.[0],
+      message: 'unsupported yaml node',
+      code: 'yaml',
+    });
     return null;
   };
   const value = walk(root, rootPath, 1);
@@ -313,21 +434,29 @@ function findOffset(doc: Document, path: FieldPath): number | undefined {
 /** A value in a message: text quoted and shortened, others by kind. */
 export function describeValue(value: unknown): string {
   if (value === null || value === undefined) return 'nothing';
-  if (typeof value === 'string') return value === '' ? 'an empty text' : JSON.stringify(value.length > 60 ? `${value.slice(0, 60)}…` : value);
+  if (typeof value === 'string')
+    return value === '' ? 'an empty text' : JSON.stringify(value.length > 60 ? `${value.slice(0, 60)}…` : value);
   if (typeof value === 'number' || typeof value === 'boolean') return String(value);
-  if (value instanceof Date) return Number.isNaN(value.getTime()) ? 'an invalid date' : value.toISOString().slice(0, 10);
+  if (value instanceof Date)
+    return Number.isNaN(value.getTime()) ? 'an invalid date' : value.toISOString().slice(0, 10);
   if (Array.isArray(value)) return value.length === 0 ? 'an empty list' : 'a list';
   return 'a mapping';
 }
 
 const TYPE_WORDS: Record<string, string> = {
-  string: 'text', number: 'a number', boolean: 'true or false', array: 'a list', object: 'a mapping', date: 'a date',
+  string: 'text',
+  number: 'a number',
+  boolean: 'true or false',
+  array: 'a list',
+  object: 'a mapping',
+  date: 'a date',
 };
 
 function getIn(root: unknown, path: FieldPath): { exists: boolean; value: unknown } {
   let node: unknown = root;
   for (const step of path) {
-    if (node === null || typeof node !== 'object' || !Object.prototype.hasOwnProperty.call(node, step)) return { exists: false, value: undefined };
+    if (node === null || typeof node !== 'object' || !Object.prototype.hasOwnProperty.call(node, step))
+      return { exists: false, value: undefined };
     node = (node as Record<string | number, unknown>)[step];
   }
   return { exists: true, value: node };
@@ -340,10 +469,13 @@ function zodMessage(zi: z.core.$ZodIssue, data: unknown): string {
   const field = path[path.length - 1];
   if (zi.code === 'custom') {
     const scalar = value === null || typeof value !== 'object';
-    return exists && scalar && zi.message.startsWith('expected') && !/\bgot\b/.test(zi.message) ? `${zi.message}, got ${describeValue(value)}` : zi.message;
+    return exists && scalar && zi.message.startsWith('expected') && !/\bgot\b/.test(zi.message)
+      ? `${zi.message}, got ${describeValue(value)}`
+      : zi.message;
   }
   if (!exists && typeof field === 'string') return `missing required field "${field}"`;
-  if (zi.code === 'invalid_type') return `expected ${TYPE_WORDS[zi.expected] ?? zi.expected}, got ${describeValue(value)}`;
+  if (zi.code === 'invalid_type')
+    return `expected ${TYPE_WORDS[zi.expected] ?? zi.expected}, got ${describeValue(value)}`;
   if (zi.code === 'invalid_union') return unionMessage(zi.errors.flat(), value);
   const base = /^Invalid input/.test(zi.message) ? `invalid value` : zi.message;
   return /\bgot\b/.test(base) ? base : `${base}, got ${describeValue(value)}`;
@@ -376,18 +508,31 @@ function crossFieldProblems(data: unknown): Array<{ path: FieldPath; message: st
     const comp = sample.compensation as Record<string, unknown> | null | undefined;
     if (comp && typeof comp === 'object') {
       if ((comp.open === undefined) !== (comp.short === undefined)) {
-        out.push({ path: ['samples', i, 'compensation', comp.open === undefined ? 'open' : 'short'], message: 'open and short compensation sweeps go together' });
+        out.push({
+          path: ['samples', i, 'compensation', comp.open === undefined ? 'open' : 'short'],
+          message: 'open and short compensation sweeps go together',
+        });
       }
       if (comp.load !== undefined && comp.loadResistance === undefined) {
-        out.push({ path: ['samples', i, 'compensation', 'loadResistance'], message: 'a load sweep needs loadResistance, e.g. "50 ohm"' });
+        out.push({
+          path: ['samples', i, 'compensation', 'loadResistance'],
+          message: 'a load sweep needs loadResistance, e.g. "50 ohm"',
+        });
       }
     }
     if (Array.isArray(sample.sweeps)) {
       sample.sweeps.forEach((sw: unknown, j) => {
         if (sw === null || typeof sw !== 'object') return;
         const sweep = sw as Record<string, unknown>;
-        if (sweep.addedConnection !== undefined && sweep.addedConnection !== null && sweep.addedCapacitance === undefined) {
-          out.push({ path: ['samples', i, 'sweeps', j, 'addedConnection'], message: 'addedConnection needs addedCapacitance' });
+        if (
+          sweep.addedConnection !== undefined &&
+          sweep.addedConnection !== null &&
+          sweep.addedCapacitance === undefined
+        ) {
+          out.push({
+            path: ['samples', i, 'sweeps', j, 'addedConnection'],
+            message: 'addedConnection needs addedCapacitance',
+          });
         }
       });
     }
@@ -413,7 +558,12 @@ function unknownKeys(data: unknown): UnknownKey[] {
     const known = new Set<string>(KNOWN_KEYS[level]);
     for (const key of Object.keys(obj)) {
       if (known.has(key)) continue;
-      out.push({ path: [...path, key], parent: obj, key, message: `unknown field "${shorten(key)}" is ignored${hintFor(key, level)}` });
+      out.push({
+        path: [...path, key],
+        parent: obj,
+        key,
+        message: `unknown field "${shorten(key)}" is ignored${hintFor(key, level)}`,
+      });
     }
   };
   check(data, 'part', []);
@@ -424,7 +574,8 @@ function unknownKeys(data: unknown): UnknownKey[] {
       check(s, 'sample', ['samples', i]);
       const sample = (s ?? {}) as Record<string, unknown>;
       check(sample.compensation, 'compensation', ['samples', i, 'compensation']);
-      if (Array.isArray(sample.sweeps)) sample.sweeps.forEach((sw: unknown, j) => check(sw, 'sweep', ['samples', i, 'sweeps', j]));
+      if (Array.isArray(sample.sweeps))
+        sample.sweeps.forEach((sw: unknown, j) => check(sw, 'sweep', ['samples', i, 'sweeps', j]));
     });
   }
   return out;
@@ -433,11 +584,20 @@ function unknownKeys(data: unknown): UnknownKey[] {
 function hintFor(key: string, level: Level): string {
   const norm = (s: string) => s.toLowerCase().replace(/[-_ ]/g, '');
   const own = KNOWN_KEYS[level] as readonly string[];
-  const close = own.find((k) => norm(k) === norm(key)) ?? own.find((k) => editDistance(norm(k), norm(key)) <= Math.min(2, Math.floor(k.length / 3)));
+  const close =
+    own.find((k) => norm(k) === norm(key)) ??
+    own.find((k) => editDistance(norm(k), norm(key)) <= Math.min(2, Math.floor(k.length / 3)));
   if (close) return `; did you mean "${close}"?`;
-  const where: Record<Level, string> = { part: 'the top level', datasheet: 'datasheet', sample: 'a sample', sweep: 'a sweep', compensation: 'compensation' };
+  const where: Record<Level, string> = {
+    part: 'the top level',
+    datasheet: 'datasheet',
+    sample: 'a sample',
+    sweep: 'a sweep',
+    compensation: 'compensation',
+  };
   for (const other of Object.keys(KNOWN_KEYS) as Level[]) {
-    if (other !== level && (KNOWN_KEYS[other] as readonly string[]).includes(key)) return `; it belongs in ${where[other]}`;
+    if (other !== level && (KNOWN_KEYS[other] as readonly string[]).includes(key))
+      return `; it belongs in ${where[other]}`;
   }
   return '';
 }
@@ -448,7 +608,8 @@ function editDistance(a: string, b: string): number {
   let prev = Array.from({ length: b.length + 1 }, (_, j) => j);
   for (let i = 1; i <= a.length; i++) {
     const cur = [i];
-    for (let j = 1; j <= b.length; j++) cur[j] = Math.min(prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (a[i - 1] === b[j - 1] ? 0 : 1));
+    for (let j = 1; j <= b.length; j++)
+      cur[j] = Math.min(prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (a[i - 1] === b[j - 1] ? 0 : 1));
     prev = cur;
   }
   return prev[b.length];

@@ -20,7 +20,14 @@
 import { errorAt, InputError, type Issue } from '../issues.ts';
 import type { ImpedanceSweep } from '../sweep/sweep.ts';
 import { cosSinDeg } from '../sweep/complex.ts';
-import { checkSweepText, MAX_ISSUES_PER_FILE, normalizeSweepLimits, quoteToken, shiftDecimalText, type SweepReadOptions } from './limits.ts';
+import {
+  checkSweepText,
+  MAX_ISSUES_PER_FILE,
+  normalizeSweepLimits,
+  quoteToken,
+  shiftDecimalText,
+  type SweepReadOptions,
+} from './limits.ts';
 import { looksNumeric, parseField, splitFields, type Delimiter } from './csv-fields.ts';
 import { frequencyUnitExponent, type CsvColumnRole } from './csv-columns.ts';
 import { findHeader, MAX_PREAMBLE_LINES, type CsvLayout, type ResolvedColumn, type TextLine } from './csv-header.ts';
@@ -69,7 +76,9 @@ export function readSweepCsv(text: string, source: string, opts: SweepCsvOptions
   const issues: Issue[] = [];
   const add = (line: number | undefined, message: string, code: string): boolean => {
     if (issues.length >= MAX_ISSUES_PER_FILE) {
-      issues.push(errorAt(source, line, `too many problems; stopped after ${MAX_ISSUES_PER_FILE}`, { code: 'too-many' }));
+      issues.push(
+        errorAt(source, line, `too many problems; stopped after ${MAX_ISSUES_PER_FILE}`, { code: 'too-many' }),
+      );
       return false;
     }
     issues.push(errorAt(source, line, message, { code }));
@@ -79,11 +88,18 @@ export function readSweepCsv(text: string, source: string, opts: SweepCsvOptions
   const search = findHeader(leadingLines(text, limits.maxLineChars, opts.headerLine), opts);
   if (!search.ok) {
     // Over-long lines before the header are reported as well: they are why no header was seen.
-    throw new InputError([...longLines(text, source, limits.maxLineChars, search.line), errorAt(source, search.line, search.message, { code: search.code })]);
+    throw new InputError([
+      ...longLines(text, source, limits.maxLineChars, search.line),
+      errorAt(source, search.line, search.message, { code: search.code }),
+    ]);
   }
   const found = search.header;
   if (found.analysis.problems.length) {
-    throw new InputError(found.analysis.problems.map((p) => errorAt(source, p.onUnitsRow ? found.unitsLine!.no : found.line.no, p.message, { code: p.code })));
+    throw new InputError(
+      found.analysis.problems.map((p) =>
+        errorAt(source, p.onUnitsRow ? found.unitsLine!.no : found.line.no, p.message, { code: p.code }),
+      ),
+    );
   }
   const header = { line: found.line.no, cols: found.analysis.cols, width: found.names.length, delim: found.delim };
   const lastHeaderLine = found.unitsLine?.no ?? found.line.no;
@@ -108,7 +124,11 @@ export function readSweepCsv(text: string, source: string, opts: SweepCsvOptions
     pos = le + 1;
     lineNo++;
     if (raw.length > limits.maxLineChars) {
-      going = add(lineNo, `line is ${raw.length} characters long, over the limit of ${limits.maxLineChars}`, 'line-length');
+      going = add(
+        lineNo,
+        `line is ${raw.length} characters long, over the limit of ${limits.maxLineChars}`,
+        'line-length',
+      );
       continue;
     }
     const line = raw.trim();
@@ -140,7 +160,11 @@ export function readSweepCsv(text: string, source: string, opts: SweepCsvOptions
       if (!going) continue;
     }
     if (fields.length !== header.width) {
-      going = add(lineNo, `expected ${header.width} fields (as in the header, line ${header.line}), got ${fields.length}`, 'csv-row');
+      going = add(
+        lineNo,
+        `expected ${header.width} fields (as in the header, line ${header.line}), got ${fields.length}`,
+        'csv-row',
+      );
       continue;
     }
     const get = (col: ResolvedColumn, phase = false): number | undefined => {
@@ -162,7 +186,11 @@ export function readSweepCsv(text: string, source: string, opts: SweepCsvOptions
     }
     const n = freqHz.length;
     if (n > 0 && !(fHz > freqHz[n - 1])) {
-      going = add(lineNo, `frequency ${fHz} Hz is not above the previous one (${freqHz[n - 1]} Hz); frequencies must rise`, 'frequency');
+      going = add(
+        lineNo,
+        `frequency ${fHz} Hz is not above the previous one (${freqHz[n - 1]} Hz); frequencies must rise`,
+        'frequency',
+      );
       continue;
     }
     if (n >= limits.maxPoints) {
@@ -242,7 +270,12 @@ function longLines(text: string, source: string, maxLineChars: number, upTo: num
     if (le < 0) le = text.length;
     no++;
     if (upTo !== undefined && no >= upTo) break;
-    if (le - pos > maxLineChars) out.push(errorAt(source, no, `line is ${le - pos} characters long, over the limit of ${maxLineChars}`, { code: 'line-length' }));
+    if (le - pos > maxLineChars)
+      out.push(
+        errorAt(source, no, `line is ${le - pos} characters long, over the limit of ${maxLineChars}`, {
+          code: 'line-length',
+        }),
+      );
     pos = le + 1;
   }
   return out;

@@ -144,7 +144,11 @@ class TouchstoneReader {
       pos = le + 1;
       lineNo++;
       if (le - ls > this.limits.maxLineChars) {
-        this.issue(lineNo, `line is ${le - ls} characters long, over the limit of ${this.limits.maxLineChars}`, 'line-length');
+        this.issue(
+          lineNo,
+          `line is ${le - ls} characters long, over the limit of ${this.limits.maxLineChars}`,
+          'line-length',
+        );
         continue;
       }
       let p = ls;
@@ -171,7 +175,9 @@ class TouchstoneReader {
 
   private issue(line: number | undefined, message: string, code: string): void {
     if (this.issues.length >= MAX_ISSUES_PER_FILE) {
-      this.issues.push(errorAt(this.source, line, `too many problems; stopped after ${MAX_ISSUES_PER_FILE}`, { code: 'too-many' }));
+      this.issues.push(
+        errorAt(this.source, line, `too many problems; stopped after ${MAX_ISSUES_PER_FILE}`, { code: 'too-many' }),
+      );
       this.stop = true;
       return;
     }
@@ -189,7 +195,8 @@ class TouchstoneReader {
     const m = /\.s(\d+)p$/i.exec(this.source);
     if (!m) return;
     const n = Number(m[1]);
-    if (n > 2) this.fatal(undefined, `${n}-port data is not supported (at most 2 ports; the name ends in ${m[0]})`, 'ports');
+    if (n > 2)
+      this.fatal(undefined, `${n}-port data is not supported (at most 2 ports; the name ends in ${m[0]})`, 'ports');
     else if (n >= 1) this.ports = n;
   }
 
@@ -233,12 +240,25 @@ class TouchstoneReader {
       } else if (k === 'r') {
         const v = tokens[i + 1];
         const r = v === undefined ? NaN : Number(v);
-        if (v === undefined || !/^[+-]?(\d+(?:\.\d*)?|\.\d+)([eE][+-]?\d+)?$/.test(v) || !(r > 0) || !Number.isFinite(r)) {
-          this.issue(lineNo, `option R: expected a positive reference resistance in ohm, got ${v === undefined ? 'nothing' : quoteToken(v)}`, 'option-line');
+        if (
+          v === undefined ||
+          !/^[+-]?(\d+(?:\.\d*)?|\.\d+)([eE][+-]?\d+)?$/.test(v) ||
+          !(r > 0) ||
+          !Number.isFinite(r)
+        ) {
+          this.issue(
+            lineNo,
+            `option R: expected a positive reference resistance in ohm, got ${v === undefined ? 'nothing' : quoteToken(v)}`,
+            'option-line',
+          );
         } else if (once('reference resistance', tok)) this.options.refOhm = r;
         i++;
       } else {
-        this.issue(lineNo, `unknown option ${quoteToken(tok)} (expected Hz, kHz, MHz, GHz, S, Y, Z, RI, MA, DB or R <ohm>)`, 'option-line');
+        this.issue(
+          lineNo,
+          `unknown option ${quoteToken(tok)} (expected Hz, kHz, MHz, GHz, S, Y, Z, RI, MA, DB or R <ohm>)`,
+          'option-line',
+        );
       }
     }
   }
@@ -256,7 +276,11 @@ class TouchstoneReader {
   private keywordName(p: number, le: number): string | undefined {
     const close = this.text.indexOf(']', p);
     if (close < 0 || close >= le) return undefined;
-    return this.text.slice(p + 1, close).trim().toLowerCase().replace(/\s+/g, ' ');
+    return this.text
+      .slice(p + 1, close)
+      .trim()
+      .toLowerCase()
+      .replace(/\s+/g, ' ');
   }
 
   private keyword(p: number, le: number, lineNo: number): void {
@@ -269,17 +293,23 @@ class TouchstoneReader {
     const shown = `[${this.text.slice(p + 1, this.text.indexOf(']', p)).trim()}]`;
     if (this.version === 0) {
       if (name !== 'version') {
-        this.fatal(lineNo, `keyword ${shown} before [Version]; a Touchstone 2 file starts with [Version] 2.0`, 'keyword');
+        this.fatal(
+          lineNo,
+          `keyword ${shown} before [Version]; a Touchstone 2 file starts with [Version] 2.0`,
+          'keyword',
+        );
         return;
       }
       this.decideVersion(true);
-      if (!/^2\.\d+$/.test(arg)) this.fatal(lineNo, `[Version]: expected 2.0 or 2.1, got ${quoteToken(arg)}`, 'version');
+      if (!/^2\.\d+$/.test(arg))
+        this.fatal(lineNo, `[Version]: expected 2.0 or 2.1, got ${quoteToken(arg)}`, 'version');
       return;
     }
     if (this.version === 1) {
-      const msg = name === 'version'
-        ? '[Version] must be the first line that is not a comment'
-        : `keyword ${shown} in a Touchstone 1 file (a Touchstone 2 file starts with [Version] 2.0)`;
+      const msg =
+        name === 'version'
+          ? '[Version] must be the first line that is not a comment'
+          : `keyword ${shown} in a Touchstone 1 file (a Touchstone 2 file starts with [Version] 2.0)`;
       this.issue(lineNo, msg, 'keyword');
       return;
     }
@@ -296,7 +326,8 @@ class TouchstoneReader {
       case 'number of ports': {
         const n = this.positiveInt(arg, shown, lineNo);
         if (n === undefined) return;
-        if (n > 2) this.fatal(lineNo, `${n}-port data is not supported (at most 2 ports; [Number of Ports] is ${n})`, 'ports');
+        if (n > 2)
+          this.fatal(lineNo, `${n}-port data is not supported (at most 2 ports; [Number of Ports] is ${n})`, 'ports');
         else this.ports = n;
         this.portsKeywordSeen = true;
         break;
@@ -387,7 +418,11 @@ class TouchstoneReader {
   }
 
   private referenceIncomplete(): void {
-    this.issue(this.referenceLine, `[Reference]: expected ${this.ports} values (one per port), got ${this.references.length}`, 'reference');
+    this.issue(
+      this.referenceLine,
+      `[Reference]: expected ${this.ports} values (one per port), got ${this.references.length}`,
+      'reference',
+    );
     this.referenceWanted = 0;
     this.references = [];
   }
@@ -402,7 +437,11 @@ class TouchstoneReader {
       return;
     }
     if (this.ports === 2 && this.twoPortOrder === '') {
-      this.issue(lineNo, 'missing [Two-Port Data Order] before [Network Data] (required for 2-port data: 12_21 or 21_12)', 'keyword');
+      this.issue(
+        lineNo,
+        'missing [Two-Port Data Order] before [Network Data] (required for 2-port data: 12_21 or 21_12)',
+        'keyword',
+      );
       this.twoPortOrder = '21_12';
     }
     if (this.numFreq < 0) {
@@ -469,7 +508,11 @@ class TouchstoneReader {
         if (count === 3) this.ports = 1;
         else if (count === 9) this.ports = 2;
         else {
-          this.fatal(lineNo, `cannot tell the port count from a first data row of ${count} numbers (1-port rows have 3, 2-port rows 9); name the file .s1p or .s2p`, 'ports');
+          this.fatal(
+            lineNo,
+            `cannot tell the port count from a first data row of ${count} numbers (1-port rows have 3, 2-port rows 9); name the file .s1p or .s2p`,
+            'ports',
+          );
           return;
         }
       }
@@ -524,7 +567,11 @@ class TouchstoneReader {
   /** Report the point being assembled as short and drop it. */
   private reportShortPoint(): void {
     const span = this.pendingLines > 1 ? ` over ${this.pendingLines} lines` : '';
-    this.issue(this.pendingLine, `expected ${this.perPoint} numbers per row (${this.describe}), got ${this.pendingCount}${span}`, 'touchstone-row');
+    this.issue(
+      this.pendingLine,
+      `expected ${this.perPoint} numbers per row (${this.describe}), got ${this.pendingCount}${span}`,
+      'touchstone-row',
+    );
     this.pendingCount = 0;
   }
 
@@ -540,7 +587,11 @@ class TouchstoneReader {
       return;
     }
     if (i > 0 && !(f > this.freqHz[i - 1])) {
-      this.issue(lineNo, `frequency ${f} Hz is not above the previous one (${this.freqHz[i - 1]} Hz); frequencies must rise`, 'frequency');
+      this.issue(
+        lineNo,
+        `frequency ${f} Hz is not above the previous one (${this.freqHz[i - 1]} Hz); frequencies must rise`,
+        'frequency',
+      );
       return;
     }
     if (i >= this.limits.maxPoints) {
@@ -572,7 +623,11 @@ class TouchstoneReader {
     // by R): refuse the row rather than hand Infinity or NaN to the extraction.
     for (let k = 0; k < pairs; k++) {
       if (!Number.isFinite(outRe[k][i]) || !Number.isFinite(outIm[k][i])) {
-        this.issue(lineNo, `values of column pair ${k + 1} overflow to ${outRe[k][i]}, ${outIm[k][i]} after conversion (${this.describe}${this.scaleRe !== 1 ? `, times ${this.scaleRe} for normalisation` : ''}); expected magnitudes below 1e308`, 'number');
+        this.issue(
+          lineNo,
+          `values of column pair ${k + 1} overflow to ${outRe[k][i]}, ${outIm[k][i]} after conversion (${this.describe}${this.scaleRe !== 1 ? `, times ${this.scaleRe} for normalisation` : ''}); expected magnitudes below 1e308`,
+          'number',
+        );
         return;
       }
     }
@@ -711,13 +766,20 @@ class TouchstoneReader {
         this.issue(undefined, 'no network data (expected rows of a frequency followed by values)', 'empty');
       }
       if (this.version === 2 && this.numFreq >= 0 && this.count !== this.numFreq && this.issues.length === 0) {
-        this.issue(this.numFreqLine, `[Number of Frequencies] is ${this.numFreq} but the network data has ${this.count} frequency points`, 'count');
+        this.issue(
+          this.numFreqLine,
+          `[Number of Frequencies] is ${this.numFreq} but the network data has ${this.count} frequency points`,
+          'count',
+        );
       }
     }
     if (this.issues.length) throw new InputError(this.issues);
     const n = this.count;
     const P = this.ports as 1 | 2;
-    const ref = this.version === 2 && this.references.length === P ? this.references : Array.from({ length: P }, () => this.options.refOhm);
+    const ref =
+      this.version === 2 && this.references.length === P
+        ? this.references
+        : Array.from({ length: P }, () => this.options.refOhm);
     return {
       parameter: this.options.parameter,
       ports: P,
@@ -764,11 +826,14 @@ export function formatTouchstone(data: NetworkData, opts: FormatTouchstoneOption
   const P = data.ports;
   const ref = data.z0Ohm[0];
   if (version === 1 && data.z0Ohm.some((z) => z !== ref)) {
-    throw new Error(`touchstone 1 cannot hold unequal port reference impedances (${data.z0Ohm.join(', ')} ohm); write version 2`);
+    throw new Error(
+      `touchstone 1 cannot hold unequal port reference impedances (${data.z0Ohm.join(', ')} ohm); write version 2`,
+    );
   }
   const out: string[] = [];
   for (const c of opts.comments ?? []) {
-    for (const line of c.split(/\r\n|[\n\r\u2028\u2029\u0085\v\f]/)) out.push(`!${line.replace(/[\u0000-\u0008\u000e-\u001f\u007f]/g, ' ')}`);
+    for (const line of c.split(/\r\n|[\n\r\u2028\u2029\u0085\v\f]/))
+      out.push(`!${line.replace(/[\u0000-\u0008\u000e-\u001f\u007f]/g, ' ')}`);
   }
   const option = `# ${UNIT_NAME[unit.toLowerCase()]} ${data.parameter} ${format} R ${num(ref)}`;
   const scale = version === 1 ? (data.parameter === 'Z' ? 1 / ref : data.parameter === 'Y' ? ref : 1) : 1;
@@ -777,7 +842,11 @@ export function formatTouchstone(data: NetworkData, opts: FormatTouchstoneOption
   if (version === 2) {
     out.push('[Version] 2.0', option, `[Number of Ports] ${P}`);
     if (P === 2) out.push('[Two-Port Data Order] 12_21');
-    out.push(`[Number of Frequencies] ${data.freqHz.length}`, `[Reference] ${data.z0Ohm.map(num).join(' ')}`, '[Network Data]');
+    out.push(
+      `[Number of Frequencies] ${data.freqHz.length}`,
+      `[Reference] ${data.z0Ohm.map(num).join(' ')}`,
+      '[Network Data]',
+    );
   } else {
     out.push(option);
   }

@@ -29,14 +29,21 @@ function num(x: number): string {
 }
 
 /** Write the model as a `.s1p` (see module doc); fails with a reason on a bad span. */
-export function formatModelTouchstone(model: BvdModel, info: NetlistInfo, options: ModelTouchstoneOptions = {}): ModelTouchstoneResult {
+export function formatModelTouchstone(
+  model: BvdModel,
+  info: NetlistInfo,
+  options: ModelTouchstoneOptions = {},
+): ModelTouchstoneResult {
   const startHz = options.startHz ?? info.validSpanHz?.min;
   const stopHz = options.stopHz ?? info.validSpanHz?.max;
   const points = options.points ?? DEFAULT_POINTS;
   const z0 = options.z0Ohm ?? 50;
-  if (startHz === undefined || stopHz === undefined) return { ok: false, reason: 'no frequency span: give start and stop' };
-  if (!(startHz > 0) || !(stopHz > startHz)) return { ok: false, reason: `expected 0 < start < stop, got ${startHz} Hz to ${stopHz} Hz` };
-  if (!Number.isInteger(points) || points < 2 || points > MAX_POINTS) return { ok: false, reason: `expected 2 to ${MAX_POINTS} points, got ${points}` };
+  if (startHz === undefined || stopHz === undefined)
+    return { ok: false, reason: 'no frequency span: give start and stop' };
+  if (!(startHz > 0) || !(stopHz > startHz))
+    return { ok: false, reason: `expected 0 < start < stop, got ${startHz} Hz to ${stopHz} Hz` };
+  if (!Number.isInteger(points) || points < 2 || points > MAX_POINTS)
+    return { ok: false, reason: `expected 2 to ${MAX_POINTS} points, got ${points}` };
   if (!(z0 > 0)) return { ok: false, reason: `expected a positive reference impedance, got ${z0}` };
 
   const part: BvdModel = { c0F: model.c0F, branches: model.branches };
@@ -44,10 +51,14 @@ export function formatModelTouchstone(model: BvdModel, info: NetlistInfo, option
   const lines = [
     c(`Motional BVD model of ${info.partId}${info.title ? ` - ${info.title}` : ''}`),
     c(info.lotMedianOf ? `lot median part over ${info.lotMedianOf} samples` : `sample: ${info.sample ?? 'not named'}`),
-    c(`measured: ${info.date ?? 'date not recorded'}${info.temperatureC !== undefined ? `; temperature ${info.temperatureC} C` : ''}${info.driveW !== undefined ? `; drive ${Number((info.driveW * 1e6).toPrecision(4))} uW` : ''}`),
+    c(
+      `measured: ${info.date ?? 'date not recorded'}${info.temperatureC !== undefined ? `; temperature ${info.temperatureC} C` : ''}${info.driveW !== undefined ? `; drive ${Number((info.driveW * 1e6).toPrecision(4))} uW` : ''}`,
+    ),
     c('computed from the fitted model (C0 and one R-L-C branch per mode), not the raw measurement;'),
     c('narrow-band linear model of one sample: not a specification.'),
-    c(`${part.branches.length} branch${part.branches.length === 1 ? '' : 'es'}, C0 = ${part.c0F} F; reference ${z0} ohm`),
+    c(
+      `${part.branches.length} branch${part.branches.length === 1 ? '' : 'es'}, C0 = ${part.c0F} F; reference ${z0} ohm`,
+    ),
     `# Hz S RI R ${z0}`,
   ];
   const step = (stopHz - startHz) / (points - 1);

@@ -71,9 +71,14 @@ const MAX_COMMENT_CHARS = 200;
  */
 export function sanitizeCommentText(text: string): string {
   const ascii = String(text)
-    .replace(/[µμ]/g, 'u').replace(/[\u03a9\u2126]/g, 'ohm').replace(/ω/g, 'w').replace(/°/g, 'deg').replace(/±/g, '+/-')
+    .replace(/[µμ]/g, 'u')
+    .replace(/[\u03a9\u2126]/g, 'ohm')
+    .replace(/ω/g, 'w')
+    .replace(/°/g, 'deg')
+    .replace(/±/g, '+/-')
     .replace(/\\/g, '/')
-    .replace(/[–—]/g, '-').replace(/…/g, '...')
+    .replace(/[–—]/g, '-')
+    .replace(/…/g, '...')
     .replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ')
     .replace(/[^\x20-\x7e]/g, '?')
     .replace(/\s+/g, ' ')
@@ -83,7 +88,10 @@ export function sanitizeCommentText(text: string): string {
 
 /** A subcircuit name of [A-Za-z0-9_] starting with a letter (at most 64 characters). */
 export function sanitizeSubcktName(name: string): string {
-  let s = String(name).replace(/[^A-Za-z0-9_]/g, '_').replace(/_+/g, '_').replace(/^_|_$/g, '');
+  let s = String(name)
+    .replace(/[^A-Za-z0-9_]/g, '_')
+    .replace(/_+/g, '_')
+    .replace(/^_|_$/g, '');
   if (!/^[A-Za-z]/.test(s)) s = `X${s}`;
   return s.slice(0, 64);
 }
@@ -106,7 +114,9 @@ function selectBranches(model: BvdModel, labels: BranchLabel[] | undefined, opti
     // The main mode is decided once, by the extraction (SampleResult.mainMode): the labels carry it.
     const main = labels ? labels.findIndex((l) => l.main) : model.branches.length === 1 ? 0 : -1;
     if (main < 0 && model.branches.length > 0) {
-      throw new Error(`formatNetlist: main mode only, but no branch of ${model.branches.length} is labelled main (label the branch of SampleResult.mainMode)`);
+      throw new Error(
+        `formatNetlist: main mode only, but no branch of ${model.branches.length} is labelled main (label the branch of SampleResult.mainMode)`,
+      );
     }
     chosen = main >= 0 ? [main] : [];
   }
@@ -118,13 +128,22 @@ export function formatNetlist(model: BvdModel, info: NetlistInfo, options: Forma
   const digits = options.digits ?? NETLIST_DIGITS;
   const num = (v: number) => formatSpiceNumber(v, digits);
   const c = (text: string) => `* ${sanitizeCommentText(text)}`;
-  const name = sanitizeSubcktName(info.subcktName ?? `${info.partId}${info.sample ? `_${info.sample}` : ''}${info.lotMedianOf ? '_median' : ''}`);
+  const name = sanitizeSubcktName(
+    info.subcktName ?? `${info.partId}${info.sample ? `_${info.sample}` : ''}${info.lotMedianOf ? '_median' : ''}`,
+  );
   const chosen = selectBranches(model, info.labels, options);
   const dropped = model.branches.length - chosen.length;
 
   const lines: string[] = [];
-  lines.push(c(`Motional BVD model of ${info.partId}${info.title ? ` - ${info.title}` : ''}${info.kind ? ` (${info.kind})` : ''}`));
-  if (info.lotMedianOf) lines.push(c(`lot median part: median of each parameter per mode over ${info.lotMedianOf} samples (not one physical unit)`));
+  lines.push(
+    c(
+      `Motional BVD model of ${info.partId}${info.title ? ` - ${info.title}` : ''}${info.kind ? ` (${info.kind})` : ''}`,
+    ),
+  );
+  if (info.lotMedianOf)
+    lines.push(
+      c(`lot median part: median of each parameter per mode over ${info.lotMedianOf} samples (not one physical unit)`),
+    );
   else if (info.sample) lines.push(c(`sample: ${info.sample}`));
   const cond: string[] = [];
   if (info.temperatureC !== undefined) cond.push(`temperature ${g(info.temperatureC, 4)} C`);
@@ -132,16 +151,35 @@ export function formatNetlist(model: BvdModel, info: NetlistInfo, options: Forma
   lines.push(c(`conditions: ${cond.length ? cond.join(', ') : 'not recorded'}`));
   lines.push(c(`measured: ${info.date ?? 'date not recorded'}`));
   const how = [info.method ? `extracted by ${info.method}` : 'extracted from measured sweeps'];
-  if (info.fitResidual !== undefined && Number.isFinite(info.fitResidual)) how.push(`rms relative fit residual ${g(info.fitResidual, 3)}`);
+  if (info.fitResidual !== undefined && Number.isFinite(info.fitResidual))
+    how.push(`rms relative fit residual ${g(info.fitResidual, 3)}`);
   lines.push(c(how.join(', ')));
-  lines.push(c(info.lotMedianOf
-    ? `DERIVED FROM MEASURED DATA of ${info.lotMedianOf} samples, each at one drive level, temperature and fixture: not a specification,`
-    : 'MEASURED DATA of one sample at one drive level, temperature and fixture: not a specification,'));
-  lines.push(c('  not a substitute for the maker\'s data or qualification of the part.'));
-  lines.push(c('narrow-band linear model: valid only near each listed mode'
-    + (info.validSpanHz ? ` within the measured span ${g(info.validSpanHz.min)} Hz to ${g(info.validSpanHz.max)} Hz` : '') + ';'));
-  lines.push(c('  no drive-level dependence, temperature, aging or amplitude effects; unlisted spurious modes absent.'));
-  if (dropped > 0) lines.push(c(`${dropped} measured mode${dropped > 1 ? 's' : ''} left out (${options.mainModeOnly ? 'main mode only' : 'spurious modes excluded'})`));
+  lines.push(
+    c(
+      info.lotMedianOf
+        ? `DERIVED FROM MEASURED DATA of ${info.lotMedianOf} samples, each at one drive level, temperature and fixture: not a specification,`
+        : 'MEASURED DATA of one sample at one drive level, temperature and fixture: not a specification,',
+    ),
+  );
+  lines.push(c("  not a substitute for the maker's data or qualification of the part."));
+  lines.push(
+    c(
+      'narrow-band linear model: valid only near each listed mode' +
+        (info.validSpanHz
+          ? ` within the measured span ${g(info.validSpanHz.min)} Hz to ${g(info.validSpanHz.max)} Hz`
+          : '') +
+        ';',
+    ),
+  );
+  lines.push(
+    c('  no drive-level dependence, temperature, aging or amplitude effects; unlisted spurious modes absent.'),
+  );
+  if (dropped > 0)
+    lines.push(
+      c(
+        `${dropped} measured mode${dropped > 1 ? 's' : ''} left out (${options.mainModeOnly ? 'main mode only' : 'spurious modes excluded'})`,
+      ),
+    );
   for (const w of plausibilityWarnings(model, chosen, info)) lines.push(c(`CAUTION: ${w}`));
   lines.push(c('pins 1 2; C0 between the pins, one series R-L-C branch per mode; values in F, H, ohm'));
   lines.push(c(`usage: X1 a b ${name}`));
@@ -151,7 +189,9 @@ export function formatNetlist(model: BvdModel, info: NetlistInfo, options: Forma
     const br = model.branches[bi];
     const label = info.labels?.[bi];
     const n = k + 1;
-    const what = label ? `${label.spurious ? 'spurious mode near overtone' : 'overtone'} ${label.overtone}${label.main ? ', main mode' : ''}` : `mode ${n}`;
+    const what = label
+      ? `${label.spurious ? 'spurious mode near overtone' : 'overtone'} ${label.overtone}${label.main ? ', main mode' : ''}`
+      : `mode ${n}`;
     lines.push(c(`branch ${n}: ${what}; fs ${g(br.fsHz)} Hz, Q ${g(qualityOf(br), 6)}`));
     lines.push(`R${n} 1 b${n}a ${num(br.r1Ohm)}`);
     lines.push(`L${n} b${n}a b${n}b ${num(inductanceOf(br))}`);
@@ -177,12 +217,19 @@ function plausibilityWarnings(model: BvdModel, chosen: number[], info: NetlistIn
     const q = qualityOf(br);
     const m = 1 / (2 * Math.PI * br.fsHz * model.c0F * br.r1Ohm);
     // Spurious modes are weak by nature; the low-M caution is about the wanted modes.
-    if (m < 4 && !info.labels?.[bi]?.spurious) out.push(`mode at ${g(br.fsHz, 9)} Hz has a low figure of merit M = ${g(m, 3)} (< 4): zero-phase frequencies barely exist`);
+    if (m < 4 && !info.labels?.[bi]?.spurious)
+      out.push(
+        `mode at ${g(br.fsHz, 9)} Hz has a low figure of merit M = ${g(m, 3)} (< 4): zero-phase frequencies barely exist`,
+      );
     if (info.kind === 'quartz-at' && !info.labels?.[bi]?.spurious) {
       const n = info.labels?.[bi]?.overtone ?? 1;
       const rMin = (n * n * Math.PI * Math.PI) / (8 * AT_COUPLING * AT_COUPLING);
-      if (model.c0F / br.c1F < rMin) out.push(`mode at ${g(br.fsHz, 9)} Hz has r = C0/C1 = ${g(model.c0F / br.c1F, 4)} below the AT-cut minimum ${g(rMin, 5)}`);
-      if (q * br.fsHz > AT_MAX_QF_HZ) out.push(`mode at ${g(br.fsHz, 9)} Hz has Q*f = ${g(q * br.fsHz, 3)} Hz above the plausible AT-cut limit`);
+      if (model.c0F / br.c1F < rMin)
+        out.push(
+          `mode at ${g(br.fsHz, 9)} Hz has r = C0/C1 = ${g(model.c0F / br.c1F, 4)} below the AT-cut minimum ${g(rMin, 5)}`,
+        );
+      if (q * br.fsHz > AT_MAX_QF_HZ)
+        out.push(`mode at ${g(br.fsHz, 9)} Hz has Q*f = ${g(q * br.fsHz, 3)} Hz above the plausible AT-cut limit`);
     }
   }
   return out;

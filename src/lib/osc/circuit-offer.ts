@@ -14,7 +14,8 @@ import { loadFrequencyHz } from './load.ts';
 export function offerFrequencyHz(datasheet: Datasheet | undefined, model: BvdModel, mainBranch: number): number {
   const br = model.branches[mainBranch];
   if (datasheet?.frequencyHz !== undefined) return datasheet.frequencyHz;
-  if (typeof datasheet?.loadCapacitanceF === 'number') return loadFrequencyHz(br, model.c0F, datasheet.loadCapacitanceF);
+  if (typeof datasheet?.loadCapacitanceF === 'number')
+    return loadFrequencyHz(br, model.c0F, datasheet.loadCapacitanceF);
   return br.fsHz;
 }
 
@@ -23,4 +24,3 @@ export function circuitCovers(circuit: OscillatorCircuit, freqHz: number): boole
   const r = circuit.frequencyRangeHz;
   return !r || (freqHz >= r.min && freqHz <= r.max);
 }
-

@@ -74,7 +74,10 @@ export function frequencyAtDatasheetLoad(
   const model = sampleModel(sample);
   const solved = loadResonanceWithLoss(model, main, load);
   if (solved.ok) return { freqHz: solved.freqHz, basis: `load resonance with R1 at CL ${fmt(load * 1e12)} pF` };
-  return { freqHz: loadFrequencyHz(model.branches[main], model.c0F, load), basis: `lossless load resonance at CL ${fmt(load * 1e12)} pF (${solved.reason})` };
+  return {
+    freqHz: loadFrequencyHz(model.branches[main], model.c0F, load),
+    basis: `lossless load resonance at CL ${fmt(load * 1e12)} pF (${solved.reason})`,
+  };
 }
 
 /**
@@ -88,7 +91,9 @@ export function checkCompliance(sample: ComplianceSample, datasheet: Datasheet =
   const result: ComplianceResult = { sample: sample.sample, mainMode: main.index, mainModeRule: main.rule, items };
 
   // Frequency.
-  const f = mode ? frequencyAtDatasheetLoad(sample, main.index, datasheet.loadCapacitanceF) : { reason: 'no main mode' };
+  const f = mode
+    ? frequencyAtDatasheetLoad(sample, main.index, datasheet.loadCapacitanceF)
+    : { reason: 'no main mode' };
   if ('freqHz' in f) {
     result.frequencyHz = f.freqHz;
     result.frequencyBasis = f.basis;
@@ -99,14 +104,28 @@ export function checkCompliance(sample: ComplianceSample, datasheet: Datasheet =
   } else {
     const offset = (f.freqHz / datasheet.frequencyHz - 1) * 1e6;
     const tol = datasheet.tolerancePpm;
-    const temp = sample.temperatureC !== undefined && Math.abs(sample.temperatureC - 25) > 5 ? `; measured at ${fmt(sample.temperatureC, 3)} °C, the tolerance holds at 25 °C` : '';
+    const temp =
+      sample.temperatureC !== undefined && Math.abs(sample.temperatureC - 25) > 5
+        ? `; measured at ${fmt(sample.temperatureC, 3)} °C, the tolerance holds at 25 °C`
+        : '';
     const what = `${f.basis}: ${fmt(f.freqHz, 12)} Hz, ${offset >= 0 ? '+' : ''}${offset.toFixed(3)} ppm from nominal ${fmt(datasheet.frequencyHz, 12)} Hz`;
     if (tol === undefined) {
-      items.push({ check: 'frequency', value: offset, unit: 'ppm', verdict: 'unknown', reason: `${what}; no datasheet tolerance${temp}` });
+      items.push({
+        check: 'frequency',
+        value: offset,
+        unit: 'ppm',
+        verdict: 'unknown',
+        reason: `${what}; no datasheet tolerance${temp}`,
+      });
     } else {
       const margin = tol - Math.abs(offset);
       items.push({
-        check: 'frequency', value: offset, limit: tol, unit: 'ppm', margin, marginUnit: 'ppm',
+        check: 'frequency',
+        value: offset,
+        limit: tol,
+        unit: 'ppm',
+        margin,
+        marginUnit: 'ppm',
         verdict: margin >= 0 ? 'pass' : 'fail',
         reason: `${what}; ${margin >= 0 ? 'within' : 'outside'} ±${fmt(tol)} ppm (margin ${margin.toFixed(3)} ppm)${temp}`,
       });
@@ -118,7 +137,9 @@ export function checkCompliance(sample: ComplianceSample, datasheet: Datasheet =
   else {
     const useRr = mode.rrOhm !== undefined;
     const value = useRr ? mode.rrOhm! : mode.r1Ohm;
-    const which = useRr ? 'resistance at fr (Rr)' : `R1 (Rr not available; they differ by about 1/M² = ${fmt(100 / (mode.m * mode.m), 2)} %)`;
+    const which = useRr
+      ? 'resistance at fr (Rr)'
+      : `R1 (Rr not available; they differ by about 1/M² = ${fmt(100 / (mode.m * mode.m), 2)} %)`;
     items.push(limitItem('esr', value, datasheet.esrMaxOhm, 'ohm', `${which} ${fmt(value)} Ω`, 'esrMax'));
   }
 
@@ -128,25 +149,55 @@ export function checkCompliance(sample: ComplianceSample, datasheet: Datasheet =
   // Overtone.
   if (!mode) items.push({ check: 'overtone', unit: '', verdict: 'unknown', reason: 'no main mode' });
   else if (datasheet.overtone === undefined) {
-    items.push({ check: 'overtone', value: mode.overtone, unit: '', verdict: 'unknown', reason: `main mode is overtone ${mode.overtone}; no datasheet overtone` });
+    items.push({
+      check: 'overtone',
+      value: mode.overtone,
+      unit: '',
+      verdict: 'unknown',
+      reason: `main mode is overtone ${mode.overtone}; no datasheet overtone`,
+    });
   } else if (main.rule !== NEAREST_NOMINAL_RULE) {
-    items.push({ check: 'overtone', value: mode.overtone, limit: datasheet.overtone, unit: '', verdict: 'unknown', reason: 'no mode near the datasheet frequency to locate the main mode' });
+    items.push({
+      check: 'overtone',
+      value: mode.overtone,
+      limit: datasheet.overtone,
+      unit: '',
+      verdict: 'unknown',
+      reason: 'no mode near the datasheet frequency to locate the main mode',
+    });
   } else {
     const same = mode.overtone === datasheet.overtone;
     items.push({
-      check: 'overtone', value: mode.overtone, limit: datasheet.overtone, unit: '', verdict: same ? 'pass' : 'fail',
+      check: 'overtone',
+      value: mode.overtone,
+      limit: datasheet.overtone,
+      unit: '',
+      verdict: same ? 'pass' : 'fail',
       reason: `the mode nearest the datasheet frequency is overtone ${mode.overtone}; datasheet says ${datasheet.overtone}`,
     });
   }
   return result;
 }
 
-function limitItem(check: 'esr' | 'c0', value: number, limit: number | undefined, unit: 'ohm' | 'F', what: string, field: string): ComplianceItem {
+function limitItem(
+  check: 'esr' | 'c0',
+  value: number,
+  limit: number | undefined,
+  unit: 'ohm' | 'F',
+  what: string,
+  field: string,
+): ComplianceItem {
   if (limit === undefined) return { check, value, unit, verdict: 'unknown', reason: `${what}; no datasheet ${field}` };
   const margin = ((limit - value) / limit) * 100;
   const shown = unit === 'F' ? `${fmt(limit * 1e12)} pF` : `${fmt(limit)} Ω`;
   return {
-    check, value, limit, unit, margin, marginUnit: '%', verdict: value <= limit ? 'pass' : 'fail',
+    check,
+    value,
+    limit,
+    unit,
+    margin,
+    marginUnit: '%',
+    verdict: value <= limit ? 'pass' : 'fail',
     reason: `${what} ${value <= limit ? 'within' : 'above'} the datasheet ${field} ${shown} (margin ${margin.toFixed(1)} %)`,
   };
 }

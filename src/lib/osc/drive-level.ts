@@ -9,7 +9,13 @@
  */
 
 /** Drive from the peak-to-peak voltage across the crystal (motional-current form), W. */
-export function driveFromCrystalVoltageW(r1Ohm: number, c0F: number, clF: number, freqHz: number, vxPp: number): number {
+export function driveFromCrystalVoltageW(
+  r1Ohm: number,
+  c0F: number,
+  clF: number,
+  freqHz: number,
+  vxPp: number,
+): number {
   const im = 2 * Math.PI * freqHz * (c0F + clF) * (vxPp / 2);
   return (r1Ohm * im * im) / 2;
 }

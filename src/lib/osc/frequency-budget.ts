@@ -67,7 +67,10 @@ function fmt(x: number, digits = 3): string {
 }
 
 /** Δf/f of the fitted f(T) at T, relative to its value at 25 °C, ppm (min and max over a range). */
-export function temperatureDeviationPpm(fit: TemperatureFit, rangeC: { min: number; max: number }): { min: number; max: number } {
+export function temperatureDeviationPpm(
+  fit: TemperatureFit,
+  rangeC: { min: number; max: number },
+): { min: number; max: number } {
   const rel = (t: number) => fit.coeffs.reduce((s, c, i) => s + c * (t - fit.t0C) ** (i + 1), 0) * 1e6;
   const ref = rel(REFERENCE_TEMPERATURE_C);
   let min = Infinity;
@@ -85,7 +88,13 @@ export function temperatureDeviationPpm(fit: TemperatureFit, rangeC: { min: numb
 export function frequencyBudget(input: BudgetInput): FrequencyBudget {
   const terms: BudgetTerm[] = [];
   const missing: string[] = [];
-  terms.push({ name: 'initial offset at the chosen capacitors', source: 'measured', minPpm: input.offsetPpm, maxPpm: input.offsetPpm, note: 'load resonance of the extracted sample' });
+  terms.push({
+    name: 'initial offset at the chosen capacitors',
+    source: 'measured',
+    minPpm: input.offsetPpm,
+    maxPpm: input.offsetPpm,
+    note: 'load resonance of the extracted sample',
+  });
   terms.push({
     name: 'capacitor tolerance and board stray',
     source: 'circuit tolerance',
@@ -97,19 +106,43 @@ export function frequencyBudget(input: BudgetInput): FrequencyBudget {
     const range = input.operatingRangeC ?? input.temperature.spanRangeC;
     const d = temperatureDeviationPpm(input.temperature, range);
     const which = input.operatingRangeC ? 'datasheet operating range' : 'measured range (no datasheet operating range)';
-    terms.push({ name: 'temperature', source: 'measured f(T)', minPpm: d.min, maxPpm: d.max, note: `${input.temperature.form} fit of the sample's f(T), ${fmt(range.min)} to ${fmt(range.max)} °C (${which}), relative to 25 °C` });
+    terms.push({
+      name: 'temperature',
+      source: 'measured f(T)',
+      minPpm: d.min,
+      maxPpm: d.max,
+      note: `${input.temperature.form} fit of the sample's f(T), ${fmt(range.min)} to ${fmt(range.max)} °C (${which}), relative to 25 °C`,
+    });
   } else if (input.stabilityPpm !== undefined) {
-    terms.push({ name: 'temperature', source: 'datasheet', minPpm: -input.stabilityPpm, maxPpm: input.stabilityPpm, note: 'datasheet stability over the operating range' });
+    terms.push({
+      name: 'temperature',
+      source: 'datasheet',
+      minPpm: -input.stabilityPpm,
+      maxPpm: input.stabilityPpm,
+      note: 'datasheet stability over the operating range',
+    });
   } else {
     missing.push('temperature (no measured f(T) and no datasheet stability)');
   }
   if (input.tolerancePpm !== undefined) {
-    terms.push({ name: 'part-to-part (calibration)', source: 'datasheet', minPpm: -input.tolerancePpm, maxPpm: input.tolerancePpm, note: 'datasheet tolerance at 25 °C; overlaps the initial offset for this sample' });
+    terms.push({
+      name: 'part-to-part (calibration)',
+      source: 'datasheet',
+      minPpm: -input.tolerancePpm,
+      maxPpm: input.tolerancePpm,
+      note: 'datasheet tolerance at 25 °C; overlaps the initial offset for this sample',
+    });
   } else {
     missing.push('part-to-part spread (no datasheet tolerance)');
   }
   if (input.agingPpm !== undefined) {
-    terms.push({ name: 'aging', source: 'datasheet', minPpm: -input.agingPpm, maxPpm: input.agingPpm, note: 'datasheet aging' });
+    terms.push({
+      name: 'aging',
+      source: 'datasheet',
+      minPpm: -input.agingPpm,
+      maxPpm: input.agingPpm,
+      note: 'datasheet aging',
+    });
   } else {
     missing.push('aging (not given)');
   }
@@ -119,7 +152,8 @@ export function frequencyBudget(input: BudgetInput): FrequencyBudget {
   const half = Math.sqrt(terms.reduce((s, t) => s + ((t.maxPpm - t.minPpm) / 2) ** 2, 0));
   const rssPpm = { min: centre - half, max: centre + half };
   const req = input.requirementPpm;
-  const range = (r: { min: number; max: number }) => `${r.min >= 0 ? '+' : ''}${fmt(r.min)} … ${r.max >= 0 ? '+' : ''}${fmt(r.max)} ppm`;
+  const range = (r: { min: number; max: number }) =>
+    `${r.min >= 0 ? '+' : ''}${fmt(r.min)} … ${r.max >= 0 ? '+' : ''}${fmt(r.max)} ppm`;
   const inside = (r: { min: number; max: number }) => req !== undefined && r.min >= -req && r.max <= req;
   let verdict: BudgetVerdict;
   let reason: string;

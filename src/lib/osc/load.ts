@@ -48,7 +48,7 @@ export function loadOffsetPpm(branch: MotionalBranch, c0F: number, clF: number):
 export function pullingPpm(branch: MotionalBranch, c0F: number, cl1F: number, cl2F: number): ExactApprox {
   const a = loadOffsetPpm(branch, c0F, cl1F);
   const b = loadOffsetPpm(branch, c0F, cl2F);
-  const approx = (branch.c1F * (cl2F - cl1F)) / (2 * (c0F + cl1F) * (c0F + cl2F)) * PPM;
+  const approx = ((branch.c1F * (cl2F - cl1F)) / (2 * (c0F + cl1F) * (c0F + cl2F))) * PPM;
   return { exact: a.exact - b.exact, approx };
 }
 
@@ -73,9 +73,14 @@ export function loadResistanceOhm(r1Ohm: number, c0F: number, clF: number): numb
 export function loadCapacitanceForHz(branch: MotionalBranch, c0F: number, targetHz: number): Solved<{ clF: number }> {
   const ratio = targetHz / branch.fsHz;
   const u = (ratio - 1) * (ratio + 1);
-  if (!(u > 0)) return { ok: false, reason: `target ${targetHz} Hz is not above fs ${branch.fsHz} Hz: no load capacitance reaches it` };
+  if (!(u > 0))
+    return {
+      ok: false,
+      reason: `target ${targetHz} Hz is not above fs ${branch.fsHz} Hz: no load capacitance reaches it`,
+    };
   const clF = branch.c1F / u - c0F;
-  if (!(clF > 0)) return { ok: false, reason: `target ${targetHz} Hz is above the pulling range (needs CL ${clF} F, not positive)` };
+  if (!(clF > 0))
+    return { ok: false, reason: `target ${targetHz} Hz is above the pulling range (needs CL ${clF} F, not positive)` };
   return { ok: true, clF };
 }
 
@@ -99,7 +104,11 @@ const MAX_BISECTIONS = 200;
  * model, and the resistance there (RL, exact). Fails with a reason when no zero-phase point
  * exists near the branch (very low M).
  */
-export function loadResonanceWithLoss(model: BvdModel, branchIndex: number, clF: number): Solved<{ freqHz: number; rlOhm: number }> {
+export function loadResonanceWithLoss(
+  model: BvdModel,
+  branchIndex: number,
+  clF: number,
+): Solved<{ freqHz: number; rlOhm: number }> {
   const part = partOnly(model);
   const br = part.branches[branchIndex];
   if (!br) return { ok: false, reason: `no branch ${branchIndex}` };
@@ -117,7 +126,11 @@ export function loadResonanceWithLoss(model: BvdModel, branchIndex: number, clF:
     }
     lo = Math.max(lo, fL0 + step);
   }
-  if (Number.isNaN(hi)) return { ok: false, reason: `no zero-phase load resonance below fp (M = ${(1 / (2 * Math.PI * br.fsHz * part.c0F * br.r1Ohm)).toPrecision(3)} too low)` };
+  if (Number.isNaN(hi))
+    return {
+      ok: false,
+      reason: `no zero-phase load resonance below fp (M = ${(1 / (2 * Math.PI * br.fsHz * part.c0F * br.r1Ohm)).toPrecision(3)} too low)`,
+    };
   for (let i = 0; i < MAX_BISECTIONS; i++) {
     const mid = 0.5 * (lo + hi);
     if (mid <= lo || mid >= hi) break;
@@ -137,7 +150,11 @@ const MAX_CL_PASSES = 30;
  * The load capacitance that puts the load resonance *with R1* (full model) on `targetHz`, F.
  * Starts from the lossless answer and corrects it by the lossless inverse of the residual.
  */
-export function loadCapacitanceForWithLoss(model: BvdModel, branchIndex: number, targetHz: number): Solved<{ clF: number }> {
+export function loadCapacitanceForWithLoss(
+  model: BvdModel,
+  branchIndex: number,
+  targetHz: number,
+): Solved<{ clF: number }> {
   const br = model.branches[branchIndex];
   if (!br) return { ok: false, reason: `no branch ${branchIndex}` };
   const first = loadCapacitanceForHz(br, model.c0F, targetHz);

@@ -71,7 +71,16 @@ function summarise(parameter: LotParameter, rows: Array<{ sample: string; value:
   const mean = values.reduce((a, b) => a + b, 0) / n;
   const std = n > 1 ? Math.sqrt(values.reduce((a, v) => a + (v - mean) ** 2, 0) / (n - 1)) : undefined;
   const med = median(values);
-  const stats: ParameterStats = { parameter, n, mean, std, min: Math.min(...values), max: Math.max(...values), median: med, outliers: [] };
+  const stats: ParameterStats = {
+    parameter,
+    n,
+    mean,
+    std,
+    min: Math.min(...values),
+    max: Math.max(...values),
+    median: med,
+    outliers: [],
+  };
   if (n < MIN_OUTLIER_N) {
     stats.note = `no outlier test with ${n} sample${n === 1 ? '' : 's'} (needs ${MIN_OUTLIER_N})`;
     return stats;
@@ -91,7 +100,10 @@ function summarise(parameter: LotParameter, rows: Array<{ sample: string; value:
 }
 
 /** Lot statistics over a part's samples (the main mode each sample's extraction recorded). */
-export function lotStatistics(samples: Array<Pick<SampleResult, 'sample' | 'c0F' | 'modes' | 'mainMode'>>, datasheet: Datasheet = {}): LotStatistics {
+export function lotStatistics(
+  samples: Array<Pick<SampleResult, 'sample' | 'c0F' | 'modes' | 'mainMode'>>,
+  datasheet: Datasheet = {},
+): LotStatistics {
   const rows = new Map<LotParameter, Array<{ sample: string; value: number }>>(LOT_PARAMETERS.map((p) => [p, []]));
   const notes: string[] = [];
   let n = 0;
@@ -120,7 +132,8 @@ export function lotStatistics(samples: Array<Pick<SampleResult, 'sample' | 'c0F'
     }
   }
   const parameters = LOT_PARAMETERS.filter((p) => rows.get(p)!.length > 0).map((p) => summarise(p, rows.get(p)!));
-  if (n < MIN_OUTLIER_N) notes.push(`${n} sample${n === 1 ? '' : 's'}: too few for an outlier test (needs ${MIN_OUTLIER_N})`);
+  if (n < MIN_OUTLIER_N)
+    notes.push(`${n} sample${n === 1 ? '' : 's'}: too few for an outlier test (needs ${MIN_OUTLIER_N})`);
   return {
     n,
     parameters,

@@ -51,10 +51,22 @@ export function negativeResistanceCurve(args: {
     const cb = x + circuit.outputCapacitanceF + circuit.boardStrayF;
     const cl = (ca * cb) / (ca + cb) + circuit.pinToPinStrayF;
     const f = loadFrequencyHz(br, model.c0F, cl);
-    const nr = negativeResistance({ gmS: circuit.gmS, caF: ca, cbF: cb, pinToPinF: circuit.pinToPinStrayF }, model.c0F, f);
+    const nr = negativeResistance(
+      { gmS: circuit.gmS, caF: ca, cbF: cb, pinToPinF: circuit.pinToPinStrayF },
+      model.c0F,
+      f,
+    );
     clF.push(cl);
     pinsOhm.push(-nr.atPinsOhm);
     motionalOhm.push(-nr.motionalOhm);
   }
-  return { circuit: circuit.name, clF, pinsOhm, motionalOhm, r1Ohm: br.r1Ohm, esrMaxOhm: args.esrMaxOhm, chosenClF: args.chosenClF };
+  return {
+    circuit: circuit.name,
+    clF,
+    pinsOhm,
+    motionalOhm,
+    r1Ohm: br.r1Ohm,
+    esrMaxOhm: args.esrMaxOhm,
+    chosenClF: args.chosenClF,
+  };
 }

@@ -34,8 +34,22 @@ function locate(doc: Document, lc: LineCounter, path: PathKey[]): { line: number
 /** Parse and validate the oscillators file. */
 export function parseOscillatorsYaml(text: string, file: string): ParseOscillatorsResult {
   const issues: Issue[] = [];
-  const err = (line: number, col: number, path: PathKey[], message: string, severity: Issue['severity'] = 'error'): void => {
-    issues.push({ severity, file, line, col, path: path.length ? pathText(path) : undefined, message, code: 'oscillators' });
+  const err = (
+    line: number,
+    col: number,
+    path: PathKey[],
+    message: string,
+    severity: Issue['severity'] = 'error',
+  ): void => {
+    issues.push({
+      severity,
+      file,
+      line,
+      col,
+      path: path.length ? pathText(path) : undefined,
+      message,
+      code: 'oscillators',
+    });
   };
   if (text.length > MAX_OSCILLATORS_CHARS) {
     err(1, 1, [], `file of ${text.length} characters is larger than the ${MAX_OSCILLATORS_CHARS} accepted`);
@@ -81,7 +95,13 @@ export function parseOscillatorsYaml(text: string, file: string): ParseOscillato
       const key = isNode(pair.key) ? String((pair.key as Node & { value?: unknown }).value ?? '') : String(pair.key);
       if (!CIRCUIT_KEYS.includes(key)) {
         const pos = isNode(pair.key) && pair.key.range ? lc.linePos(pair.key.range[0]) : locate(doc, lc, base);
-        err(pos.line, pos.col, [...base, key], `unknown key "${key}" ignored (known: ${CIRCUIT_KEYS.join(', ')})`, 'warning');
+        err(
+          pos.line,
+          pos.col,
+          [...base, key],
+          `unknown key "${key}" ignored (known: ${CIRCUIT_KEYS.join(', ')})`,
+          'warning',
+        );
       }
     }
     const parsed = OscillatorCircuitSchema.safeParse(item.toJS(doc));
@@ -90,7 +110,12 @@ export function parseOscillatorsYaml(text: string, file: string): ParseOscillato
         const path = [...base, ...(zi.path as PathKey[])];
         const pos = locate(doc, lc, path);
         const missing = zi.path.length === 1 && doc.getIn(path, true) === undefined;
-        err(pos.line, pos.col, path, missing ? `missing required field "${String(zi.path[zi.path.length - 1])}"` : zi.message);
+        err(
+          pos.line,
+          pos.col,
+          path,
+          missing ? `missing required field "${String(zi.path[zi.path.length - 1])}"` : zi.message,
+        );
       }
       return;
     }

@@ -48,7 +48,10 @@ function parallelCap(z: Impedance, cF: number, w: number): Impedance {
 /** Impedance the circuit presents across the crystal pins (gm, Ca, Cb and Cpp), Ω. */
 export function impedanceAtPins(net: PierceNetwork, freqHz: number): Impedance {
   const w = 2 * Math.PI * freqHz;
-  const zc: Impedance = { reOhm: -net.gmS / (w * w * net.caF * net.cbF), imOhm: -(1 / (w * net.caF) + 1 / (w * net.cbF)) };
+  const zc: Impedance = {
+    reOhm: -net.gmS / (w * w * net.caF * net.cbF),
+    imOhm: -(1 / (w * net.caF) + 1 / (w * net.cbF)),
+  };
   return net.pinToPinF > 0 ? parallelCap(zc, net.pinToPinF, w) : zc;
 }
 
@@ -76,7 +79,11 @@ export interface NegativeResistance {
 export function negativeResistance(net: PierceNetwork, c0F: number, freqHz: number): NegativeResistance {
   const pins = impedanceAtPins(net, freqHz);
   const w = 2 * Math.PI * freqHz;
-  return { atPinsOhm: pins.reOhm, motionalOhm: parallelCap(pins, c0F, w).reOhm, loadCapacitanceF: -1 / (w * pins.imOhm) };
+  return {
+    atPinsOhm: pins.reOhm,
+    motionalOhm: parallelCap(pins, c0F, w).reOhm,
+    loadCapacitanceF: -1 / (w * pins.imOhm),
+  };
 }
 
 /** Bisection steps for the critical transconductance. */
@@ -110,7 +117,11 @@ export function criticalGmFullS(net: PierceNetwork, c0F: number, r1Ohm: number, 
  * the branch's parallel resonance with C0 (bisection), Hz; the small-signal oscillation frequency.
  * Undefined when the network does not bring the reactance to zero there.
  */
-export function loopFrequencyHz(net: PierceNetwork, c0F: number, branch: { fsHz: number; c1F: number }): number | undefined {
+export function loopFrequencyHz(
+  net: PierceNetwork,
+  c0F: number,
+  branch: { fsHz: number; c1F: number },
+): number | undefined {
   const l1H = 1 / ((2 * Math.PI * branch.fsHz) ** 2 * branch.c1F);
   const x = (f: number) => {
     const w = 2 * Math.PI * f;

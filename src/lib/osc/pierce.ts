@@ -93,7 +93,14 @@ export interface CapacitorPair {
   driveW: number;
   /** Frequency budget against the circuit's requirement. */
   budget: FrequencyBudget;
-  checks: { frequency: AdviceCheck; gainMargin: AdviceCheck; negativeResistance: AdviceCheck; startup: AdviceCheck; budget: AdviceCheck; drive: AdviceCheck };
+  checks: {
+    frequency: AdviceCheck;
+    gainMargin: AdviceCheck;
+    negativeResistance: AdviceCheck;
+    startup: AdviceCheck;
+    budget: AdviceCheck;
+    drive: AdviceCheck;
+  };
 }
 
 export interface PierceAdviceInput {
@@ -114,7 +121,8 @@ export interface PierceAdviceInput {
 export interface PierceTarget {
   /** The frequency the capacitors aim at, Hz. */
   targetHz: number;
-  targetBasis: 'datasheet frequency' | 'frequency at the datasheet load capacitance' | 'frequency at the given load capacitance';
+  targetBasis:
+    'datasheet frequency' | 'frequency at the datasheet load capacitance' | 'frequency at the given load capacitance';
   /** Load capacitance that puts this sample on the target, F. */
   idealLoadF: number;
 }
@@ -145,11 +153,11 @@ const PPM = 1e6;
 /** Cautions shown with every advice (as in README: Cautions). */
 export const PIERCE_CAUTIONS: readonly string[] = [
   'load-capacitor advice depends on stray capacitance that only a board measurement settles; confirm frequency, start-up and negative-resistance margin on the real board over temperature and supply',
-  'gm and negative-resistance margins are small-signal; oscillator ICs vary with process, voltage and temperature — use the IC maker\'s limits (maximum ESR, gm,crit) where given',
-  'never exceed the crystal maker\'s maximum drive level; the drive estimate assumes a sinusoidal swing across the crystal',
-  'start-up times are small-signal envelope estimates from the noise level; confirm start-up on the real board at the lowest supply, the hottest and coldest temperature and the largest crystal resistance, and defer to the crystal maker\'s and IC maker\'s qualification',
+  "gm and negative-resistance margins are small-signal; oscillator ICs vary with process, voltage and temperature — use the IC maker's limits (maximum ESR, gm,crit) where given",
+  "never exceed the crystal maker's maximum drive level; the drive estimate assumes a sinusoidal swing across the crystal",
+  "start-up times are small-signal envelope estimates from the noise level; confirm start-up on the real board at the lowest supply, the hottest and coldest temperature and the largest crystal resistance, and defer to the crystal maker's and IC maker's qualification",
   'extracted parameters describe one sample at one drive level, temperature and fixture; they are not a specification',
-  'frequency accuracy for regulated radio bands and protocols is the product designer\'s responsibility; these are engineering estimates, not compliance evidence',
+  "frequency accuracy for regulated radio bands and protocols is the product designer's responsibility; these are engineering estimates, not compliance evidence",
 ];
 
 function fmt(x: number, digits = 4): string {
@@ -181,14 +189,18 @@ function evaluatePair(input: PierceAdviceInput, targetHz: number, inF: number, o
   const t = circuit.capacitorToleranceFraction;
   const u = circuit.boardStrayUncertaintyF;
   const upp = circuit.pinToPinStrayUncertaintyF;
-  for (const sa of [-1, 1]) for (const sb of [-1, 1]) for (const ba of [-1, 1]) for (const bb of [-1, 1]) for (const sp of [-1, 1]) {
-    const ca = inF * (1 + sa * t) + circuit.inputCapacitanceF + Math.max(0, circuit.boardStrayF + ba * u);
-    const cb = outF * (1 + sb * t) + circuit.outputCapacitanceF + Math.max(0, circuit.boardStrayF + bb * u);
-    const cl = (ca * cb) / (ca + cb) + Math.max(0, circuit.pinToPinStrayF + sp * upp);
-    const off = offsetOf(cl);
-    min = Math.min(min, off);
-    max = Math.max(max, off);
-  }
+  for (const sa of [-1, 1])
+    for (const sb of [-1, 1])
+      for (const ba of [-1, 1])
+        for (const bb of [-1, 1])
+          for (const sp of [-1, 1]) {
+            const ca = inF * (1 + sa * t) + circuit.inputCapacitanceF + Math.max(0, circuit.boardStrayF + ba * u);
+            const cb = outF * (1 + sb * t) + circuit.outputCapacitanceF + Math.max(0, circuit.boardStrayF + bb * u);
+            const cl = (ca * cb) / (ca + cb) + Math.max(0, circuit.pinToPinStrayF + sp * upp);
+            const off = offsetOf(cl);
+            min = Math.min(min, off);
+            max = Math.max(max, off);
+          }
 
   // gm,crit of the closed form lumps the pin-to-pin stray into C0 (exact for its purpose).
   const c0Eff = model.c0F + circuit.pinToPinStrayF;
@@ -205,9 +217,19 @@ function evaluatePair(input: PierceAdviceInput, targetHz: number, inF: number, o
   const gmCritFull = criticalGmFullS(net, model.c0F, br.r1Ohm, freqHz);
   const swingVpp =
     circuit.swingVpp ??
-    (circuit.currentLimitA !== undefined && gmCritFull !== undefined ? limitedSwingVpp(circuit.currentLimitA, gmCritFull, nominal.ca, nominal.cb, circuit.supplyV) : circuit.supplyV);
+    (circuit.currentLimitA !== undefined && gmCritFull !== undefined
+      ? limitedSwingVpp(circuit.currentLimitA, gmCritFull, nominal.ca, nominal.cb, circuit.supplyV)
+      : circuit.supplyV);
   const l1H = 1 / ((2 * Math.PI * br.fsHz) ** 2 * br.c1F);
-  const startup = estimateStartup({ l1H, r1Ohm: br.r1Ohm, motionalOhm: nr.motionalOhm, c0F: model.c0F, clF: nominal.cl, freqHz, swingVpp });
+  const startup = estimateStartup({
+    l1H,
+    r1Ohm: br.r1Ohm,
+    motionalOhm: nr.motionalOhm,
+    c0F: model.c0F,
+    clF: nominal.cl,
+    freqHz,
+    swingVpp,
+  });
   const driveW = driveFromCrystalVoltageW(br.r1Ohm, model.c0F, nominal.cl, freqHz, swingVpp);
   const offsetPpm = offsetOf(nominal.cl);
   const budget = frequencyBudget({
@@ -262,16 +284,36 @@ function timeText(s: number): string {
   return `${fmt(s * 1e6, 3)} µs`;
 }
 
-function startupCheck(st: { tauS: number; timeS: number; timeConstants: number; motionalRatio: number }, r1Ohm: number, rmOhm: number, maxS: number | undefined): AdviceCheck {
+function startupCheck(
+  st: { tauS: number; timeS: number; timeConstants: number; motionalRatio: number },
+  r1Ohm: number,
+  rmOhm: number,
+  maxS: number | undefined,
+): AdviceCheck {
   const seen = `resistance seen by the motional branch ${fmt(rmOhm)} Ω = ${fmt(st.motionalRatio, 3)} × R1 (${fmt(r1Ohm)} Ω)`;
-  if (!Number.isFinite(st.tauS)) return { verdict: 'fail', reason: `${seen}: the losses are not overcome, the oscillator does not start` };
+  if (!Number.isFinite(st.tauS))
+    return { verdict: 'fail', reason: `${seen}: the losses are not overcome, the oscillator does not start` };
   const text = `${seen}; envelope time constant ${timeText(st.tauS)}, start-up about ${timeText(st.timeS)} (${fmt(st.timeConstants, 3)} time constants from the noise level)`;
-  if (maxS !== undefined && st.timeS > maxS) return { verdict: 'warn', reason: `${text}: exceeds the circuit's start-up requirement ${timeText(maxS)}` };
-  if (st.motionalRatio < MIN_MOTIONAL_RATIO) return { verdict: 'warn', reason: `${text}: |Rm| barely exceeds R1 (below ${MIN_MOTIONAL_RATIO} × R1) — a small rise of R1 or fall of gm stops it` };
-  return { verdict: 'pass', reason: `${text}${maxS !== undefined ? `: within the requirement ${timeText(maxS)}` : ''}` };
+  if (maxS !== undefined && st.timeS > maxS)
+    return { verdict: 'warn', reason: `${text}: exceeds the circuit's start-up requirement ${timeText(maxS)}` };
+  if (st.motionalRatio < MIN_MOTIONAL_RATIO)
+    return {
+      verdict: 'warn',
+      reason: `${text}: |Rm| barely exceeds R1 (below ${MIN_MOTIONAL_RATIO} × R1) — a small rise of R1 or fall of gm stops it`,
+    };
+  return {
+    verdict: 'pass',
+    reason: `${text}${maxS !== undefined ? `: within the requirement ${timeText(maxS)}` : ''}`,
+  };
 }
 
-function frequencyCheck(offsetPpm: number, min: number, max: number, tolPpm: number | undefined, c: OscillatorCircuit): AdviceCheck {
+function frequencyCheck(
+  offsetPpm: number,
+  min: number,
+  max: number,
+  tolPpm: number | undefined,
+  c: OscillatorCircuit,
+): AdviceCheck {
   const band = `offset ${signed(offsetPpm)}, band ${signed(min)} … ${signed(max)} over ${fmt(c.capacitorToleranceFraction * 100)} % capacitors and ±${pf(c.boardStrayUncertaintyF)} board stray per pin`;
   if (tolPpm === undefined) return { verdict: 'warn', reason: `${band}; no datasheet tolerance to compare against` };
   const inside = Math.max(Math.abs(min), Math.abs(max)) <= tolPpm;
@@ -282,7 +324,10 @@ function frequencyCheck(offsetPpm: number, min: number, max: number, tolPpm: num
 
 function gainCheck(margin: number, marginDs: number | undefined): AdviceCheck {
   const worst = marginDs !== undefined ? Math.min(margin, marginDs) : margin;
-  const which = marginDs !== undefined ? `${fmt(margin, 3)} with the extracted R1, ${fmt(marginDs, 3)} with the datasheet maximum ESR` : `${fmt(margin, 3)} with the extracted R1 (no datasheet maximum ESR)`;
+  const which =
+    marginDs !== undefined
+      ? `${fmt(margin, 3)} with the extracted R1, ${fmt(marginDs, 3)} with the datasheet maximum ESR`
+      : `${fmt(margin, 3)} with the extracted R1 (no datasheet maximum ESR)`;
   const rule = `common-practice minimum ${MIN_GAIN_MARGIN} (engineering margin used in semiconductor vendors' Pierce notes, not a standard)`;
   return worst >= MIN_GAIN_MARGIN
     ? { verdict: 'pass', reason: `gain margin gm/gm,crit ${which}: at least the ${rule}` }
@@ -303,11 +348,18 @@ function driveCheck(driveW: number, dsMaxW: number | undefined, circuitMaxW: num
   if (dsMaxW !== undefined) limits.push(`datasheet maximum ${uw(dsMaxW)}`);
   if (circuitMaxW !== undefined) limits.push(`circuit budget ${uw(circuitMaxW)}`);
   const text = `estimated drive ${uw(driveW)}`;
-  if (!limits.length) return { verdict: 'warn', reason: `${text}; no datasheet maximum drive or circuit budget to compare against — check with the crystal maker` };
+  if (!limits.length)
+    return {
+      verdict: 'warn',
+      reason: `${text}; no datasheet maximum drive or circuit budget to compare against — check with the crystal maker`,
+    };
   const limit = Math.min(dsMaxW ?? Infinity, circuitMaxW ?? Infinity);
   return driveW <= limit
     ? { verdict: 'pass', reason: `${text} within the ${limits.join(' and ')}` }
-    : { verdict: 'warn', reason: `${text} exceeds the ${limits.join(' / ')}: add a series resistor or reduce the swing` };
+    : {
+        verdict: 'warn',
+        reason: `${text} exceeds the ${limits.join(' / ')}: add a series resistor or reduce the swing`,
+      };
 }
 
 /** Equal external capacitor x that gives series capacitance cs: (a+x)(b+x)/(a+b+2x) = cs. */
@@ -351,19 +403,27 @@ export function advisePierce(input: PierceAdviceInput): PierceAdvice {
     targetBasis = 'datasheet frequency';
     const cl = loadCapacitanceForHz(br, model.c0F, targetHz);
     if (!cl.ok) {
-      const why = datasheet.loadCapacitanceF === 'series' ? 'the datasheet calibrates this part at series resonance, which a Pierce circuit never reaches; order the part for a load capacitance' : cl.reason;
+      const why =
+        datasheet.loadCapacitanceF === 'series'
+          ? 'the datasheet calibrates this part at series resonance, which a Pierce circuit never reaches; order the part for a load capacitance'
+          : cl.reason;
       return fail(`this sample cannot reach the datasheet frequency in a Pierce circuit: ${why}`);
     }
     idealLoadF = cl.clF;
   } else if (givenLoad !== undefined) {
     targetHz = loadFrequencyHz(br, model.c0F, givenLoad);
-    targetBasis = input.targetLoadF !== undefined ? 'frequency at the given load capacitance' : 'frequency at the datasheet load capacitance';
+    targetBasis =
+      input.targetLoadF !== undefined
+        ? 'frequency at the given load capacitance'
+        : 'frequency at the datasheet load capacitance';
     idealLoadF = givenLoad;
   } else {
     return fail('no datasheet frequency or load capacitance: give a target load capacitance');
   }
   if (datasheet?.frequencyHz === undefined) {
-    assumptions.push('no datasheet frequency: offsets are from the sample\'s own frequency at the load capacitance, so they measure only the error in CL');
+    assumptions.push(
+      "no datasheet frequency: offsets are from the sample's own frequency at the load capacitance, so they measure only the error in CL",
+    );
   }
 
   const a = circuit.inputCapacitanceF + circuit.boardStrayF;
@@ -372,7 +432,10 @@ export function advisePierce(input: PierceAdviceInput): PierceAdvice {
   const target: PierceTarget = { targetHz, targetBasis, idealLoadF };
   const cs0 = a + b > 0 ? (a * b) / (a + b) : 0;
   if (!(csF > cs0)) {
-    return fail(`pin and stray capacitances alone (${pf(cs0 + circuit.pinToPinStrayF)}) already reach the load capacitance ${pf(idealLoadF)}: no external capacitors can realise it`, target);
+    return fail(
+      `pin and stray capacitances alone (${pf(cs0 + circuit.pinToPinStrayF)}) already reach the load capacitance ${pf(idealLoadF)}: no external capacitors can realise it`,
+      target,
+    );
   }
   const idealEqualCapF = equalCapFor(csF, a, b);
   const n = preferredNeighbours(idealEqualCapF, circuit.series);
@@ -393,10 +456,11 @@ export function advisePierce(input: PierceAdviceInput): PierceAdvice {
   }
   let best: CapacitorPair | undefined;
   const values = preferredRange(idealEqualCapF, circuit.series, PAIR_STEPS, PAIR_STEPS);
-  for (const x of values) for (const y of values) {
-    if (Math.max(x / y, y / x) > MAX_PAIR_RATIO * (1 + 1e-9)) continue;
-    const p = evaluate(x, y);
-    if (better(p, best)) best = p;
-  }
+  for (const x of values)
+    for (const y of values) {
+      if (Math.max(x / y, y / x) > MAX_PAIR_RATIO * (1 + 1e-9)) continue;
+      const p = evaluate(x, y);
+      if (better(p, best)) best = p;
+    }
   return { ...base, target, idealEqualCapF, ok: true, equal: equal!, best: best! };
 }

@@ -56,7 +56,15 @@ export interface StartupEstimate {
 }
 
 /** τ and the start-up time from the motional resistance, the steady swing and the branch. */
-export function estimateStartup(args: { l1H: number; r1Ohm: number; motionalOhm: number; c0F: number; clF: number; freqHz: number; swingVpp: number }): StartupEstimate {
+export function estimateStartup(args: {
+  l1H: number;
+  r1Ohm: number;
+  motionalOhm: number;
+  c0F: number;
+  clF: number;
+  freqHz: number;
+  swingVpp: number;
+}): StartupEstimate {
   const tauS = startupTauS(args.l1H, args.motionalOhm, args.r1Ohm);
   const ratio = steadyMotionalCurrentA(args.c0F, args.clF, args.freqHz, args.swingVpp) / noiseCurrentA(args.l1H);
   const timeConstants = Math.log(Math.max(ratio, 1));
@@ -70,7 +78,13 @@ export function estimateStartup(args: { l1H: number; r1Ohm: number; motionalOhm:
  * across the crystal is v1·(1 + Ca/Cb) (node 2 swings opposite to node 1 by Ca/Cb at resonance).
  * Capped by the supply.
  */
-export function limitedSwingVpp(currentLimitA: number, gmCritS: number, caF: number, cbF: number, supplyV: number): number {
+export function limitedSwingVpp(
+  currentLimitA: number,
+  gmCritS: number,
+  caF: number,
+  cbF: number,
+  supplyV: number,
+): number {
   const v1 = (4 * currentLimitA) / (Math.PI * gmCritS);
   return Math.min(2 * v1 * (1 + caF / cbF), supplyV);
 }

@@ -26,10 +26,18 @@ export function buildCompliance(part: Part, result: PartResult): ComplianceResul
  * extraction warned (warnings, non-info diagnostics, a sample without modes); `unknown` when
  * nothing could be checked; else `pass`.
  */
-export function summariseState(compliance: ComplianceResult[], samples: Array<Pick<SampleResult, 'modes' | 'warnings' | 'diagnostics'> | undefined>): ComplianceState {
+export function summariseState(
+  compliance: ComplianceResult[],
+  samples: Array<Pick<SampleResult, 'modes' | 'warnings' | 'diagnostics'> | undefined>,
+): ComplianceState {
   const verdicts = compliance.flatMap((c) => c.items.map((i) => i.verdict));
   if (verdicts.includes('fail')) return 'fail';
-  if (samples.some((s) => !s || s.modes.length === 0 || s.warnings.length > 0 || s.diagnostics.some((d) => d.severity !== 'info'))) return 'warnings';
+  if (
+    samples.some(
+      (s) => !s || s.modes.length === 0 || s.warnings.length > 0 || s.diagnostics.some((d) => d.severity !== 'info'),
+    )
+  )
+    return 'warnings';
   if (!verdicts.includes('pass')) return 'unknown';
   return 'pass';
 }
@@ -51,15 +59,38 @@ export function circuitsFor(circuits: OscillatorCircuit[], freqHz: number): Osci
 }
 
 /** Pierce advice for each circuit meant for the part, for one sample's main mode (what `advise` computes). */
-export function buildPierce(sample: SampleResult, main: { index: number }, part: Part, circuits: OscillatorCircuit[]): PierceAdvice[] {
+export function buildPierce(
+  sample: SampleResult,
+  main: { index: number },
+  part: Part,
+  circuits: OscillatorCircuit[],
+): PierceAdvice[] {
   const model = sampleModel(sample);
   return circuitsFor(circuits, offerFrequencyHz(part.datasheet, model, main.index)).map((circuit) =>
-    advisePierce({ partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuit, temperatureFit: sample.temperature }),
+    advisePierce({
+      partId: part.id,
+      datasheet: part.datasheet,
+      model,
+      mainBranch: main.index,
+      circuit,
+      temperatureFit: sample.temperature,
+    }),
   );
 }
 
 /** Calculator inputs: the same arguments `advisePierce` gets, for the client to vary. */
-export function buildCalculator(sample: SampleResult, main: { index: number }, part: Part, circuits: OscillatorCircuit[]): CalculatorData {
+export function buildCalculator(
+  sample: SampleResult,
+  main: { index: number },
+  part: Part,
+  circuits: OscillatorCircuit[],
+): CalculatorData {
   const model = sampleModel(sample);
-  return { partId: part.id, datasheet: part.datasheet, model, mainBranch: main.index, circuits: circuitsFor(circuits, offerFrequencyHz(part.datasheet, model, main.index)) };
+  return {
+    partId: part.id,
+    datasheet: part.datasheet,
+    model,
+    mainBranch: main.index,
+    circuits: circuitsFor(circuits, offerFrequencyHz(part.datasheet, model, main.index)),
+  };
 }

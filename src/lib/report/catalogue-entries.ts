@@ -45,7 +45,14 @@ export function makeCompareData(data: PartData): CompareData {
     summary: data.summary,
     datasheet: data.datasheet,
     mode: mode
-      ? { ...mode, measuredMag: thin(mode.measuredMag, 250), modelMag: thin(mode.modelMag, 200), measuredPhase: thin(mode.measuredPhase, 200), modelPhase: thin(mode.modelPhase, 150), residualPct: { x: [], y: [] } }
+      ? {
+          ...mode,
+          measuredMag: thin(mode.measuredMag, 250),
+          modelMag: thin(mode.modelMag, 200),
+          measuredPhase: thin(mode.measuredPhase, 200),
+          modelPhase: thin(mode.modelPhase, 150),
+          residualPct: { x: [], y: [] },
+        }
       : undefined,
     pulling: first?.plots.pulling,
     negativeResistance: negativeResistanceCurves(data),

@@ -108,7 +108,11 @@ export function catalogueRows(p: PartData): CatalogueRow[] {
     for (const sample of p.samples) {
       const mode = sample.mainMode && sample.mainMode.index >= 0 ? sample.modes[sample.mainMode.index] : undefined;
       const items = p.compliance.find((c) => c.sample === sample.id)?.items ?? [];
-      const verdict = items.some((i) => i.verdict === 'fail') ? 'fail' : items.length > 0 && items.every((i) => i.verdict === 'pass') ? 'pass' : 'unknown';
+      const verdict = items.some((i) => i.verdict === 'fail')
+        ? 'fail'
+        : items.length > 0 && items.every((i) => i.verdict === 'pass')
+          ? 'pass'
+          : 'unknown';
       rows.push({
         row: 'sample',
         ...common,

@@ -18,7 +18,14 @@ export function negativeResistanceCurves(data: PartData): NegativeResistanceCurv
     const hz = a.target?.targetHz ?? data.summary.fsHz;
     if (!circuit || hz === undefined || !circuitCovers(circuit, hz)) continue;
     const chosenClF = a.ok ? a.best.clF : undefined;
-    const c = negativeResistanceCurve({ model: calc.model, mainBranch: calc.mainBranch, circuit, esrMaxOhm: calc.datasheet?.esrMaxOhm, chosenClF, maxExternalF: Math.max(40e-12, 4 * (chosenClF ?? 0)) });
+    const c = negativeResistanceCurve({
+      model: calc.model,
+      mainBranch: calc.mainBranch,
+      circuit,
+      esrMaxOhm: calc.datasheet?.esrMaxOhm,
+      chosenClF,
+      maxExternalF: Math.max(40e-12, 4 * (chosenClF ?? 0)),
+    });
     if (c) out.push({ ...c, clF: c.clF.map(sig), pinsOhm: c.pinsOhm.map(sig), motionalOhm: c.motionalOhm.map(sig) });
   }
   return out;

@@ -33,7 +33,9 @@ export function sampleNetlist(part: Part, sample: SampleResult, options: { mainM
  * take it; when it has no modes, the first one that has.
  */
 export function defaultSample(result: PartResult): SampleResult | undefined {
-  return result.samples[0]?.modes.length ? result.samples[0] : (result.samples.find((s) => s.modes.length > 0) ?? result.samples[0]);
+  return result.samples[0]?.modes.length
+    ? result.samples[0]
+    : (result.samples.find((s) => s.modes.length > 0) ?? result.samples[0]);
 }
 
 function safeName(text: string): string {
@@ -44,25 +46,58 @@ function safeName(text: string): string {
 export function modelDownloads(part: Part, result: PartResult): DownloadFile[] {
   const id = part.id;
   const files: DownloadFile[] = [];
-const first = defaultSample(result);
-const withModes = result.samples.filter((s) => s.modes.length > 0);
-if (first && first.modes.length > 0) {
-  files.push({ name: `${id}.cir`, label: `SPICE netlist, all modes (sample ${first.sample})`, content: sampleNetlist(part, first) });
-  files.push({ name: `${id}-main.cir`, label: `SPICE netlist, main mode only (sample ${first.sample})`, content: sampleNetlist(part, first, { mainModeOnly: true }) });
-  const { model, labels } = modelFromResult(first);
-  const ts = formatModelTouchstone(model, netlistInfoOf(part, first, labels));
-  if (ts.ok) files.push({ name: `${id}-model.s1p`, label: `Model as Touchstone S-parameters (sample ${first.sample})`, content: ts.text });
-  const date = part.samples.find((s) => s.id === first.sample)?.measured;
-  files.push({ name: `${id}-parameters.json`, label: `Parameters, JSON (sample ${first.sample})`, content: formatParametersJson(first, { partId: id, date }) });
-  files.push({ name: `${id}-parameters.csv`, label: `Parameters, CSV (sample ${first.sample})`, content: formatParametersCsv(first) });
-  for (const s of withModes) {
-    if (s === first) continue;
-    const tag = `${id}-${safeName(s.sample)}`;
-    const d = part.samples.find((x) => x.id === s.sample)?.measured;
-    files.push({ name: `${tag}.cir`, label: `SPICE netlist, all modes (sample ${s.sample})`, content: sampleNetlist(part, s) });
-    files.push({ name: `${tag}-parameters.json`, label: `Parameters, JSON (sample ${s.sample})`, content: formatParametersJson(s, { partId: id, date: d }) });
-    files.push({ name: `${tag}-parameters.csv`, label: `Parameters, CSV (sample ${s.sample})`, content: formatParametersCsv(s) });
+  const first = defaultSample(result);
+  const withModes = result.samples.filter((s) => s.modes.length > 0);
+  if (first && first.modes.length > 0) {
+    files.push({
+      name: `${id}.cir`,
+      label: `SPICE netlist, all modes (sample ${first.sample})`,
+      content: sampleNetlist(part, first),
+    });
+    files.push({
+      name: `${id}-main.cir`,
+      label: `SPICE netlist, main mode only (sample ${first.sample})`,
+      content: sampleNetlist(part, first, { mainModeOnly: true }),
+    });
+    const { model, labels } = modelFromResult(first);
+    const ts = formatModelTouchstone(model, netlistInfoOf(part, first, labels));
+    if (ts.ok)
+      files.push({
+        name: `${id}-model.s1p`,
+        label: `Model as Touchstone S-parameters (sample ${first.sample})`,
+        content: ts.text,
+      });
+    const date = part.samples.find((s) => s.id === first.sample)?.measured;
+    files.push({
+      name: `${id}-parameters.json`,
+      label: `Parameters, JSON (sample ${first.sample})`,
+      content: formatParametersJson(first, { partId: id, date }),
+    });
+    files.push({
+      name: `${id}-parameters.csv`,
+      label: `Parameters, CSV (sample ${first.sample})`,
+      content: formatParametersCsv(first),
+    });
+    for (const s of withModes) {
+      if (s === first) continue;
+      const tag = `${id}-${safeName(s.sample)}`;
+      const d = part.samples.find((x) => x.id === s.sample)?.measured;
+      files.push({
+        name: `${tag}.cir`,
+        label: `SPICE netlist, all modes (sample ${s.sample})`,
+        content: sampleNetlist(part, s),
+      });
+      files.push({
+        name: `${tag}-parameters.json`,
+        label: `Parameters, JSON (sample ${s.sample})`,
+        content: formatParametersJson(s, { partId: id, date: d }),
+      });
+      files.push({
+        name: `${tag}-parameters.csv`,
+        label: `Parameters, CSV (sample ${s.sample})`,
+        content: formatParametersCsv(s),
+      });
+    }
   }
-}
   return files;
 }

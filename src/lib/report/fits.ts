@@ -20,7 +20,12 @@ export type FitVerdict = 'fits' | 'check' | 'no' | 'outside';
 export const FIT_VERDICTS: readonly FitVerdict[] = ['fits', 'check', 'no', 'outside'];
 
 /** Words shown for each verdict. */
-export const FIT_VERDICT_LABEL: Record<FitVerdict, string> = { fits: 'fits', check: 'check', no: 'does not fit', outside: 'outside range' };
+export const FIT_VERDICT_LABEL: Record<FitVerdict, string> = {
+  fits: 'fits',
+  check: 'check',
+  no: 'does not fit',
+  outside: 'outside range',
+};
 
 /** One part in one circuit. */
 export interface CircuitFit {
@@ -46,7 +51,8 @@ function finite(x: number): number | undefined {
 
 /** The fit row of one advice; `covers` says whether the circuit's range holds the part. */
 export function circuitFit(a: PierceAdvice, covers: boolean): CircuitFit {
-  if (!covers) return { circuit: a.circuit, verdict: 'outside', reason: "the part's frequency is outside the circuit's range" };
+  if (!covers)
+    return { circuit: a.circuit, verdict: 'outside', reason: "the part's frequency is outside the circuit's range" };
   if (!a.ok) return { circuit: a.circuit, verdict: 'no', reason: a.reason };
   const p = a.best;
   const c = p.checks;
@@ -81,8 +87,36 @@ export function fitsCsv(rows: Array<{ part: string } & CircuitFit>): string {
     const t = String(v);
     return /[",\n\r]/.test(t) ? `"${t.replace(/"/g, '""')}"` : t;
   };
-  const head = ['part', 'circuit', 'verdict', 'inputCapF', 'outputCapF', 'offsetPpm', 'gainMargin', 'startupTauS', 'startupTimeS', 'budgetWorstPpm', 'reason'];
-  const lines = rows.map((r) => [r.part, r.circuit, r.verdict, r.inputCapF, r.outputCapF, r.offsetPpm, r.gainMargin, r.startupTauS, r.startupTimeS, r.budgetWorstPpm, r.reason].map(q).join(','));
+  const head = [
+    'part',
+    'circuit',
+    'verdict',
+    'inputCapF',
+    'outputCapF',
+    'offsetPpm',
+    'gainMargin',
+    'startupTauS',
+    'startupTimeS',
+    'budgetWorstPpm',
+    'reason',
+  ];
+  const lines = rows.map((r) =>
+    [
+      r.part,
+      r.circuit,
+      r.verdict,
+      r.inputCapF,
+      r.outputCapF,
+      r.offsetPpm,
+      r.gainMargin,
+      r.startupTauS,
+      r.startupTimeS,
+      r.budgetWorstPpm,
+      r.reason,
+    ]
+      .map(q)
+      .join(','),
+  );
   return `${[head.join(','), ...lines].join('\n')}\n`;
 }
 
@@ -105,7 +139,11 @@ function round(x: number | undefined, digits: number): number | undefined {
 }
 
 /** Index fits of a part from its advice and the circuits it was advised for. */
-export function indexFits(pierce: PierceAdvice[], circuits: OscillatorCircuit[], fallbackHz: number | undefined): IndexFit[] {
+export function indexFits(
+  pierce: PierceAdvice[],
+  circuits: OscillatorCircuit[],
+  fallbackHz: number | undefined,
+): IndexFit[] {
   const out: IndexFit[] = [];
   for (const a of pierce) {
     const circuit = circuits.find((c) => c.name === a.circuit);
@@ -127,6 +165,9 @@ export function indexFits(pierce: PierceAdvice[], circuits: OscillatorCircuit[],
 }
 
 /** The fit of one circuit from an index entry's fits (`outside` when the circuit is not there). */
-export function fitFor(fits: IndexFit[] | undefined, circuit: string): IndexFit | { circuit: string; verdict: 'outside' } {
+export function fitFor(
+  fits: IndexFit[] | undefined,
+  circuit: string,
+): IndexFit | { circuit: string; verdict: 'outside' } {
   return fits?.find((f) => f.circuit === circuit) ?? { circuit, verdict: 'outside' };
 }

@@ -17,9 +17,16 @@ export function methodOf(s: SampleResult): string {
 export function netlistInfoOf(part: Part, sample: SampleResult, labels: NetlistInfo['labels']): NetlistInfo {
   const record = part.samples.find((s) => s.id === sample.sample);
   return {
-    partId: part.id, title: part.title, kind: part.kind, sample: sample.sample, labels,
-    temperatureC: sample.temperatureC, driveW: sample.driveW, date: record?.measured,
-    method: methodOf(sample), fitResidual: sample.fit.converged ? sample.fit.rmsResidual : undefined,
+    partId: part.id,
+    title: part.title,
+    kind: part.kind,
+    sample: sample.sample,
+    labels,
+    temperatureC: sample.temperatureC,
+    driveW: sample.driveW,
+    date: record?.measured,
+    method: methodOf(sample),
+    fitResidual: sample.fit.converged ? sample.fit.rmsResidual : undefined,
     validSpanHz: sample.spanHz.max > sample.spanHz.min ? sample.spanHz : undefined,
   };
 }

@@ -28,7 +28,10 @@ export interface ModelWithLabels {
  * The part-alone model of a sample with its branch labels, after selection. The main mode is the
  * one the extraction recorded (`mainMode`, picked by extract/main-mode.ts).
  */
-export function modelFromResult(sample: { c0F: number; modes: Array<ModeLike & { c1F: number }>; mainMode: MainModeResult }, options: ModelFromResultOptions = {}): ModelWithLabels {
+export function modelFromResult(
+  sample: { c0F: number; modes: Array<ModeLike & { c1F: number }>; mainMode: MainModeResult },
+  options: ModelFromResultOptions = {},
+): ModelWithLabels {
   const main = sample.mainMode;
   const full = sampleModel(sample);
   let keep = sample.modes.map((_, i) => i);
@@ -36,7 +39,11 @@ export function modelFromResult(sample: { c0F: number; modes: Array<ModeLike & {
   if (options.mainModeOnly) keep = main.index >= 0 ? [main.index] : [];
   return {
     model: { c0F: full.c0F, branches: keep.map((i) => full.branches[i]) },
-    labels: keep.map((i) => ({ overtone: sample.modes[i].overtone, spurious: sample.modes[i].spurious, main: i === main.index })),
+    labels: keep.map((i) => ({
+      overtone: sample.modes[i].overtone,
+      spurious: sample.modes[i].spurious,
+      main: i === main.index,
+    })),
     mainIndex: keep.indexOf(main.index),
     mainRule: main.rule,
   };
@@ -57,7 +64,10 @@ export interface MedianModel extends ModelWithLabels {
  * model only when more than half of the samples have it. Even counts take the mean of the middle two.
  * With no sample holding a mode the model is empty (n = 0, C0 = 0, no branches).
  */
-export function medianModel(samples: Array<Pick<SampleResult, 'c0F' | 'modes'>>, hints: MainModeHints = {}): MedianModel {
+export function medianModel(
+  samples: Array<Pick<SampleResult, 'c0F' | 'modes'>>,
+  hints: MainModeHints = {},
+): MedianModel {
   const withModes = samples.filter((s) => s.modes.length > 0);
   const groups = new Map<string, { overtone: number; spurious: boolean; fs: number[]; r1: number[]; c1: number[] }>();
   for (const s of withModes) {
@@ -78,7 +88,14 @@ export function medianModel(samples: Array<Pick<SampleResult, 'c0F' | 'modes'>>,
   }
   const kept = [...groups.values()].filter((grp) => grp.fs.length * 2 > withModes.length);
   const modes = kept
-    .map((grp) => ({ overtone: grp.overtone, spurious: grp.spurious, fsHz: median(grp.fs), r1Ohm: median(grp.r1), c1F: median(grp.c1), count: grp.fs.length }))
+    .map((grp) => ({
+      overtone: grp.overtone,
+      spurious: grp.spurious,
+      fsHz: median(grp.fs),
+      r1Ohm: median(grp.r1),
+      c1F: median(grp.c1),
+      count: grp.fs.length,
+    }))
     .sort((a, b) => Number(a.spurious) - Number(b.spurious) || a.overtone - b.overtone || a.fsHz - b.fsHz);
   const c0F = withModes.length ? median(withModes.map((s) => s.c0F)) : 0;
   const main = mainMode(modes, hints);

@@ -12,7 +12,10 @@ import { measuredCells } from '../units/measured.ts';
 export interface ExportSample {
   sample: string;
   c0F: number;
-  modes: Array<Pick<ModeResult, 'overtone' | 'spurious' | 'fsHz' | 'r1Ohm' | 'l1H' | 'c1F' | 'q'> & Partial<Pick<ModeResult, 'fpHz' | 'frHz' | 'faHz' | 'rrOhm' | 'm' | 'r' | 'uncertainty'>>>;
+  modes: Array<
+    Pick<ModeResult, 'overtone' | 'spurious' | 'fsHz' | 'r1Ohm' | 'l1H' | 'c1F' | 'q'> &
+      Partial<Pick<ModeResult, 'fpHz' | 'frHz' | 'faHz' | 'rrOhm' | 'm' | 'r' | 'uncertainty'>>
+  >;
   temperatureC?: number;
   driveW?: number;
 }

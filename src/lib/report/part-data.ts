@@ -41,18 +41,34 @@ export function byteLength(content: string | Uint8Array): number {
 }
 
 /** Build the page data of one part. The record must be valid (`loaded.part` present). */
-export function makePartData(loaded: RecordInput, result: PartResult, circuits: OscillatorCircuit[], options: MakePartDataOptions = {}): PartData {
+export function makePartData(
+  loaded: RecordInput,
+  result: PartResult,
+  circuits: OscillatorCircuit[],
+  options: MakePartDataOptions = {},
+): PartData {
   const part = loaded.part;
   if (!part) throw new Error(`makePartData: ${loaded.yamlFile} has no valid record`);
   const datasheet = part.datasheet;
   const samples = part.samples.map((sample, i) => {
     const res = result.samples.find((s) => s.sample === sample.id);
-    return sampleData(sample, res, loaded.sweeps.filter((s) => s.sampleId === sample.id), part, datasheet, i < MAX_DETAILED_SAMPLES, options);
+    return sampleData(
+      sample,
+      res,
+      loaded.sweeps.filter((s) => s.sampleId === sample.id),
+      part,
+      datasheet,
+      i < MAX_DETAILED_SAMPLES,
+      options,
+    );
   });
   const first = result.samples.find((s) => s.modes.length > 0);
   const main = first ? mainOf(first) : undefined;
   const compliance = buildCompliance(part, result);
-  const state = summariseState(compliance, part.samples.map((s) => result.samples.find((r) => r.sample === s.id)));
+  const state = summariseState(
+    compliance,
+    part.samples.map((s) => result.samples.find((r) => r.sample === s.id)),
+  );
   const summary: PartSummary = main && first ? summaryOf(first, main, datasheet, state) : { state };
   return {
     version: PART_DATA_VERSION,
@@ -71,8 +87,14 @@ export function makePartData(loaded: RecordInput, result: PartResult, circuits: 
     pierce: main && first ? buildPierce(first, main, part, circuits) : [],
     calculator: main && first ? buildCalculator(first, main, part, circuits) : undefined,
     samples,
-    downloads: (options.downloads ?? []).map((d): DownloadEntry => ({ name: d.name, label: d.label ?? d.name, bytes: byteLength(d.content) })),
-    recordWarnings: loaded.issues.filter((i) => i.severity === 'warning').map((i) => `${i.path ? `${i.path}: ` : ''}${i.message}`),
+    downloads: (options.downloads ?? []).map((d): DownloadEntry => ({
+      name: d.name,
+      label: d.label ?? d.name,
+      bytes: byteLength(d.content),
+    })),
+    recordWarnings: loaded.issues
+      .filter((i) => i.severity === 'warning')
+      .map((i) => `${i.path ? `${i.path}: ` : ''}${i.message}`),
   };
 }
 
@@ -82,7 +104,12 @@ export function mainOf(sample: SampleResult): { mode: ModeResult; index: number 
   return index >= 0 ? { mode: sample.modes[index], index } : undefined;
 }
 
-function summaryOf(sample: SampleResult, main: { mode: ModeResult }, ds: Datasheet | undefined, state: ComplianceState): PartSummary {
+function summaryOf(
+  sample: SampleResult,
+  main: { mode: ModeResult },
+  ds: Datasheet | undefined,
+  state: ComplianceState,
+): PartSummary {
   const m = main.mode;
   return {
     fsHz: m.fsHz,
@@ -114,7 +141,13 @@ function provenanceOf(sample: Sample, sweeps: RecordSweep[], options: MakePartDa
     instrumentMaxFrequencyHz: sample.instrumentMaxFrequencyHz,
     temperatureC: sample.temperatureC,
     compensation: sample.compensation
-      ? { open: sample.compensation.open, short: sample.compensation.short, load: sample.compensation.load, loadResistanceOhm: sample.compensation.loadResistanceOhm, fixture: sample.compensation.fixture }
+      ? {
+          open: sample.compensation.open,
+          short: sample.compensation.short,
+          load: sample.compensation.load,
+          loadResistanceOhm: sample.compensation.loadResistanceOhm,
+          fixture: sample.compensation.fixture,
+        }
       : undefined,
     sweeps: sample.sweeps.map((ref, i) => {
       const loaded = sweeps.find((s) => s.index === i);
@@ -141,10 +174,27 @@ function downloadBytes(options: MakePartDataOptions, file: string): number {
   return d ? byteLength(d.content) : 0;
 }
 
-function sampleData(sample: Sample, res: SampleResult | undefined, sweeps: RecordSweep[], part: Part, ds: Datasheet | undefined, detailed: boolean, options: MakePartDataOptions): SampleData {
+function sampleData(
+  sample: Sample,
+  res: SampleResult | undefined,
+  sweeps: RecordSweep[],
+  part: Part,
+  ds: Datasheet | undefined,
+  detailed: boolean,
+  options: MakePartDataOptions,
+): SampleData {
   const provenance = provenanceOf(sample, sweeps, options);
   if (!res) {
-    return { id: sample.id, provenance, ok: false, modes: [], warnings: ['no extraction result for this sample'], diagnostics: [], otherConditions: [], plots: { modes: [] } };
+    return {
+      id: sample.id,
+      provenance,
+      ok: false,
+      modes: [],
+      warnings: ['no extraction result for this sample'],
+      diagnostics: [],
+      otherConditions: [],
+      plots: { modes: [] },
+    };
   }
   const main = mainOf(res);
   // Everything the extraction reports of the sample, as it reports it (the model is written to

@@ -27,17 +27,30 @@ export function baseName(path: string): string {
  * `referenceSweeps`): what the model describes; all sweeps with nothing added when none is.
  */
 function plotSweeps(res: SampleResult, sweeps: RecordSweep[]): RecordSweep[] {
-  const usable = sweeps.filter((s) => s.impedance && s.impedance.freqHz.length > 1 && s.ref.addedCapacitanceF === undefined);
+  const usable = sweeps.filter(
+    (s) => s.impedance && s.impedance.freqHz.length > 1 && s.ref.addedCapacitanceF === undefined,
+  );
   const atRef = usable.filter((s) => res.referenceSweeps.includes(s.ref.file));
   return atRef.length ? atRef : usable;
 }
 
-export function modePlots(res: SampleResult, sweeps: RecordSweep[], mainIndex: number | undefined, detailed: boolean): ModePlot[] {
+export function modePlots(
+  res: SampleResult,
+  sweeps: RecordSweep[],
+  mainIndex: number | undefined,
+  detailed: boolean,
+): ModePlot[] {
   const refSweeps = plotSweeps(res, sweeps);
   const order = res.modes
     .map((m, i) => ({ m, i }))
     .filter(({ m, i }) => (detailed ? true : i === mainIndex) && !m.flagged)
-    .sort((a, b) => (a.i === mainIndex ? -1 : b.i === mainIndex ? 1 : Number(a.m.spurious) - Number(b.m.spurious) || a.m.r1Ohm - b.m.r1Ohm));
+    .sort((a, b) =>
+      a.i === mainIndex
+        ? -1
+        : b.i === mainIndex
+          ? 1
+          : Number(a.m.spurious) - Number(b.m.spurious) || a.m.r1Ohm - b.m.r1Ohm,
+    );
   const plots: ModePlot[] = [];
   for (const { m, i } of order) {
     if (plots.length >= MAX_MODE_PLOTS_PER_SAMPLE) break;
@@ -177,7 +190,8 @@ export function pullingPlot(res: SampleResult, m: ModeResult, ds: Datasheet | un
   const branch: MotionalBranch = { fsHz: m.fsHz, r1Ohm: m.r1Ohm, c1F: m.c1F };
   const clDs = typeof ds?.loadCapacitanceF === 'number' ? ds.loadCapacitanceF : undefined;
   const [lo, hi] = pullingRange(clDs);
-  const nominal = ds?.frequencyHz !== undefined && Math.abs(ds.frequencyHz / m.fsHz - 1) < 0.05 ? ds.frequencyHz : undefined;
+  const nominal =
+    ds?.frequencyHz !== undefined && Math.abs(ds.frequencyHz / m.fsHz - 1) < 0.05 ? ds.frequencyHz : undefined;
   const refHz = nominal ?? m.fsHz;
   const ppm = (cl: number) => (loadFrequencyHz(branch, res.c0F, cl) / refHz - 1) * 1e6;
   const x: number[] = [];
@@ -214,5 +228,11 @@ export function temperaturePlot(res: SampleResult): TemperaturePlot | undefined 
     fit.y.push(roundSig(rel * 1e6, 5));
   }
   // Points relative to the fit's own f0, so points and curve share one reference.
-  return { points: { x: temps, y: t.points.map((p) => roundSig((p.fsHz / t.f0Hz - 1) * 1e6, 6)) }, fit, form: t.form, f0Hz: t.f0Hz, t0C: t.t0C };
+  return {
+    points: { x: temps, y: t.points.map((p) => roundSig((p.fsHz / t.f0Hz - 1) * 1e6, 6)) },
+    fit,
+    form: t.form,
+    f0Hz: t.f0Hz,
+    t0C: t.t0C,
+  };
 }

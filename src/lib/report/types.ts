@@ -116,7 +116,8 @@ type SampleResultAlways = Pick<SampleResult, 'modes' | 'warnings' | 'diagnostics
  * (all but the model and the sample id; the rest absent when there is no result), plus the
  * record's provenance and the plots.
  */
-export interface SampleData extends SampleResultAlways, Partial<Omit<SampleResult, 'sample' | 'model' | keyof SampleResultAlways>> {
+export interface SampleData
+  extends SampleResultAlways, Partial<Omit<SampleResult, 'sample' | 'model' | keyof SampleResultAlways>> {
   id: string;
   provenance: SampleProvenance;
   /** False when extraction produced nothing usable (no modes). */

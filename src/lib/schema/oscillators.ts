@@ -52,7 +52,10 @@ function quantity(kind: UnitKind, sign: 'positive' | 'non-negative') {
     const good = sign === 'positive' ? parsed.value > 0 : parsed.value >= 0;
     if (!good) {
       const what = kind === 'capacitance' ? 'capacitance' : kind;
-      ctx.addIssue({ code: 'custom', message: `expected a ${sign === 'positive' ? 'positive' : 'non-negative'} ${what}, got "${input}"` });
+      ctx.addIssue({
+        code: 'custom',
+        message: `expected a ${sign === 'positive' ? 'positive' : 'non-negative'} ${what}, got "${input}"`,
+      });
       return z.NEVER;
     }
     return parsed.value;
@@ -88,10 +91,15 @@ const NAME = /^[A-Za-z0-9._-]+$/;
 
 /** "±50 ppm", "50 ppm" or 50 → 50 (a positive number of ppm). */
 const plusMinusPpm = z.union([z.string(), z.number()]).transform((input, ctx) => {
-  const text = String(input).trim().replace(/^(±|\+\/-|\+-)\s*/, '');
+  const text = String(input)
+    .trim()
+    .replace(/^(±|\+\/-|\+-)\s*/, '');
   const parsed = parseQuantity(/ppm$/.test(text) ? text : `${text} ppm`, 'ppm');
   if (!parsed.ok || !(parsed.value > 0)) {
-    ctx.addIssue({ code: 'custom', message: `expected a positive frequency requirement such as "±50 ppm", got "${input}"` });
+    ctx.addIssue({
+      code: 'custom',
+      message: `expected a positive frequency requirement such as "±50 ppm", got "${input}"`,
+    });
     return z.NEVER;
   }
   return parsed.value;
@@ -100,12 +108,22 @@ const plusMinusPpm = z.union([z.string(), z.number()]).transform((input, ctx) =>
 /** The record's keys and values as written (before the unit-named output). */
 export const OscillatorCircuitInput = z.object({
   /** Circuit name, unique in the file. */
-  name: z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(
-    z.string().min(1, 'expected a circuit name').max(64, 'expected a circuit name of at most 64 characters')
-      .regex(NAME, "expected a circuit name of letters, digits, '.', '_' or '-'"),
-  ),
+  name: z
+    .union([z.string(), z.number()])
+    .transform((v) => String(v))
+    .pipe(
+      z
+        .string()
+        .min(1, 'expected a circuit name')
+        .max(64, 'expected a circuit name of at most 64 characters')
+        .regex(NAME, "expected a circuit name of letters, digits, '.', '_' or '-'"),
+    ),
   /** Free text. */
-  description: z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(z.string().max(500, 'expected at most 500 characters')).optional(),
+  description: z
+    .union([z.string(), z.number()])
+    .transform((v) => String(v))
+    .pipe(z.string().max(500, 'expected at most 500 characters'))
+    .optional(),
   /** Amplifier small-signal transconductance, S. */
   gm: quantity('conductance', 'positive'),
   /** Amplifier input pin to ground, F. */
@@ -129,7 +147,9 @@ export const OscillatorCircuitInput = z.object({
   /** Load capacitor tolerance, fraction (0.05 = 5 %). */
   capacitorTolerance: tolerance,
   /** Preferred-value series of the load capacitors. */
-  series: z.enum(E_SERIES_NAMES as unknown as [ESeriesName, ...ESeriesName[]], { message: `expected one of ${E_SERIES_NAMES.join(', ')}` }),
+  series: z.enum(E_SERIES_NAMES as unknown as [ESeriesName, ...ESeriesName[]], {
+    message: `expected one of ${E_SERIES_NAMES.join(', ')}`,
+  }),
   /** Parts this circuit is meant for, Hz. */
   frequencyRange: frequencyRange.optional(),
   /** Allowed frequency deviation from nominal over every cause (±), ppm. */

@@ -39,10 +39,16 @@ function temperatureRange() {
 /** Letters, digits, '.', '_', '-' (README: The part record). */
 const ID = /^[A-Za-z0-9._-]+$/;
 const idString = (what: string) =>
-  z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(
-    z.string().min(1, `expected a non-empty ${what}`).max(64, `expected a ${what} of at most 64 characters`)
-      .regex(ID, `expected a ${what} of letters, digits, '.', '_' or '-'`),
-  );
+  z
+    .union([z.string(), z.number()])
+    .transform((v) => String(v))
+    .pipe(
+      z
+        .string()
+        .min(1, `expected a non-empty ${what}`)
+        .max(64, `expected a ${what} of at most 64 characters`)
+        .regex(ID, `expected a ${what} of letters, digits, '.', '_' or '-'`),
+    );
 
 /** A file name relative to the part folder; path safety is checked when the file is opened. */
 const fileName = z.string().min(1, 'expected a file name').max(255, 'expected a file name of at most 255 characters');
@@ -50,7 +56,11 @@ const fileName = z.string().min(1, 'expected a file name').max(255, 'expected a 
 export const PART_KINDS = ['quartz-at', 'quartz-tuning-fork', 'ceramic', 'saw', 'other'] as const;
 export const FIXTURES = ['reflection', 'series-thru', 'shunt-thru', 'impedance'] as const;
 
-const freeText = (max: number) => z.union([z.string(), z.number()]).transform((v) => String(v)).pipe(z.string().max(max, `expected at most ${max} characters`));
+const freeText = (max: number) =>
+  z
+    .union([z.string(), z.number()])
+    .transform((v) => String(v))
+    .pipe(z.string().max(max, `expected at most ${max} characters`));
 
 const DatasheetInput = z.object({
   /** Nominal frequency, Hz. */
@@ -68,7 +78,12 @@ const DatasheetInput = z.object({
   /** Maximum drive level, W. */
   driveMax: quantity('power', { positive: true }).optional(),
   /** Intended overtone order: 1 fundamental, 3, 5, ... */
-  overtone: z.number().int('expected an odd whole number (1, 3, 5, ...)').positive().refine((n) => n % 2 === 1, 'expected an odd overtone order (1, 3, 5, ...)').optional(),
+  overtone: z
+    .number()
+    .int('expected an odd whole number (1, 3, 5, ...)')
+    .positive()
+    .refine((n) => n % 2 === 1, 'expected an odd overtone order (1, 3, 5, ...)')
+    .optional(),
   /** Operating temperature range, °C. */
   operatingRange: temperatureRange().optional(),
 });
@@ -103,46 +118,68 @@ export const SWEEP_COLUMN_ROLES = ['frequency', 'resistance', 'reactance', 'magn
 export type SweepColumnRole = (typeof SWEEP_COLUMN_ROLES)[number];
 
 const COLUMN_REF_MESSAGE = 'expected a column name as written in the header, or its number (1 = first column)';
-const columnRef = z.union([z.string().min(1, COLUMN_REF_MESSAGE).max(200, 'expected a column name of at most 200 characters'), z.number().int(COLUMN_REF_MESSAGE).positive(COLUMN_REF_MESSAGE)], {
-  message: COLUMN_REF_MESSAGE,
-});
+const columnRef = z.union(
+  [
+    z.string().min(1, COLUMN_REF_MESSAGE).max(200, 'expected a column name of at most 200 characters'),
+    z.number().int(COLUMN_REF_MESSAGE).positive(COLUMN_REF_MESSAGE),
+  ],
+  {
+    message: COLUMN_REF_MESSAGE,
+  },
+);
 /** Which column of a CSV/TSV file holds what, where the names do not say (README: The part record). */
 const ColumnMapInput = z.record(z.string(), columnRef).superRefine((map, ctx) => {
   for (const key of Object.keys(map)) {
     if (!(SWEEP_COLUMN_ROLES as readonly string[]).includes(key)) {
-      ctx.addIssue({ code: 'custom', path: [key], message: `unknown column "${key.slice(0, 40)}"; expected ${SWEEP_COLUMN_ROLES.join(', ')}` });
+      ctx.addIssue({
+        code: 'custom',
+        path: [key],
+        message: `unknown column "${key.slice(0, 40)}"; expected ${SWEEP_COLUMN_ROLES.join(', ')}`,
+      });
     }
   }
   const rx = 'resistance' in map || 'reactance' in map;
   const mp = 'magnitude' in map || 'phase' in map;
-  if (rx && mp) ctx.addIssue({ code: 'custom', message: 'expected resistance and reactance, or magnitude and phase, not both' });
+  if (rx && mp)
+    ctx.addIssue({ code: 'custom', message: 'expected resistance and reactance, or magnitude and phase, not both' });
 });
 
-const SweepRefInput = z.object({
-  file: fileName,
-  fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }),
-  /** Reference impedance, Ω (Touchstone files carry their own). */
-  referenceImpedance: quantity('resistance', { positive: true }).optional(),
-  /** A known capacitor added during this sweep, F. */
-  addedCapacitance: quantity('capacitance', { positive: true }).optional(),
-  addedConnection: z.enum(['parallel', 'series'], { message: 'expected parallel or series' }).optional(),
-  /** Temperature during this sweep, °C (overrides the sample's). */
-  temperature: quantity('temperature').optional(),
-  /** Drive level during this sweep, W. */
-  drive: quantity('power', { positive: true }).optional(),
-  /** CSV/TSV only: the 1-based line of the header row, where the reader does not find it. */
-  headerLine: z.number({ message: 'expected a line number (1 = first line)' }).int('expected a whole line number').positive('expected a line number (1 = first line)').optional(),
-  /** CSV/TSV only: which column holds what, where the names do not say. */
-  columns: ColumnMapInput.optional(),
-}).superRefine((sweep, ctx) => {
-  if (sweep.addedConnection && sweep.addedCapacitance === undefined) {
-    ctx.addIssue({ code: 'custom', path: ['addedConnection'], message: 'addedConnection needs addedCapacitance' });
-  }
-  const csv = /\.(csv|tsv)$/i.test(sweep.file);
-  for (const key of ['headerLine', 'columns'] as const) {
-    if (sweep[key] !== undefined && !csv) ctx.addIssue({ code: 'custom', path: [key], message: `${key} applies to CSV/TSV files only, got "${sweep.file.slice(0, 80)}"` });
-  }
-});
+const SweepRefInput = z
+  .object({
+    file: fileName,
+    fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }),
+    /** Reference impedance, Ω (Touchstone files carry their own). */
+    referenceImpedance: quantity('resistance', { positive: true }).optional(),
+    /** A known capacitor added during this sweep, F. */
+    addedCapacitance: quantity('capacitance', { positive: true }).optional(),
+    addedConnection: z.enum(['parallel', 'series'], { message: 'expected parallel or series' }).optional(),
+    /** Temperature during this sweep, °C (overrides the sample's). */
+    temperature: quantity('temperature').optional(),
+    /** Drive level during this sweep, W. */
+    drive: quantity('power', { positive: true }).optional(),
+    /** CSV/TSV only: the 1-based line of the header row, where the reader does not find it. */
+    headerLine: z
+      .number({ message: 'expected a line number (1 = first line)' })
+      .int('expected a whole line number')
+      .positive('expected a line number (1 = first line)')
+      .optional(),
+    /** CSV/TSV only: which column holds what, where the names do not say. */
+    columns: ColumnMapInput.optional(),
+  })
+  .superRefine((sweep, ctx) => {
+    if (sweep.addedConnection && sweep.addedCapacitance === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['addedConnection'], message: 'addedConnection needs addedCapacitance' });
+    }
+    const csv = /\.(csv|tsv)$/i.test(sweep.file);
+    for (const key of ['headerLine', 'columns'] as const) {
+      if (sweep[key] !== undefined && !csv)
+        ctx.addIssue({
+          code: 'custom',
+          path: [key],
+          message: `${key} applies to CSV/TSV files only, got "${sweep.file.slice(0, 80)}"`,
+        });
+    }
+  });
 
 /** One sweep of a sample, quantities in SI units under unit-carrying names. */
 export interface SweepRef {
@@ -171,22 +208,32 @@ export const SweepRefSchema = SweepRefInput.transform((s): SweepRef => ({
   ...(s.columns !== undefined ? { columns: s.columns as Partial<Record<SweepColumnRole, string | number>> } : {}),
 }));
 
-const CompensationInput = z.object({
-  open: fileName.optional(),
-  short: fileName.optional(),
-  /** Optional load standard sweep and its true impedance (open/short/load correction). */
-  load: fileName.optional(),
-  loadResistance: quantity('resistance', { positive: true }).optional(),
-  /** Fixture of the compensation sweeps; defaults to the first sweep's fixture. Only sweeps taken in this fixture are compensated. */
-  fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }).optional(),
-}).superRefine((c, ctx) => {
-  if ((c.open === undefined) !== (c.short === undefined)) {
-    ctx.addIssue({ code: 'custom', path: [c.open === undefined ? 'open' : 'short'], message: 'open and short compensation sweeps go together' });
-  }
-  if (c.load !== undefined && c.loadResistance === undefined) {
-    ctx.addIssue({ code: 'custom', path: ['loadResistance'], message: 'a load sweep needs loadResistance, e.g. "50 ohm"' });
-  }
-});
+const CompensationInput = z
+  .object({
+    open: fileName.optional(),
+    short: fileName.optional(),
+    /** Optional load standard sweep and its true impedance (open/short/load correction). */
+    load: fileName.optional(),
+    loadResistance: quantity('resistance', { positive: true }).optional(),
+    /** Fixture of the compensation sweeps; defaults to the first sweep's fixture. Only sweeps taken in this fixture are compensated. */
+    fixture: z.enum(FIXTURES, { message: `expected one of ${FIXTURES.join(', ')}` }).optional(),
+  })
+  .superRefine((c, ctx) => {
+    if ((c.open === undefined) !== (c.short === undefined)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [c.open === undefined ? 'open' : 'short'],
+        message: 'open and short compensation sweeps go together',
+      });
+    }
+    if (c.load !== undefined && c.loadResistance === undefined) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['loadResistance'],
+        message: 'a load sweep needs loadResistance, e.g. "50 ohm"',
+      });
+    }
+  });
 
 /** Open/short(/load) compensation sweeps of a sample. */
 export interface Compensation {
@@ -255,25 +302,32 @@ export const SampleSchema = SampleInput.transform((s): Sample => ({
   sweeps: s.sweeps,
 }));
 
-export const PartSchema = z.object({
-  id: idString('part id'),
-  title: freeText(200).pipe(z.string().min(1, 'expected a title')),
-  kind: z.enum(PART_KINDS, { message: `expected one of ${PART_KINDS.join(', ')}` }),
-  package: freeText(100).optional(),
-  supplier: freeText(200).optional(),
-  supplierPart: freeText(200).optional(),
-  notes: freeText(20_000).optional(),
-  /** Free text; the demo marks its records `synthetic: true`. */
-  synthetic: z.boolean().optional(),
-  datasheet: DatasheetSchema.optional(),
-  samples: z.array(SampleSchema).min(1, 'expected at least one sample'),
-}).superRefine((part, ctx) => {
-  const seen = new Map<string, number>();
-  part.samples.forEach((s, i) => {
-    if (seen.has(s.id)) ctx.addIssue({ code: 'custom', path: ['samples', i, 'id'], message: `duplicate sample id "${s.id}" (also samples[${seen.get(s.id)}])` });
-    else seen.set(s.id, i);
+export const PartSchema = z
+  .object({
+    id: idString('part id'),
+    title: freeText(200).pipe(z.string().min(1, 'expected a title')),
+    kind: z.enum(PART_KINDS, { message: `expected one of ${PART_KINDS.join(', ')}` }),
+    package: freeText(100).optional(),
+    supplier: freeText(200).optional(),
+    supplierPart: freeText(200).optional(),
+    notes: freeText(20_000).optional(),
+    /** Free text; the demo marks its records `synthetic: true`. */
+    synthetic: z.boolean().optional(),
+    datasheet: DatasheetSchema.optional(),
+    samples: z.array(SampleSchema).min(1, 'expected at least one sample'),
+  })
+  .superRefine((part, ctx) => {
+    const seen = new Map<string, number>();
+    part.samples.forEach((s, i) => {
+      if (seen.has(s.id))
+        ctx.addIssue({
+          code: 'custom',
+          path: ['samples', i, 'id'],
+          message: `duplicate sample id "${s.id}" (also samples[${seen.get(s.id)}])`,
+        });
+      else seen.set(s.id, i);
+    });
   });
-});
 
 export type Part = z.output<typeof PartSchema>;
 export type PartKind = (typeof PART_KINDS)[number];

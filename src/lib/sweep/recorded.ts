@@ -24,7 +24,12 @@ export interface RecordedQuantity {
 }
 
 /** Z = M: the map of a record that holds the impedance itself. */
-export const IDENTITY: Bilinear = [{ re: 1, im: 0 }, { re: 0, im: 0 }, { re: 0, im: 0 }, { re: 1, im: 0 }];
+export const IDENTITY: Bilinear = [
+  { re: 1, im: 0 },
+  { re: 0, im: 0 },
+  { re: 0, im: 0 },
+  { re: 1, im: 0 },
+];
 
 /** Store a map for point i. */
 export function setMap(map: Float64Array, i: number, m: Bilinear): void {

@@ -27,7 +27,12 @@ export type SMatrix = Complex[];
  * @param ports 1 or 2; a 2-port reflection record has port 2 left open (S22 = 1) and a
  *   transmission floor of {@link ISOLATION_FLOOR} in S21 = S12 (an exact zero has no dB form)
  */
-export function sParametersOf(z: Complex | null, fixture: Exclude<Fixture, 'impedance'>, z0Ohm: number, ports: 1 | 2): SMatrix {
+export function sParametersOf(
+  z: Complex | null,
+  fixture: Exclude<Fixture, 'impedance'>,
+  z0Ohm: number,
+  ports: 1 | 2,
+): SMatrix {
   const zero: Complex = { re: 0, im: 0 };
   if (fixture === 'reflection') {
     const s11 = z === null ? { re: 1, im: 0 } : cDiv(cSub(z, { re: z0Ohm, im: 0 }), cAdd(z, { re: z0Ohm, im: 0 }));

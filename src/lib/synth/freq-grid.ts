@@ -38,7 +38,8 @@ export function makeFreqGrid(spec: FreqGridSpec): Float64Array {
     case 'explicit': {
       const out = Float64Array.from(spec.freqHz);
       for (let i = 1; i < out.length; i++) {
-        if (!(out[i] > out[i - 1])) throw new Error(`explicit grid must rise strictly, index ${i}: ${out[i]} Hz after ${out[i - 1]} Hz`);
+        if (!(out[i] > out[i - 1]))
+          throw new Error(`explicit grid must rise strictly, index ${i}: ${out[i]} Hz after ${out[i - 1]} Hz`);
       }
       return out;
     }
@@ -59,7 +60,8 @@ function checkPoints(points: number): void {
 
 function linear(startHz: number, stopHz: number, points: number): Float64Array {
   checkPoints(points);
-  if (!(stopHz > startHz && startHz >= 0)) throw new Error(`linear grid needs 0 ≤ start < stop, got ${startHz}…${stopHz} Hz`);
+  if (!(stopHz > startHz && startHz >= 0))
+    throw new Error(`linear grid needs 0 ≤ start < stop, got ${startHz}…${stopHz} Hz`);
   const out = new Float64Array(points);
   const step = (stopHz - startHz) / (points - 1);
   for (let i = 0; i < points; i++) out[i] = startHz + step * i;

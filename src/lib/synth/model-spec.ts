@@ -28,8 +28,12 @@ const KEYS: Record<string, { kind: UnitKind; unit: string; scope: 'branch' | 'mo
 export function parseModelSpec(text: string): ModelSpecResult {
   const model: Record<string, number> = {};
   const branches: MotionalBranch[] = [];
-  const groups = text.split(';').map((g) => g.trim()).filter((g) => g !== '');
-  if (groups.length === 0) return { ok: false, message: 'expected a model such as "fs=16MHz r1=20 c1=10f c0=3p", got an empty text' };
+  const groups = text
+    .split(';')
+    .map((g) => g.trim())
+    .filter((g) => g !== '');
+  if (groups.length === 0)
+    return { ok: false, message: 'expected a model such as "fs=16MHz r1=20 c1=10f c0=3p", got an empty text' };
   for (const group of groups) {
     const branch: Record<string, number> = {};
     for (const token of group.split(/[\s,]+/).filter((t) => t !== '')) {
@@ -40,12 +44,15 @@ export function parseModelSpec(text: string): ModelSpecResult {
       if (!def) return { ok: false, message: `unknown key "${m[1]}", expected one of ${Object.keys(KEYS).join(', ')}` };
       const value = parseLooseQuantity(m[2], def.kind, def.unit);
       if (typeof value === 'string') return { ok: false, message: `${key}: ${value}` };
-      if (!(value > 0) && !(def.scope === 'model' && value === 0)) return { ok: false, message: `${key}: expected a positive value, got "${m[2]}"` };
+      if (!(value > 0) && !(def.scope === 'model' && value === 0))
+        return { ok: false, message: `${key}: expected a positive value, got "${m[2]}"` };
       (def.scope === 'branch' ? branch : model)[key] = value;
     }
     if (Object.keys(branch).length === 0) continue;
-    if (branch.fs === undefined || branch.r1 === undefined) return { ok: false, message: `a branch needs fs and r1, got "${group}"` };
-    if ((branch.c1 === undefined) === (branch.l1 === undefined)) return { ok: false, message: `a branch needs exactly one of c1 or l1, got "${group}"` };
+    if (branch.fs === undefined || branch.r1 === undefined)
+      return { ok: false, message: `a branch needs fs and r1, got "${group}"` };
+    if ((branch.c1 === undefined) === (branch.l1 === undefined))
+      return { ok: false, message: `a branch needs exactly one of c1 or l1, got "${group}"` };
     const w = 2 * Math.PI * branch.fs;
     branches.push({ fsHz: branch.fs, r1Ohm: branch.r1, c1F: branch.c1 ?? 1 / (w * w * branch.l1) });
   }

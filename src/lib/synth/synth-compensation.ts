@@ -8,7 +8,14 @@
 import type { ImpedanceSweep } from '../sweep/sweep.ts';
 import type { Complex } from '../sweep/complex.ts';
 import { makeFreqGrid, quantizeGrid, type FreqGridSpec } from './freq-grid.ts';
-import { atInstrument, recordImpedances, type FixtureParasitics, type RecordOptions, type SynthSweepResult, type SynthSweepSpec } from './synth-sweep.ts';
+import {
+  atInstrument,
+  recordImpedances,
+  type FixtureParasitics,
+  type RecordOptions,
+  type SynthSweepResult,
+  type SynthSweepSpec,
+} from './synth-sweep.ts';
 
 /** What to synthesise: the fixture, its residuals, the grid and the recording options. */
 export interface SynthCompensationSpec extends RecordOptions {
@@ -35,7 +42,11 @@ export function synthesizeCompensation(spec: SynthCompensationSpec): SynthCompen
   const openZ = Array.from(freqHz, (f) => atInstrument(null, f, spec.parasitics));
   const shortZ = Array.from(freqHz, (f) => atInstrument({ re: 0, im: 0 }, f, spec.parasitics));
   const open = recordImpedances(freqHz, openZ, { ...spec, seed, source: `${spec.source ?? 'synthetic'}-open` });
-  const short = recordImpedances(freqHz, shortZ, { ...spec, seed: seed + 1, source: `${spec.source ?? 'synthetic'}-short` });
+  const short = recordImpedances(freqHz, shortZ, {
+    ...spec,
+    seed: seed + 1,
+    source: `${spec.source ?? 'synthetic'}-short`,
+  });
   return {
     open: { ...open, impedance: toSweep(freqHz, openZ, open.network.source) },
     short: { ...short, impedance: toSweep(freqHz, shortZ, short.network.source) },

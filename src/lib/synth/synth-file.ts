@@ -53,9 +53,14 @@ export function formatSynthFile(record: SynthRecord, format: SynthFileFormat, op
     return opts.digits === undefined ? text : roundDataLines(text, opts.digits, /\s+/, ' ');
   }
   const delimiter = format.delimiter ?? ',';
-  const body = formatSweepCsv(record.measured, { form: format.form ?? 'rx', delimiter, freqUnit: format.freqUnit ?? 'Hz' });
+  const body = formatSweepCsv(record.measured, {
+    form: format.form ?? 'rx',
+    delimiter,
+    freqUnit: format.freqUnit ?? 'Hz',
+  });
   const [header, ...rows] = body.split('\n');
-  const data = opts.digits === undefined ? rows.join('\n') : roundDataLines(rows.join('\n'), opts.digits, delimiter, delimiter);
+  const data =
+    opts.digits === undefined ? rows.join('\n') : roundDataLines(rows.join('\n'), opts.digits, delimiter, delimiter);
   return `${comments.map((c) => `# ${c}`).join('\n')}\n${header}\n${data}`;
 }
 
@@ -70,7 +75,10 @@ function roundDataLines(text: string, digits: number, split: RegExp | string, jo
       const t = line.trimStart();
       if (t === '' || t[0] === '!' || t[0] === '#' || t[0] === '[') return line;
       const tokens = line.split(split);
-      return [String(Number(Number(tokens[0]).toPrecision(15))), ...tokens.slice(1).map((tok) => String(Number(Number(tok).toPrecision(digits))))].join(join);
+      return [
+        String(Number(Number(tokens[0]).toPrecision(15))),
+        ...tokens.slice(1).map((tok) => String(Number(Number(tok).toPrecision(digits)))),
+      ].join(join);
     })
     .join('\n');
 }

@@ -118,7 +118,10 @@ export function synthesizeSweep(spec: SynthSweepSpec): SynthSweepResult {
 }
 
 /** Options shared by everything that records impedances as a network. */
-export type RecordOptions = Pick<SynthSweepSpec, 'fixture' | 'ports' | 'parameter' | 'z0Ohm' | 'noiseDb' | 'floorDb' | 'traceNoise' | 'seed' | 'source'>;
+export type RecordOptions = Pick<
+  SynthSweepSpec,
+  'fixture' | 'ports' | 'parameter' | 'z0Ohm' | 'noiseDb' | 'floorDb' | 'traceNoise' | 'seed' | 'source'
+>;
 
 /**
  * Record impedances at the instrument plane as a network, with seeded noise.
@@ -140,7 +143,9 @@ export function recordImpedances(
   const floor = opts.floorDb === undefined ? 0 : (10 ** (opts.floorDb / 20) * floorUnit) / Math.SQRT2;
   const trace = (opts.traceNoise ?? 0) / Math.SQRT2;
   if (!(floor >= 0 && Number.isFinite(floor)) || !(trace >= 0 && Number.isFinite(trace))) {
-    throw new Error(`noise floor ${opts.floorDb} dB and trace noise ${opts.traceNoise}: expected finite values, trace ≥ 0`);
+    throw new Error(
+      `noise floor ${opts.floorDb} dB and trace noise ${opts.traceNoise}: expected finite values, trace ≥ 0`,
+    );
   }
   // Per component: the relative and trace terms scale with |x|, the floor does not.
   const noisy = (x: Complex): Complex => {
@@ -163,7 +168,10 @@ export function recordImpedances(
     let m: SMatrix;
     let zm: Complex;
     if (fixture === 'impedance') {
-      if (z === null) throw new Error(`an impedance record cannot hold an open circuit (at ${freqHz[i]} Hz); give the fixture a stray capacitance`);
+      if (z === null)
+        throw new Error(
+          `an impedance record cannot hold an open circuit (at ${freqHz[i]} Hz); give the fixture a stray capacitance`,
+        );
       const v = noisy(parameter === 'Z' ? z : cInv(z));
       m = [v];
       zm = parameter === 'Z' ? v : cInv(v);
@@ -206,19 +214,28 @@ export function withAdded(z: Complex, freqHz: number, added: AddedCapacitor | un
  * @param z device impedance; `null` = open circuit (then only the strays remain)
  * @returns `null` when the result is an open circuit (open device, no stray capacitance)
  */
-export function atInstrument(z: Complex | null, freqHz: number, parasitics: FixtureParasitics | undefined): Complex | null {
+export function atInstrument(
+  z: Complex | null,
+  freqHz: number,
+  parasitics: FixtureParasitics | undefined,
+): Complex | null {
   const w = 2 * Math.PI * freqHz;
   const cp = parasitics?.cpF ?? 0;
   const zs: Complex = { re: parasitics?.rsOhm ?? 0, im: w * (parasitics?.lsH ?? 0) };
   let inner: Complex | null;
   if (z === null) inner = cp > 0 ? { re: 0, im: -1 / (w * cp) } : null;
-  else if (z.re === 0 && z.im === 0) inner = z; // a short shunts the stray capacitance
+  else if (z.re === 0 && z.im === 0)
+    inner = z; // a short shunts the stray capacitance
   else inner = cp > 0 ? cInv(cAdd(cInv(z), { re: 0, im: w * cp })) : z;
   if (inner === null) return null;
   return cAdd(zs, inner);
 }
 
 function emptySweep(freqHz: Float64Array, source: string): ImpedanceSweep {
-  return { freqHz: Float64Array.from(freqHz), zRe: new Float64Array(freqHz.length), zIm: new Float64Array(freqHz.length), source };
+  return {
+    freqHz: Float64Array.from(freqHz),
+    zRe: new Float64Array(freqHz.length),
+    zIm: new Float64Array(freqHz.length),
+    source,
+  };
 }
-

@@ -61,7 +61,10 @@ export function roundMeasured(value: number, u: number | undefined, prefixed = t
   if (prefixed && decimals < 0) {
     // u's last digit in tens of the prefix (e.g. 300(500) µΩ): one prefix up shows it with decimals.
     const up = SI_PREFIXES[SI_PREFIXES.indexOf(prefix) - 1];
-    if (up) { prefix = up; decimals += 3; }
+    if (up) {
+      prefix = up;
+      decimals += 3;
+    }
   }
   const scaled = value / prefix.scale;
   const uScaled = u / prefix.scale;
@@ -111,19 +114,30 @@ function joinUnit(number: string, unit: string): string {
  * usable uncertainty (absent, zero) the value alone with `fallbackDigits` significant digits;
  * "—" for a missing value.
  */
-export function formatMeasured(value: number | undefined, u: number | undefined, unit: string, options: MeasuredFormat = {}): string {
+export function formatMeasured(
+  value: number | undefined,
+  u: number | undefined,
+  unit: string,
+  options: MeasuredFormat = {},
+): string {
   const { minus = '-', fallbackDigits = 6, prefixed = true } = options;
   if (value === undefined || !Number.isFinite(value)) return '—';
   const r = roundMeasured(value, u, prefixed);
-  const text = r ? joinUnit(`${r.value}(${conciseUncertainty(r)})`, `${r.prefix.symbol}${unit}`) : valueOnly(value, unit, fallbackDigits, prefixed);
+  const text = r
+    ? joinUnit(`${r.value}(${conciseUncertainty(r)})`, `${r.prefix.symbol}${unit}`)
+    : valueOnly(value, unit, fallbackDigits, prefixed);
   return minus === '-' ? text : text.replace(/^-/, minus);
 }
 
 /** CSV cells of a measured value and its uncertainty in SI base units, rounded together; plain numbers when u is unusable. */
 export function measuredCells(value: number, u: number | undefined): [string, string] {
   const r = roundMeasured(value, u, false);
-  if (!r) return [String(Number(value.toPrecision(MAX_DIGITS))), u === undefined || !Number.isFinite(u) ? '' : String(u)];
-  const plain = (t: string) => (Math.abs(Number(t)) !== 0 && (Math.abs(Number(t)) < 1e-4 || r.decimals > 20) ? Number(t).toExponential(Math.max(0, significant(t) - 1)) : t);
+  if (!r)
+    return [String(Number(value.toPrecision(MAX_DIGITS))), u === undefined || !Number.isFinite(u) ? '' : String(u)];
+  const plain = (t: string) =>
+    Math.abs(Number(t)) !== 0 && (Math.abs(Number(t)) < 1e-4 || r.decimals > 20)
+      ? Number(t).toExponential(Math.max(0, significant(t) - 1))
+      : t;
   return [plain(r.value), plain(r.uncertainty)];
 }
 

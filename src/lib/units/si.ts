@@ -52,9 +52,17 @@ export interface SiPrefix {
  * record reader and the catalogue filters accept.
  */
 export const SI_PREFIXES: readonly SiPrefix[] = [
-  { scale: 1e12, symbol: 'T' }, { scale: 1e9, symbol: 'G' }, { scale: 1e6, symbol: 'M' }, { scale: 1e3, symbol: 'k' },
-  { scale: 1, symbol: '' }, { scale: 1e-3, symbol: 'm' }, { scale: 1e-6, symbol: 'µ' }, { scale: 1e-9, symbol: 'n' },
-  { scale: 1e-12, symbol: 'p' }, { scale: 1e-15, symbol: 'f' }, { scale: 1e-18, symbol: 'a' },
+  { scale: 1e12, symbol: 'T' },
+  { scale: 1e9, symbol: 'G' },
+  { scale: 1e6, symbol: 'M' },
+  { scale: 1e3, symbol: 'k' },
+  { scale: 1, symbol: '' },
+  { scale: 1e-3, symbol: 'm' },
+  { scale: 1e-6, symbol: 'µ' },
+  { scale: 1e-9, symbol: 'n' },
+  { scale: 1e-12, symbol: 'p' },
+  { scale: 1e-15, symbol: 'f' },
+  { scale: 1e-18, symbol: 'a' },
 ];
 
 /** Other spellings read as a prefix: u and Greek mu for micro, K for kilo, MEG (SPICE) for mega (common practice). */
@@ -63,7 +71,12 @@ const PREFIX_ALIASES: Record<string, string> = { u: 'µ', μ: 'µ', K: 'k', MEG:
 /** Every prefix spelling accepted when reading, with its multiplier. */
 export const PREFIX_SCALE: Readonly<Record<string, number>> = Object.freeze({
   ...Object.fromEntries(SI_PREFIXES.map((p) => [p.symbol, p.scale])),
-  ...Object.fromEntries(Object.entries(PREFIX_ALIASES).map(([alias, symbol]) => [alias, SI_PREFIXES.find((p) => p.symbol === symbol)!.scale])),
+  ...Object.fromEntries(
+    Object.entries(PREFIX_ALIASES).map(([alias, symbol]) => [
+      alias,
+      SI_PREFIXES.find((p) => p.symbol === symbol)!.scale,
+    ]),
+  ),
 });
 
 /**
@@ -110,10 +123,16 @@ function resolveUnit(token: string): { mult: number; def: UnitDef } | undefined 
   }
   // Case-insensitive fall-back for "OHM", "kOhm" and "mhz"-style spellings of unambiguous units.
   const lower = token.toLowerCase();
-  for (const [suffix, def] of [['ohms', UNITS[2]], ['ohm', UNITS[2]], ['hz', UNITS[0]]] as const) {
+  for (const [suffix, def] of [
+    ['ohms', UNITS[2]],
+    ['ohm', UNITS[2]],
+    ['hz', UNITS[0]],
+  ] as const) {
     if (!lower.endsWith(suffix)) continue;
     const prefix = token.slice(0, token.length - suffix.length);
-    const mult = PREFIX_SCALE[prefix] ?? (prefix === 'K' || prefix === 'k' ? 1e3 : prefix.toLowerCase() === 'meg' ? 1e6 : undefined);
+    const mult =
+      PREFIX_SCALE[prefix] ??
+      (prefix === 'K' || prefix === 'k' ? 1e3 : prefix.toLowerCase() === 'meg' ? 1e6 : undefined);
     if (mult !== undefined) return { mult, def };
   }
   return undefined;
@@ -147,10 +166,17 @@ export function parseQuantity(text: string, expected: UnitKind): ParseResult {
   // "mhz" is how MHz is often typed (Touchstone and the CSV reader take units case-insensitively);
   // "mHz" is millihertz by SI, which no resonator record means: refused rather than guessed.
   if (unitText === 'mHz' || unitText === 'mHZ') {
-    return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ambiguous unit "${clip(unitText)}" in "${clip(trimmed)}" (write MHz for megahertz)` };
+    return {
+      ok: false,
+      message: `expected ${UNIT_HINT[expected]}, got ambiguous unit "${clip(unitText)}" in "${clip(trimmed)}" (write MHz for megahertz)`,
+    };
   }
   const unit = unitText === 'mhz' ? { mult: 1e6, def: UNITS[0] } : resolveUnit(unitText);
-  if (!unit) return { ok: false, message: `expected ${UNIT_HINT[expected]}, got unknown unit "${clip(unitText)}" in "${clip(trimmed)}"` };
+  if (!unit)
+    return {
+      ok: false,
+      message: `expected ${UNIT_HINT[expected]}, got unknown unit "${clip(unitText)}" in "${clip(trimmed)}"`,
+    };
   if (unit.def.kind !== expected) {
     return { ok: false, message: `expected ${UNIT_HINT[expected]}, got ${describe(clip(trimmed), unit.def.kind)}` };
   }

@@ -9,7 +9,13 @@ const FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 const CER_FS = fsOf(0.385e-3, 4.1e-12);
 const CERAMIC: BvdModel = { c0F: 20.6e-12, branches: [{ fsHz: CER_FS, r1Ohm: 8, c1F: 4.1e-12 }] };
-const hint = (m: BvdModel) => m.branches.map((b) => ({ fsHz: b.fsHz, q: 1 / (2 * Math.PI * b.fsHz * b.r1Ohm * b.c1F), c1F: b.c1F * 1.001, r1Ohm: b.r1Ohm }));
+const hint = (m: BvdModel) =>
+  m.branches.map((b) => ({
+    fsHz: b.fsHz,
+    q: 1 / (2 * Math.PI * b.fsHz * b.r1Ohm * b.c1F),
+    c1F: b.c1F * 1.001,
+    r1Ohm: b.r1Ohm,
+  }));
 
 describe('estimateC0', () => {
   it('recovers C0 of X1 from a ±1 % sweep at −65 dB within its uncertainty and 0.05 %', () => {
@@ -26,7 +32,11 @@ describe('estimateC0', () => {
     // parallel C adds to Im Y; series C adds 1/(jωC) to Z (derived from the circuit; removed by partAlone)
     const f = linGrid(0.99 * FS, 1.01 * FS, 2001);
     for (const connection of ['parallel', 'series'] as const) {
-      const s = partAlone(synthSweep(X1, f, { noiseDb: -70, seed: 5, addedCF: 10e-12, connection }), 10e-12, connection);
+      const s = partAlone(
+        synthSweep(X1, f, { noiseDb: -70, seed: 5, addedCF: 10e-12, connection }),
+        10e-12,
+        connection,
+      );
       const r = estimateC0([s], hint(X1));
       expect(r.ok).toBe(true);
       expect(Math.abs(r.c0F / 3e-12 - 1)).toBeLessThan(1e-3);

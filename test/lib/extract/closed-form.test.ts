@@ -1,6 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import {
-  c1FromFsFp, effectiveCapacitanceOf, l1FromFsC1, motionalFromAntiresonance, parallelResonanceOf, zeroPhaseOf,
+  c1FromFsFp,
+  effectiveCapacitanceOf,
+  l1FromFsC1,
+  motionalFromAntiresonance,
+  parallelResonanceOf,
+  zeroPhaseOf,
 } from '../../../src/lib/extract/closed-form.ts';
 import { admittanceAt, type BvdModel } from '../../../src/lib/models/bvd.ts';
 

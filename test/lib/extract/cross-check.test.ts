@@ -20,17 +20,26 @@ describe('crossCheck', () => {
   });
 
   it('disagrees beyond both, naming the methods, the size and the likely cause', () => {
-    const c = crossCheck('c1F', [
-      { method: 'joint-fit', value: 10e-15, uncertainty: 1e-18 },
-      { method: 'half-power', value: 10.05e-15 },
-      { method: 'load-shift', value: 10.5e-15, note: 'cl10.s1p' },
-    ], 'the added capacitor\'s value');
+    const c = crossCheck(
+      'c1F',
+      [
+        { method: 'joint-fit', value: 10e-15, uncertainty: 1e-18 },
+        { method: 'half-power', value: 10.05e-15 },
+        { method: 'load-shift', value: 10.5e-15, note: 'cl10.s1p' },
+      ],
+      "the added capacitor's value",
+    );
     expect(c.verdict).toBe('disagree');
-    expect(c.message).toBe('c1F: load-shift 10.500 fF differs from joint-fit 10.000 fF by 5.00 %; likely cause: the added capacitor\'s value');
+    expect(c.message).toBe(
+      "c1F: load-shift 10.500 fF differs from joint-fit 10.000 fF by 5.00 %; likely cause: the added capacitor's value",
+    );
   });
 
   it('reports a single method as such and drops non-finite values', () => {
-    const c = crossCheck('c0F', [{ method: 'capacitive-region', value: 3e-12 }, { method: 'two-load', value: NaN }]);
+    const c = crossCheck('c0F', [
+      { method: 'capacitive-region', value: 3e-12 },
+      { method: 'two-load', value: NaN },
+    ]);
     expect(c.verdict).toBe('single');
     expect(c.values).toHaveLength(1);
   });

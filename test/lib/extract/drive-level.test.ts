@@ -15,6 +15,11 @@ describe('analyseDriveLevel', () => {
   });
 
   it('needs two different drive levels', () => {
-    expect(analyseDriveLevel([{ driveW: 1e-6, r1Ohm: 30, fsHz: 1e7, sweep: 'a' }, { driveW: 1e-6, r1Ohm: 31, fsHz: 1e7, sweep: 'b' }])).toBeUndefined();
+    expect(
+      analyseDriveLevel([
+        { driveW: 1e-6, r1Ohm: 30, fsHz: 1e7, sweep: 'a' },
+        { driveW: 1e-6, r1Ohm: 31, fsHz: 1e7, sweep: 'b' },
+      ]),
+    ).toBeUndefined();
   });
 });

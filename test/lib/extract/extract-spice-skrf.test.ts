@@ -27,13 +27,23 @@ import type { ModeResult, SampleResult } from '../../../src/lib/extract/types.ts
 import { networkToImpedance } from '../../../src/lib/fixture/to-impedance.ts';
 import { parseTouchstone } from '../../../src/lib/io/touchstone.ts';
 import type { Fixture, Part } from '../../../src/lib/schema/part.ts';
-import { engineImpedance, impedanceDeck, ngspiceImpedance, type AcSweep, type ImpedanceRow } from '../../support/spice.ts';
+import {
+  engineImpedance,
+  impedanceDeck,
+  ngspiceImpedance,
+  type AcSweep,
+  type ImpedanceRow,
+} from '../../support/spice.ts';
 import { DEBIAN_PYTHON, requireTool } from '../../support/tools.ts';
 
 const WRITER = fileURLToPath(new URL('../../fixtures/spice-skrf/write_touchstone.py', import.meta.url));
 
 /** One series R–L–C branch of the circuit. */
-interface Branch { r: number; l: number; c: number }
+interface Branch {
+  r: number;
+  l: number;
+  c: number;
+}
 
 const FS = 16e6;
 const C1 = 5e-15;
@@ -57,7 +67,9 @@ const e = (x: number) => x.toExponential(16);
 /** Hand-written circuit (C0 across the part, one series R–L–C per mode): node `in` to ground is the part. */
 function circuitText(): string {
   const lines = [`C0 in 0 ${e(CIRCUIT.c0)}`];
-  CIRCUIT.branches.forEach((b, k) => lines.push(`RM${k} in m${k} ${e(b.r)}`, `LM${k} m${k} n${k} ${e(b.l)}`, `CM${k} n${k} 0 ${e(b.c)}`));
+  CIRCUIT.branches.forEach((b, k) =>
+    lines.push(`RM${k} in m${k} ${e(b.r)}`, `LM${k} m${k} n${k} ${e(b.l)}`, `CM${k} n${k} 0 ${e(b.c)}`),
+  );
   return lines.join('\n');
 }
 
@@ -124,7 +136,13 @@ function writeRecords(tag: string, rows: ImpedanceRow[][], seed: number): string
     zIm: rows[i].map((r) => r[2]),
   }));
   writeFileSync(input, JSON.stringify({ ...NOISE, seed, sweeps }));
-  const summary = JSON.parse(execFileSync(DEBIAN_PYTHON, [WRITER, input, out], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'], timeout: 120_000 })) as { files: string[]; skrf: string };
+  const summary = JSON.parse(
+    execFileSync(DEBIAN_PYTHON, [WRITER, input, out], {
+      encoding: 'utf8',
+      stdio: ['ignore', 'pipe', 'pipe'],
+      timeout: 120_000,
+    }),
+  ) as { files: string[]; skrf: string };
   expect(summary.files).toEqual(SWEEPS.flatMap(([name]) => [`${name}-refl.s1p`, `${name}-thru.s2p`]));
   return out;
 }
@@ -140,7 +158,10 @@ function extractFiles(folder: string): { part: Part; samples: SampleResult[] } {
     id: 'SPICE-SKRF-1',
     title: 'SPICE-simulated invented 16 MHz part, Touchstone by scikit-rf (synthetic)',
     kind: 'quartz-at',
-    samples: SAMPLES.map((s) => ({ id: s.id, sweeps: SWEEPS.map(([name]) => ({ file: name + s.suffix, fixture: s.fixture })) })),
+    samples: SAMPLES.map((s) => ({
+      id: s.id,
+      sweeps: SWEEPS.map(([name]) => ({ file: name + s.suffix, fixture: s.fixture })),
+    })),
   };
   const inputs: ExtractSweepInput[] = [];
   part.samples.forEach((sample, si) => {
@@ -149,14 +170,24 @@ function extractFiles(folder: string): { part: Part; samples: SampleResult[] } {
       expect(network.parameter).toBe('S');
       expect(network.ports).toBe(SAMPLES[si].fixture === 'reflection' ? 1 : 2);
       expect(network.z0Ohm.every((z) => z === 50)).toBe(true);
-      inputs.push({ sampleId: sample.id, ref, file: ref.file, impedance: networkToImpedance(network, ref.fixture, ref.file) });
+      inputs.push({
+        sampleId: sample.id,
+        ref,
+        file: ref.file,
+        impedance: networkToImpedance(network, ref.fixture, ref.file),
+      });
     });
   });
   return { part, samples: extractPart(part, inputs).samples };
 }
 
 /** Error against the circuit, in relative terms and in reported standard uncertainties. */
-interface Check { quantity: string; value: number; truth: number; u: number }
+interface Check {
+  quantity: string;
+  value: number;
+  truth: number;
+  u: number;
+}
 
 function checksOf(s: SampleResult, m: ModeResult): Check[] {
   const main = CIRCUIT.branches[0];
@@ -184,10 +215,26 @@ function expectRecovered(label: string, samples: SampleResult[]): void {
     expect(main, `${label} sample ${s.sample}: one main mode`).toHaveLength(1);
     const m = main[0];
     const checks = checksOf(s, m);
-    const line = checks.map((c) => `${c.quantity} err ${((c.value / c.truth - 1) * (c.quantity.endsWith('Hz') ? 1e6 : 100)).toPrecision(3)}${c.quantity.endsWith('Hz') ? ' ppm' : ' %'} z ${((c.value - c.truth) / c.u).toFixed(2)}`).join('; ');
-    const spurText = s.modes.filter((x) => x.spurious).map((x) => `spurious fs err ${((x.fsHz / CIRCUIT_SPUR_FS - 1) * 1e6).toPrecision(3)} ppm z ${((x.fsHz - CIRCUIT_SPUR_FS) / x.uncertainty.fsHz).toFixed(2)}, R z ${((x.r1Ohm - CIRCUIT.branches[1].r) / x.uncertainty.r1Ohm).toFixed(2)}, ${x.strengthDb?.toFixed(3)} dB`).join(', ');
-    console.log(`${label} sample ${s.sample} (${s.sample === 'R' ? 'reflection' : 'series-through'}): ${line}; u rel ${checks.map((c) => `${c.quantity} ${(c.u / c.truth).toExponential(2)}`).join(' ')}; ${spurText}`);
-    const rel = (q: string) => { const c = checks.find((x) => x.quantity === q)!; return Math.abs(c.value / c.truth - 1); };
+    const line = checks
+      .map(
+        (c) =>
+          `${c.quantity} err ${((c.value / c.truth - 1) * (c.quantity.endsWith('Hz') ? 1e6 : 100)).toPrecision(3)}${c.quantity.endsWith('Hz') ? ' ppm' : ' %'} z ${((c.value - c.truth) / c.u).toFixed(2)}`,
+      )
+      .join('; ');
+    const spurText = s.modes
+      .filter((x) => x.spurious)
+      .map(
+        (x) =>
+          `spurious fs err ${((x.fsHz / CIRCUIT_SPUR_FS - 1) * 1e6).toPrecision(3)} ppm z ${((x.fsHz - CIRCUIT_SPUR_FS) / x.uncertainty.fsHz).toFixed(2)}, R z ${((x.r1Ohm - CIRCUIT.branches[1].r) / x.uncertainty.r1Ohm).toFixed(2)}, ${x.strengthDb?.toFixed(3)} dB`,
+      )
+      .join(', ');
+    console.log(
+      `${label} sample ${s.sample} (${s.sample === 'R' ? 'reflection' : 'series-through'}): ${line}; u rel ${checks.map((c) => `${c.quantity} ${(c.u / c.truth).toExponential(2)}`).join(' ')}; ${spurText}`,
+    );
+    const rel = (q: string) => {
+      const c = checks.find((x) => x.quantity === q)!;
+      return Math.abs(c.value / c.truth - 1);
+    };
     expect(rel('fsHz') * 1e6, `${label} ${s.sample} fs ppm`).toBeLessThan(0.1);
     expect(rel('r1Ohm'), `${label} ${s.sample} R1`).toBeLessThan(0.01);
     expect(rel('c1F'), `${label} ${s.sample} C1`).toBeLessThan(0.005);
@@ -195,7 +242,9 @@ function expectRecovered(label: string, samples: SampleResult[]): void {
     expect(rel('c0F'), `${label} ${s.sample} C0`).toBeLessThan(0.01);
     for (const c of checks) {
       expect(c.u, `${label} ${s.sample} u(${c.quantity})`).toBeGreaterThan(0);
-      expect(Math.abs(c.value - c.truth), `${label} ${s.sample} ${c.quantity}: |error| ≤ 3u`).toBeLessThanOrEqual(3 * c.u);
+      expect(Math.abs(c.value - c.truth), `${label} ${s.sample} ${c.quantity}: |error| ≤ 3u`).toBeLessThanOrEqual(
+        3 * c.u,
+      );
     }
     // The spurious branch of the circuit: found, at its series resonance and with its resistance
     // within 3 reported standard uncertainties, strength 10 dB (20·log10(R2/R1)) within 0.1 dB.
@@ -203,8 +252,12 @@ function expectRecovered(label: string, samples: SampleResult[]): void {
     expect(spurious, `${label} ${s.sample}: one spurious mode`).toHaveLength(1);
     const sp = spurious[0];
     const spur = CIRCUIT.branches[1];
-    expect(Math.abs(sp.fsHz - CIRCUIT_SPUR_FS), `${label} ${s.sample} spurious fs`).toBeLessThanOrEqual(3 * sp.uncertainty.fsHz);
-    expect(Math.abs(sp.r1Ohm - spur.r), `${label} ${s.sample} spurious R`).toBeLessThanOrEqual(3 * sp.uncertainty.r1Ohm);
+    expect(Math.abs(sp.fsHz - CIRCUIT_SPUR_FS), `${label} ${s.sample} spurious fs`).toBeLessThanOrEqual(
+      3 * sp.uncertainty.fsHz,
+    );
+    expect(Math.abs(sp.r1Ohm - spur.r), `${label} ${s.sample} spurious R`).toBeLessThanOrEqual(
+      3 * sp.uncertainty.r1Ohm,
+    );
     expect(Math.abs(sp.strengthDb! - SPUR_DB), `${label} ${s.sample} spurious strength`).toBeLessThan(0.1);
   }
 }
@@ -248,7 +301,8 @@ let engineRows: Promise<ImpedanceRow[][]> | undefined;
 function simulateOnEngine(): Promise<ImpedanceRow[][]> {
   engineRows ??= (async () => {
     const rows: ImpedanceRow[][] = [];
-    for (const [name, sw] of SWEEPS) rows.push(await engineImpedance(impedanceDeck(`spice-skrf ${name}`, circuitText(), sw)));
+    for (const [name, sw] of SWEEPS)
+      rows.push(await engineImpedance(impedanceDeck(`spice-skrf ${name}`, circuitText(), sw)));
     return rows;
   })();
   return engineRows;
@@ -271,14 +325,22 @@ describe('extraction of SPICE-simulated sweeps written as Touchstone by scikit-r
     expectRowsAreCircuit(await simulateOnEngine(), 1e-9);
   });
 
-  it.skipIf(!haveSkrf)('recovers the circuit from eecircuit-engine sweeps, reflection and series-through records', async () => {
-    expectRecovered('eecircuit-engine', extractFiles(writeRecords('engine', await simulateOnEngine(), 7001)).samples);
-  });
+  it.skipIf(!haveSkrf)(
+    'recovers the circuit from eecircuit-engine sweeps, reflection and series-through records',
+    async () => {
+      expectRecovered('eecircuit-engine', extractFiles(writeRecords('engine', await simulateOnEngine(), 7001)).samples);
+    },
+  );
 
-  it.skipIf(!haveSkrf || !haveNgspice)('recovers the circuit from Debian ngspice sweeps, reflection and series-through records', () => {
-    const rows = SWEEPS.map(([name, sw]) => ngspiceImpedance(impedanceDeck(`spice-skrf ${name}`, circuitText(), sw, 'z.out')));
-    // wrdata writes 15 significant digits.
-    expectRowsAreCircuit(rows, 1e-9);
-    expectRecovered('ngspice', extractFiles(writeRecords('ngspice', rows, 7002)).samples);
-  });
+  it.skipIf(!haveSkrf || !haveNgspice)(
+    'recovers the circuit from Debian ngspice sweeps, reflection and series-through records',
+    () => {
+      const rows = SWEEPS.map(([name, sw]) =>
+        ngspiceImpedance(impedanceDeck(`spice-skrf ${name}`, circuitText(), sw, 'z.out')),
+      );
+      // wrdata writes 15 significant digits.
+      expectRowsAreCircuit(rows, 1e-9);
+      expectRecovered('ngspice', extractFiles(writeRecords('ngspice', rows, 7002)).samples);
+    },
+  );
 });

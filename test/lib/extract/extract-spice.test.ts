@@ -11,7 +11,13 @@ import { parallelResonanceOf } from '../../../src/lib/extract/closed-form.ts';
 import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import type { Part } from '../../../src/lib/schema/part.ts';
 import type { ImpedanceSweep } from '../../../src/lib/sweep/sweep.ts';
-import { engineImpedance, impedanceDeck, ngspiceImpedance, type AcSweep, type ImpedanceRow } from '../../support/spice.ts';
+import {
+  engineImpedance,
+  impedanceDeck,
+  ngspiceImpedance,
+  type AcSweep,
+  type ImpedanceRow,
+} from '../../support/spice.ts';
 import { requireTool } from '../../support/tools.ts';
 import { gaussian } from '../../support/rng.ts';
 
@@ -45,29 +51,56 @@ function toSweep(rows: ImpedanceRow[], source: string, noiseDb: number, seed: nu
   return s;
 }
 
-interface SpiceCase { name: string; model: BvdModel; sweeps: Array<[string, AcSweep]>; kind: Part['kind'] }
+interface SpiceCase {
+  name: string;
+  model: BvdModel;
+  sweeps: Array<[string, AcSweep]>;
+  kind: Part['kind'];
+}
 
 const FS = 1e8 / (2 * Math.PI);
 const CASES: SpiceCase[] = [
   {
     // Two-branch reference part: X1 plus L2 = 40 mH, R2 = 150 Ω, C2 = 2.468878 fF at fs + 100 kHz
     name: 'X1 with its spurious branch',
-    model: { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }, { fsHz: FS + 100e3, r1Ohm: 150, c1F: 2.468878e-15 }] },
-    sweeps: [['n.s1p', { startHz: FS - 1600, stopHz: FS + 1600, points: 801 }], ['w.s1p', { startHz: FS - 50e3, stopHz: FS + 150e3, points: 5001 }]],
+    model: {
+      c0F: 3e-12,
+      branches: [
+        { fsHz: FS, r1Ohm: 20, c1F: 10e-15 },
+        { fsHz: FS + 100e3, r1Ohm: 150, c1F: 2.468878e-15 },
+      ],
+    },
+    sweeps: [
+      ['n.s1p', { startHz: FS - 1600, stopHz: FS + 1600, points: 801 }],
+      ['w.s1p', { startHz: FS - 50e3, stopHz: FS + 150e3, points: 5001 }],
+    ],
     kind: 'quartz-at',
   },
   {
     // Reference tuning fork TF1 (invented), 32.768 kHz
     name: 'TF1',
     model: { c0F: 1.2e-12, branches: [{ fsHz: 32768, r1Ohm: 35e3, c1F: 3e-15 }] },
-    sweeps: [['n.csv', { startHz: 32764, stopHz: 32772, points: 801 }], ['w.csv', { startHz: 32600, stopHz: 32900, points: 3001 }]],
+    sweeps: [
+      ['n.csv', { startHz: 32764, stopHz: 32772, points: 801 }],
+      ['w.csv', { startHz: 32600, stopHz: 32900, points: 3001 }],
+    ],
     kind: 'quartz-tuning-fork',
   },
 ];
 
 function extract(c: SpiceCase, rows: ImpedanceRow[][]) {
-  const part: Part = { id: 'SPICE-1', title: 'spice-simulated part (synthetic)', kind: c.kind, samples: [{ id: 'A', sweeps: c.sweeps.map(([file]) => ({ file, fixture: 'impedance' })) }] };
-  const inputs = c.sweeps.map(([file], i) => ({ sampleId: 'A', ref: part.samples[0].sweeps[i], file, impedance: toSweep(rows[i], file, -70, 40 + i) }));
+  const part: Part = {
+    id: 'SPICE-1',
+    title: 'spice-simulated part (synthetic)',
+    kind: c.kind,
+    samples: [{ id: 'A', sweeps: c.sweeps.map(([file]) => ({ file, fixture: 'impedance' })) }],
+  };
+  const inputs = c.sweeps.map(([file], i) => ({
+    sampleId: 'A',
+    ref: part.samples[0].sweeps[i],
+    file,
+    impedance: toSweep(rows[i], file, -70, 40 + i),
+  }));
   return extractPart(part, inputs).samples[0];
 }
 
@@ -89,7 +122,8 @@ describe('extraction of SPICE-simulated sweeps', () => {
   for (const c of CASES) {
     it(`recovers ${c.name} from eecircuit-engine sweeps`, async () => {
       const rows: ImpedanceRow[][] = [];
-      for (const [file, sw] of c.sweeps) rows.push(await engineImpedance(impedanceDeck(`${c.name} ${file}`, circuit(c.model), sw)));
+      for (const [file, sw] of c.sweeps)
+        rows.push(await engineImpedance(impedanceDeck(`${c.name} ${file}`, circuit(c.model), sw)));
       expectRecovered(c, extract(c, rows));
     });
   }
@@ -97,7 +131,9 @@ describe('extraction of SPICE-simulated sweeps', () => {
   const haveNgspice = requireTool('ngspice');
   for (const c of CASES) {
     it.skipIf(!haveNgspice)(`recovers ${c.name} from Debian ngspice sweeps`, () => {
-      const rows = c.sweeps.map(([file, sw]) => ngspiceImpedance(impedanceDeck(`${c.name} ${file}`, circuit(c.model), sw, 'z.out')));
+      const rows = c.sweeps.map(([file, sw]) =>
+        ngspiceImpedance(impedanceDeck(`${c.name} ${file}`, circuit(c.model), sw, 'z.out')),
+      );
       expectRecovered(c, extract(c, rows));
     });
   }

@@ -23,13 +23,25 @@ const G_FA = WA * WA * 9e-24 * 20; // ω²C0²R1, first order (module comment)
 const BW = 2 * Math.PI * FS * FS * 20 * 10e-15; // fs/Q
 
 /** A sweep of `n` points evenly over fa ± halfSpan, with constant Z and σZ (so every term is equal). */
-function flatSweep(n: number, halfSpanHz: number, sigmaZOhm: number, z = { re: 1e3, im: -2e4 }, source = 'flat'): NoisySweep {
+function flatSweep(
+  n: number,
+  halfSpanHz: number,
+  sigmaZOhm: number,
+  z = { re: 1e3, im: -2e4 },
+  source = 'flat',
+): NoisySweep {
   const f = Float64Array.from({ length: n }, (_, i) => FA - halfSpanHz + (2 * halfSpanHz * i) / (n - 1));
-  return { source, freqHz: f, zRe: new Float64Array(n).fill(z.re), zIm: new Float64Array(n).fill(z.im), sigmaZOhm: new Float64Array(n).fill(sigmaZOhm) };
+  return {
+    source,
+    freqHz: f,
+    zRe: new Float64Array(n).fill(z.re),
+    zIm: new Float64Array(n).fill(z.im),
+    sigmaZOhm: new Float64Array(n).fill(sigmaZOhm),
+  };
 }
 
 describe('antiResonanceEvidence', () => {
-  it('check values: bandwidth 318.3 Hz; the model\'s G at fa is ω²C0²R1/(1 + (ωC0R1)²)', () => {
+  it("check values: bandwidth 318.3 Hz; the model's G at fa is ω²C0²R1/(1 + (ωC0R1)²)", () => {
     expect(BW).toBeCloseTo(318.31, 2);
     expect(admittanceAt(X1, FA)[0] / (G_FA / (1 + (WA * 3e-12 * 20) ** 2))).toBeCloseTo(1, 9);
   });
@@ -66,14 +78,26 @@ describe('antiResonanceEvidence', () => {
     const f = Float64Array.from([...inner.freqHz, ...outer].sort((x, y) => x - y));
     const n = f.length;
     const sigma = Float64Array.from(f, (x) => (Math.abs(x - FA) > BW ? 0.05 : 50));
-    const s: NoisySweep = { source: 's', freqHz: f, zRe: new Float64Array(n).fill(1e3), zIm: new Float64Array(n).fill(-2e4), sigmaZOhm: sigma };
+    const s: NoisySweep = {
+      source: 's',
+      freqHz: f,
+      zRe: new Float64Array(n).fill(1e3),
+      zIm: new Float64Array(n).fill(-2e4),
+      sigmaZOhm: sigma,
+    };
     const e = antiResonanceEvidence(X1, 0, FA, [s])!.snr;
     expect(e / antiResonanceEvidence(X1, 0, FA, [inner])!.snr).toBeCloseTo(1, 12);
   });
 
   it('with no point within a bandwidth, the nearest point alone is the evidence', () => {
     const f = Float64Array.of(FA - 5 * BW, FA + 2 * BW, FA + 9 * BW);
-    const s: NoisySweep = { source: 's', freqHz: f, zRe: Float64Array.of(1, 1e3, 1), zIm: Float64Array.of(0, -2e4, 0), sigmaZOhm: Float64Array.of(1, 50, 1) };
+    const s: NoisySweep = {
+      source: 's',
+      freqHz: f,
+      zRe: Float64Array.of(1, 1e3, 1),
+      zIm: Float64Array.of(0, -2e4, 0),
+      sigmaZOhm: Float64Array.of(1, 50, 1),
+    };
     const e = antiResonanceEvidence(X1, 0, FA, [s])!.snr;
     expect(e / ((2 * G_FA * (1e3 ** 2 + 2e4 ** 2)) / 50)).toBeCloseTo(1, 4);
   });
@@ -97,7 +121,10 @@ describe('antiResonanceEvidence', () => {
   it('the best sweep wins; sweeps not reaching fa are skipped; none reaching fa gives undefined', () => {
     const quiet = flatSweep(11, 0.9 * BW, 5, undefined, 'quiet');
     const noisy = flatSweep(11, 0.9 * BW, 500, undefined, 'noisy');
-    const below = { ...flatSweep(11, 0.9 * BW, 0.001, undefined, 'below'), freqHz: Float64Array.from({ length: 11 }, (_, i) => FS + i) };
+    const below = {
+      ...flatSweep(11, 0.9 * BW, 0.001, undefined, 'below'),
+      freqHz: Float64Array.from({ length: 11 }, (_, i) => FS + i),
+    };
     expect(antiResonanceEvidence(X1, 0, FA, [noisy, below, quiet])!.source).toBe('quiet');
     expect(antiResonanceEvidence(X1, 0, FA, [below])).toBeUndefined();
     expect(antiResonanceEvidence(X1, 1, FA, [quiet])).toBeUndefined(); // no branch 1

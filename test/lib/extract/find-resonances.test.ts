@@ -19,7 +19,12 @@ function find(model: BvdModel, f: Float64Array, noiseDb?: number, seed = 1, sour
 }
 
 /** A Lorentzian conductance bump added to a sweep, with or without the susceptance swing of a resonance. */
-interface Bump { fHz: number; g0S: number; bandwidthHz: number; swing: boolean }
+interface Bump {
+  fHz: number;
+  g0S: number;
+  bandwidthHz: number;
+  swing: boolean;
+}
 
 /**
  * Admittance of the model plus complex noise of constant absolute size `sigmaS` on Y: what a
@@ -110,11 +115,15 @@ describe('findResonances', () => {
     let without = 0;
     for (let seed = 1; seed <= 20; seed++) {
       const bump = { fHz: FS + 123, g0S: 10e-6, bandwidthHz: 150 };
-      withSwing += findResonances(admittanceSweep(cap, f, 1e-6, seed, { ...bump, swing: true })).resonances.filter((x) => !x.atBoundary).length;
+      withSwing += findResonances(admittanceSweep(cap, f, 1e-6, seed, { ...bump, swing: true })).resonances.filter(
+        (x) => !x.atBoundary,
+      ).length;
       const r = findResonances(admittanceSweep(cap, f, 1e-6, seed, { ...bump, swing: false }));
       without += r.resonances.filter((x) => !x.atBoundary).length;
       if (r.diagnostics.some((d) => d.code === 'signal-to-noise')) {
-        expect(r.diagnostics[0].message).toMatch(/^sweep y\.s1p: \d+ conductance peaks? without the susceptance swing of a resonance ignored as noise$/);
+        expect(r.diagnostics[0].message).toMatch(
+          /^sweep y\.s1p: \d+ conductance peaks? without the susceptance swing of a resonance ignored as noise$/,
+        );
       }
     }
     expect(withSwing).toBeGreaterThanOrEqual(18);
@@ -135,7 +144,15 @@ describe('findResonances', () => {
     const part: BvdModel = { c0F: 5e-12, branches: [{ fsHz: 4.2e6, r1Ohm: 50, c1F: 20e-15 }] };
     const r = find(part, linGrid(3.97e6, 4.03e6, 801), -70, 1, 'a1-narrow.s1p');
     expect(r.resonances).toEqual([]);
-    expect(r.diagnostics).toEqual([{ code: 'no-resonance', severity: 'error', sweep: 'a1-narrow.s1p', message: 'sweep a1-narrow.s1p: no resonance: capacitive only between 3.97 and 4.03 MHz; sweep across the expected resonance, and check the fixture and the frequency unit' }]);
+    expect(r.diagnostics).toEqual([
+      {
+        code: 'no-resonance',
+        severity: 'error',
+        sweep: 'a1-narrow.s1p',
+        message:
+          'sweep a1-narrow.s1p: no resonance: capacitive only between 3.97 and 4.03 MHz; sweep across the expected resonance, and check the fixture and the frequency unit',
+      },
+    ]);
   });
 
   it('says "inductive only" between the resonance and the anti-resonance', () => {
@@ -155,7 +172,9 @@ describe('findResonances', () => {
     const outside = find(X1, linGrid(FS + 400, FS + 2000, 401));
     expect(outside.resonances[0].atBoundary).toBe(true);
     expect(outside.diagnostics[0].severity).toBe('warning');
-    expect(outside.diagnostics[0].message).toMatch(/^sweep x\.s1p: conductance rises to the sweep edge at 15\.91589 MHz/);
+    expect(outside.diagnostics[0].message).toMatch(
+      /^sweep x\.s1p: conductance rises to the sweep edge at 15\.91589 MHz/,
+    );
   });
 
   it('flags two modes closer than the sweep resolves', () => {

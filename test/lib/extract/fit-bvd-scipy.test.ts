@@ -16,8 +16,15 @@ import { fitBvd } from '../../../src/lib/extract/fit-bvd.ts';
 import { createBvdResiduals, type BvdFitPoints } from '../../../src/lib/extract/residuals.ts';
 import type { BvdModel } from '../../../src/lib/models/bvd.ts';
 import {
-  CERAMIC_TRUE, generatorNoise, makeScipyInput, makeScipyNoiseInput, runScipyFit, SCIPY_FIT_DIR, X1_TRUE,
-  type ScipyFitInput, type ScipyNoiseSpec,
+  CERAMIC_TRUE,
+  generatorNoise,
+  makeScipyInput,
+  makeScipyNoiseInput,
+  runScipyFit,
+  SCIPY_FIT_DIR,
+  X1_TRUE,
+  type ScipyFitInput,
+  type ScipyNoiseSpec,
 } from '../../fixtures/scipy-fit/make-input.ts';
 import { requireTool } from '../../support/tools.ts';
 
@@ -38,7 +45,12 @@ function toPoints(input: ScipyFitInput): BvdFitPoints {
 
 /** Sum of squared residuals of a model, with our residual code. */
 function ssrOf(points: BvdFitPoints, model: BvdModel): number {
-  const problem = createBvdResiduals(points, model, { freeBranches: model.branches.map((_, k) => k), fitC0: true, fitRs: false, fitLs: false });
+  const problem = createBvdResiduals(points, model, {
+    freeBranches: model.branches.map((_, k) => k),
+    fitC0: true,
+    fitRs: false,
+    fitLs: false,
+  });
   const r = new Float64Array(problem.residualCount);
   problem.residuals(problem.x0, r);
   return r.reduce((s, v) => s + v * v, 0);
@@ -55,7 +67,18 @@ type FsRule = 'ppt' | 'uncertainty';
 
 function compare(input: ScipyFitInput, scipy: ScipyOutput, truth: BvdModel, fsRule: FsRule): void {
   const points = toPoints(input);
-  const fit = fitBvd([{ freqHz: points.freqHz, zRe: points.zRe, zIm: points.zIm, sigmaZOhm: points.sigmaZOhm, source: 'scipy-input.json' }], input.initial);
+  const fit = fitBvd(
+    [
+      {
+        freqHz: points.freqHz,
+        zRe: points.zRe,
+        zIm: points.zIm,
+        sigmaZOhm: points.sigmaZOhm,
+        source: 'scipy-input.json',
+      },
+    ],
+    input.initial,
+  );
   expect(fit.converged, fit.reason).toBe(true);
   expect(scipy.status).toBeGreaterThan(0); // MINPACK converged (1–4)
   if (points.sigmaZOhm) expect(scipy.weighted).toBe(true);
@@ -64,7 +87,13 @@ function compare(input: ScipyFitInput, scipy: ScipyOutput, truth: BvdModel, fsRu
   // The optimum is not the truth (noise), so agreement below is not agreement with the generator:
   // some parameter sits more than ten times the agreement tolerance away from it.
   const tb = truth.branches[0];
-  expect(Math.max(Math.abs(ours.c1F / tb.c1F - 1), Math.abs(ours.r1Ohm / tb.r1Ohm - 1), Math.abs(fit.model.c0F / truth.c0F - 1))).toBeGreaterThan(1e-5);
+  expect(
+    Math.max(
+      Math.abs(ours.c1F / tb.c1F - 1),
+      Math.abs(ours.r1Ohm / tb.r1Ohm - 1),
+      Math.abs(fit.model.c0F / truth.c0F - 1),
+    ),
+  ).toBeGreaterThan(1e-5);
   // Same minimum: fs per the rule above, R1, C1, C0 to 1e-6 relative (scipy least_squares).
   if (fsRule === 'ppt') expect(Math.abs(ours.fsHz - theirs.fsHz) / theirs.fsHz).toBeLessThan(1e-12);
   else expect(Math.abs(ours.fsHz - theirs.fsHz)).toBeLessThan(1e-3 * fit.uncertainty.branches[0].fsHz);
@@ -117,12 +146,15 @@ describe('fitBvd against scipy least_squares', () => {
     ['X1', X1_TRUE, 777, -50, 'ppt'],
     ['ceramic', CERAMIC_TRUE, 99, -40, 'uncertainty'],
   ] as const) {
-    it.skipIf(!haveScipy)(`finds the same minimum as scipy on a freshly generated noisy ${name} sweep (seed ${seed}, ${noiseDb} dB)`, () => {
-      const input = makeScipyInput(seed, noiseDb, 1601, truth);
-      const path = join(dir, `input-${name}-${seed}.json`);
-      writeFileSync(path, JSON.stringify(input));
-      compare(input, runScipyFit(path), truth, fsRule);
-    });
+    it.skipIf(!haveScipy)(
+      `finds the same minimum as scipy on a freshly generated noisy ${name} sweep (seed ${seed}, ${noiseDb} dB)`,
+      () => {
+        const input = makeScipyInput(seed, noiseDb, 1601, truth);
+        const path = join(dir, `input-${name}-${seed}.json`);
+        writeFileSync(path, JSON.stringify(input));
+        compare(input, runScipyFit(path), truth, fsRule);
+      },
+    );
   }
 
   // Weighted by σZ from an instrument's noise: floor −65 / −70 dB below the source plus 1e-4
@@ -131,27 +163,38 @@ describe('fitBvd against scipy least_squares', () => {
   const WEIGHTED: Array<[string, ScipyNoiseSpec, FsRule]> = [
     ['X1 reflection', { seed: 6501, fixture: 'reflection', floorDb: -65, traceNoise: 1e-4, truth: X1_TRUE }, 'ppt'],
     ['X1 reflection', { seed: 6502, fixture: 'reflection', floorDb: -70, traceNoise: 1e-4, truth: X1_TRUE }, 'ppt'],
-    ['X1 series-through', { seed: 6503, fixture: 'series-thru', floorDb: -65, traceNoise: 1e-4, truth: X1_TRUE }, 'ppt'],
-    ['ceramic reflection', { seed: 6504, fixture: 'reflection', floorDb: -65, traceNoise: 1e-4, truth: CERAMIC_TRUE }, 'uncertainty'],
+    [
+      'X1 series-through',
+      { seed: 6503, fixture: 'series-thru', floorDb: -65, traceNoise: 1e-4, truth: X1_TRUE },
+      'ppt',
+    ],
+    [
+      'ceramic reflection',
+      { seed: 6504, fixture: 'reflection', floorDb: -65, traceNoise: 1e-4, truth: CERAMIC_TRUE },
+      'uncertainty',
+    ],
   ];
   for (const [name, spec, fsRule] of WEIGHTED) {
-    it.skipIf(!haveScipy)(`finds the same weighted minimum as scipy on a ${name} record (seed ${spec.seed}, floor ${spec.floorDb} dB, trace ${spec.traceNoise})`, () => {
-      const input = makeScipyNoiseInput(spec);
-      const sigma = input.points.sigmaZOhm!;
-      // σZ as the fixture formulas give it, to 1e-9 (rounding of the S → Z → S round trip).
-      sigmaByHand(input, spec).forEach((v, i) => expect(Math.abs(sigma[i] / v - 1)).toBeLessThan(1e-9));
-      // The weights matter: σZ/|Z| varies by orders of magnitude over the sweep.
-      const rel = sigma.map((v, i) => v / Math.hypot(input.points.zRe[i], input.points.zIm[i]));
-      expect(Math.max(...rel) / Math.min(...rel)).toBeGreaterThan(100);
-      const path = join(dir, `input-weighted-${spec.seed}.json`);
-      writeFileSync(path, JSON.stringify(input));
-      const scipy = runScipyFit(path);
-      compare(input, scipy, spec.truth!, fsRule);
-      // With σZ the noise the generator really added, each residual has unit variance: the
-      // reduced χ² SSR/(m − n) is 1 within ±0.1 (4 standard deviations of χ² with m − n ≈ 3200
-      // degrees of freedom, √(2/3200) = 0.025).
-      const dof = 2 * input.points.freqHz.length - 4;
-      expect(Math.abs(scipy.ssr / dof - 1)).toBeLessThan(0.1);
-    });
+    it.skipIf(!haveScipy)(
+      `finds the same weighted minimum as scipy on a ${name} record (seed ${spec.seed}, floor ${spec.floorDb} dB, trace ${spec.traceNoise})`,
+      () => {
+        const input = makeScipyNoiseInput(spec);
+        const sigma = input.points.sigmaZOhm!;
+        // σZ as the fixture formulas give it, to 1e-9 (rounding of the S → Z → S round trip).
+        sigmaByHand(input, spec).forEach((v, i) => expect(Math.abs(sigma[i] / v - 1)).toBeLessThan(1e-9));
+        // The weights matter: σZ/|Z| varies by orders of magnitude over the sweep.
+        const rel = sigma.map((v, i) => v / Math.hypot(input.points.zRe[i], input.points.zIm[i]));
+        expect(Math.max(...rel) / Math.min(...rel)).toBeGreaterThan(100);
+        const path = join(dir, `input-weighted-${spec.seed}.json`);
+        writeFileSync(path, JSON.stringify(input));
+        const scipy = runScipyFit(path);
+        compare(input, scipy, spec.truth!, fsRule);
+        // With σZ the noise the generator really added, each residual has unit variance: the
+        // reduced χ² SSR/(m − n) is 1 within ±0.1 (4 standard deviations of χ² with m − n ≈ 3200
+        // degrees of freedom, √(2/3200) = 0.025).
+        const dof = 2 * input.points.freqHz.length - 4;
+        expect(Math.abs(scipy.ssr / dof - 1)).toBeLessThan(0.1);
+      },
+    );
   }
 });

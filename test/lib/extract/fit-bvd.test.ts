@@ -190,7 +190,14 @@ describe('fitBvd on noisy sweeps', () => {
     it(`gives honest standard uncertainties for ${name}: over 40 seeded trials at −60 dB the error is within 3u in ≥ 95 % for every quantity`, () => {
       const freq = spanOf(part);
       const want = part.branches[0];
-      const truth = { fsHz: want.fsHz, r1Ohm: want.r1Ohm, c1F: want.c1F, l1H: inductanceOf(want), q: qualityOf(want), c0F: part.c0F };
+      const truth = {
+        fsHz: want.fsHz,
+        r1Ohm: want.r1Ohm,
+        c1F: want.c1F,
+        l1H: inductanceOf(want),
+        q: qualityOf(want),
+        c0F: part.c0F,
+      };
       const keys = Object.keys(truth) as Array<keyof typeof truth>;
       const within3 = Object.fromEntries(keys.map((k) => [k, 0])) as Record<keyof typeof truth, number>;
       const z2 = Object.fromEntries(keys.map((k) => [k, 0])) as Record<keyof typeof truth, number>;
@@ -200,7 +207,14 @@ describe('fitBvd on noisy sweeps', () => {
         expect(fit.converged, fit.reason).toBe(true);
         const b = fit.model.branches[0];
         const u = fit.uncertainty.branches[0];
-        const got = { fsHz: b.fsHz, r1Ohm: b.r1Ohm, c1F: b.c1F, l1H: inductanceOf(b), q: qualityOf(b), c0F: fit.model.c0F };
+        const got = {
+          fsHz: b.fsHz,
+          r1Ohm: b.r1Ohm,
+          c1F: b.c1F,
+          l1H: inductanceOf(b),
+          q: qualityOf(b),
+          c0F: fit.model.c0F,
+        };
         const unc = { ...u, c0F: fit.uncertainty.c0F };
         for (const k of keys) {
           expect(unc[k]).toBeGreaterThan(0);
@@ -272,8 +286,15 @@ describe('joint fit over several sweeps', () => {
   const freq = spanOf(X1);
   const narrow = (o: SynthOptions = {}) => synth(X1, freq, { ...o, source: 'x1-narrow.s1p' });
   // Known capacitors: 10 pF across the part, 12 pF in series (load-capacitance practice).
-  const parallel = (o: SynthOptions = {}) => synth(X1, freq, { ...o, addedCapacitanceF: 10e-12, addedConnection: 'parallel', source: 'x1-par10p.s1p' });
-  const series = (o: SynthOptions = {}) => synth(X1, grid(X1.branches[0].fsHz - 8e3, X1.branches[0].fsHz + 40e3, 1601), { ...o, addedCapacitanceF: 12e-12, addedConnection: 'series', source: 'x1-ser12p.s1p' });
+  const parallel = (o: SynthOptions = {}) =>
+    synth(X1, freq, { ...o, addedCapacitanceF: 10e-12, addedConnection: 'parallel', source: 'x1-par10p.s1p' });
+  const series = (o: SynthOptions = {}) =>
+    synth(X1, grid(X1.branches[0].fsHz - 8e3, X1.branches[0].fsHz + 40e3, 1601), {
+      ...o,
+      addedCapacitanceF: 12e-12,
+      addedConnection: 'series',
+      source: 'x1-ser12p.s1p',
+    });
 
   it('explains a plain, a parallel-loaded and a series-loaded sweep with one parameter set (noiseless, 1e-9)', () => {
     const fit = fitBvd([narrow(), parallel(), series()], perturb(X1, -20, 1.3, 1.2, 0.95));
@@ -304,7 +325,10 @@ describe('joint fit over several sweeps', () => {
   it('is at least as certain about C1 and C0 as the plain sweep alone (noisy, −60 dB)', () => {
     const start = perturb(X1, 5, 1.1, 0.95, 1.02);
     const alone = fitBvd([narrow({ noiseDb: -60, seed: 11 })], start);
-    const joint = fitBvd([narrow({ noiseDb: -60, seed: 11 }), parallel({ noiseDb: -60, seed: 12 }), series({ noiseDb: -60, seed: 13 })], start);
+    const joint = fitBvd(
+      [narrow({ noiseDb: -60, seed: 11 }), parallel({ noiseDb: -60, seed: 12 }), series({ noiseDb: -60, seed: 13 })],
+      start,
+    );
     expect(alone.converged && joint.converged).toBe(true);
     expect(joint.uncertainty.branches[0].c1F).toBeLessThan(alone.uncertainty.branches[0].c1F);
     expect(joint.uncertainty.c0F).toBeLessThan(alone.uncertainty.c0F);
@@ -326,10 +350,14 @@ describe('fitBvd options', () => {
   it('fits fixture Rs and Ls when asked (check fixture: Rs 0.5 Ω, Ls 5 nH)', () => {
     const truth: BvdModel = { ...X1, rsOhm: 0.5, lsH: 5e-9 };
     const wide = grid(14e6, 18e6, 1601);
-    const fit = fitBvd([synth(truth, spanOf(truth)), synth(truth, wide)], perturb({ ...X1, rsOhm: 0, lsH: 0 }, 5, 1.1, 0.9, 1.02), {
-      fitRs: true,
-      fitLs: true,
-    });
+    const fit = fitBvd(
+      [synth(truth, spanOf(truth)), synth(truth, wide)],
+      perturb({ ...X1, rsOhm: 0, lsH: 0 }, 5, 1.1, 0.9, 1.02),
+      {
+        fitRs: true,
+        fitLs: true,
+      },
+    );
     expect(fit.converged, fit.reason).toBe(true);
     expect(fit.model.rsOhm).toBeCloseTo(0.5, 6);
     expect(fit.model.lsH! / 5e-9).toBeCloseTo(1, 6);
@@ -365,7 +393,9 @@ describe('fitBvd options', () => {
   it('uses only points within windowHz of a free branch', () => {
     const sweep = synth(X1, spanOf(X1));
     const fit = fitBvd([sweep], perturb(X1, 5, 1.1, 0.9, 1.02), { windowHz: 3e3 });
-    const expected = Array.from(sweep.freqHz).filter((f) => Math.abs(f - X1.branches[0].fsHz * (1 + 5e-6)) <= 3e3).length;
+    const expected = Array.from(sweep.freqHz).filter(
+      (f) => Math.abs(f - X1.branches[0].fsHz * (1 + 5e-6)) <= 3e3,
+    ).length;
     expect(fit.points).toBe(expected);
     expect(fit.converged, fit.reason).toBe(true);
     expect(rel(fit.model.branches[0].r1Ohm, 20)).toBeLessThan(1e-9);
@@ -412,7 +442,10 @@ describe('analytic jacobian', () => {
   }
 
   const cases: Array<[string, { freeBranches: number[]; fitC0: boolean; fitRs: boolean; fitLs: boolean }]> = [
-    ['every parameter free (two branches, C0, Rs, Ls)', { freeBranches: [0, 1], fitC0: true, fitRs: true, fitLs: true }],
+    [
+      'every parameter free (two branches, C0, Rs, Ls)',
+      { freeBranches: [0, 1], fitC0: true, fitRs: true, fitLs: true },
+    ],
     ['one branch free, C0 and the other branch fixed', { freeBranches: [1], fitC0: false, fitRs: false, fitLs: false }],
   ];
   for (const [label, free] of cases) {
@@ -421,7 +454,10 @@ describe('analytic jacobian', () => {
       const f = grid(TWO_BRANCH.branches[0].fsHz - 5e3, TWO_BRANCH.branches[1].fsHz + 5e3, 401);
       const sweeps = [
         synth(truth, f, { noiseDb: -50, seed: 8 }),
-        { ...synth(truth, f, { noiseDb: -50, seed: 9, addedCapacitanceF: 8e-12, addedConnection: 'parallel' }), weight: 0.7 },
+        {
+          ...synth(truth, f, { noiseDb: -50, seed: 9, addedCapacitanceF: 8e-12, addedConnection: 'parallel' }),
+          weight: 0.7,
+        },
         synth(truth, f, { noiseDb: -50, seed: 10, addedCapacitanceF: 15e-12, addedConnection: 'series' }),
       ];
       // Evaluate away from the optimum, so no term of the Jacobian vanishes by accident.
@@ -466,7 +502,12 @@ describe('analytic jacobian', () => {
     // |r| = |Zmeas − Zmod|/|Zmeas|·(1 + O(residual)) — module comment of residuals.ts.
     const f = spanOf(X1, 201);
     const sweep = synth(X1, f, { noiseDb: -60, seed: 31 });
-    const problem = createBvdResiduals(flatten([sweep]), X1, { freeBranches: [0], fitC0: true, fitRs: false, fitLs: false });
+    const problem = createBvdResiduals(flatten([sweep]), X1, {
+      freeBranches: [0],
+      fitC0: true,
+      fitRs: false,
+      fitLs: false,
+    });
     const r = new Float64Array(problem.residualCount);
     problem.residuals(problem.x0, r);
     for (let i = 0; i < f.length; i++) {
@@ -504,11 +545,17 @@ describe('fitBvd failures are results', () => {
     expect(fit.reason).toMatch(/^branches\[0\]: /);
   });
 
-  it('names the branch the data do not determine, and no branch when the failure is not one branch\'s', () => {
+  it("names the branch the data do not determine, and no branch when the failure is not one branch's", () => {
     // X1 data (−60 dB) with a start that adds a second branch 20 kHz above fs that the sweep does not show
     const f = grid(X1.branches[0].fsHz - 3000, X1.branches[0].fsHz + 30_000, 3001);
     const sweep = synth(X1, f, { noiseDb: -60, seed: 3 });
-    const start: BvdModel = { ...perturb(X1, 0.2, 1.05, 1.01, 1.01), branches: [...perturb(X1, 0.2, 1.05, 1.01, 1.01).branches, { fsHz: X1.branches[0].fsHz + 20e3, r1Ohm: 1e4, c1F: 1e-15 }] };
+    const start: BvdModel = {
+      ...perturb(X1, 0.2, 1.05, 1.01, 1.01),
+      branches: [
+        ...perturb(X1, 0.2, 1.05, 1.01, 1.01).branches,
+        { fsHz: X1.branches[0].fsHz + 20e3, r1Ohm: 1e4, c1F: 1e-15 },
+      ],
+    };
     const both = fitBvd([sweep], start);
     expectCleanFailure(both, start);
     expect(both.failedBranch).toBe(1);
@@ -531,16 +578,41 @@ describe('fitBvd failures are results', () => {
     const good = synth(X1, f);
     const cases: Array<[FitSweep[], BvdModel, object, string]> = [
       [[], X1, {}, 'no sweeps to fit'],
-      [[{ ...good, zIm: good.zIm.subarray(1) }], X1, {}, 'synthetic.s1p: frequency and impedance arrays differ in length'],
-      [[{ ...good, zRe: Float64Array.from(good.zRe, (v, i) => (i === 3 ? NaN : v)) }], X1, {}, 'synthetic.s1p: point 3: impedance NaN'],
-      [[{ ...good, freqHz: Float64Array.from(f, (v, i) => (i === 2 ? -1 : v)) }], X1, {}, 'synthetic.s1p: point 2: frequency -1 Hz: expected a positive number'],
+      [
+        [{ ...good, zIm: good.zIm.subarray(1) }],
+        X1,
+        {},
+        'synthetic.s1p: frequency and impedance arrays differ in length',
+      ],
+      [
+        [{ ...good, zRe: Float64Array.from(good.zRe, (v, i) => (i === 3 ? NaN : v)) }],
+        X1,
+        {},
+        'synthetic.s1p: point 3: impedance NaN',
+      ],
+      [
+        [{ ...good, freqHz: Float64Array.from(f, (v, i) => (i === 2 ? -1 : v)) }],
+        X1,
+        {},
+        'synthetic.s1p: point 2: frequency -1 Hz: expected a positive number',
+      ],
       [[{ ...good, weight: 0 }], X1, {}, 'synthetic.s1p: weight 0: expected a positive number'],
-      [[{ ...good, addedCapacitanceF: 1e-12 }], X1, {}, 'synthetic.s1p: added capacitor connection undefined: expected parallel or series'],
+      [
+        [{ ...good, addedCapacitanceF: 1e-12 }],
+        X1,
+        {},
+        'synthetic.s1p: added capacitor connection undefined: expected parallel or series',
+      ],
       [[good], { ...X1, branches: [{ ...X1.branches[0], r1Ohm: -20 }] }, {}, 'initial branches[0]'],
       [[good], { ...X1, c0F: NaN }, {}, 'initial c0F NaN: expected a positive number'],
       [[good], X1, { freeBranches: [3] }, 'free branch 3: expected an index 0…0'],
       [[good], X1, { freeBranches: [], fitC0: false }, 'no free parameters'],
-      [[{ ...good, freqHz: f.subarray(0, 2), zRe: good.zRe.subarray(0, 2), zIm: good.zIm.subarray(0, 2) }], X1, {}, '2 points (4 residuals) for 4 parameters: need more residuals than parameters'],
+      [
+        [{ ...good, freqHz: f.subarray(0, 2), zRe: good.zRe.subarray(0, 2), zIm: good.zIm.subarray(0, 2) }],
+        X1,
+        {},
+        '2 points (4 residuals) for 4 parameters: need more residuals than parameters',
+      ],
     ];
     for (const [sweeps, start, options, reason] of cases) {
       const fit = fitBvd(sweeps, start, options);

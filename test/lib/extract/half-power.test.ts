@@ -73,7 +73,12 @@ describe('fitConductancePeak', () => {
       const d = gOf(X1, f, -60, seed);
       const r = fitConductancePeak(f, d.gS, d.yAbs, d.peak);
       const u = r.uncertainty!;
-      if (Math.abs(r.fsHz - FS) < 3 * u.fsHz && Math.abs(r.r1Ohm - 20) < 3 * u.r1Ohm && Math.abs(r.c1F - 10e-15) < 3 * u.c1F) covered++;
+      if (
+        Math.abs(r.fsHz - FS) < 3 * u.fsHz &&
+        Math.abs(r.r1Ohm - 20) < 3 * u.r1Ohm &&
+        Math.abs(r.c1F - 10e-15) < 3 * u.c1F
+      )
+        covered++;
     }
     expect(covered).toBeGreaterThanOrEqual(18);
   });

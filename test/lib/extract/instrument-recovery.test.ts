@@ -38,11 +38,17 @@ function boundOf(t: Trial, q: (typeof COMPARED)[number]): number | undefined {
   const b = t.part.model.branches[0];
   const q1 = 1 / (2 * Math.PI * b.fsHz * b.r1Ohm * b.c1F);
   switch (q) {
-    case 'fsHz': return q1 >= 1e4 ? 0.1e-6 : 1e-3 / q1;
-    case 'fpHz': return t.faVisible ? 1e-6 : undefined;
-    case 'r1Ohm': return 0.01;
-    case 'c1F': case 'l1H': return 0.005;
-    case 'c0F': return 0.01;
+    case 'fsHz':
+      return q1 >= 1e4 ? 0.1e-6 : 1e-3 / q1;
+    case 'fpHz':
+      return t.faVisible ? 1e-6 : undefined;
+    case 'r1Ohm':
+      return 0.01;
+    case 'c1F':
+    case 'l1H':
+      return 0.005;
+    case 'c0F':
+      return 0.01;
   }
 }
 
@@ -57,7 +63,9 @@ function trialsOf(setup: TrialSetup): Trial[] {
   });
   // A set-up that cannot show a part (an S fixture and a 100 kΩ part) keeps it out: see
   // highestUsableFloorDb. Those parts run in the impedance set-ups.
-  return out.filter((t) => setup === 'impedance-z' || setup === 'touchstone-z' || t.part.model.branches[0].r1Ohm <= 1e3);
+  return out.filter(
+    (t) => setup === 'impedance-z' || setup === 'touchstone-z' || t.part.model.branches[0].r1Ohm <= 1e3,
+  );
 }
 
 describe('recovery from bench-like sweeps', () => {
@@ -69,12 +77,18 @@ describe('recovery from bench-like sweeps', () => {
       for (const t of trials) {
         const r = extractPart(t.record, t.inputs).samples[0];
         const m = mainOf(r, t.truth.fsHz);
-        if (!m) { misses.push(`${t.describe}: no main mode (${r.warnings.join('; ')})`); continue; }
+        if (!m) {
+          misses.push(`${t.describe}: no main mode (${r.warnings.join('; ')})`);
+          continue;
+        }
         for (const q of COMPARED) {
           const { value, u } = valueOf(r, m, q);
           const err = Math.abs(value - t.truth[q]);
           const bound = boundOf(t, q);
-          if (bound !== undefined && err > bound * t.truth[q]) misses.push(`${t.describe}: ${q} off by ${(err / t.truth[q]).toExponential(2)} (bound ${bound.toExponential(1)})`);
+          if (bound !== undefined && err > bound * t.truth[q])
+            misses.push(
+              `${t.describe}: ${q} off by ${(err / t.truth[q]).toExponential(2)} (bound ${bound.toExponential(1)})`,
+            );
           // L1 = 1/((2πfs)²C1) moves with C1: one comparison, not two.
           if (!(err <= 3 * u) && q !== 'l1H') misses.push(`${t.describe}: ${q} off by ${(err / u).toFixed(2)} u`);
         }
@@ -97,11 +111,15 @@ describe('recovery from bench-like sweeps', () => {
       const r = extractPart(t.record, t.inputs).samples[0];
       const m = mainOf(r, t.truth.fsHz);
       expect(m, t.describe).toBeDefined();
-      expect(r.diagnostics.some((d) => d.code === 'points-per-bandwidth'), t.describe).toBe(true);
+      expect(
+        r.diagnostics.some((d) => d.code === 'points-per-bandwidth'),
+        t.describe,
+      ).toBe(true);
       for (const q of COMPARED) {
         const { value, u } = valueOf(r, m!, q);
         comparisons++;
-        if (!(Math.abs(value - t.truth[q]) <= 3 * u)) outside.push(`${t.describe}: ${q} ${(Math.abs(value - t.truth[q]) / u).toFixed(2)} u`);
+        if (!(Math.abs(value - t.truth[q]) <= 3 * u))
+          outside.push(`${t.describe}: ${q} ${(Math.abs(value - t.truth[q]) / u).toFixed(2)} u`);
       }
     }
     expect(outside.length / comparisons, outside.join('\n')).toBeLessThanOrEqual(0.03);
@@ -115,7 +133,10 @@ describe('recovery from bench-like sweeps', () => {
       expect(t.faVisible).toBe(false);
       const r = extractPart(t.record, t.inputs).samples[0];
       const m = mainOf(r, t.truth.fsHz)!;
-      expect(r.warnings.some((w) => /anti-resonance .* is not seen above the noise floor .*fp comes from C0 and C1/.test(w)), t.describe).toBe(true);
+      expect(
+        r.warnings.some((w) => /anti-resonance .* is not seen above the noise floor .*fp comes from C0 and C1/.test(w)),
+        t.describe,
+      ).toBe(true);
       expect(Math.abs(m.fpHz - t.truth.fpHz)).toBeLessThanOrEqual(3 * m.uncertainty.fpHz);
       // The closed form needs fa: it is shown but does not vote.
       const closed = m.crossCheck.flatMap((c) => c.values).filter((v) => v.method === 'closed-form');
@@ -134,19 +155,45 @@ describe('recovery from bench-like sweeps', () => {
     const refs: SweepRef[] = [];
     const inputs: ExtractSweepInput[] = [];
     const runs: Array<{ file: string; t: number; d: number; model: BvdModel }> = [];
-    for (const t of temps) runs.push({ file: `t${t}.s1p`, t, d: drives[0], model: { c0F, branches: [{ ...base, fsHz: base.fsHz * (1 + offset(t)) }] } });
+    for (const t of temps)
+      runs.push({
+        file: `t${t}.s1p`,
+        t,
+        d: drives[0],
+        model: { c0F, branches: [{ ...base, fsHz: base.fsHz * (1 + offset(t)) }] },
+      });
     runs.push({ file: 'hi-drive.s1p', t: 25, d: drives[1], model: { c0F, branches: [{ ...base, r1Ohm: 13 }] } });
     runs.forEach((run, i) => {
       const f0 = run.model.branches[0].fsHz;
-      const s = synthesizeSweep({ model: run.model, grid: { kind: 'linear', startHz: f0 - 3000, stopHz: f0 + 24000, points: 2001 }, fixture: 'reflection', z0Ohm: 50, floorDb: -75, traceNoise: 1e-4, seed: 400 + i, source: run.file });
+      const s = synthesizeSweep({
+        model: run.model,
+        grid: { kind: 'linear', startHz: f0 - 3000, stopHz: f0 + 24000, points: 2001 },
+        fixture: 'reflection',
+        z0Ohm: 50,
+        floorDb: -75,
+        traceNoise: 1e-4,
+        seed: 400 + i,
+        source: run.file,
+      });
       const ref: SweepRef = { file: run.file, fixture: 'reflection', temperatureC: run.t, driveW: run.d };
       refs.push(ref);
-      inputs.push({ sampleId: 'A', ref, file: run.file, impedance: networkToImpedance(s.network, 'reflection', run.file) });
+      inputs.push({
+        sampleId: 'A',
+        ref,
+        file: run.file,
+        impedance: networkToImpedance(s.network, 'reflection', run.file),
+      });
     });
-    const part: Part = { id: 'TEMP-1', title: 'temperature run', kind: 'quartz-at', samples: [{ id: 'A', sweeps: refs, temperatureC: 25 }] };
+    const part: Part = {
+      id: 'TEMP-1',
+      title: 'temperature run',
+      kind: 'quartz-at',
+      samples: [{ id: 'A', sweeps: refs, temperatureC: 25 }],
+    };
     const r = extractPart(part, inputs).samples[0];
     expect(r.temperature, r.warnings.join('; ')).toBeDefined();
-    for (const p of r.temperature!.points) expect(Math.abs(p.fsHz / base.fsHz - 1 - offset(p.temperatureC)) * 1e6).toBeLessThan(0.05);
+    for (const p of r.temperature!.points)
+      expect(Math.abs(p.fsHz / base.fsHz - 1 - offset(p.temperatureC)) * 1e6).toBeLessThan(0.05);
     expect(r.drive).toBeDefined();
     // R1 13 Ω at the high drive against 10 Ω at the reference: ratio 1.3.
     expect(r.drive!.resistanceRatio).toBeCloseTo(1.3, 2);

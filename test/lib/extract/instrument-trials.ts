@@ -52,9 +52,18 @@ export interface TrialRecording {
 }
 
 /** A recording set-up of the trials. */
-export type TrialSetup = 'reflection' | 'series-thru' | 'shunt-thru' | 'impedance-z' | 'touchstone-z' | 'mixed' | 'coarse';
+export type TrialSetup =
+  'reflection' | 'series-thru' | 'shunt-thru' | 'impedance-z' | 'touchstone-z' | 'mixed' | 'coarse';
 
-export const TRIAL_SETUPS: TrialSetup[] = ['reflection', 'series-thru', 'shunt-thru', 'impedance-z', 'touchstone-z', 'mixed', 'coarse'];
+export const TRIAL_SETUPS: TrialSetup[] = [
+  'reflection',
+  'series-thru',
+  'shunt-thru',
+  'impedance-z',
+  'touchstone-z',
+  'mixed',
+  'coarse',
+];
 
 /** One generated trial: the record, the sweeps as the pipeline hands them over, and the truth. */
 export interface Trial {
@@ -113,8 +122,11 @@ export function makeTrial(seed: number, setup: TrialSetup, partIndex?: number): 
   // Parts an S-parameter fixture can show at the lowest floor (see highestUsableFloorDb);
   // the impedance set-ups take every part.
   const impedanceOnly = setup === 'impedance-z' || setup === 'touchstone-z';
-  const pool = TRIAL_PARTS.filter((p) => impedanceOnly || highestUsableFloorDb(p.model.branches[0].r1Ohm, 'shunt-thru', 50) >= FLOOR_RANGE_DB[0] - 6);
-  const part = partIndex !== undefined ? TRIAL_PARTS[partIndex] : pool[Math.floor(rng.uniform() * pool.length) % pool.length];
+  const pool = TRIAL_PARTS.filter(
+    (p) => impedanceOnly || highestUsableFloorDb(p.model.branches[0].r1Ohm, 'shunt-thru', 50) >= FLOOR_RANGE_DB[0] - 6,
+  );
+  const part =
+    partIndex !== undefined ? TRIAL_PARTS[partIndex] : pool[Math.floor(rng.uniform() * pool.length) % pool.length];
   const main = part.model.branches[0];
   const model: BvdModel = { c0F: part.model.c0F, branches: [{ ...main }] };
   const withSpurious = rng.uniform() < 0.4;
@@ -122,7 +134,11 @@ export function makeTrial(seed: number, setup: TrialSetup, partIndex?: number): 
     const ratioDb = between(rng, 5, 20);
     const offset = between(rng, 0.001, 0.005);
     // Same L-scale as the main mode, R raised by the strength: R ratio 10^(dB/20).
-    model.branches.push({ fsHz: main.fsHz * (1 + offset), r1Ohm: main.r1Ohm * 10 ** (ratioDb / 20), c1F: main.c1F * 10 ** (-ratioDb / 20) });
+    model.branches.push({
+      fsHz: main.fsHz * (1 + offset),
+      r1Ohm: main.r1Ohm * 10 ** (ratioDb / 20),
+      c1F: main.c1F * 10 ** (-ratioDb / 20),
+    });
   }
   const strayF = rng.uniform() < 0.5 ? between(rng, 0.1e-12, 0.5e-12) : 0;
   const parasitics: FixtureParasitics | undefined = strayF > 0 ? { cpF: strayF } : undefined;
@@ -137,17 +153,34 @@ export function makeTrial(seed: number, setup: TrialSetup, partIndex?: number): 
 
   const fixtures: Fixture[] = (() => {
     switch (setup) {
-      case 'reflection': return ['reflection', 'reflection', 'reflection'];
-      case 'series-thru': return ['series-thru', 'series-thru', 'series-thru'];
-      case 'shunt-thru': return ['shunt-thru', 'shunt-thru', 'shunt-thru'];
-      case 'impedance-z': case 'touchstone-z': return ['impedance', 'impedance', 'impedance'];
-      case 'mixed': { const f = pick(rng, ['series-thru', 'reflection', 'shunt-thru'] as const); return [f, 'impedance', f]; }
-      case 'coarse': { const f = pick(rng, ['reflection', 'series-thru', 'impedance'] as const); return [f, f, f]; }
+      case 'reflection':
+        return ['reflection', 'reflection', 'reflection'];
+      case 'series-thru':
+        return ['series-thru', 'series-thru', 'series-thru'];
+      case 'shunt-thru':
+        return ['shunt-thru', 'shunt-thru', 'shunt-thru'];
+      case 'impedance-z':
+      case 'touchstone-z':
+        return ['impedance', 'impedance', 'impedance'];
+      case 'mixed': {
+        const f = pick(rng, ['series-thru', 'reflection', 'shunt-thru'] as const);
+        return [f, 'impedance', f];
+      }
+      case 'coarse': {
+        const f = pick(rng, ['reflection', 'series-thru', 'impedance'] as const);
+        return [f, f, f];
+      }
     }
   })();
   const plans = [
-    { file: 'narrow.s2p', grid: { kind: 'centered' as const, centerHz: main.fsHz, spanHz: narrowSpan, points: narrowPoints } },
-    { file: 'wide.s2p', grid: { kind: 'linear' as const, startHz: wideLo, stopHz: wideHi, points: coarse ? 401 : 801 } },
+    {
+      file: 'narrow.s2p',
+      grid: { kind: 'centered' as const, centerHz: main.fsHz, spanHz: narrowSpan, points: narrowPoints },
+    },
+    {
+      file: 'wide.s2p',
+      grid: { kind: 'linear' as const, startHz: wideLo, stopHz: wideHi, points: coarse ? 401 : 801 },
+    },
     { file: 'anti.s2p', grid: { kind: 'centered' as const, centerHz: fa, spanHz: narrowSpan, points: narrowPoints } },
   ];
   let faEvidence = 0;
@@ -156,22 +189,43 @@ export function makeTrial(seed: number, setup: TrialSetup, partIndex?: number): 
   const described: string[] = [];
   plans.forEach((p, i) => {
     const rec = recordingFor(rng, fixtures[i], main.r1Ohm);
-    const name = rec.fixture === 'impedance' ? p.file.replace('.s2p', setup === 'touchstone-z' ? '.s1p' : '.csv') : rec.ports === 1 || rec.fixture === 'reflection' && rec.ports !== 2 ? p.file.replace('.s2p', '.s1p') : p.file;
+    const name =
+      rec.fixture === 'impedance'
+        ? p.file.replace('.s2p', setup === 'touchstone-z' ? '.s1p' : '.csv')
+        : rec.ports === 1 || (rec.fixture === 'reflection' && rec.ports !== 2)
+          ? p.file.replace('.s2p', '.s1p')
+          : p.file;
     const s = synthesizeSweep({
-      model, grid: p.grid, fixture: rec.fixture, ports: rec.ports, z0Ohm: rec.z0Ohm, parasitics,
-      floorDb: rec.floorDb, traceNoise: rec.traceNoise, seed: seed * 31 + i, source: name,
+      model,
+      grid: p.grid,
+      fixture: rec.fixture,
+      ports: rec.ports,
+      z0Ohm: rec.z0Ohm,
+      parasitics,
+      floorDb: rec.floorDb,
+      traceNoise: rec.traceNoise,
+      seed: seed * 31 + i,
+      source: name,
     });
     // The impedance "CSV" holds Z as the analyser gave it (no recorded-quantity record: Z itself).
-    const impedance = setup === 'impedance-z' || (setup === 'mixed' && i === 1) || (setup === 'coarse' && rec.fixture === 'impedance')
-      ? { freqHz: s.measured.freqHz, zRe: s.measured.zRe, zIm: s.measured.zIm, source: name }
-      : networkToImpedance(s.network, rec.fixture, name);
+    const impedance =
+      setup === 'impedance-z' || (setup === 'mixed' && i === 1) || (setup === 'coarse' && rec.fixture === 'impedance')
+        ? { freqHz: s.measured.freqHz, zRe: s.measured.zRe, zIm: s.measured.zIm, source: name }
+        : networkToImpedance(s.network, rec.fixture, name);
     if (i === 2) faEvidence = antiResonanceEvidenceOf(s.impedance, rec, fa, bw, model, strayF);
     const ref: SweepRef = { file: name, fixture: rec.fixture };
     refs.push(ref);
     inputs.push({ sampleId: 'A', ref, file: name, impedance });
-    described.push(`${name} ${rec.fixture}${rec.ports === 2 ? ' 2-port' : ''} Z0 ${rec.z0Ohm} Ω floor ${rec.floorDb.toFixed(1)} dB`);
+    described.push(
+      `${name} ${rec.fixture}${rec.ports === 2 ? ' 2-port' : ''} Z0 ${rec.z0Ohm} Ω floor ${rec.floorDb.toFixed(1)} dB`,
+    );
   });
-  const record: Part = { id: `TRIAL-${seed}`, title: `trial ${seed}`, kind: part.kind, samples: [{ id: 'A', sweeps: refs }] };
+  const record: Part = {
+    id: `TRIAL-${seed}`,
+    title: `trial ${seed}`,
+    kind: part.kind,
+    samples: [{ id: 'A', sweeps: refs }],
+  };
   const c0F = model.c0F + strayF;
   const seen: BvdModel = { c0F, branches: model.branches };
   const truth = {
@@ -183,7 +237,17 @@ export function makeTrial(seed: number, setup: TrialSetup, partIndex?: number): 
     c0F,
   };
   const describe = `seed ${seed} ${setup} ${part.name}${withSpurious ? ' +spurious' : ''}${strayF ? ` stray ${(strayF * 1e12).toFixed(2)} pF` : ''}: ${described.join('; ')}`;
-  return { seed, setup, part, truth, record, inputs, resolved: !coarse, faVisible: !coarse && bw / faEvidence <= FP_RESOLUTION * fa, describe };
+  return {
+    seed,
+    setup,
+    part,
+    truth,
+    record,
+    inputs,
+    resolved: !coarse,
+    faVisible: !coarse && bw / faEvidence <= FP_RESOLUTION * fa,
+    describe,
+  };
 }
 
 /**
@@ -193,12 +257,19 @@ export function makeTrial(seed: number, setup: TrialSetup, partIndex?: number): 
  * within a bandwidth of fa, √Σ(2·G/σY)². dY/dM: reflection −2/(Z0(1 + Γ)²); series-through
  * 1/(2·Z0·(1 − S21)²); shunt-through −2/(Z0·S21²); an impedance record σZ/|Z|².
  */
-function antiResonanceEvidenceOf(seen: { freqHz: Float64Array; zRe: Float64Array; zIm: Float64Array }, rec: TrialRecording, faHz: number, bwHz: number, model: BvdModel, strayF: number): number {
+function antiResonanceEvidenceOf(
+  seen: { freqHz: Float64Array; zRe: Float64Array; zIm: Float64Array },
+  rec: TrialRecording,
+  faHz: number,
+  bwHz: number,
+  model: BvdModel,
+  strayF: number,
+): number {
   const seenModel: BvdModel = { c0F: model.c0F + strayF, branches: model.branches };
   const fp = parallelResonanceOf(seenModel, 0) ?? faHz;
   const [gFa] = admittanceAt(seenModel, fp);
   const floorUnit = rec.fixture === 'impedance' ? rec.z0Ohm : 1;
-  const floor = 10 ** (rec.floorDb / 20) * floorUnit / Math.SQRT2;
+  const floor = (10 ** (rec.floorDb / 20) * floorUnit) / Math.SQRT2;
   const trace = rec.traceNoise / Math.SQRT2;
   const z0 = rec.z0Ohm;
   let sum = 0;
@@ -213,21 +284,21 @@ function antiResonanceEvidenceOf(seen: { freqHz: Float64Array; zRe: Float64Array
         // 1 + Γ = 2Z/(Z + Z0)
         const zp = Math.hypot(z.re + z0, z.im);
         m = Math.hypot(z.re - z0, z.im) / zp;
-        const onePlus = 2 * Math.sqrt(zAbs2) / zp;
+        const onePlus = (2 * Math.sqrt(zAbs2)) / zp;
         dYdM = 2 / (z0 * onePlus * onePlus);
         break;
       }
       case 'series-thru': {
         // S21 = 2Z0/(Z + 2Z0), 1 − S21 = Z/(Z + 2Z0)
         const zp = Math.hypot(z.re + 2 * z0, z.im);
-        m = 2 * z0 / zp;
+        m = (2 * z0) / zp;
         const oneMinus = Math.sqrt(zAbs2) / zp;
         dYdM = 1 / (2 * z0 * oneMinus * oneMinus);
         break;
       }
       case 'shunt-thru': {
         // S21 = 2Z/(2Z + Z0)
-        m = 2 * Math.sqrt(zAbs2) / Math.hypot(2 * z.re + z0, 2 * z.im);
+        m = (2 * Math.sqrt(zAbs2)) / Math.hypot(2 * z.re + z0, 2 * z.im);
         dYdM = 2 / (z0 * m * m);
         break;
       }
@@ -236,7 +307,7 @@ function antiResonanceEvidenceOf(seen: { freqHz: Float64Array; zRe: Float64Array
         dYdM = 1 / zAbs2;
     }
     const sigmaY = dYdM * Math.sqrt(floor * floor + (trace * m) ** 2);
-    sum += (2 * gFa / sigmaY) ** 2;
+    sum += ((2 * gFa) / sigmaY) ** 2;
   }
   return Math.sqrt(sum);
 }

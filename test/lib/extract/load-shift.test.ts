@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { c1FromLoadShift, loadFrequency, lossFactor, solveThreeLoad, solveTwoLoad, type LoadPoint } from '../../../src/lib/extract/load-shift.ts';
+import {
+  c1FromLoadShift,
+  loadFrequency,
+  lossFactor,
+  solveThreeLoad,
+  solveTwoLoad,
+  type LoadPoint,
+} from '../../../src/lib/extract/load-shift.ts';
 import { zeroPhaseOf } from '../../../src/lib/extract/closed-form.ts';
 import { impedanceAt, type BvdModel } from '../../../src/lib/models/bvd.ts';
 
@@ -16,7 +23,8 @@ function seriesLoadResonance(clF: number): number {
   const imz = (f: number) => impedanceAt(X1, f)[1] - 1 / (2 * Math.PI * f * clF);
   for (let i = 0; i < 200; i++) {
     const m = 0.5 * (lo + hi);
-    if (imz(m) < 0) lo = m; else hi = m;
+    if (imz(m) < 0) lo = m;
+    else hi = m;
   }
   return 0.5 * (lo + hi);
 }
@@ -29,7 +37,11 @@ function parallelLoadAntiresonance(clF: number): number {
 describe('load-capacitance shift', () => {
   it('solves two lossless loads exactly: C1 = 10.000000 fF, C0 = 3.000000 pF', () => {
     // check X1 (mpmath; lossless fL at 10 and 20 pF as data), exact 1/u line
-    const loads: LoadPoint[] = [10e-12, 20e-12].map((clF) => ({ clF, connection: 'parallel', fLHz: loadFrequency(FS, C1, C0, clF) }));
+    const loads: LoadPoint[] = [10e-12, 20e-12].map((clF) => ({
+      clF,
+      connection: 'parallel',
+      fLHz: loadFrequency(FS, C1, C0, clF),
+    }));
     const r = solveTwoLoad(FS, loads)!;
     expect(r.c1F * 1e15).toBeCloseTo(10, 6);
     expect(r.c0F * 1e12).toBeCloseTo(3, 6);
@@ -37,7 +49,11 @@ describe('load-capacitance shift', () => {
 
   it('recovers fs, C1 and C0 from three lossless loads (8, 12, 20 pF)', () => {
     // three loads also give fs (derived from the BVD model)
-    const loads: LoadPoint[] = [8e-12, 12e-12, 20e-12].map((clF) => ({ clF, connection: 'series', fLHz: loadFrequency(FS, C1, C0, clF) }));
+    const loads: LoadPoint[] = [8e-12, 12e-12, 20e-12].map((clF) => ({
+      clF,
+      connection: 'series',
+      fLHz: loadFrequency(FS, C1, C0, clF),
+    }));
     const r = solveThreeLoad(loads)!;
     expect(r.fsHz).toBeCloseTo(FS, 4);
     expect(r.c1F * 1e15).toBeCloseTo(10, 6);
@@ -57,7 +73,12 @@ describe('load-capacitance shift', () => {
   it('is exact with R1 for a capacitor in series with the part', () => {
     // with R1 (derived from the BVD model), fL is the lower zero phase of crystal + series CL
     const fL = seriesLoadResonance(10e-12);
-    const exact = c1FromLoadShift({ fsHz: FS, load: { clF: 10e-12, connection: 'series', fLHz: fL }, c0F: C0, r1Ohm: 20 })!;
+    const exact = c1FromLoadShift({
+      fsHz: FS,
+      load: { clF: 10e-12, connection: 'series', fLHz: fL },
+      c0F: C0,
+      r1Ohm: 20,
+    })!;
     expect(Math.abs(exact / C1 - 1)).toBeLessThan(1e-8);
   });
 
@@ -89,6 +110,8 @@ describe('load-capacitance shift', () => {
   });
 
   it('needs two different loads', () => {
-    expect(solveTwoLoad(FS, [{ clF: 10e-12, connection: 'parallel', fLHz: loadFrequency(FS, C1, C0, 10e-12) }])).toBeUndefined();
+    expect(
+      solveTwoLoad(FS, [{ clF: 10e-12, connection: 'parallel', fLHz: loadFrequency(FS, C1, C0, 10e-12) }]),
+    ).toBeUndefined();
   });
 });

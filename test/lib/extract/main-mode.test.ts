@@ -10,7 +10,10 @@ const modes = [
 
 describe('mainMode', () => {
   it('takes the non-spurious mode nearest the datasheet frequency first', () => {
-    expect(mainMode(modes, { frequencyHz: 100e6, overtone: 1 })).toEqual({ index: 1, rule: 'mode nearest the datasheet frequency' });
+    expect(mainMode(modes, { frequencyHz: 100e6, overtone: 1 })).toEqual({
+      index: 1,
+      rule: 'mode nearest the datasheet frequency',
+    });
   });
   it('ignores a datasheet frequency no mode is within 5 % of, then uses the datasheet overtone', () => {
     expect(mainMode(modes, { frequencyHz: 50e6, overtone: 3 }).index).toBe(1);

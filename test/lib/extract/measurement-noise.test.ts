@@ -19,7 +19,13 @@
  * spread observed over 40 seeds while writing the test is quoted beside each.
  */
 import { describe, expect, it } from 'vitest';
-import { impedanceSigmaOhm, MIN_RELATIVE_NOISE, noiseFromDifferences, noiseFromResiduals, type RecordedNoise } from '../../../src/lib/extract/measurement-noise.ts';
+import {
+  impedanceSigmaOhm,
+  MIN_RELATIVE_NOISE,
+  noiseFromDifferences,
+  noiseFromResiduals,
+  type RecordedNoise,
+} from '../../../src/lib/extract/measurement-noise.ts';
 import { synthesizeSweep, type SynthSweepSpec } from '../../../src/lib/synth/synth-sweep.ts';
 import { networkToImpedance } from '../../../src/lib/fixture/to-impedance.ts';
 import { impedanceAt, type BvdModel } from '../../../src/lib/models/bvd.ts';
@@ -53,7 +59,16 @@ describe('noiseFromDifferences recovers a known floor and trace noise', () => {
     const t = truth(-70, 1e-3);
     const ratios: Array<[number, number]> = [];
     for (const seed of SEEDS) {
-      const n = noiseFromDifferences(recordOf({ model: CAP, fixture: 'series-thru', grid: { kind: 'log', startHz: 1e6, stopHz: 1e8, points: 2001 }, floorDb: -70, traceNoise: 1e-3, seed }));
+      const n = noiseFromDifferences(
+        recordOf({
+          model: CAP,
+          fixture: 'series-thru',
+          grid: { kind: 'log', startHz: 1e6, stopHz: 1e8, points: 2001 },
+          floorDb: -70,
+          traceNoise: 1e-3,
+          seed,
+        }),
+      );
       expect(n.from).toBe('differences');
       ratios.push([n.floor / t.floor, n.trace / t.trace]);
       expect(Math.abs(n.floor / t.floor - 1)).toBeLessThan(0.15);
@@ -74,7 +89,16 @@ describe('noiseFromDifferences recovers a known floor and trace noise', () => {
     const t = truth(-70, 1e-3);
     const ratios: Array<[number, number]> = [];
     for (const seed of SEEDS) {
-      const n = noiseFromDifferences(recordOf({ model: X1, fixture: 'series-thru', grid: { kind: 'centered', centerHz: X1_FS, spanHz: 20000, points: 4001 }, floorDb: -70, traceNoise: 1e-3, seed }));
+      const n = noiseFromDifferences(
+        recordOf({
+          model: X1,
+          fixture: 'series-thru',
+          grid: { kind: 'centered', centerHz: X1_FS, spanHz: 20000, points: 4001 },
+          floorDb: -70,
+          traceNoise: 1e-3,
+          seed,
+        }),
+      );
       ratios.push([n.floor / t.floor, n.trace / t.trace]);
       expect(Math.abs(n.floor / t.floor - 1)).toBeLessThan(0.12);
       expect(Math.abs(n.trace / t.trace - 1)).toBeLessThan(0.12);
@@ -89,7 +113,14 @@ describe('noiseFromDifferences recovers a known floor and trace noise', () => {
     // sum is what every point's σ_Z uses. N = 2000: SE ≈ ½·√(1.94/2000) = 1.6 %; observed 1.5 %.
     const t = truth(-70, 1e-3);
     for (const seed of SEEDS) {
-      const sweep = recordOf({ model: X1, fixture: 'reflection', grid: { kind: 'linear', startHz: 10e6, stopHz: 14e6, points: 2001 }, floorDb: -70, traceNoise: 1e-3, seed });
+      const sweep = recordOf({
+        model: X1,
+        fixture: 'reflection',
+        grid: { kind: 'linear', startHz: 10e6, stopHz: 14e6, points: 2001 },
+        floorDb: -70,
+        traceNoise: 1e-3,
+        seed,
+      });
       const n = noiseFromDifferences(sweep);
       const rec = sweep.recorded!;
       let worst = 0;
@@ -146,9 +177,15 @@ function residualCase(model: BvdModel, freqHz: Float64Array, noise: { floor: num
   }
   const zero = () => new Float64Array(n);
   const data: NetworkData = {
-    parameter: 'S', ports: 2, z0Ohm: [Z0, Z0], freqHz,
-    re: [zero(), s21.re, s21.re, zero()], im: [zero(), s21.im, s21.im, zero()],
-    source: 'test', format: 'test', comments: [],
+    parameter: 'S',
+    ports: 2,
+    z0Ohm: [Z0, Z0],
+    freqHz,
+    re: [zero(), s21.re, s21.re, zero()],
+    im: [zero(), s21.im, s21.im, zero()],
+    source: 'test',
+    format: 'test',
+    comments: [],
   };
   const sweep = networkToImpedance(data, 'series-thru', 'test');
   const residuals = { re: new Float64Array(n), im: new Float64Array(n), leverageFactor: new Float64Array(n).fill(1) };
@@ -175,7 +212,9 @@ describe('noiseFromResiduals', () => {
       for (const i of [0, 1000, 2000]) {
         expect(out.modelZ.re[i]).toBeCloseTo(zMod.re[i], 6);
         const m = s21Of(zMod.re[i], zMod.im[i]);
-        expect(Math.hypot(out.modelM.re[i] - m.re, out.modelM.im[i] - m.im) / Math.hypot(m.re, m.im)).toBeLessThan(1e-9);
+        expect(Math.hypot(out.modelM.re[i] - m.re, out.modelM.im[i] - m.im) / Math.hypot(m.re, m.im)).toBeLessThan(
+          1e-9,
+        );
       }
     }
   });
@@ -206,7 +245,8 @@ describe('noiseFromResiduals', () => {
       const out = noiseFromResiduals(rec, sweep, residuals);
       expect(Math.abs(out.noise.floor / t.floor - 1)).toBeLessThan(0.05);
       // whatever trace is reported stays within its statistical reach at every model |M|
-      for (let i = 0; i < f.length; i++) expect(out.noise.trace ** 2 * mMod2[i]).toBeLessThan(0.35 * out.noise.floor ** 2);
+      for (let i = 0; i < f.length; i++)
+        expect(out.noise.trace ** 2 * mMod2[i]).toBeLessThan(0.35 * out.noise.floor ** 2);
       // and σ_Z at the model's M is the floor's: |dZ/dS21|·floor, |dZ/dS21| = |Z + 2Z0|²/(2Z0)
       const sigma = impedanceSigmaOhm(rec, out.noise, out.modelM);
       for (const i of [0, 1000, 2000]) {
@@ -237,7 +277,10 @@ describe('noiseFromResiduals', () => {
     const f = Float64Array.from({ length: 2001 }, (_, i) => X1_FS - 10000 + 10 * i);
     const { sweep, residuals } = residualCase(X1, f, t, 3);
     const base = noiseFromResiduals(sweep.recorded!, sweep, residuals).noise;
-    const scaled = noiseFromResiduals(sweep.recorded!, sweep, { ...residuals, leverageFactor: new Float64Array(f.length).fill(4) }).noise;
+    const scaled = noiseFromResiduals(sweep.recorded!, sweep, {
+      ...residuals,
+      leverageFactor: new Float64Array(f.length).fill(4),
+    }).noise;
     // σ² model fitted to e·4: both variances ×4 (maximum likelihood is equivariant in scale)
     expect(scaled.floor / base.floor).toBeCloseTo(2, 3);
     expect(scaled.trace / base.trace).toBeCloseTo(2, 3);
@@ -260,7 +303,7 @@ describe('impedanceSigmaOhm', () => {
     }
   });
 
-  it('evaluates at the M it is given (the model\'s after a fit), not the measured one', () => {
+  it("evaluates at the M it is given (the model's after a fit), not the measured one", () => {
     const s = synthesizeSweep({ model: X1, fixture: 'series-thru', grid: { kind: 'explicit', freqHz: f }, z0Ohm: 50 });
     const sweep = networkToImpedance(s.network, 'series-thru', 'x');
     const at = { re: new Float64Array(f.length).fill(0.3), im: new Float64Array(f.length).fill(-0.4) }; // |M| = 0.5
@@ -271,7 +314,12 @@ describe('impedanceSigmaOhm', () => {
   });
 
   it('an impedance record (identity map): σ_Z = √(floor² + trace²|Z|²) in ohm', () => {
-    const sweep: ImpedanceSweep = { freqHz: Float64Array.of(1, 2), zRe: Float64Array.of(30, 0), zIm: Float64Array.of(40, -1e4), source: 'x' };
+    const sweep: ImpedanceSweep = {
+      freqHz: Float64Array.of(1, 2),
+      zRe: Float64Array.of(30, 0),
+      zIm: Float64Array.of(40, -1e4),
+      source: 'x',
+    };
     const sigma = impedanceSigmaOhm(recordedOf(sweep), { floor: 0.01, trace: 1e-3, from: 'residuals' });
     expect(sigma[0]).toBeCloseTo(Math.sqrt(1e-4 + 1e-6 * 2500), 14);
     expect(sigma[1]).toBeCloseTo(Math.sqrt(1e-4 + 1e-6 * 1e8), 12);

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { screenModes, spuriousRejection, spuriousStrengthDb, MAX_SPURIOUS_DB, type ModeEstimate } from '../../../src/lib/extract/screen-modes.ts';
+import {
+  screenModes,
+  spuriousRejection,
+  spuriousStrengthDb,
+  MAX_SPURIOUS_DB,
+  type ModeEstimate,
+} from '../../../src/lib/extract/screen-modes.ts';
 import type { ModeCandidate, Observation } from '../../../src/lib/extract/classify-modes.ts';
 import { findResonances } from '../../../src/lib/extract/find-resonances.ts';
 import { partAlone } from '../../../src/lib/extract/part-alone.ts';
@@ -10,16 +16,32 @@ import { linGrid, synthSweep } from './synthetic.ts';
 const FS = 1e8 / (2 * Math.PI);
 const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: FS, r1Ohm: 20, c1F: 10e-15 }] };
 const SIGHTING: Observation = {
-  sweepIndex: 0, source: 'n.s1p', loaded: false,
+  sweepIndex: 0,
+  source: 'n.s1p',
+  loaded: false,
   resonance: findResonances(partAlone(synthSweep(X1, linGrid(FS - 1600, FS + 1600, 801)))).resonances[0],
 };
 
 /** A classified mode; only `spurious` and `mainIndex` matter to the screening. */
 function candidate(fsHz: number, r1Ohm: number, spurious = false, mainIndex?: number): ModeCandidate {
-  return { fsHz, r1Ohm, bandwidthHz: 318.31, observations: [SIGHTING], best: SIGHTING, overtone: 1, spurious, mainIndex };
+  return {
+    fsHz,
+    r1Ohm,
+    bandwidthHz: 318.31,
+    observations: [SIGHTING],
+    best: SIGHTING,
+    overtone: 1,
+    spurious,
+    mainIndex,
+  };
 }
 
-const fitted = (fsHz: number, r1Ohm: number, bandwidthHz = 318.31): ModeEstimate => ({ fsHz, r1Ohm, bandwidthHz, fitted: true });
+const fitted = (fsHz: number, r1Ohm: number, bandwidthHz = 318.31): ModeEstimate => ({
+  fsHz,
+  r1Ohm,
+  bandwidthHz,
+  fitted: true,
+});
 
 describe('spuriousStrengthDb', () => {
   it('is 20·log10 of the resistance ratio (150 Ω against 20 Ω is 17.5012 dB)', () => {
@@ -35,7 +57,9 @@ describe('spuriousRejection', () => {
     expect(MAX_SPURIOUS_DB).toBe(40);
     expect(spuriousRejection(150, 20, true)).toBeUndefined();
     expect(spuriousRejection(2000, 20, true)).toBeUndefined();
-    expect(spuriousRejection(3000, 20, true)).toBe('43.5 dB below the main mode (r1 3.00e+3 Ω against 20.0 Ω; reported down to 40 dB)');
+    expect(spuriousRejection(3000, 20, true)).toBe(
+      '43.5 dB below the main mode (r1 3.00e+3 Ω against 20.0 Ω; reported down to 40 dB)',
+    );
   });
 
   it('needs a converged fit with a finite, positive R1', () => {
@@ -72,7 +96,11 @@ describe('screenModes', () => {
 
   it('drops a spurious mode more than 40 dB down but keeps it in the fitted model, and one without a fit from both', () => {
     const modes = [candidate(FS, 20), candidate(FS + 100e3, 3000, true, 0), candidate(FS + 60e3, 500, true, 0)];
-    const r = screenModes(modes, [fitted(FS, 20), fitted(FS + 100e3, 3000), { fsHz: FS + 60e3, r1Ohm: 500, bandwidthHz: 400, fitted: false }]);
+    const r = screenModes(modes, [
+      fitted(FS, 20),
+      fitted(FS + 100e3, 3000),
+      { fsHz: FS + 60e3, r1Ohm: 500, bandwidthHz: 400, fitted: false },
+    ]);
     expect(r.dropped[1]).toMatch(/^43\.5 dB below the main mode/);
     expect(r.dropped[2]).toBe('its least-squares fit did not converge');
     expect(r.excluded).toEqual([false, false, true]);

@@ -14,7 +14,10 @@ import type { MethodName, MethodValue } from '../../../src/lib/extract/types.ts'
 
 const allCredible: Credibility = () => undefined;
 const notSeen = 'the anti-resonance is not seen above the noise';
-const except = (...bad: MethodName[]): Credibility => (m) => (bad.includes(m) ? notSeen : undefined);
+const except =
+  (...bad: MethodName[]): Credibility =>
+  (m) =>
+    bad.includes(m) ? notSeen : undefined;
 
 describe('settleQuantity', () => {
   it('no values: nothing to settle', () => {
@@ -88,7 +91,12 @@ describe('settleQuantity', () => {
     for (const v of s.check.values.filter((x) => !x.notCredible)) {
       expect(Math.abs(v.value - s.value)).toBeLessThanOrEqual(Math.sqrt(3) * s.uncertainty);
     }
-    expect(s.check.values.map((v) => v.method)).toEqual(['complex-fit', 'half-power', 'conductance-peak', 'closed-form']);
+    expect(s.check.values.map((v) => v.method)).toEqual([
+      'complex-fit',
+      'half-power',
+      'conductance-peak',
+      'closed-form',
+    ]);
   });
 
   it('credible methods that agree leave the uncertainty alone', () => {
@@ -101,7 +109,7 @@ describe('settleQuantity', () => {
     expect(s.uncertainty).toBe(0.05);
   });
 
-  it('a published method without an uncertainty inherits the preferred one\'s, then widens', () => {
+  it("a published method without an uncertainty inherits the preferred one's, then widens", () => {
     const values: MethodValue[] = [
       { method: 'closed-form', value: 20.02, uncertainty: 0.3 }, // preferred, but not credible
       { method: 'conductance-peak', value: 20 }, // no uncertainty of its own

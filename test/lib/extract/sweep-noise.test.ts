@@ -13,7 +13,11 @@ const CAP: BvdModel = { c0F: 3e-12, branches: [] };
 const sigmaC = (db: number) => 10 ** (db / 20) / Math.SQRT2;
 
 function noiseOf(s: Pick<AdmittanceSweep, 'gS' | 'bS'>) {
-  return sweepNoise(s.gS, s.bS, Float64Array.from(s.gS, (g, i) => Math.hypot(g, s.bS[i])));
+  return sweepNoise(
+    s.gS,
+    s.bS,
+    Float64Array.from(s.gS, (g, i) => Math.hypot(g, s.bS[i])),
+  );
 }
 
 describe('sweepNoise', () => {
@@ -75,7 +79,7 @@ describe('sweepNoise', () => {
     }
   });
 
-  it('is not fooled by a resonance\'s own curvature: 8 local deviations stay below a tenth of the peak', () => {
+  it("is not fooled by a resonance's own curvature: 8 local deviations stay below a tenth of the peak", () => {
     // noiseless X1 (half-power width fs/Q = 318.31 Hz) sampled at 1 to 100 points per bandwidth
     for (const perBw of [1, 2, 4, 8, 16, 32, 100]) {
       const step = 318.31 / perBw;

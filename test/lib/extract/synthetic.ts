@@ -63,18 +63,46 @@ export interface SweepPlan {
 }
 
 /** A part with one sample measured by the planned sweeps, and the sweeps as the pipeline hands them over. */
-export function syntheticPart(model: BvdModel, plans: SweepPlan[], o: { kind?: PartKind; noiseDb?: number; seed?: number; datasheet?: Part['datasheet']; instrumentMaxHz?: number; sampleTemperatureC?: number } = {}): { part: Part; inputs: ExtractSweepInput[] } {
+export function syntheticPart(
+  model: BvdModel,
+  plans: SweepPlan[],
+  o: {
+    kind?: PartKind;
+    noiseDb?: number;
+    seed?: number;
+    datasheet?: Part['datasheet'];
+    instrumentMaxHz?: number;
+    sampleTemperatureC?: number;
+  } = {},
+): { part: Part; inputs: ExtractSweepInput[] } {
   const refs: SweepRef[] = plans.map((p) => ({
-    file: p.file, fixture: 'impedance', addedCapacitanceF: p.addedCF, addedConnection: p.addedCF ? (p.connection ?? 'parallel') : undefined,
-    temperatureC: p.temperatureC, driveW: p.driveW,
+    file: p.file,
+    fixture: 'impedance',
+    addedCapacitanceF: p.addedCF,
+    addedConnection: p.addedCF ? (p.connection ?? 'parallel') : undefined,
+    temperatureC: p.temperatureC,
+    driveW: p.driveW,
   }));
   const part: Part = {
-    id: 'SYN-1', title: 'synthetic test part', kind: o.kind ?? 'quartz-at', datasheet: o.datasheet,
-    samples: [{ id: 'A', sweeps: refs, instrumentMaxFrequencyHz: o.instrumentMaxHz, temperatureC: o.sampleTemperatureC }],
+    id: 'SYN-1',
+    title: 'synthetic test part',
+    kind: o.kind ?? 'quartz-at',
+    datasheet: o.datasheet,
+    samples: [
+      { id: 'A', sweeps: refs, instrumentMaxFrequencyHz: o.instrumentMaxHz, temperatureC: o.sampleTemperatureC },
+    ],
   };
   const inputs: ExtractSweepInput[] = plans.map((p, i) => ({
-    sampleId: 'A', ref: refs[i], file: p.file,
-    impedance: synthSweep(p.model ?? model, p.freqHz, { noiseDb: o.noiseDb, seed: (o.seed ?? 1) * 7919 + i, addedCF: p.addedCF, connection: p.connection, source: p.file }),
+    sampleId: 'A',
+    ref: refs[i],
+    file: p.file,
+    impedance: synthSweep(p.model ?? model, p.freqHz, {
+      noiseDb: o.noiseDb,
+      seed: (o.seed ?? 1) * 7919 + i,
+      addedCF: p.addedCF,
+      connection: p.connection,
+      source: p.file,
+    }),
   }));
   return { part, inputs };
 }

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { fitTemperature, relativeOffsetAt, spanPpmOver, turningPointsOf, type TemperaturePoint } from '../../../src/lib/extract/temperature.ts';
+import {
+  fitTemperature,
+  relativeOffsetAt,
+  spanPpmOver,
+  turningPointsOf,
+  type TemperaturePoint,
+} from '../../../src/lib/extract/temperature.ts';
 
 // AT-cut cubic, a1 = −0.0847 ppm/°C per arc-minute of Δθ, a2 = −0.45e-9/°C²,
 // a3 = +108.6e-12/°C³, T0 = 25 °C (Gerber & Ballato 1985 as quoted in Haney 2001).
@@ -61,7 +67,10 @@ describe('fitTemperature, AT cut (cubic)', () => {
 describe('fitTemperature, tuning fork (parabola with free turnover)', () => {
   it('recovers β = −0.034 ppm/°C² and the turnover, and the tabulated offsets', () => {
     // β = −0.034 ppm/°C² (from memory), T0 = 25 °C: −40 °C −143.65 ppm, 0 °C −21.25, 60 °C −41.65, 85 °C −122.40
-    const pts = [-40, -10, 10, 25, 40, 60, 85].map((t) => ({ temperatureC: t, fsHz: 32768 * (1 - 0.034e-6 * (t - 25) ** 2) }));
+    const pts = [-40, -10, 10, 25, 40, 60, 85].map((t) => ({
+      temperatureC: t,
+      fsHz: 32768 * (1 - 0.034e-6 * (t - 25) ** 2),
+    }));
     const r = fitTemperature(pts, 'quartz-tuning-fork', { min: -40, max: 85 });
     if (!r.ok) throw new Error(r.reason);
     expect(r.fit.form).toBe('parabola');
@@ -90,7 +99,10 @@ describe('fitTemperature, tuning fork (parabola with free turnover)', () => {
 describe('fitTemperature, other kinds', () => {
   it('fits a quadratic about 25 °C for a ceramic resonator', () => {
     // common practice: no physical form assumed; tens of ppm/°C (from memory)
-    const pts = [-20, 0, 25, 50, 80].map((t) => ({ temperatureC: t, fsHz: 4e6 * (1 + 3e-6 * (t - 25) - 0.05e-6 * (t - 25) ** 2) }));
+    const pts = [-20, 0, 25, 50, 80].map((t) => ({
+      temperatureC: t,
+      fsHz: 4e6 * (1 + 3e-6 * (t - 25) - 0.05e-6 * (t - 25) ** 2),
+    }));
     const r = fitTemperature(pts, 'ceramic');
     if (!r.ok) throw new Error(r.reason);
     expect(r.fit.form).toBe('quadratic');
@@ -101,7 +113,13 @@ describe('fitTemperature, other kinds', () => {
   });
 
   it('needs three temperatures', () => {
-    const r = fitTemperature([{ temperatureC: 25, fsHz: 1e7 }, { temperatureC: 85, fsHz: 1e7 + 10 }], 'quartz-at');
+    const r = fitTemperature(
+      [
+        { temperatureC: 25, fsHz: 1e7 },
+        { temperatureC: 85, fsHz: 1e7 + 10 },
+      ],
+      'quartz-at',
+    );
     expect(r).toEqual({ ok: false, reason: 'fs known at 2 temperatures; a temperature fit needs at least 3' });
   });
 });

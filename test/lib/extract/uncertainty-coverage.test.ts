@@ -18,21 +18,36 @@ import { COMPARED, makeTrial, TRIAL_SETUPS, type Compared } from './instrument-t
 
 const TRIALS_PER_SETUP = 45;
 
-interface Tally { n: number; within1: number; within3: number }
+interface Tally {
+  n: number;
+  within1: number;
+  within3: number;
+}
 
 describe('uncertainty coverage over seeded bench-like trials', () => {
   it(`${TRIALS_PER_SETUP * TRIAL_SETUPS.length} trials: |error| ≤ 3u in ≥ 97 % and ≤ 1u in 55–85 % for every quantity`, () => {
-    const all = Object.fromEntries(COMPARED.map((q) => [q, { n: 0, within1: 0, within3: 0 }])) as Record<Compared, Tally>;
+    const all = Object.fromEntries(COMPARED.map((q) => [q, { n: 0, within1: 0, within3: 0 }])) as Record<
+      Compared,
+      Tally
+    >;
     const bySetup = new Map<string, Record<Compared, Tally>>();
     let missing = 0;
     TRIAL_SETUPS.forEach((setup, si) => {
-      const row = Object.fromEntries(COMPARED.map((q) => [q, { n: 0, within1: 0, within3: 0 }])) as Record<Compared, Tally>;
+      const row = Object.fromEntries(COMPARED.map((q) => [q, { n: 0, within1: 0, within3: 0 }])) as Record<
+        Compared,
+        Tally
+      >;
       bySetup.set(setup, row);
       for (let s = 0; s < TRIALS_PER_SETUP; s++) {
         const t = makeTrial(20000 + 1000 * si + s, setup);
         const r = extractPart(t.record, t.inputs).samples[0];
-        const m = r.modes.filter((x) => !x.spurious).sort((a, b) => Math.abs(a.fsHz - t.truth.fsHz) - Math.abs(b.fsHz - t.truth.fsHz))[0];
-        if (!m) { missing++; continue; }
+        const m = r.modes
+          .filter((x) => !x.spurious)
+          .sort((a, b) => Math.abs(a.fsHz - t.truth.fsHz) - Math.abs(b.fsHz - t.truth.fsHz))[0];
+        if (!m) {
+          missing++;
+          continue;
+        }
         for (const q of COMPARED) {
           const value = q === 'c0F' ? r.c0F : m[q];
           const u = m.uncertainty[q];
@@ -49,7 +64,10 @@ describe('uncertainty coverage over seeded bench-like trials', () => {
     const lines = [
       `| set-up | ${COMPARED.map((q) => `${q} ≤1u / ≤3u`).join(' | ')} |`,
       `| --- | ${COMPARED.map(() => '---').join(' | ')} |`,
-      ...[...bySetup].map(([setup, row]) => `| ${setup} | ${COMPARED.map((q) => `${pct(row[q].within1, row[q].n)} / ${pct(row[q].within3, row[q].n)}`).join(' | ')} |`),
+      ...[...bySetup].map(
+        ([setup, row]) =>
+          `| ${setup} | ${COMPARED.map((q) => `${pct(row[q].within1, row[q].n)} / ${pct(row[q].within3, row[q].n)}`).join(' | ')} |`,
+      ),
       `| **all** | ${COMPARED.map((q) => `${pct(all[q].within1, all[q].n)} / ${pct(all[q].within3, all[q].n)}`).join(' | ')} |`,
     ];
     console.log(`Uncertainty coverage, ${TRIALS_PER_SETUP} trials per set-up:\n${lines.join('\n')}`);

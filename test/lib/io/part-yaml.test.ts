@@ -82,12 +82,21 @@ describe('parsePartYaml: valid records', () => {
     expect(part.datasheet?.driveMaxW).toBe(1e-4);
     expect(part.datasheet?.operatingRangeC).toEqual({ min: -40, max: 85 });
     expect(part.samples[0].measured).toBe('2026-05-02');
-    expect(part.samples[0].sweeps[1]).toMatchObject({ file: 'a1-narrow-cl10.s2p', addedCapacitanceF: 1e-11, addedConnection: 'parallel' });
+    expect(part.samples[0].sweeps[1]).toMatchObject({
+      file: 'a1-narrow-cl10.s2p',
+      addedCapacitanceF: 1e-11,
+      addedConnection: 'parallel',
+    });
     expect(part.samples[0].sweeps[2].driveW).toBe(1e-5);
   });
 
   it('keeps text fields as written even when they look like numbers', () => {
-    const r = parsePartYaml(MINIMAL.replace('id: XO-1', 'id: 0012').replace('title: t', 'title: t\npackage: 3225').replace('  - id: A1', '  - id: 007'), FILE);
+    const r = parsePartYaml(
+      MINIMAL.replace('id: XO-1', 'id: 0012')
+        .replace('title: t', 'title: t\npackage: 3225')
+        .replace('  - id: A1', '  - id: 007'),
+      FILE,
+    );
     expect(r.issues).toEqual([]);
     expect(r.part?.id).toBe('0012');
     expect(r.part?.package).toBe('3225');
@@ -95,7 +104,10 @@ describe('parsePartYaml: valid records', () => {
   });
 
   it('accepts a YAML timestamp for the measurement date', () => {
-    const r = parsePartYaml(MINIMAL.replace('  - id: A1\n', '  - id: A1\n    measured: !!timestamp 2026-05-02\n'), FILE);
+    const r = parsePartYaml(
+      MINIMAL.replace('  - id: A1\n', '  - id: A1\n    measured: !!timestamp 2026-05-02\n'),
+      FILE,
+    );
     expect(r.issues).toEqual([]);
     expect(r.part?.samples[0].measured).toBe('2026-05-02');
   });
@@ -137,7 +149,9 @@ describe('parsePartYaml: located errors', () => {
   it('puts a wrong unit at the value with the field path, and prints it compiler-style', () => {
     const issue = only(MINIMAL.replace('kind: quartz-at', 'kind: quartz-at\ndatasheet:\n  esrMax: 8 pF'));
     expect(issue).toMatchObject({ line: 5, col: 11, path: 'datasheet.esrMax' });
-    expect(formatIssue(issue)).toBe(`${FILE}:5: datasheet.esrMax: expected a resistance such as "80 ohm", got "8 pF" (a capacitance)`);
+    expect(formatIssue(issue)).toBe(
+      `${FILE}:5: datasheet.esrMax: expected a resistance such as "80 ohm", got "8 pF" (a capacitance)`,
+    );
   });
 
   it('names a missing required field at its parent', () => {
@@ -199,12 +213,19 @@ samples:
       [14, 'samples[1].id'],
       [15, 'samples[1].sweeps'],
     ]);
-    expect(r.issues.find((i) => i.path === 'samples[1].id')?.message).toBe('duplicate sample id "A1" (also samples[0])');
-    expect(r.issues.find((i) => i.path === 'samples[0].sweeps[0].addedConnection')?.message).toBe('addedConnection needs addedCapacitance');
+    expect(r.issues.find((i) => i.path === 'samples[1].id')?.message).toBe(
+      'duplicate sample id "A1" (also samples[0])',
+    );
+    expect(r.issues.find((i) => i.path === 'samples[0].sweeps[0].addedConnection')?.message).toBe(
+      'addedConnection needs addedCapacitance',
+    );
   });
 
   it('reports a cross-field rule once when zod also reports it', () => {
-    const r = parsePartYaml(MINIMAL.replace('        fixture: reflection', '        fixture: reflection\n        addedConnection: series'), FILE);
+    const r = parsePartYaml(
+      MINIMAL.replace('        fixture: reflection', '        fixture: reflection\n        addedConnection: series'),
+      FILE,
+    );
     expect(r.issues.map((i) => i.message)).toEqual(['addedConnection needs addedCapacitance']);
   });
 });
@@ -214,7 +235,15 @@ describe('parsePartYaml: unknown keys', () => {
     const r = parsePartYaml(MINIMAL.replace('kind: quartz-at', 'kind: quartz-at\nsuplier: Example Components'), FILE);
     expect(r.part?.id).toBe('XO-1');
     expect(r.issues).toEqual([
-      { severity: 'warning', file: FILE, line: 4, col: 1, path: 'suplier', message: 'unknown field "suplier" is ignored; did you mean "supplier"?', code: 'unknown-key' },
+      {
+        severity: 'warning',
+        file: FILE,
+        line: 4,
+        col: 1,
+        path: 'suplier',
+        message: 'unknown field "suplier" is ignored; did you mean "supplier"?',
+        code: 'unknown-key',
+      },
     ]);
   });
 
@@ -225,7 +254,11 @@ describe('parsePartYaml: unknown keys', () => {
 
   it('says where a known key belongs when it sits at the wrong level', () => {
     const r = parsePartYaml(MINIMAL.replace('kind: quartz-at', 'kind: quartz-at\nesrMax: 80 ohm'), FILE);
-    expect(r.issues[0]).toMatchObject({ severity: 'warning', path: 'esrMax', message: 'unknown field "esrMax" is ignored; it belongs in datasheet' });
+    expect(r.issues[0]).toMatchObject({
+      severity: 'warning',
+      path: 'esrMax',
+      message: 'unknown field "esrMax" is ignored; it belongs in datasheet',
+    });
   });
 
   it('treats a key named __proto__ as an ordinary unknown key', () => {
@@ -238,14 +271,18 @@ describe('parsePartYaml: unknown keys', () => {
 
 describe('parsePartYaml: hostile and degenerate files', () => {
   it('refuses YAML aliases with one issue and never expands them (billion laughs)', () => {
-    const levels = 'bcdefghij'.split('').map((c, i) => `${c}: &${c} [${Array(10).fill(`*${'abcdefghij'[i]}`).join(',')}]`);
+    const levels = 'bcdefghij'
+      .split('')
+      .map((c, i) => `${c}: &${c} [${Array(10).fill(`*${'abcdefghij'[i]}`).join(',')}]`);
     const text = `${MINIMAL}a: &a ["lol","lol","lol","lol","lol","lol","lol","lol","lol","lol"]\n${levels.join('\n')}\n`;
     const t0 = performance.now();
     const r = parsePartYaml(text, FILE);
     expect(performance.now() - t0).toBeLessThan(1000);
     expect(errors(r.issues)).toHaveLength(1);
     expect(r.issues[0]).toMatchObject({ line: 10, col: 8, code: 'yaml-alias' });
-    expect(r.issues[0].message).toBe('yaml alias *a not allowed in a part record; write the value out (89 more aliases in the file)');
+    expect(r.issues[0].message).toBe(
+      'yaml alias *a not allowed in a part record; write the value out (89 more aliases in the file)',
+    );
   });
 
   it('refuses deep flow nesting before parsing', () => {
@@ -262,12 +299,24 @@ describe('parsePartYaml: hostile and degenerate files', () => {
 
   it('refuses a file over the size limit without parsing it', () => {
     const big = parsePartYaml(`${MINIMAL}# ${'x'.repeat(300)}\n`, FILE, { maxBytes: 256 });
-    expect(big.issues).toEqual([{ severity: 'error', file: FILE, line: undefined, message: `file is ${MINIMAL.length + 303} bytes, over the limit of 256 bytes for a part record`, code: 'size' }]);
+    expect(big.issues).toEqual([
+      {
+        severity: 'error',
+        file: FILE,
+        line: undefined,
+        message: `file is ${MINIMAL.length + 303} bytes, over the limit of 256 bytes for a part record`,
+        code: 'size',
+      },
+    ]);
   });
 
   it('refuses very long lines, naming the line', () => {
     const issue = only(`${MINIMAL}notes: ${'x'.repeat(20_000)}\n`);
-    expect(issue).toMatchObject({ line: 9, code: 'long-line', message: 'line is 20007 characters long, over the limit of 10000' });
+    expect(issue).toMatchObject({
+      line: 9,
+      code: 'long-line',
+      message: 'line is 20007 characters long, over the limit of 10000',
+    });
   });
 
   it('refuses binary content, naming the line', () => {
@@ -278,18 +327,29 @@ describe('parsePartYaml: hostile and degenerate files', () => {
 
   it('refuses text that is not UTF-8', () => {
     const issue = only(`${MINIMAL}notes: caf\ufffd\n`);
-    expect(issue).toMatchObject({ line: 9, code: 'binary', message: 'bytes that are not UTF-8 (decoded as U+FFFD), expected a UTF-8 text file' });
+    expect(issue).toMatchObject({
+      line: 9,
+      code: 'binary',
+      message: 'bytes that are not UTF-8 (decoded as U+FFFD), expected a UTF-8 text file',
+    });
   });
 
   it('refuses an empty file and a file of comments only', () => {
     for (const text of ['', '\n\n', '# nothing here\n', '---\n']) {
-      expect(only(text)).toMatchObject({ code: 'empty', message: 'empty file, expected a part record (id, title, kind, samples)' });
+      expect(only(text)).toMatchObject({
+        code: 'empty',
+        message: 'empty file, expected a part record (id, title, kind, samples)',
+      });
     }
   });
 
   it('refuses a top level that is not a mapping', () => {
-    expect(only('- id: XO-1\n- title: t\n').message).toBe('expected a mapping of fields (id, title, kind, samples) at the top level, got a list');
-    expect(only('just text\n').message).toBe('expected a mapping of fields (id, title, kind, samples) at the top level, got "just text"');
+    expect(only('- id: XO-1\n- title: t\n').message).toBe(
+      'expected a mapping of fields (id, title, kind, samples) at the top level, got a list',
+    );
+    expect(only('just text\n').message).toBe(
+      'expected a mapping of fields (id, title, kind, samples) at the top level, got "just text"',
+    );
   });
 
   it('warns about an unknown YAML tag', () => {

@@ -60,7 +60,10 @@ function preamble(lines: number): string[] {
 describe('preambles before the header', () => {
   for (const lines of [0, 1, 2, 4, 7, 10, 15, 20]) {
     it(`skips ${lines} preamble lines and says which line it took as the header`, () => {
-      const body = ['Freq(Hz);Trace1 |Z| (Ohm);Trace2 Phase (deg)', ...ROWS.map((r) => `${r.fHz};${String(r.mag).replace('.', ',')};${String(r.deg).replace('.', ',')}`)];
+      const body = [
+        'Freq(Hz);Trace1 |Z| (Ohm);Trace2 Phase (deg)',
+        ...ROWS.map((r) => `${r.fHz};${String(r.mag).replace('.', ',')};${String(r.deg).replace('.', ',')}`),
+      ];
       const read = expectRows([...preamble(lines), ...body].join('\r\n'), 'pre.csv');
       expect(read.headerLine).toBe(lines + 1);
       expect(read.preambleLines).toBe(lines);
@@ -69,16 +72,31 @@ describe('preambles before the header', () => {
   }
 
   it('blank and comment lines among the preamble do not count as preamble lines', () => {
-    const text = ['# exported', '', 'Instrument,bench analyser', '! note', 'frequency (Hz),|Z| (ohm),phase (deg)', ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg}`)].join('\n');
+    const text = [
+      '# exported',
+      '',
+      'Instrument,bench analyser',
+      '! note',
+      'frequency (Hz),|Z| (ohm),phase (deg)',
+      ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg}`),
+    ].join('\n');
     const read = expectRows(text, 'c.csv');
     expect([read.headerLine, read.preambleLines]).toEqual([5, 1]);
   });
 
   it('a preamble longer than the search refuses with the line to give as headerLine, and headerLine then reads it', () => {
-    const lines = [...Array.from({ length: 40 }, (_, i) => `Setting ${i},value ${i}`), 'f (Hz),|z| (ohm),phase (deg)', ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg}`)];
+    const lines = [
+      ...Array.from({ length: 40 }, (_, i) => `Setting ${i},value ${i}`),
+      'f (Hz),|z| (ohm),phase (deg)',
+      ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg}`),
+    ];
     const text = lines.join('\n');
     const issues = refused(text, 'long.csv');
-    expect(issues).toEqual([expect.stringMatching(/^long\.csv:1: no header row followed by rows of numbers in the first 31 lines .*say which line in the record: headerLine: LINE$/)]);
+    expect(issues).toEqual([
+      expect.stringMatching(
+        /^long\.csv:1: no header row followed by rows of numbers in the first 31 lines .*say which line in the record: headerLine: LINE$/,
+      ),
+    ]);
     expect(expectRows(text, 'long.csv', { headerLine: 41 }).headerLine).toBe(41);
   });
 
@@ -90,7 +108,9 @@ describe('preambles before the header', () => {
 
   it('headerLine on a blank line or a data row is refused at that line', () => {
     const text = ['', 'f,|z|,phase', ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg}`)].join('\n');
-    expect(refused(text, 'h.csv', { headerLine: 1 })).toEqual(['h.csv:1: headerLine 1 in the record: that line is blank, a comment or past the end of the file']);
+    expect(refused(text, 'h.csv', { headerLine: 1 })).toEqual([
+      'h.csv:1: headerLine 1 in the record: that line is blank, a comment or past the end of the file',
+    ]);
     expect(refused(text, 'h.csv', { headerLine: 3 })[0]).toMatch(/^h\.csv:3: expected a header row naming the columns/);
   });
 });
@@ -110,22 +130,36 @@ describe('units', () => {
   });
 
   it('reads units from a second header row', () => {
-    const text = ['Frequency\t|Z|\tPhase', 'Hz\tOhm\tdeg', ...ROWS.map((r) => `${r.fHz}\t${r.mag}\t${r.deg}`)].join('\n');
+    const text = ['Frequency\t|Z|\tPhase', 'Hz\tOhm\tdeg', ...ROWS.map((r) => `${r.fHz}\t${r.mag}\t${r.deg}`)].join(
+      '\n',
+    );
     const read = expectRows(text, 'two-rows.tsv');
     expect(read.unitsLine).toBe(2);
-    const khz = ['Frequency;Z;Theta', '[kHz];[kOhm];[rad]', ...ROWS.map((r) => `${String(r.fHz / 1e3).replace('.', ',')};${String(r.mag / 1e3).replace('.', ',')};${String(rad(r.deg)).replace('.', ',')}`)].join('\n');
+    const khz = [
+      'Frequency;Z;Theta',
+      '[kHz];[kOhm];[rad]',
+      ...ROWS.map(
+        (r) =>
+          `${String(r.fHz / 1e3).replace('.', ',')};${String(r.mag / 1e3).replace('.', ',')};${String(rad(r.deg)).replace('.', ',')}`,
+      ),
+    ].join('\n');
     expectRows(khz, 'two-rows.csv');
   });
 
   it('a wrong unit in the units row is refused at that row', () => {
     const text = ['Frequency,|Z|,Phase', 'Hz,dB,deg', '1,2,3'].join('\n');
-    expect(refused(text, 'w.csv')).toEqual(["w.csv:2: column '|Z|': expected an impedance unit (ohm, mohm, kohm, Mohm), got dB"]);
+    expect(refused(text, 'w.csv')).toEqual([
+      "w.csv:2: column '|Z|': expected an impedance unit (ohm, mohm, kohm, Mohm), got dB",
+    ]);
   });
 });
 
 describe('column names as instruments write them', () => {
   it('reads the trace-numbered header that the exact-word reader refused', () => {
-    const text = ['Freq(Hz);Trace1 |Z| (Ohm);Trace2 Phase (deg)', ...ROWS.map((r) => `${r.fHz};${r.mag};${r.deg}`)].join('\n');
+    const text = [
+      'Freq(Hz);Trace1 |Z| (Ohm);Trace2 Phase (deg)',
+      ...ROWS.map((r) => `${r.fHz};${r.mag};${r.deg}`),
+    ].join('\n');
     const read = expectRows(text, 't.csv');
     expect(read.columns.frequency).toEqual({ name: 'Freq(Hz)', number: 1, unit: 'Hz' });
     expect(read.columns.phase).toEqual({ name: 'Trace2 Phase (deg)', number: 3, unit: 'deg' });
@@ -139,20 +173,32 @@ describe('column names as instruments write them', () => {
       ['Tr1 Frequency', 'Tr1 Rs', 'Tr1 Xs'],
       ['F', 'Resistance', 'Reactance'],
     ]) {
-      const text = [[f, 'Cs (F)', re, 'D', im, 'Q', '|Y| (S)', 'S11 Log Mag (dB)'].join(','), ...rx.map(([a, b, c]) => `${a},1e-12,${b},0.1,${c},10,0.01,-3`)].join('\n');
+      const text = [
+        [f, 'Cs (F)', re, 'D', im, 'Q', '|Y| (S)', 'S11 Log Mag (dB)'].join(','),
+        ...rx.map(([a, b, c]) => `${a},1e-12,${b},0.1,${c},10,0.01,-3`),
+      ].join('\n');
       expectRows(text, 'rx.csv');
     }
   });
 
   it('reads a semicolon export with decimal commas and a tab-separated export', () => {
-    const semi = ['"Frequenz (Hz)";"Betrag (Ohm)";"Phase (°)"', ...ROWS.map((r) => `${r.fHz};${String(r.mag).replace('.', ',')};${String(r.deg).replace('.', ',')}`)].join('\n');
+    const semi = [
+      '"Frequenz (Hz)";"Betrag (Ohm)";"Phase (°)"',
+      ...ROWS.map((r) => `${r.fHz};${String(r.mag).replace('.', ',')};${String(r.deg).replace('.', ',')}`),
+    ].join('\n');
     expect(expectRows(semi, 'eu.csv').delimiter).toBe(';');
-    const tab = ['Frequency [Hz]\tImpedance Magnitude [Ohm]\tImpedance Phase [deg]', ...ROWS.map((r) => `${r.fHz}\t${r.mag}\t${r.deg}`)].join('\n');
+    const tab = [
+      'Frequency [Hz]\tImpedance Magnitude [Ohm]\tImpedance Phase [deg]',
+      ...ROWS.map((r) => `${r.fHz}\t${r.mag}\t${r.deg}`),
+    ].join('\n');
     expect(expectRows(tab, 'a.tsv').delimiter).toBe('\t');
   });
 
   it('two traces of one quantity are refused with the mapping to add, which then reads the file', () => {
-    const text = ['Freq(Hz),Trace1 |Z| (Ohm),Trace2 Phase (deg),Trace3 |Z| (Ohm)', ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg},999`)].join('\n');
+    const text = [
+      'Freq(Hz),Trace1 |Z| (Ohm),Trace2 Phase (deg),Trace3 |Z| (Ohm)',
+      ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg},999`),
+    ].join('\n');
     expect(refused(text, 'two.csv')).toEqual([
       `two.csv:1: columns 'Trace1 |Z| (Ohm)' and 'Trace3 |Z| (Ohm)' both read as the magnitude; say which one in the record: columns: { magnitude: "Trace1 |Z| (Ohm)" }`,
     ]);
@@ -165,28 +211,45 @@ describe('column names as instruments write them', () => {
   it('columns named by letters only are refused with the mapping to add, which then reads the file', () => {
     const text = ['A,B,C', ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg}`)].join('\n');
     const issues = refused(text, 'abc.csv');
-    expect(issues[0]).toBe(`abc.csv:1: no frequency column (f, freq or frequency) in the header 'A,B,C'; if a column holds the frequency, say which in the record: columns: { frequency: "A" }`);
-    expect(issues[1]).toMatch(/^abc\.csv:1: expected resistance and reactance columns .*columns: \{ magnitude: "A" \}$/);
+    expect(issues[0]).toBe(
+      `abc.csv:1: no frequency column (f, freq or frequency) in the header 'A,B,C'; if a column holds the frequency, say which in the record: columns: { frequency: "A" }`,
+    );
+    expect(issues[1]).toMatch(
+      /^abc\.csv:1: expected resistance and reactance columns .*columns: \{ magnitude: "A" \}$/,
+    );
     expectRows(text, 'abc.csv', { columns: { frequency: 'A', magnitude: 'B', phase: 'C' } });
     expectRows(text, 'abc.csv', { columns: { frequency: 1, magnitude: 2, phase: 3 } });
   });
 
   it('a name that fits two roles is named in the message', () => {
     const text = ['f (Hz),Z,Z phase mag', '1,2,3', '2,2,3'].join('\n');
-    expect(refused(text, 'amb.csv')[0]).toMatch(/column 'Z phase mag' could be the magnitude or the phase; if a column holds the phase, say which in the record: columns: \{ phase: "Z phase mag" \}$/);
+    expect(refused(text, 'amb.csv')[0]).toMatch(
+      /column 'Z phase mag' could be the magnitude or the phase; if a column holds the phase, say which in the record: columns: \{ phase: "Z phase mag" \}$/,
+    );
   });
 
   it('a mapping that names no column of the header is refused, naming the columns', () => {
     const text = ['f,|z|,phase', '1,2,3'].join('\n');
-    expect(refused(text, 'm.csv', { columns: { magnitude: 'Trace9' } })).toEqual([`m.csv:1: columns.magnitude in the record: no column named 'Trace9' in the header; its columns are 'f', '|z|', 'phase'`]);
-    expect(refused(text, 'm.csv', { columns: { phase: 4 } })).toEqual(['m.csv:1: columns.phase in the record: column 4 does not exist; the header has 3 columns']);
-    expect(refused(text, 'm.csv', { columns: { magnitude: 2, phase: '|z|' } })).toEqual([`m.csv:1: columns.magnitude and columns.phase in the record name the same column '|z|'`]);
+    expect(refused(text, 'm.csv', { columns: { magnitude: 'Trace9' } })).toEqual([
+      `m.csv:1: columns.magnitude in the record: no column named 'Trace9' in the header; its columns are 'f', '|z|', 'phase'`,
+    ]);
+    expect(refused(text, 'm.csv', { columns: { phase: 4 } })).toEqual([
+      'm.csv:1: columns.phase in the record: column 4 does not exist; the header has 3 columns',
+    ]);
+    expect(refused(text, 'm.csv', { columns: { magnitude: 2, phase: '|z|' } })).toEqual([
+      `m.csv:1: columns.magnitude and columns.phase in the record name the same column '|z|'`,
+    ]);
   });
 });
 
 describe('trailing summary lines', () => {
   it('ends the data at summary lines after the last row', () => {
-    const text = ['frequency (Hz),|Z| (ohm),phase (deg)', ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg}`), 'Average,744.47,22.6', 'END'].join('\n');
+    const text = [
+      'frequency (Hz),|Z| (ohm),phase (deg)',
+      ...ROWS.map((r) => `${r.fHz},${r.mag},${r.deg}`),
+      'Average,744.47,22.6',
+      'END',
+    ].join('\n');
     const read = expectRows(`${text}\n`, 's.csv');
     expect(read.summaryLines).toEqual([6, 7]);
   });

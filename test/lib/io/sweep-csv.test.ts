@@ -46,14 +46,18 @@ describe('parseSweepCsv', () => {
   });
 
   it('reads a decimal comma in semicolon-separated files', () => {
-    const s = parseSweepCsv('Messpunkt;frequency (kHz);R (Ohm);X (Ohm)\n;32,760;35000,5;-12,25\n;32,768;35001;0\n', 'eu.csv');
+    const s = parseSweepCsv(
+      'Messpunkt;frequency (kHz);R (Ohm);X (Ohm)\n;32,760;35000,5;-12,25\n;32,768;35001;0\n',
+      'eu.csv',
+    );
     expect(arr(s.freqHz)).toEqual([32760, 32768]);
     expect(arr(s.zRe)).toEqual([35000.5, 35001]);
     expect(arr(s.zIm)).toEqual([-12.25, 0]);
   });
 
   it('handles quotes, a byte-order mark, CRLF, comments, blank and empty trailing lines', () => {
-    const text = '\uFEFF# bench analyser export\r\n"frequency (Hz)","r (ohm)","x (ohm)","comment, quoted"\r\n\r\n1000,"20",3,"a ""b"", c"\r\n! note\r\n2000,21,4,\r\n,,,\r\n';
+    const text =
+      '\uFEFF# bench analyser export\r\n"frequency (Hz)","r (ohm)","x (ohm)","comment, quoted"\r\n\r\n1000,"20",3,"a ""b"", c"\r\n! note\r\n2000,21,4,\r\n,,,\r\n';
     const s = parseSweepCsv(text, 'q.csv');
     expect(arr(s.freqHz)).toEqual([1000, 2000]);
     expect(arr(s.zRe)).toEqual([20, 21]);

@@ -43,7 +43,8 @@ describe('parseTouchstone reads scikit-rf 0.15 output back to the values it wrot
   it('has the reference files of every kind', () => {
     const names = Object.keys(values);
     for (const form of ['ri', 'ma', 'db']) expect(names.some((n) => n.includes(`-${form}-`))).toBe(true);
-    for (const unit of ['hz', 'khz', 'mhz', 'ghz']) expect(names.some((n) => n.endsWith(`-${unit}.s1p`) || n.endsWith(`-${unit}.s2p`))).toBe(true);
+    for (const unit of ['hz', 'khz', 'mhz', 'ghz'])
+      expect(names.some((n) => n.endsWith(`-${unit}.s1p`) || n.endsWith(`-${unit}.s2p`))).toBe(true);
     expect(names.filter((n) => values[n].parameter !== 'S').length).toBeGreaterThanOrEqual(4);
   });
 
@@ -67,7 +68,9 @@ describe.skipIf(!requireTool('scikit-rf'))('the scikit-rf generator, re-run live
     try {
       execFileSync(DEBIAN_PYTHON, [join(dir, 'make.py'), out], { stdio: 'pipe', timeout: 120_000 });
       const made = readdirSync(out).sort();
-      const committed = readdirSync(dir).filter((n) => n !== 'make.py').sort();
+      const committed = readdirSync(dir)
+        .filter((n) => n !== 'make.py')
+        .sort();
       expect(made).toEqual(committed);
       for (const name of made) {
         expect(readFileSync(join(out, name), 'utf8'), name).toBe(readFileSync(join(dir, name), 'utf8'));

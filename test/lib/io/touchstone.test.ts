@@ -15,7 +15,10 @@ const load = (name: string) => parseTouchstone(readFileSync(new URL(name, dir), 
 
 /** Matrix entry k (row-major 11, 12, 21, 22) at point i as [re, im]. */
 const at = (d: NetworkData, k: number, i: number): [number, number] => [d.re[k][i], d.im[k][i]];
-const polar = (mag: number, deg: number): [number, number] => [mag * Math.cos((deg * Math.PI) / 180), mag * Math.sin((deg * Math.PI) / 180)];
+const polar = (mag: number, deg: number): [number, number] => [
+  mag * Math.cos((deg * Math.PI) / 180),
+  mag * Math.sin((deg * Math.PI) / 180),
+];
 
 function expectPair(got: [number, number], want: [number, number], tol = 1e-15) {
   expect(Math.abs(got[0] - want[0])).toBeLessThanOrEqual(tol * Math.max(1, Math.abs(want[0])));
@@ -181,8 +184,12 @@ describe('formatTouchstone', () => {
     const n = 5;
     const freqHz = Float64Array.from({ length: n }, (_, i) => 15915494.309189533 + i * 37.123456789);
     const k = ports * ports;
-    const re = Array.from({ length: k }, (_, e) => Float64Array.from({ length: n }, (_, i) => Math.sin(1 + e + i * 0.7) / 3));
-    const im = Array.from({ length: k }, (_, e) => Float64Array.from({ length: n }, (_, i) => Math.cos(2 + e * 1.3 + i) / 7));
+    const re = Array.from({ length: k }, (_, e) =>
+      Float64Array.from({ length: n }, (_, i) => Math.sin(1 + e + i * 0.7) / 3),
+    );
+    const im = Array.from({ length: k }, (_, e) =>
+      Float64Array.from({ length: n }, (_, i) => Math.cos(2 + e * 1.3 + i) / 7),
+    );
     return { parameter, ports, z0Ohm, freqHz, re, im, source: 'x', format: 'touchstone-1', comments: [] };
   };
 
@@ -238,7 +245,9 @@ describe('formatTouchstone', () => {
 
   it('keeps comments inside comment lines even when they contain line breaks', () => {
     const d = net('S', 1, [50]);
-    const text = formatTouchstone(d, { comments: ['drive -20 dBm\n# GHz Z RI R 1\r[Version] 2.0', 'temperature 25 C'] });
+    const text = formatTouchstone(d, {
+      comments: ['drive -20 dBm\n# GHz Z RI R 1\r[Version] 2.0', 'temperature 25 C'],
+    });
     const lines = text.split('\n');
     expect(lines.slice(0, 4)).toEqual(['!drive -20 dBm', '!# GHz Z RI R 1', '![Version] 2.0', '!temperature 25 C']);
     const back = parseTouchstone(text, 'a.s1p');
@@ -253,16 +262,24 @@ describe('parseTouchstone refuses malformed headers with located messages', () =
     try {
       parseTouchstone(text, name);
     } catch (e) {
-      return (e as { issues: { line?: number; message: string }[] }).issues.map((i) => `${i.line ?? '-'}: ${i.message}`);
+      return (e as { issues: { line?: number; message: string }[] }).issues.map(
+        (i) => `${i.line ?? '-'}: ${i.message}`,
+      );
     }
     return [];
   };
 
   it('refuses an option line after the data and repeated option fields', () => {
-    expect(messages('1 0.1 0\n# Hz S RI\n')).toEqual(['2: option line after the data; it must come before the first data row']);
+    expect(messages('1 0.1 0\n# Hz S RI\n')).toEqual([
+      '2: option line after the data; it must come before the first data row',
+    ]);
     expect(messages('# Hz MHz S RI\n1 0 0\n')).toEqual(["1: option line gives the frequency unit twice ('MHz')"]);
-    expect(messages('# Hz S RI R -5\n1 0 0\n')).toEqual(["1: option R: expected a positive reference resistance in ohm, got '-5'"]);
-    expect(messages('# Hz S RI R\n1 0 0\n')).toEqual(['1: option R: expected a positive reference resistance in ohm, got nothing']);
+    expect(messages('# Hz S RI R -5\n1 0 0\n')).toEqual([
+      "1: option R: expected a positive reference resistance in ohm, got '-5'",
+    ]);
+    expect(messages('# Hz S RI R\n1 0 0\n')).toEqual([
+      '1: option R: expected a positive reference resistance in ohm, got nothing',
+    ]);
   });
 
   it('refuses v2 files with missing or misplaced keywords', () => {
@@ -270,21 +287,38 @@ describe('parseTouchstone refuses malformed headers with located messages', () =
     expect(messages(`${head}[Number of Frequencies] 1\n[Network Data]\n1 0 0\n[End]\n`)).toEqual([
       '4: missing [Number of Ports] before [Network Data] (required in Touchstone 2)',
     ]);
-    expect(messages(`${head}[Number of Ports] 2\n[Two-Port Data Order] 12_21\n[Number of Frequencies] 1\n[Reference] 50\n[Network Data]\n1 0 0 0 0 0 0 0 0\n[End]\n`, 'x.s2p')).toEqual([
-      '6: [Reference]: expected 2 values (one per port), got 1',
+    expect(
+      messages(
+        `${head}[Number of Ports] 2\n[Two-Port Data Order] 12_21\n[Number of Frequencies] 1\n[Reference] 50\n[Network Data]\n1 0 0 0 0 0 0 0 0\n[End]\n`,
+        'x.s2p',
+      ),
+    ).toEqual(['6: [Reference]: expected 2 values (one per port), got 1']);
+    expect(
+      messages(
+        `${head}[Number of Ports] 1\n[Number of Frequencies] 1\n[Reference] 50 0\n[Network Data]\n1 0 0\n[End]\n`,
+      ),
+    ).toEqual(["5: [Reference]: more values than ports (1), got '0'"]);
+    expect(messages(`# Hz S RI\n[Version] 2.0\n1 0 0\n`)).toEqual([
+      '2: [Version] must be the first line that is not a comment',
     ]);
-    expect(messages(`${head}[Number of Ports] 1\n[Number of Frequencies] 1\n[Reference] 50 0\n[Network Data]\n1 0 0\n[End]\n`)).toEqual([
-      "5: [Reference]: more values than ports (1), got '0'",
+    expect(messages(`[Number of Ports] 1\n`)).toEqual([
+      '1: keyword [Number of Ports] before [Version]; a Touchstone 2 file starts with [Version] 2.0',
     ]);
-    expect(messages(`# Hz S RI\n[Version] 2.0\n1 0 0\n`)).toEqual(['2: [Version] must be the first line that is not a comment']);
-    expect(messages(`[Number of Ports] 1\n`)).toEqual(['1: keyword [Number of Ports] before [Version]; a Touchstone 2 file starts with [Version] 2.0']);
     expect(messages(`[Version] 3.0\n`)).toEqual(["1: [Version]: expected 2.0 or 2.1, got '3.0'"]);
-    expect(messages(`${head}[Number of Ports] 2\n[Mixed-Mode Order] D2,1 C2,1\n`, 'x.s2p')).toEqual(['4: [Mixed-Mode Order] (mixed-mode data) is not supported']);
-    expect(messages(`${head}[Number of Ports] 1\n[Number of Frequencies] 1\n1 0 0\n`)).toEqual(['5: data before [Network Data]', '5: missing [Network Data] in a Touchstone 2 file']);
+    expect(messages(`${head}[Number of Ports] 2\n[Mixed-Mode Order] D2,1 C2,1\n`, 'x.s2p')).toEqual([
+      '4: [Mixed-Mode Order] (mixed-mode data) is not supported',
+    ]);
+    expect(messages(`${head}[Number of Ports] 1\n[Number of Frequencies] 1\n1 0 0\n`)).toEqual([
+      '5: data before [Network Data]',
+      '5: missing [Network Data] in a Touchstone 2 file',
+    ]);
   });
 
   it('accepts a v2 file without [End] and ignores keywords of later revisions', () => {
-    const d = parseTouchstone('[Version] 2.1\n# Hz S RI\n[Number of Ports] 1\n[Number of Frequencies] 1\n[Some Future Keyword] x\n[Network Data]\n1 0.5 0\n', 'x.s1p');
+    const d = parseTouchstone(
+      '[Version] 2.1\n# Hz S RI\n[Number of Ports] 1\n[Number of Frequencies] 1\n[Some Future Keyword] x\n[Network Data]\n1 0.5 0\n',
+      'x.s1p',
+    );
     expect(d.re[0][0]).toBe(0.5);
   });
 

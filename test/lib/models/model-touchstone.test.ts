@@ -9,7 +9,11 @@ import { DEBIAN_PYTHON, requireTool, SKRF_PRELUDE } from '../../support/tools.ts
 import { fpHz, OT3, TF1, widthHz, X1 } from './spice-cases.ts';
 
 function text(model: BvdModel, start: number, stop: number, points: number): string {
-  const r = formatModelTouchstone(model, { partId: 'X1', sample: 'A1', title: 'line one\n# Hz Z RI R 1' }, { startHz: start, stopHz: stop, points });
+  const r = formatModelTouchstone(
+    model,
+    { partId: 'X1', sample: 'A1', title: 'line one\n# Hz Z RI R 1' },
+    { startHz: start, stopHz: stop, points },
+  );
   if (!r.ok) throw new Error(r.reason);
   return r.text;
 }

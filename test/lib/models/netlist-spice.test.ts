@@ -1,7 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { inductanceOf } from '../../../src/lib/models/bvd.ts';
 import {
-  formatNetlist, formatSpiceNumber, sanitizeCommentText, sanitizeSubcktName,
+  formatNetlist,
+  formatSpiceNumber,
+  sanitizeCommentText,
+  sanitizeSubcktName,
 } from '../../../src/lib/models/netlist-spice.ts';
 import { OT3, OT3_LABELS, X1 } from './spice-cases.ts';
 
@@ -10,7 +13,9 @@ const ELEMENT = /^[RLC]\d+ \S+ \S+ -?\d\.\d{14}e[+-]\d+$/;
 /** Every line is a comment, an element with a plain-exponent value, or the subckt frame. */
 function expectOnlySafeLines(text: string): void {
   for (const line of text.trimEnd().split('\n')) {
-    expect(line, line).toMatch(/^(\* [\x20-\x7e]*|\*|[RLC]\d+ \S+ \S+ \S+|\.subckt [A-Za-z0-9_]+ 1 2|\.ends [A-Za-z0-9_]+)$/);
+    expect(line, line).toMatch(
+      /^(\* [\x20-\x7e]*|\*|[RLC]\d+ \S+ \S+ \S+|\.subckt [A-Za-z0-9_]+ 1 2|\.ends [A-Za-z0-9_]+)$/,
+    );
   }
 }
 
@@ -33,7 +38,9 @@ describe('formatNetlist', () => {
     const text = formatNetlist(OT3, { partId: 'OT3' });
     OT3.branches.forEach((b, i) => {
       const n = i + 1;
-      expect(Math.abs(Number(new RegExp(`^L${n} \\S+ \\S+ (\\S+)$`, 'm').exec(text)![1]) / inductanceOf(b) - 1)).toBeLessThan(1e-14);
+      expect(
+        Math.abs(Number(new RegExp(`^L${n} \\S+ \\S+ (\\S+)$`, 'm').exec(text)![1]) / inductanceOf(b) - 1),
+      ).toBeLessThan(1e-14);
       expect(Number(new RegExp(`^C${n} \\S+ \\S+ (\\S+)$`, 'm').exec(text)![1])).toBe(b.c1F);
     });
     for (const line of text.split('\n').filter((l) => /^[RLC]\d/.test(l))) expect(line).toMatch(ELEMENT);
@@ -46,8 +53,15 @@ describe('formatNetlist', () => {
 
   it('states part, sample, conditions, date, method, measured-data and validity cautions in the header', () => {
     const text = formatNetlist(X1, {
-      partId: 'XO-0012', title: '12 MHz crystal', sample: 'A1', temperatureC: 25, driveW: 10e-6, date: '2026-05-02',
-      method: 'complex least squares', fitResidual: 1.23e-4, validSpanHz: { min: 15.9e6, max: 15.95e6 },
+      partId: 'XO-0012',
+      title: '12 MHz crystal',
+      sample: 'A1',
+      temperatureC: 25,
+      driveW: 10e-6,
+      date: '2026-05-02',
+      method: 'complex least squares',
+      fitResidual: 1.23e-4,
+      validSpanHz: { min: 15.9e6, max: 15.95e6 },
     });
     expect(text).toContain('* Motional BVD model of XO-0012 - 12 MHz crystal');
     expect(text).toContain('* sample: A1');
@@ -56,7 +70,9 @@ describe('formatNetlist', () => {
     expect(text).toContain('* extracted by complex least squares, rms relative fit residual 0.000123');
     expect(text).toContain('MEASURED DATA of one sample');
     expect(text).toContain('not a specification');
-    expect(text).toContain('narrow-band linear model: valid only near each listed mode within the measured span 15900000 Hz to 15950000 Hz');
+    expect(text).toContain(
+      'narrow-band linear model: valid only near each listed mode within the measured span 15900000 Hz to 15950000 Hz',
+    );
     expect(text).toContain('no drive-level dependence, temperature, aging or amplitude effects');
     expect(text).toContain('.subckt XO_0012_A1 1 2');
   });
@@ -101,13 +117,21 @@ describe('formatNetlist', () => {
   });
 
   it('refuses main-mode-only when no branch is labelled main (it never picks one itself)', () => {
-    expect(() => formatNetlist(OT3, { partId: 'OT3', labels: OT3_LABELS.map((l) => ({ ...l, main: false })) }, { mainModeOnly: true })).toThrow(/no branch of 3 is labelled main/);
+    expect(() =>
+      formatNetlist(
+        OT3,
+        { partId: 'OT3', labels: OT3_LABELS.map((l) => ({ ...l, main: false })) },
+        { mainModeOnly: true },
+      ),
+    ).toThrow(/no branch of 3 is labelled main/);
     expect(formatNetlist(X1, { partId: 'X1' }, { mainModeOnly: true }).match(/^L\d /gm)).toHaveLength(1);
   });
 
   it('flags a low figure of merit and an r below the AT-cut minimum (ideal-plate r, k = 8.8 %)', () => {
     const ceramicLike = { c0F: 20.6e-12, branches: [{ fsHz: 4.005879e6, r1Ohm: 8, c1F: 4.1e-12 }] };
-    expect(formatNetlist(ceramicLike, { partId: 'C1', kind: 'quartz-at' })).toMatch(/CAUTION: .* r = C0\/C1 = 5\.024 below the AT-cut minimum 159\.3/);
+    expect(formatNetlist(ceramicLike, { partId: 'C1', kind: 'quartz-at' })).toMatch(
+      /CAUTION: .* r = C0\/C1 = 5\.024 below the AT-cut minimum 159\.3/,
+    );
     const lowM = { c0F: 3e-12, branches: [{ fsHz: 100e6, r1Ohm: 200, c1F: 1e-15 }] };
     expect(formatNetlist(lowM, { partId: 'L' })).toMatch(/CAUTION: .* low figure of merit M = 2\.65/);
     expect(formatNetlist(X1, { partId: 'X1', kind: 'quartz-at' })).not.toContain('CAUTION');

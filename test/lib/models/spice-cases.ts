@@ -10,7 +10,12 @@
  * rounding its element values visibly moves the resonance.
  */
 import { type BvdModel, type MotionalBranch } from '../../../src/lib/models/bvd.ts';
-import { formatNetlist, type BranchLabel, type FormatNetlistOptions, type NetlistInfo } from '../../../src/lib/models/netlist-spice.ts';
+import {
+  formatNetlist,
+  type BranchLabel,
+  type FormatNetlistOptions,
+  type NetlistInfo,
+} from '../../../src/lib/models/netlist-spice.ts';
 import { impedanceDeck, type AcSweep } from '../../support/spice.ts';
 
 /** Branch from L1, C1, R1 (the reference resonators are given by L1 and C1). */
@@ -60,7 +65,11 @@ export const OT3_LABELS: BranchLabel[] = [
 export const ODD: BvdModel = { c0F: 3.02718e-12, branches: [{ fsHz: 12003456.789, r1Ohm: 24.8137, c1F: 17.8349e-15 }] };
 
 const info = (partId: string, title: string, extra: Partial<NetlistInfo> = {}): NetlistInfo => ({
-  partId, title, sample: 'ref', method: 'synthetic reference values', ...extra,
+  partId,
+  title,
+  sample: 'ref',
+  method: 'synthetic reference values',
+  ...extra,
 });
 
 const x1 = X1.branches[0];
@@ -71,7 +80,10 @@ export const SPICE_CASES: SpiceCase[] = [
   {
     id: 'x1',
     model: X1,
-    info: info('X1', '16 MHz-class AT fundamental, synthetic reference resonator', { kind: 'quartz-at', labels: [{ overtone: 1, spurious: false, main: true }] }),
+    info: info('X1', '16 MHz-class AT fundamental, synthetic reference resonator', {
+      kind: 'quartz-at',
+      labels: [{ overtone: 1, spurious: false, main: true }],
+    }),
     sweeps: [
       { name: 'fs', sweep: around(x1.fsHz, widthHz(x1)) },
       { name: 'fp', sweep: around(fpHz(x1, X1.c0F), 3 * widthHz(x1)) },
@@ -91,7 +103,10 @@ export const SPICE_CASES: SpiceCase[] = [
   {
     id: 'ot3',
     model: OT3,
-    info: info('OT3', '100 MHz third overtone with fundamental and a spurious mode (synthetic)', { kind: 'quartz-at', labels: OT3_LABELS }),
+    info: info('OT3', '100 MHz third overtone with fundamental and a spurious mode (synthetic)', {
+      kind: 'quartz-at',
+      labels: OT3_LABELS,
+    }),
     sweeps: [
       ...OT3.branches.map((b, i) => ({ name: `mode${i + 1}`, sweep: around(b.fsHz, widthHz(b)) })),
       { name: 'wide', sweep: { startHz: 20e6, stopHz: 120e6, points: 4001 } },
@@ -109,7 +124,9 @@ export const SPICE_CASES: SpiceCase[] = [
     info: info('ODD', '12 MHz part, element values rounded to 3 digits on purpose (must miss)', { kind: 'quartz-at' }),
     options: { digits: 3 },
     // Wide enough to hold the shifted resonance (about +840 ppm).
-    sweeps: [{ name: 'fs', sweep: { startHz: odd.fsHz * (1 - 200e-6), stopHz: odd.fsHz * (1 + 2000e-6), points: 8001 } }],
+    sweeps: [
+      { name: 'fs', sweep: { startHz: odd.fsHz * (1 - 200e-6), stopHz: odd.fsHz * (1 + 2000e-6), points: 8001 } },
+    ],
   },
 ];
 
@@ -127,7 +144,12 @@ export function deckFileName(c: SpiceCase, sweepName: string): string {
 export function deckOf(c: SpiceCase, sweepName: string): string {
   const s = c.sweeps.find((x) => x.name === sweepName)!;
   const netlist = formatNetlist(c.model, c.info, c.options);
-  return impedanceDeck(`motional netlist check: ${c.id} ${sweepName}`, `${netlist}XDUT in 0 ${subcktNameOf(c)}\n`, s.sweep, `${c.id}-${sweepName}.out`);
+  return impedanceDeck(
+    `motional netlist check: ${c.id} ${sweepName}`,
+    `${netlist}XDUT in 0 ${subcktNameOf(c)}\n`,
+    s.sweep,
+    `${c.id}-${sweepName}.out`,
+  );
 }
 
 /** X1 in series with a load capacitor CL (fL check): node in - CL - mid - crystal - ground. */
@@ -160,7 +182,9 @@ export const LOAD_CASES: Array<{ clF: number; fieldFlWithR1Hz: number; sweep: Ac
 /** Every committed deck: file name and text. */
 export function allDecks(): Array<{ file: string; text: string }> {
   const out: Array<{ file: string; text: string }> = [];
-  for (const c of SPICE_CASES) for (const s of c.sweeps) out.push({ file: deckFileName(c, s.name), text: deckOf(c, s.name) });
-  for (const l of LOAD_CASES) out.push({ file: `x1-cl${Math.round(l.clF * 1e12)}pf.cir`, text: seriesLoadDeck(l.clF, l.sweep) });
+  for (const c of SPICE_CASES)
+    for (const s of c.sweeps) out.push({ file: deckFileName(c, s.name), text: deckOf(c, s.name) });
+  for (const l of LOAD_CASES)
+    out.push({ file: `x1-cl${Math.round(l.clF * 1e12)}pf.cir`, text: seriesLoadDeck(l.clF, l.sweep) });
   return out;
 }

@@ -9,7 +9,13 @@ const pF = 1e-12;
 
 /** Compliance as the extraction leaves it: the main mode picked once with the datasheet's hints. */
 function check(sample: ComplianceSample, datasheet: Datasheet) {
-  return checkCompliance({ ...sample, mainMode: mainMode(sample.modes, { frequencyHz: datasheet.frequencyHz, overtone: datasheet.overtone }) }, datasheet);
+  return checkCompliance(
+    {
+      ...sample,
+      mainMode: mainMode(sample.modes, { frequencyHz: datasheet.frequencyHz, overtone: datasheet.overtone }),
+    },
+    datasheet,
+  );
 }
 const x1 = X1.branches[0];
 // Check value (mpmath, BVD model): X1's load resonance with R1 at 8 pF is 15 922 728.295 Hz.
@@ -59,8 +65,16 @@ describe('datasheet compliance of one sample', () => {
   });
 
   it('checks the physical overtone order of the mode at the datasheet frequency', () => {
-    const labels: Array<[number, boolean]> = [[1, false], [3, false], [3, true]];
-    const s = sampleOf('B1', OT3, OT3.branches.map((b, i) => modeOf(b, OT3.c0F, labels[i][0], labels[i][1])));
+    const labels: Array<[number, boolean]> = [
+      [1, false],
+      [3, false],
+      [3, true],
+    ];
+    const s = sampleOf(
+      'B1',
+      OT3,
+      OT3.branches.map((b, i) => modeOf(b, OT3.c0F, labels[i][0], labels[i][1])),
+    );
     const ok = check(s, { frequencyHz: 100e6, overtone: 3 }).items.find((i) => i.check === 'overtone')!;
     expect(ok.verdict).toBe('pass');
     const wrong = check(s, { frequencyHz: 100e6, overtone: 1 }).items.find((i) => i.check === 'overtone')!;
@@ -71,8 +85,16 @@ describe('datasheet compliance of one sample', () => {
   });
 
   it('judges the main mode the extraction recorded, never picking again', () => {
-    const labels: Array<[number, boolean]> = [[1, false], [3, false], [3, true]];
-    const s = sampleOf('B1', OT3, OT3.branches.map((b, i) => modeOf(b, OT3.c0F, labels[i][0], labels[i][1])));
+    const labels: Array<[number, boolean]> = [
+      [1, false],
+      [3, false],
+      [3, true],
+    ];
+    const s = sampleOf(
+      'B1',
+      OT3,
+      OT3.branches.map((b, i) => modeOf(b, OT3.c0F, labels[i][0], labels[i][1])),
+    );
     // The picker would take the fundamental (lowest R1); the record says the third overtone.
     const r = checkCompliance({ ...s, mainMode: { index: 1, rule: 'recorded' } }, { esrMaxOhm: 1000 });
     expect(r.mainMode).toBe(1);

@@ -13,11 +13,24 @@ describe('frequency budget: worked example (our own)', () => {
   // RSS: centres 3.0 + (−4.0 + 3.2)/2 + 0 + 0 + 0 = 2.6 ppm;
   //      half-widths 0, 3.6, 10, 10, 3: √(0 + 12.96 + 100 + 100 + 9) = √221.96 = 14.8983 ppm;
   //      2.6 ± 14.8983 = −12.2983 … +17.4983 ppm.
-  const input = { offsetPpm: 3.0, bandPpm: { min: -1.0, max: 6.2 }, capacitorToleranceFraction: 0.05, stabilityPpm: 10, tolerancePpm: 10, agingPpm: 3 };
+  const input = {
+    offsetPpm: 3.0,
+    bandPpm: { min: -1.0, max: 6.2 },
+    capacitorToleranceFraction: 0.05,
+    stabilityPpm: 10,
+    tolerancePpm: 10,
+    agingPpm: 3,
+  };
 
   it('sums worst case and root-sum-square as written out', () => {
     const b = frequencyBudget({ ...input, requirementPpm: 30 });
-    expect(b.terms.map((t) => t.source)).toEqual(['measured', 'circuit tolerance', 'datasheet', 'datasheet', 'datasheet']);
+    expect(b.terms.map((t) => t.source)).toEqual([
+      'measured',
+      'circuit tolerance',
+      'datasheet',
+      'datasheet',
+      'datasheet',
+    ]);
     expect(b.terms[1].minPpm).toBeCloseTo(-4.0, 12);
     expect(b.terms[1].maxPpm).toBeCloseTo(3.2, 12);
     expect(b.worstCasePpm.min).toBeCloseTo(-24.0, 12);
@@ -35,7 +48,12 @@ describe('frequency budget: worked example (our own)', () => {
   });
 
   it('names what it could not include', () => {
-    const b = frequencyBudget({ offsetPpm: 1, bandPpm: { min: 0, max: 2 }, capacitorToleranceFraction: 0.1, requirementPpm: 50 });
+    const b = frequencyBudget({
+      offsetPpm: 1,
+      bandPpm: { min: 0, max: 2 },
+      capacitorToleranceFraction: 0.1,
+      requirementPpm: 50,
+    });
     expect(b.missing.length).toBe(3);
     expect(b.reason).toMatch(/not included: temperature/);
   });
@@ -45,7 +63,17 @@ describe('temperature term from a measured f(T)', () => {
   // A tuning fork's parabola, Δf/f = −0.034 ppm/°C² · (T − 25 °C)² (the usual fork coefficient,
   // from memory). Over −40 … 85 °C: at −40 °C −0.034 · 65² = −143.65 ppm; at 85 °C −0.034 · 60² =
   // −122.4 ppm; at 25 °C 0. So the term is −143.65 … 0 ppm.
-  const fit: TemperatureFit = { form: 'parabola', t0C: 25, f0Hz: 32768, coeffs: [0, -0.034e-6], turnoverC: [25], spanPpm: 143.65, spanRangeC: { min: -40, max: 85 }, points: [], rmsResidualPpm: 0 };
+  const fit: TemperatureFit = {
+    form: 'parabola',
+    t0C: 25,
+    f0Hz: 32768,
+    coeffs: [0, -0.034e-6],
+    turnoverC: [25],
+    spanPpm: 143.65,
+    spanRangeC: { min: -40, max: 85 },
+    points: [],
+    rmsResidualPpm: 0,
+  };
 
   it('takes the deviation from 25 °C over the operating range', () => {
     const d = temperatureDeviationPpm(fit, { min: -40, max: 85 });
@@ -54,7 +82,14 @@ describe('temperature term from a measured f(T)', () => {
   });
 
   it('measured f(T) wins over the datasheet stability', () => {
-    const b = frequencyBudget({ offsetPpm: 0, bandPpm: { min: 0, max: 0 }, capacitorToleranceFraction: 0.05, temperature: fit, operatingRangeC: { min: -40, max: 85 }, stabilityPpm: 5 });
+    const b = frequencyBudget({
+      offsetPpm: 0,
+      bandPpm: { min: 0, max: 0 },
+      capacitorToleranceFraction: 0.05,
+      temperature: fit,
+      operatingRangeC: { min: -40, max: 85 },
+      stabilityPpm: 5,
+    });
     const t = b.terms.find((x) => x.name === 'temperature')!;
     expect(t.source).toBe('measured f(T)');
     expect(t.minPpm).toBeCloseTo(-143.65, 9);

@@ -1,7 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import {
-  loadCapacitanceForHz, loadCapacitanceForWithLoss, loadFrequencyHz, loadOffsetPpm, loadResistanceOhm,
-  loadResonanceWithLoss, pullingPpm, trimSensitivityPpmPerPf,
+  loadCapacitanceForHz,
+  loadCapacitanceForWithLoss,
+  loadFrequencyHz,
+  loadOffsetPpm,
+  loadResistanceOhm,
+  loadResonanceWithLoss,
+  pullingPpm,
+  trimSensitivityPpmPerPf,
 } from '../../../src/lib/osc/load.ts';
 import { engineImpedance, ngspiceImpedance, type ImpedanceRow } from '../../support/spice.ts';
 import { requireTool } from '../../support/tools.ts';
@@ -38,7 +44,8 @@ describe('load resonance of X1 against the mpmath check table', () => {
       // (checked here by a central difference over ±0.001 pF).
       expect(sens.approx).toBeCloseTo(s, 4);
       const h = 0.001 * pF;
-      const numeric = -(loadOffsetPpm(x1, X1.c0F, cl * pF + h).exact - loadOffsetPpm(x1, X1.c0F, cl * pF - h).exact) / 0.002;
+      const numeric =
+        -(loadOffsetPpm(x1, X1.c0F, cl * pF + h).exact - loadOffsetPpm(x1, X1.c0F, cl * pF - h).exact) / 0.002;
       expect(sens.exact).toBeCloseTo(numeric, 5);
       expect(sens.exact).toBeLessThan(sens.approx);
     });

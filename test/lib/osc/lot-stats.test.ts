@@ -4,7 +4,8 @@ import { X1 } from '../models/spice-cases.ts';
 import { sampleOf } from './sample-fixtures.ts';
 
 const x1 = X1.branches[0];
-const lot = (r1s: number[]) => r1s.map((r, i) => sampleOf(`S${i + 1}`, { c0F: X1.c0F, branches: [{ ...x1, r1Ohm: r }] }));
+const lot = (r1s: number[]) =>
+  r1s.map((r, i) => sampleOf(`S${i + 1}`, { c0F: X1.c0F, branches: [{ ...x1, r1Ohm: r }] }));
 
 describe('lot statistics', () => {
   it('gives n, mean, sample standard deviation, min, max and median per parameter', () => {

@@ -9,7 +9,13 @@ import { loadFrequencyHz } from '../../../src/lib/osc/load.ts';
 import { DEMO_CIRCUIT, X1 } from '../../site/fixture.ts';
 
 describe('negative resistance against load capacitance', () => {
-  const curve = negativeResistanceCurve({ model: X1, mainBranch: 0, circuit: DEMO_CIRCUIT, esrMaxOhm: 60, chosenClF: 10e-12 })!;
+  const curve = negativeResistanceCurve({
+    model: X1,
+    mainBranch: 0,
+    circuit: DEMO_CIRCUIT,
+    esrMaxOhm: 60,
+    chosenClF: 10e-12,
+  })!;
 
   it('rises to a peak and then falls as the capacitors grow (≈ 1/(ω²CaCb) at large loads)', () => {
     const peak = curve.motionalOhm.indexOf(Math.max(...curve.motionalOhm));

@@ -45,7 +45,12 @@ describe('parseOscillatorsYaml', () => {
     const { circuits, issues } = parseOscillatorsYaml(withLine(5, '    outputCapacitance: -3 pF'), 'osc.yaml');
     expect(circuits).toEqual([]);
     expect(issues).toHaveLength(1);
-    expect(issues[0]).toMatchObject({ severity: 'error', file: 'osc.yaml', line: 5, path: 'circuits[0].outputCapacitance' });
+    expect(issues[0]).toMatchObject({
+      severity: 'error',
+      file: 'osc.yaml',
+      line: 5,
+      path: 'circuits[0].outputCapacitance',
+    });
     expect(issues[0].message).toBe('expected a non-negative capacitance, got "-3 pF"');
   });
 
@@ -53,7 +58,9 @@ describe('parseOscillatorsYaml', () => {
     const { issues } = parseOscillatorsYaml(withLine(3, '    gm: 5 pF'), 'osc.yaml');
     expect(issues).toHaveLength(1);
     expect(issues[0]).toMatchObject({ line: 3, col: 9, path: 'circuits[0].gm' });
-    expect(issues[0].message).toBe('expected a transconductance such as "5 mA/V" or "5 mS", got "5 pF" (a capacitance)');
+    expect(issues[0].message).toBe(
+      'expected a transconductance such as "5 mA/V" or "5 mS", got "5 pF" (a capacitance)',
+    );
   });
 
   it('collects every problem of a file, each located', () => {
@@ -73,7 +80,9 @@ describe('parseOscillatorsYaml', () => {
   it('rejects a tolerance above 50 % and warns on an unknown key', () => {
     const text = withLine(9, '    capacitorTolerance: 60 %\n    colour: blue');
     const { issues } = parseOscillatorsYaml(text, 'osc.yaml');
-    expect(issues.find((i) => i.path === 'circuits[0].capacitorTolerance')?.message).toBe('expected a tolerance between 0 and 50 % such as "5 %", got "60 %"');
+    expect(issues.find((i) => i.path === 'circuits[0].capacitorTolerance')?.message).toBe(
+      'expected a tolerance between 0 and 50 % such as "5 %", got "60 %"',
+    );
     expect(issues.find((i) => i.path === 'circuits[0].colour')).toMatchObject({ severity: 'warning', line: 10 });
   });
 
@@ -82,7 +91,11 @@ describe('parseOscillatorsYaml', () => {
     const { circuits, issues } = parseOscillatorsYaml(text, 'osc.yaml');
     expect(circuits).toHaveLength(1);
     expect(issues).toHaveLength(1);
-    expect(issues[0]).toMatchObject({ line: 11, path: 'circuits[1].name', message: 'duplicate circuit name "bench-pierce" (also circuits[0])' });
+    expect(issues[0]).toMatchObject({
+      line: 11,
+      path: 'circuits[1].name',
+      message: 'duplicate circuit name "bench-pierce" (also circuits[0])',
+    });
   });
 
   it('reports YAML syntax errors with their line and no circuits', () => {
@@ -99,9 +112,17 @@ describe('parseOscillatorsYaml', () => {
   });
 
   it('reads the demo content/oscillators.yaml without a single issue', () => {
-    const { circuits, issues } = parseOscillatorsYaml(readFileSync('content/oscillators.yaml', 'utf8'), 'content/oscillators.yaml');
+    const { circuits, issues } = parseOscillatorsYaml(
+      readFileSync('content/oscillators.yaml', 'utf8'),
+      'content/oscillators.yaml',
+    );
     expect(issues).toEqual([]);
-    expect(circuits.map((c) => c.name)).toEqual(['sensor-hub-pierce', 'radio-ref-pierce', 'rtc-lowpower-pierce', 'legacy-board-pierce']);
+    expect(circuits.map((c) => c.name)).toEqual([
+      'sensor-hub-pierce',
+      'radio-ref-pierce',
+      'rtc-lowpower-pierce',
+      'legacy-board-pierce',
+    ]);
     const rtc = circuits[2];
     expect(rtc.gmS).toBeCloseTo(25e-6, 18);
     expect(rtc.frequencyRangeHz).toEqual({ min: 30e3, max: 40e3 });

@@ -17,7 +17,13 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { impedanceAtPins, impedanceSeenByMotionalBranch, loopFrequencyHz, negativeResistance, type PierceNetwork } from '../../../src/lib/osc/pierce-network.ts';
+import {
+  impedanceAtPins,
+  impedanceSeenByMotionalBranch,
+  loopFrequencyHz,
+  negativeResistance,
+  type PierceNetwork,
+} from '../../../src/lib/osc/pierce-network.ts';
 import { startupTauS } from '../../../src/lib/osc/startup.ts';
 import { startEngine } from '../../support/spice.ts';
 import { requireTool } from '../../support/tools.ts';
@@ -165,11 +171,35 @@ interface TranCase {
  * transient covers a few time constants in about a hundred thousand steps.
  */
 const TRAN: TranCase[] = [
-  { name: '16 MHz AT', fsHz: 16e6, r1Ohm: 40, c1F: 5e-15, c0F: 3e-12, net: { gmS: 8e-3, caF: 12e-12 + 4.5e-12, cbF: 12e-12 + 5.5e-12, pinToPinF: 0.3e-12 }, imaxA: 2e-3, i0A: 1e-8, note: 'real Q' },
-  { name: '32.768 kHz fork', fsHz: 32768, r1Ohm: 40e3, c1F: 20e-15, c0F: 1.3e-12, net: { gmS: 5e-6, caF: 12e-12 + 6e-12, cbF: 12e-12 + 6e-12, pinToPinF: 0.5e-12 }, imaxA: 5e-6, i0A: 1e-12, note: 'Q lowered to ≈6·10³' },
+  {
+    name: '16 MHz AT',
+    fsHz: 16e6,
+    r1Ohm: 40,
+    c1F: 5e-15,
+    c0F: 3e-12,
+    net: { gmS: 8e-3, caF: 12e-12 + 4.5e-12, cbF: 12e-12 + 5.5e-12, pinToPinF: 0.3e-12 },
+    imaxA: 2e-3,
+    i0A: 1e-8,
+    note: 'real Q',
+  },
+  {
+    name: '32.768 kHz fork',
+    fsHz: 32768,
+    r1Ohm: 40e3,
+    c1F: 20e-15,
+    c0F: 1.3e-12,
+    net: { gmS: 5e-6, caF: 12e-12 + 6e-12, cbF: 12e-12 + 6e-12, pinToPinF: 0.5e-12 },
+    imaxA: 5e-6,
+    i0A: 1e-12,
+    note: 'Q lowered to ≈6·10³',
+  },
 ];
 
-function tranDeck(c: TranCase, tauGuessS: number, stepsPerCycle: number): { deck: string; stopS: number; stepS: number } {
+function tranDeck(
+  c: TranCase,
+  tauGuessS: number,
+  stepsPerCycle: number,
+): { deck: string; stopS: number; stepS: number } {
   const l1 = 1 / ((2 * Math.PI * c.fsHz) ** 2 * c.c1F);
   const stepS = 1 / (c.fsHz * stepsPerCycle);
   const stopS = 4 * tauGuessS;
@@ -249,11 +279,17 @@ async function engineTran(deck: string): Promise<{ t: number[]; i: number[] }> {
 }
 
 function ngspiceTran(deck: string): { t: number[]; i: number[] } {
-  const rows = ngspiceRun(deck, 'i.out').trim().split('\n').map((l) => l.trim().split(/\s+/).map(Number));
+  const rows = ngspiceRun(deck, 'i.out')
+    .trim()
+    .split('\n')
+    .map((l) => l.trim().split(/\s+/).map(Number));
   return { t: rows.map((r) => r[0]), i: rows.map((r) => r[1]) };
 }
 
-function tranSuite(engine: string, run: (deck: string) => Promise<{ t: number[]; i: number[] }> | { t: number[]; i: number[] }) {
+function tranSuite(
+  engine: string,
+  run: (deck: string) => Promise<{ t: number[]; i: number[] }> | { t: number[]; i: number[] },
+) {
   for (const c of TRAN) {
     it(`${engine}: ${c.name} (${c.note}) — τ = 2L1/(|Rm| − R1) within 10 % of the transient's envelope`, async () => {
       const p = predictedTau(c);

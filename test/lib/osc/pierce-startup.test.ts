@@ -5,7 +5,11 @@
  */
 import { describe, expect, it } from 'vitest';
 import { advisePierce, type PierceAdvice } from '../../../src/lib/osc/pierce.ts';
-import { criticalGmFullS, impedanceAtPins, impedanceSeenByMotionalBranch } from '../../../src/lib/osc/pierce-network.ts';
+import {
+  criticalGmFullS,
+  impedanceAtPins,
+  impedanceSeenByMotionalBranch,
+} from '../../../src/lib/osc/pierce-network.ts';
 import { limitedSwingVpp, noiseCurrentA, steadyMotionalCurrentA } from '../../../src/lib/osc/startup.ts';
 import { circuitsFor, offerFrequencyHz } from '../../../src/lib/report/advice.ts';
 import { circuitFit } from '../../../src/lib/report/fits.ts';
@@ -51,7 +55,9 @@ describe('resistances named for what they are', () => {
 
 describe('start-up verdicts', () => {
   it('fails when the motional branch sees less than R1 (too little gm)', () => {
-    const a = ok(advisePierce({ partId: 'X1', datasheet, model: X1, mainBranch: 0, circuit: { ...DEMO_CIRCUIT, gmS: 20e-6 } }));
+    const a = ok(
+      advisePierce({ partId: 'X1', datasheet, model: X1, mainBranch: 0, circuit: { ...DEMO_CIRCUIT, gmS: 20e-6 } }),
+    );
     expect(a.best.startupTauS).toBe(Number.POSITIVE_INFINITY);
     expect(a.best.checks.startup.verdict).toBe('fail');
     expect(a.best.checks.startup.reason).toMatch(/does not start/);
@@ -61,14 +67,30 @@ describe('start-up verdicts', () => {
     // find a gm where |Rm|/R1 is between 1 and 2
     const base = ok(advisePierce({ partId: 'X1', datasheet, model: X1, mainBranch: 0, circuit: DEMO_CIRCUIT }));
     const ratio = -base.best.motionalResistanceOhm / x1.r1Ohm;
-    const a = ok(advisePierce({ partId: 'X1', datasheet, model: X1, mainBranch: 0, circuit: { ...DEMO_CIRCUIT, gmS: (DEMO_CIRCUIT.gmS * 1.5) / ratio } }));
+    const a = ok(
+      advisePierce({
+        partId: 'X1',
+        datasheet,
+        model: X1,
+        mainBranch: 0,
+        circuit: { ...DEMO_CIRCUIT, gmS: (DEMO_CIRCUIT.gmS * 1.5) / ratio },
+      }),
+    );
     expect(-a.best.motionalResistanceOhm / x1.r1Ohm).toBeGreaterThan(1);
     expect(-a.best.motionalResistanceOhm / x1.r1Ohm).toBeLessThan(2);
     expect(a.best.checks.startup.verdict).toBe('warn');
     expect(a.best.checks.startup.reason).toMatch(/barely exceeds R1/);
   });
   it('warns when the start-up time misses the circuit requirement', () => {
-    const a = ok(advisePierce({ partId: 'X1', datasheet, model: X1, mainBranch: 0, circuit: { ...DEMO_CIRCUIT, startupTimeMaxS: 1e-6 } }));
+    const a = ok(
+      advisePierce({
+        partId: 'X1',
+        datasheet,
+        model: X1,
+        mainBranch: 0,
+        circuit: { ...DEMO_CIRCUIT, startupTimeMaxS: 1e-6 },
+      }),
+    );
     expect(a.best.checks.startup.verdict).toBe('warn');
     expect(a.best.checks.startup.reason).toMatch(/exceeds the circuit's start-up requirement/);
   });
@@ -76,11 +98,23 @@ describe('start-up verdicts', () => {
 
 describe('frequency budget in the advice', () => {
   it('uses the pair offset and band, the datasheet stability and tolerance, against the requirement', () => {
-    const a = ok(advisePierce({ partId: 'X1', datasheet, model: X1, mainBranch: 0, circuit: { ...DEMO_CIRCUIT, frequencyRequirementPpm: 100 } }));
+    const a = ok(
+      advisePierce({
+        partId: 'X1',
+        datasheet,
+        model: X1,
+        mainBranch: 0,
+        circuit: { ...DEMO_CIRCUIT, frequencyRequirementPpm: 100 },
+      }),
+    );
     const b = a.best.budget;
     expect(b.terms[0].minPpm).toBe(a.best.offsetPpm);
     expect(b.terms[1].minPpm).toBeCloseTo(a.best.bandPpm.min - a.best.offsetPpm, 12);
-    expect(b.terms.find((t) => t.name === 'temperature')).toMatchObject({ source: 'datasheet', minPpm: -30, maxPpm: 30 });
+    expect(b.terms.find((t) => t.name === 'temperature')).toMatchObject({
+      source: 'datasheet',
+      minPpm: -30,
+      maxPpm: 30,
+    });
     expect(b.requirementPpm).toBe(100);
     expect(a.best.checks.budget.verdict).toBe(b.verdict);
   });
@@ -93,7 +127,9 @@ describe('circuits are offered by the nominal frequency', () => {
   const low = { ...DEMO_CIRCUIT, name: 'low', frequencyRangeHz: { min: 4e6, max: 15.999e6 } };
   it('datasheet nominal first', () => {
     expect(offerFrequencyHz({ frequencyHz: 16e6 }, model, 0)).toBe(16e6);
-    expect(circuitsFor([wide, low], offerFrequencyHz({ frequencyHz: 16e6 }, model, 0)).map((c) => c.name)).toEqual(['wide']);
+    expect(circuitsFor([wide, low], offerFrequencyHz({ frequencyHz: 16e6 }, model, 0)).map((c) => c.name)).toEqual([
+      'wide',
+    ]);
   });
   it('else the load resonance at the datasheet CL, else fs', () => {
     const f = offerFrequencyHz({ loadCapacitanceF: 8e-12 }, model, 0);

@@ -1,5 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { driveFromCrystalVoltageW, driveFromPinVoltageW, driveFromTerminalCurrentW } from '../../../src/lib/osc/drive-level.ts';
+import {
+  driveFromCrystalVoltageW,
+  driveFromPinVoltageW,
+  driveFromTerminalCurrentW,
+} from '../../../src/lib/osc/drive-level.ts';
 import { criticalGmS, negativeResistanceOhm } from '../../../src/lib/osc/gain.ts';
 import { loadFrequencyHz } from '../../../src/lib/osc/load.ts';
 import { advisePierce, type PierceAdvice } from '../../../src/lib/osc/pierce.ts';
@@ -14,8 +18,18 @@ const fL12 = loadFrequencyHz(x1, X1.c0F, 12 * pF);
 /** A circuit with the lumped stray of the usual Pierce load formula (CL = CaCb/(Ca + Cb) + Cstray) as pin-to-pin stray. */
 function circuit(extra: Partial<OscillatorCircuit> = {}): OscillatorCircuit {
   return {
-    name: 'bench-pierce', gmS: 5e-3, inputCapacitanceF: 0, outputCapacitanceF: 0, boardStrayF: 0, boardStrayUncertaintyF: 0,
-    pinToPinStrayF: 2.5 * pF, pinToPinStrayUncertaintyF: 0, supplyV: 3.3, capacitorToleranceFraction: 0.05, series: 'E12', ...extra,
+    name: 'bench-pierce',
+    gmS: 5e-3,
+    inputCapacitanceF: 0,
+    outputCapacitanceF: 0,
+    boardStrayF: 0,
+    boardStrayUncertaintyF: 0,
+    pinToPinStrayF: 2.5 * pF,
+    pinToPinStrayUncertaintyF: 0,
+    supplyV: 3.3,
+    capacitorToleranceFraction: 0.05,
+    series: 'E12',
+    ...extra,
   };
 }
 
@@ -70,9 +84,17 @@ describe('drive level (forms derived from the BVD model)', () => {
 });
 
 describe('Pierce capacitor advice (example: CL 8 pF, stray 2.5 pF, E12)', () => {
-  const advice = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 8 * pF }, model: X1, mainBranch: 0, circuit: circuit() }));
+  const advice = ok(
+    advisePierce({
+      partId: 'X1',
+      datasheet: { loadCapacitanceF: 8 * pF },
+      model: X1,
+      mainBranch: 0,
+      circuit: circuit(),
+    }),
+  );
 
-  it('aims at the part\'s own frequency at the datasheet CL when the datasheet gives no frequency', () => {
+  it("aims at the part's own frequency at the datasheet CL when the datasheet gives no frequency", () => {
     expect(advice.target.targetBasis).toBe('frequency at the datasheet load capacitance');
     expect(advice.target.targetHz).toBeCloseTo(15922726.981, 3);
     expect(advice.idealEqualCapF / pF).toBeCloseTo(11, 9);
@@ -82,7 +104,15 @@ describe('Pierce capacitor advice (example: CL 8 pF, stray 2.5 pF, E12)', () => 
     expect(advice.equal.outputCapF).toBe(12 * pF);
     expect(advice.equal.clF / pF).toBeCloseTo(8.5, 9);
     expect(advice.equal.offsetPpm).toBeCloseTo(-19.745, 3);
-    const ten = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 8 * pF }, model: X1, mainBranch: 0, circuit: circuit({ series: 'E6' }) }));
+    const ten = ok(
+      advisePierce({
+        partId: 'X1',
+        datasheet: { loadCapacitanceF: 8 * pF },
+        model: X1,
+        mainBranch: 0,
+        circuit: circuit({ series: 'E6' }),
+      }),
+    );
     // E6 offers 10 and 15 around 11: 10 pF wins there, +21.625 ppm.
     expect(ten.equal.inputCapF).toBe(10 * pF);
     expect(ten.equal.offsetPpm).toBeCloseTo(21.625, 3);
@@ -103,7 +133,15 @@ describe('Pierce capacitor advice (example: CL 8 pF, stray 2.5 pF, E12)', () => 
   it('warns on frequency when the datasheet gives no tolerance, passes when the band is inside it', () => {
     expect(advice.best.checks.frequency.verdict).toBe('warn');
     expect(advice.best.checks.frequency.reason).toMatch(/no datasheet tolerance/);
-    const tol = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 8 * pF, tolerancePpm: 30 }, model: X1, mainBranch: 0, circuit: circuit() }));
+    const tol = ok(
+      advisePierce({
+        partId: 'X1',
+        datasheet: { loadCapacitanceF: 8 * pF, tolerancePpm: 30 },
+        model: X1,
+        mainBranch: 0,
+        circuit: circuit(),
+      }),
+    );
     expect(tol.best.checks.frequency.verdict).toBe('pass');
     expect(tol.equal.checks.frequency.verdict).toBe('warn');
   });
@@ -111,8 +149,23 @@ describe('Pierce capacitor advice (example: CL 8 pF, stray 2.5 pF, E12)', () => 
 
 describe('Pierce gain margin, negative resistance and drive verdicts', () => {
   // Ca = Cb = 24 pF: external 20 pF + 3 pF pin + 1 pF board; CL = 12 pF exactly.
-  const c = circuit({ gmS: 1e-3, inputCapacitanceF: 3 * pF, outputCapacitanceF: 3 * pF, boardStrayF: 1 * pF, pinToPinStrayF: 0, series: 'E24' });
-  const a = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 12 * pF, esrMaxOhm: 40, driveMaxW: 10e-6 }, model: X1, mainBranch: 0, circuit: c }));
+  const c = circuit({
+    gmS: 1e-3,
+    inputCapacitanceF: 3 * pF,
+    outputCapacitanceF: 3 * pF,
+    boardStrayF: 1 * pF,
+    pinToPinStrayF: 0,
+    series: 'E24',
+  });
+  const a = ok(
+    advisePierce({
+      partId: 'X1',
+      datasheet: { loadCapacitanceF: 12 * pF, esrMaxOhm: 40, driveMaxW: 10e-6 },
+      model: X1,
+      mainBranch: 0,
+      circuit: c,
+    }),
+  );
 
   it('includes pin and board capacitance in Ca and Cb (20 pF external → 24 pF each side)', () => {
     expect(a.best.inputCapF).toBe(20 * pF);
@@ -134,23 +187,51 @@ describe('Pierce gain margin, negative resistance and drive verdicts', () => {
     expect(a.best.driveW / 1e-6).toBeCloseTo(5.625 * 3.3 ** 2 * (a.best.freqHz / x1.fsHz) ** 2, 6);
     expect(a.best.checks.drive.verdict).toBe('warn');
     expect(a.assumptions.join(' ')).toMatch(/assumed equal to the supply/);
-    const low = ok(advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 12 * pF, driveMaxW: 100e-6 }, model: X1, mainBranch: 0, circuit: { ...c, swingVpp: 1, gmS: 20e-3 } }));
+    const low = ok(
+      advisePierce({
+        partId: 'X1',
+        datasheet: { loadCapacitanceF: 12 * pF, driveMaxW: 100e-6 },
+        model: X1,
+        mainBranch: 0,
+        circuit: { ...c, swingVpp: 1, gmS: 20e-3 },
+      }),
+    );
     expect(low.best.checks.drive.verdict).toBe('pass');
     expect(low.best.checks.gainMargin.verdict).toBe('pass');
   });
   it('fails with a reason when the strays alone exceed the load capacitance', () => {
-    const r = advisePierce({ partId: 'X1', datasheet: { loadCapacitanceF: 4 * pF }, model: X1, mainBranch: 0, circuit: { ...c, inputCapacitanceF: 10 * pF, outputCapacitanceF: 10 * pF } });
+    const r = advisePierce({
+      partId: 'X1',
+      datasheet: { loadCapacitanceF: 4 * pF },
+      model: X1,
+      mainBranch: 0,
+      circuit: { ...c, inputCapacitanceF: 10 * pF, outputCapacitanceF: 10 * pF },
+    });
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.reason).toMatch(/already reach the load capacitance/);
   });
   it('fails with a reason for a series-calibrated part whose frequency a Pierce circuit cannot reach', () => {
-    const r = advisePierce({ partId: 'X1', datasheet: { frequencyHz: x1.fsHz, loadCapacitanceF: 'series' }, model: X1, mainBranch: 0, circuit: c });
+    const r = advisePierce({
+      partId: 'X1',
+      datasheet: { frequencyHz: x1.fsHz, loadCapacitanceF: 'series' },
+      model: X1,
+      mainBranch: 0,
+      circuit: c,
+    });
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.reason).toMatch(/series resonance/);
   });
   it('aims at the datasheet frequency when given and reports the ideal CL for this sample', () => {
     const target = loadFrequencyHz(x1, X1.c0F, 9 * pF);
-    const r = ok(advisePierce({ partId: 'X1', datasheet: { frequencyHz: target, loadCapacitanceF: 8 * pF }, model: X1, mainBranch: 0, circuit: c }));
+    const r = ok(
+      advisePierce({
+        partId: 'X1',
+        datasheet: { frequencyHz: target, loadCapacitanceF: 8 * pF },
+        model: X1,
+        mainBranch: 0,
+        circuit: c,
+      }),
+    );
     expect(r.target.targetBasis).toBe('datasheet frequency');
     expect(r.target.idealLoadF / pF).toBeCloseTo(9, 9);
   });

@@ -5,11 +5,17 @@ import { modeOf, sampleOf } from '../osc/sample-fixtures.ts';
 import { OT3, OT3_LABELS } from '../models/spice-cases.ts';
 
 function ot3Sample(id = 'B1', hints: MainModeHints = {}) {
-  return sampleOf(id, OT3, OT3.branches.map((b, i) => modeOf(b, OT3.c0F, OT3_LABELS[i].overtone, OT3_LABELS[i].spurious)), {}, hints);
+  return sampleOf(
+    id,
+    OT3,
+    OT3.branches.map((b, i) => modeOf(b, OT3.c0F, OT3_LABELS[i].overtone, OT3_LABELS[i].spurious)),
+    {},
+    hints,
+  );
 }
 
 describe('modelFromResult', () => {
-  it('labels the datasheet overtone\'s mode as main and keeps every mode by default', () => {
+  it("labels the datasheet overtone's mode as main and keeps every mode by default", () => {
     const m = modelFromResult(ot3Sample('B1', { overtone: 3 }));
     expect(m.model.branches).toHaveLength(3);
     expect(m.mainIndex).toBe(1);
@@ -29,7 +35,9 @@ describe('modelFromResult', () => {
     expect(m.mainRule).toBe('recorded');
   });
   it('keeps only the main mode, or drops spurious modes, when asked', () => {
-    expect(modelFromResult(ot3Sample('B1', { frequencyHz: 100e6 }), { mainModeOnly: true }).model.branches).toEqual([OT3.branches[1]]);
+    expect(modelFromResult(ot3Sample('B1', { frequencyHz: 100e6 }), { mainModeOnly: true }).model.branches).toEqual([
+      OT3.branches[1],
+    ]);
     expect(modelFromResult(ot3Sample(), { includeSpurious: false }).model.branches).toEqual(OT3.branches.slice(0, 2));
   });
 });
@@ -38,17 +46,29 @@ describe('medianModel', () => {
   it('takes the median of each parameter per mode across samples, and C0', () => {
     const shift = (k: number) => ({
       c0F: OT3.c0F * (1 + k * 0.01),
-      branches: OT3.branches.map((b) => ({ fsHz: b.fsHz * (1 + k * 1e-6), r1Ohm: b.r1Ohm * (1 + k * 0.1), c1F: b.c1F * (1 + k * 0.02) })),
+      branches: OT3.branches.map((b) => ({
+        fsHz: b.fsHz * (1 + k * 1e-6),
+        r1Ohm: b.r1Ohm * (1 + k * 0.1),
+        c1F: b.c1F * (1 + k * 0.02),
+      })),
     });
     const samples = [3, -1, 0].map((k, i) => {
       const m = shift(k);
-      return sampleOf(`S${i}`, m, m.branches.map((b, j) => modeOf(b, m.c0F, OT3_LABELS[j].overtone, OT3_LABELS[j].spurious)));
+      return sampleOf(
+        `S${i}`,
+        m,
+        m.branches.map((b, j) => modeOf(b, m.c0F, OT3_LABELS[j].overtone, OT3_LABELS[j].spurious)),
+      );
     });
     const med = medianModel(samples, { overtone: 3 });
     expect(med.n).toBe(3);
     expect(med.model.c0F).toBe(OT3.c0F);
     expect(med.model.branches).toEqual(OT3.branches);
-    expect(med.labels.map((l) => [l.overtone, l.spurious, l.main])).toEqual([[1, false, false], [3, false, true], [3, true, false]]);
+    expect(med.labels.map((l) => [l.overtone, l.spurious, l.main])).toEqual([
+      [1, false, false],
+      [3, false, true],
+      [3, true, false],
+    ]);
     expect(med.counts).toEqual([3, 3, 3]);
   });
   it('leaves out a mode that fewer than half of the samples have', () => {

@@ -3,7 +3,12 @@ import { formatParametersCsv, formatParametersJson } from '../../../src/lib/repo
 import { modeOf, sampleOf } from '../osc/sample-fixtures.ts';
 import { OT3, OT3_LABELS, X1 } from '../models/spice-cases.ts';
 
-const ot3 = sampleOf('B1', OT3, OT3.branches.map((b, i) => modeOf(b, OT3.c0F, OT3_LABELS[i].overtone, OT3_LABELS[i].spurious)), { temperatureC: 25 });
+const ot3 = sampleOf(
+  'B1',
+  OT3,
+  OT3.branches.map((b, i) => modeOf(b, OT3.c0F, OT3_LABELS[i].overtone, OT3_LABELS[i].spurious)),
+  { temperatureC: 25 },
+);
 
 describe('parameter export', () => {
   it('writes CSV with a unit-bearing header and one row per mode', () => {

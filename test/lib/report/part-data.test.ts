@@ -68,16 +68,34 @@ describe('makePartData', () => {
   it('gives the Pierce advice of the advice code for each circuit', () => {
     const { data } = x1Part();
     expect(data.pierce).toHaveLength(1);
-    const direct = advisePierce({ partId: 'XT-0001', datasheet: data.calculator!.datasheet, model: data.calculator!.model, mainBranch: 0, circuit: DEMO_CIRCUIT });
+    const direct = advisePierce({
+      partId: 'XT-0001',
+      datasheet: data.calculator!.datasheet,
+      model: data.calculator!.model,
+      mainBranch: 0,
+      circuit: DEMO_CIRCUIT,
+    });
     expect(data.pierce[0]).toEqual(JSON.parse(JSON.stringify(direct)));
   });
 
   it('lists downloads with their sizes and lot statistics for two samples', () => {
     const { data, downloads } = x1Part();
     const names = data.downloads.map((d) => d.name);
-    expect(names).toEqual(expect.arrayContaining(['XT-0001.cir', 'XT-0001-main.cir', 'XT-0001-model.s1p', 'XT-0001-parameters.json', 'XT-0001-parameters.csv', 'raw/part.yaml', 'raw/s1-mode1.csv']));
+    expect(names).toEqual(
+      expect.arrayContaining([
+        'XT-0001.cir',
+        'XT-0001-main.cir',
+        'XT-0001-model.s1p',
+        'XT-0001-parameters.json',
+        'XT-0001-parameters.csv',
+        'raw/part.yaml',
+        'raw/s1-mode1.csv',
+      ]),
+    );
     const cir = downloads.find((d) => d.name === 'XT-0001.cir')!;
-    expect(data.downloads.find((d) => d.name === 'XT-0001.cir')!.bytes).toBe(new TextEncoder().encode(cir.content).length);
+    expect(data.downloads.find((d) => d.name === 'XT-0001.cir')!.bytes).toBe(
+      new TextEncoder().encode(cir.content).length,
+    );
     expect(data.lotStats?.n).toBe(2);
   });
 });
@@ -86,7 +104,17 @@ describe('makeIndexEntry', () => {
   it('carries the main mode, samples, overtone, state and a plain notes excerpt', () => {
     const { data } = x1Part();
     const e = makeIndexEntry(data);
-    expect(e).toMatchObject({ id: 'XT-0001', kind: 'quartz-at', package: '3225', samples: 2, overtone: 1, r1Ohm: 20, c0F: 3e-12, c1F: 1e-14, synthetic: true });
+    expect(e).toMatchObject({
+      id: 'XT-0001',
+      kind: 'quartz-at',
+      package: '3225',
+      samples: 2,
+      overtone: 1,
+      r1Ohm: 20,
+      c0F: 3e-12,
+      c1F: 1e-14,
+      synthetic: true,
+    });
     expect(e.fsHz).toBe(data.summary.fsHz);
     expect(['pass', 'fail', 'unknown', 'warnings']).toContain(e.state);
     expect(e.notes).toBe('Reference part X1. See the guide.');

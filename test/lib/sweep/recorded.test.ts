@@ -29,7 +29,17 @@
  * exercised where they are worst conditioned (|Z| ≈ 5.6e5 Ω at fa).
  */
 import { describe, expect, it } from 'vitest';
-import { compose, dZdMAbs, IDENTITY, impedanceRecord, mapAt, recordedFor, setMap, type Bilinear, type RecordedQuantity } from '../../../src/lib/sweep/recorded.ts';
+import {
+  compose,
+  dZdMAbs,
+  IDENTITY,
+  impedanceRecord,
+  mapAt,
+  recordedFor,
+  setMap,
+  type Bilinear,
+  type RecordedQuantity,
+} from '../../../src/lib/sweep/recorded.ts';
 import { networkToImpedance, type FixtureKind } from '../../../src/lib/fixture/to-impedance.ts';
 import { compensateOpenShort, compensateOpenShortLoad } from '../../../src/lib/fixture/compensation.ts';
 import { impedanceAt, type BvdModel } from '../../../src/lib/models/bvd.ts';
@@ -37,7 +47,10 @@ import type { ImpedanceSweep, NetworkData } from '../../../src/lib/sweep/sweep.t
 import { gaussian } from '../../support/rng.ts';
 
 // ---- complex arithmetic, written here so the checks do not lean on src/lib/sweep/complex.ts
-interface C { re: number; im: number }
+interface C {
+  re: number;
+  im: number;
+}
 const c = (re: number, im = 0): C => ({ re, im });
 const add = (x: C, y: C): C => c(x.re + y.re, x.im + y.im);
 const sub = (x: C, y: C): C => c(x.re - y.re, x.im - y.im);
@@ -153,7 +166,10 @@ const CASES: FixtureCase[] = (() => {
     recordedOfZ: gamma(50),
     closedForm: (z) => abs2(add(z, c(50))) / 100,
   });
-  for (const [z01, z02] of [[50, 50], [50, 75]] as const) {
+  for (const [z01, z02] of [
+    [50, 50],
+    [50, 75],
+  ] as const) {
     const r = Math.sqrt(z01 * z02);
     const P = z01 * z02;
     const S = z01 + z02;
@@ -233,7 +249,8 @@ describe('recorded quantity of every fixture conversion', () => {
         expect(rec.re.length).toBe(n);
         expect(rec.map.length).toBe(8 * n);
         let worst = 0;
-        for (let i = 0; i < n; i++) worst = Math.max(worst, relErr(c(rec.re[i], rec.im[i]), k.recordedOfZ(Z_DUT[i], FREQ[i])));
+        for (let i = 0; i < n; i++)
+          worst = Math.max(worst, relErr(c(rec.re[i], rec.im[i]), k.recordedOfZ(Z_DUT[i], FREQ[i])));
         expect(worst).toBeLessThan(1e-12);
       });
 
@@ -323,11 +340,17 @@ describe('compose, IDENTITY, impedanceRecord', () => {
       const outer = randomMap();
       const inner = randomMap();
       const m = c(rnd(), rnd());
-      const rec: RecordedQuantity = { name: 'Z', re: Float64Array.of(m.re), im: Float64Array.of(m.im), map: new Float64Array(8) };
+      const rec: RecordedQuantity = {
+        name: 'Z',
+        re: Float64Array.of(m.re),
+        im: Float64Array.of(m.im),
+        map: new Float64Array(8),
+      };
       setMap(rec.map, 0, compose(outer, inner));
       const dInner = abs(sub(mul(inner[0], inner[3]), mul(inner[1], inner[2]))) / abs2(add(mul(inner[2], m), inner[3]));
       const mid = apply(inner, m);
-      const dOuter = abs(sub(mul(outer[0], outer[3]), mul(outer[1], outer[2]))) / abs2(add(mul(outer[2], mid), outer[3]));
+      const dOuter =
+        abs(sub(mul(outer[0], outer[3]), mul(outer[1], outer[2]))) / abs2(add(mul(outer[2], mid), outer[3]));
       expect(dZdMAbs(rec, 0, m.re, m.im) / (dInner * dOuter)).toBeCloseTo(1, 9);
     }
   });
@@ -360,7 +383,8 @@ describe('compensation composes its map with the fixture map', () => {
   const zsAt = (f: number) => c(RS, 2 * Math.PI * f * LS);
   const yoAt = (f: number) => c(0, 2 * Math.PI * f * CP);
   /** What the instrument sees: Zs + 1/(Yo + 1/Zdut); open: Zs + 1/Yo; short: Zs. */
-  const seen = (z: C | 'open', f: number): C => (z === 'open' ? add(zsAt(f), div(ONE, yoAt(f))) : add(zsAt(f), div(ONE, add(yoAt(f), div(ONE, z)))));
+  const seen = (z: C | 'open', f: number): C =>
+    z === 'open' ? add(zsAt(f), div(ONE, yoAt(f))) : add(zsAt(f), div(ONE, add(yoAt(f), div(ONE, z))));
   const record = (z: (f: number, i: number) => C, source: string): ImpedanceSweep => {
     const re = new Float64Array(FREQ.length);
     const im = new Float64Array(FREQ.length);
@@ -369,7 +393,11 @@ describe('compensation composes its map with the fixture map', () => {
       re[i] = s.re;
       im[i] = s.im;
     });
-    return networkToImpedance({ parameter: 'S', ports: 1, z0Ohm: [Z0], freqHz: FREQ, re: [re], im: [im], source, format: 'test', comments: [] }, 'reflection', source);
+    return networkToImpedance(
+      { parameter: 'S', ports: 1, z0Ohm: [Z0], freqHz: FREQ, re: [re], im: [im], source, format: 'test', comments: [] },
+      'reflection',
+      source,
+    );
   };
   const dut = record((f, i) => seen(Z_DUT[i], f), 'dut');
   const open = record((f) => seen('open', f), 'open');
@@ -378,20 +406,28 @@ describe('compensation composes its map with the fixture map', () => {
   const std = (s: ImpedanceSweep, i: number) => c(s.zRe[i], s.zIm[i]);
 
   /** Open/short, exact form: Zdut = (Zm − Zsm)/(1 − (Zm − Zsm)·Yo), Yo = 1/(Zom − Zsm). */
-  const openShort = (i: number) => (zm: C): C => {
-    const d = sub(zm, std(short, i));
-    const yo = div(ONE, sub(std(open, i), std(short, i)));
-    return div(d, sub(ONE, mul(d, yo)));
-  };
+  const openShort =
+    (i: number) =>
+    (zm: C): C => {
+      const d = sub(zm, std(short, i));
+      const yo = div(ONE, sub(std(open, i), std(short, i)));
+      return div(d, sub(ONE, mul(d, yo)));
+    };
   /** Open/short/load: Zdut = Zstd·(Zom − Zlm)(Zm − Zsm)/((Zlm − Zsm)(Zom − Zm)). */
-  const openShortLoad = (i: number) => (zm: C): C => {
-    const [zo, zs, zl] = [std(open, i), std(short, i), std(load, i)];
-    return div(mul(scale(sub(zo, zl), LOAD), sub(zm, zs)), mul(sub(zl, zs), sub(zo, zm)));
-  };
+  const openShortLoad =
+    (i: number) =>
+    (zm: C): C => {
+      const [zo, zs, zl] = [std(open, i), std(short, i), std(load, i)];
+      return div(mul(scale(sub(zo, zl), LOAD), sub(zm, zs)), mul(sub(zl, zs), sub(zo, zm)));
+    };
 
   const variants = [
     { label: 'open/short', run: () => compensateOpenShort(dut, open, short), formula: openShort },
-    { label: 'open/short/load', run: () => compensateOpenShortLoad(dut, open, short, load, LOAD), formula: openShortLoad },
+    {
+      label: 'open/short/load',
+      run: () => compensateOpenShortLoad(dut, open, short, load, LOAD),
+      formula: openShortLoad,
+    },
   ];
   for (const v of variants) {
     describe(v.label, () => {
@@ -443,7 +479,11 @@ describe('compensation composes its map with the fixture map', () => {
           const got = dZdMAbs(rec, i, m.re, m.im);
           worstChain = Math.max(worstChain, Math.abs(got - d1 * d2) / (d1 * d2));
           // the whole chain at once: S11 → Zm → Zdut
-          const whole = centralDifferenceAbs((x) => comp(apply(fixtureMap, x)), m, Math.min(safeScale(fixtureMap, m), safeScale(mapAt(rec, i), m)));
+          const whole = centralDifferenceAbs(
+            (x) => comp(apply(fixtureMap, x)),
+            m,
+            Math.min(safeScale(fixtureMap, m), safeScale(mapAt(rec, i), m)),
+          );
           worstWhole = Math.max(worstWhole, Math.abs(got - whole) / whole);
         }
         expect(worstChain).toBeLessThan(1e-6);

@@ -37,7 +37,13 @@ const FORMAT: Record<Fixture, { ext: string; format: SynthFileFormat }> = {
  * Write a one-sample part with a narrow sweep around fs in `fixture` and a wide sweep (C0 and
  * the anti-resonance) in `wideFixture`; returns its folder.
  */
-function writePart(name: string, fixture: Fixture, wideFixture: Fixture, noiseDb: number, parasitics?: FixtureParasitics): string {
+function writePart(
+  name: string,
+  fixture: Fixture,
+  wideFixture: Fixture,
+  noiseDb: number,
+  parasitics?: FixtureParasitics,
+): string {
   const dir = join(ROOT, name);
   mkdirSync(dir);
   const plan: Array<[string, FreqGridSpec, Fixture]> = [
@@ -47,7 +53,15 @@ function writePart(name: string, fixture: Fixture, wideFixture: Fixture, noiseDb
   const sweeps = plan.map(([label, grid, fx], i) => {
     const { ext, format } = FORMAT[fx];
     const file = `${label}.${ext}`;
-    const s = synthesizeSweep({ model: X1, grid, fixture: fx, parasitics, noiseDb, seed: 100 + i, freqResolutionHz: 0.001 });
+    const s = synthesizeSweep({
+      model: X1,
+      grid,
+      fixture: fx,
+      parasitics,
+      noiseDb,
+      seed: 100 + i,
+      freqResolutionHz: 0.001,
+    });
     writeFileSync(join(dir, file), formatSynthFile(s, format));
     return { file, fixture: fx };
   });
@@ -57,14 +71,24 @@ function writePart(name: string, fixture: Fixture, wideFixture: Fixture, noiseDb
     const wide = wideGrid(X1);
     if (wide.kind !== 'linear') throw new Error('expected a linear wide grid');
     const comp = synthesizeCompensation({
-      parasitics, fixture, noiseDb: noiseDb - 10, seed: 7, freqResolutionHz: 0.001,
+      parasitics,
+      fixture,
+      noiseDb: noiseDb - 10,
+      seed: 7,
+      freqResolutionHz: 0.001,
       grid: { kind: 'linear', startHz: wide.startHz - 5e3, stopHz: wide.stopHz + 5e3, points: 401 },
     });
     writeFileSync(join(dir, `open.${ext}`), formatSynthFile(comp.open, format));
     writeFileSync(join(dir, `short.${ext}`), formatSynthFile(comp.short, format));
     sample.compensation = { open: `open.${ext}`, short: `short.${ext}` };
   }
-  const record = { id: name, title: `synthetic ${fixture} test part`, kind: 'quartz-at', synthetic: true, samples: [sample] };
+  const record = {
+    id: name,
+    title: `synthetic ${fixture} test part`,
+    kind: 'quartz-at',
+    synthetic: true,
+    samples: [sample],
+  };
   writeFileSync(join(dir, 'part.yaml'), stringify(record));
   return dir;
 }
@@ -96,7 +120,11 @@ describe('generator → files → loader → extraction', () => {
     }
     it(`recovers X1 through a fixture with residuals and open/short compensation at ${noiseDb} dB noise`, async () => {
       // Residuals of the check fixture: Rs = 0.5 Ω, Ls = 5 nH, Cp = 1 pF.
-      const dir = writePart(`compensated${noiseDb}`, 'series-thru', 'series-thru', noiseDb, { rsOhm: 0.5, lsH: 5e-9, cpF: 1e-12 });
+      const dir = writePart(`compensated${noiseDb}`, 'series-thru', 'series-thru', noiseDb, {
+        rsOhm: 0.5,
+        lsH: 5e-9,
+        cpF: 1e-12,
+      });
       expect(await recover(dir)).toEqual([]);
     });
   }

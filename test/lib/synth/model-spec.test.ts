@@ -20,9 +20,18 @@ describe('parseModelSpec', () => {
 
   it('names the bad token and what was expected', () => {
     expect(parseModelSpec('fs=16MHz r1=20 c1=10f')).toEqual({ ok: false, message: 'expected c0, e.g. "c0=3p"' });
-    expect(parseModelSpec('fs=16MHz r1=20pF c1=10f c0=3p')).toMatchObject({ ok: false, message: expect.stringContaining('r1: expected a resistance') });
-    expect(parseModelSpec('fs=16MHz q=20 c0=3p')).toMatchObject({ ok: false, message: expect.stringContaining('unknown key "q"') });
-    expect(parseModelSpec('fs=16MHz r1=20 c1=10f l1=1m c0=3p')).toMatchObject({ ok: false, message: expect.stringContaining('exactly one of c1 or l1') });
+    expect(parseModelSpec('fs=16MHz r1=20pF c1=10f c0=3p')).toMatchObject({
+      ok: false,
+      message: expect.stringContaining('r1: expected a resistance'),
+    });
+    expect(parseModelSpec('fs=16MHz q=20 c0=3p')).toMatchObject({
+      ok: false,
+      message: expect.stringContaining('unknown key "q"'),
+    });
+    expect(parseModelSpec('fs=16MHz r1=20 c1=10f l1=1m c0=3p')).toMatchObject({
+      ok: false,
+      message: expect.stringContaining('exactly one of c1 or l1'),
+    });
   });
 });
 

@@ -63,7 +63,11 @@ describe('formatSynthFile', () => {
     [{ kind: 'touchstone', version: 2, format: 'MA', freqUnit: 'MHz' }, { fixture: 'series-thru' }, 'a.ts'],
     [{ kind: 'touchstone', version: 2, format: 'RI', freqUnit: 'Hz' }, { fixture: 'reflection' }, 'a.ts'],
     [{ kind: 'touchstone', version: 1, format: 'RI', freqUnit: 'Hz' }, { fixture: 'impedance' }, 'a.s1p'],
-    [{ kind: 'touchstone', version: 2, format: 'MA', freqUnit: 'kHz' }, { fixture: 'impedance', parameter: 'Y' }, 'a.ts'],
+    [
+      { kind: 'touchstone', version: 2, format: 'MA', freqUnit: 'kHz' },
+      { fixture: 'impedance', parameter: 'Y' },
+      'a.ts',
+    ],
   ];
   for (const [fmt, over, name] of TOUCHSTONE) {
     it(`Touchstone v${fmt.version} ${fmt.format} ${fmt.freqUnit} (${over.fixture}${over.parameter ? ` ${over.parameter}` : ''}) reads back to the same impedance`, () => {
@@ -97,7 +101,8 @@ describe('formatSynthFile', () => {
     const row = text.split('\n').find((l) => /^\d/.test(l))!;
     const [f, ...values] = row.split(' ');
     expect(Number(f)).toBe(s.network.freqHz[0]);
-    for (const v of values) expect(v.replace(/^-/, '').replace(/e.*$/, '').replace('.', '').replace(/^0+/, '').length).toBeLessThanOrEqual(9);
+    for (const v of values)
+      expect(v.replace(/^-/, '').replace(/e.*$/, '').replace('.', '').replace(/^0+/, '').length).toBeLessThanOrEqual(9);
     const back = parseTouchstone(text, 'a.s1p');
     expect(Math.abs(back.re[0][0] - s.network.re[0][0])).toBeLessThan(1e-9);
   });

@@ -20,7 +20,10 @@ const FREQ = Float64Array.from({ length: N }, (_, i) => 1e6 + i);
 const SE_MEAN = 1 / Math.sqrt(N); // relative SE of mean |n|²
 const SE_COMPONENT = Math.sqrt(2 / N); // relative SE of one component's mean square
 
-interface C { re: number; im: number }
+interface C {
+  re: number;
+  im: number;
+}
 const Z: C = { re: 30, im: 40 }; // |Z| = 50 Ω
 
 /** Noise statistics of entry k of a record of the constant value x. */
@@ -66,11 +69,41 @@ const abs2 = (z: C) => z.re * z.re + z.im * z.im;
 
 describe('floor: E|n|² = 10^(floorDb/10) in units of the recorded quantity', () => {
   const cases: Array<{ label: string; opts: RecordOptions; k: number; x: C; unit: number }> = [
-    { label: 'reflection S11 (unitless)', opts: { fixture: 'reflection', floorDb: -40 }, k: 0, x: gammaOf(Z, 50), unit: 1 },
-    { label: 'series-through S21 (unitless)', opts: { fixture: 'series-thru', floorDb: -60 }, k: 2, x: { re: 100 * 130 / (130 ** 2 + 40 ** 2), im: -100 * 40 / (130 ** 2 + 40 ** 2) }, unit: 1 },
-    { label: 'impedance Z record, z0Ohm 50: Ω of the 50 Ω range', opts: { fixture: 'impedance', parameter: 'Z', floorDb: -40 }, k: 0, x: Z, unit: 50 },
-    { label: 'impedance Z record, z0Ohm 1000', opts: { fixture: 'impedance', parameter: 'Z', z0Ohm: 1000, floorDb: -40 }, k: 0, x: Z, unit: 1000 },
-    { label: 'impedance Y record, z0Ohm 50: S of 1/50 Ω', opts: { fixture: 'impedance', parameter: 'Y', floorDb: -40 }, k: 0, x: inv(Z), unit: 1 / 50 },
+    {
+      label: 'reflection S11 (unitless)',
+      opts: { fixture: 'reflection', floorDb: -40 },
+      k: 0,
+      x: gammaOf(Z, 50),
+      unit: 1,
+    },
+    {
+      label: 'series-through S21 (unitless)',
+      opts: { fixture: 'series-thru', floorDb: -60 },
+      k: 2,
+      x: { re: (100 * 130) / (130 ** 2 + 40 ** 2), im: (-100 * 40) / (130 ** 2 + 40 ** 2) },
+      unit: 1,
+    },
+    {
+      label: 'impedance Z record, z0Ohm 50: Ω of the 50 Ω range',
+      opts: { fixture: 'impedance', parameter: 'Z', floorDb: -40 },
+      k: 0,
+      x: Z,
+      unit: 50,
+    },
+    {
+      label: 'impedance Z record, z0Ohm 1000',
+      opts: { fixture: 'impedance', parameter: 'Z', z0Ohm: 1000, floorDb: -40 },
+      k: 0,
+      x: Z,
+      unit: 1000,
+    },
+    {
+      label: 'impedance Y record, z0Ohm 50: S of 1/50 Ω',
+      opts: { fixture: 'impedance', parameter: 'Y', floorDb: -40 },
+      k: 0,
+      x: inv(Z),
+      unit: 1 / 50,
+    },
   ];
   for (const c of cases) {
     it(c.label, () => {
@@ -120,7 +153,7 @@ describe('trace: E|n|² = (traceNoise·|x|)²', () => {
 
   it('2-port records: every entry gets its own draw (S21 and S12 noises uncorrelated)', () => {
     const rec = recordImpedances(FREQ, new Array(N).fill(Z), { fixture: 'series-thru', floorDb: -40, seed: 9 });
-    const x21 = { re: 100 * 130 / (130 ** 2 + 40 ** 2), im: -100 * 40 / (130 ** 2 + 40 ** 2) };
+    const x21 = { re: (100 * 130) / (130 ** 2 + 40 ** 2), im: (-100 * 40) / (130 ** 2 + 40 ** 2) };
     let cross = 0;
     for (let i = 0; i < N; i++) cross += (rec.network.re[1][i] - x21.re) * (rec.network.re[2][i] - x21.re);
     // correlation coefficient of two independent samples: SE 1/√N
@@ -128,7 +161,9 @@ describe('trace: E|n|² = (traceNoise·|x|)²', () => {
   });
 
   it('a negative trace is refused', () => {
-    expect(() => recordImpedances(FREQ.slice(0, 3), [Z, Z, Z], { fixture: 'reflection', traceNoise: -1e-3 })).toThrow(/trace/);
+    expect(() => recordImpedances(FREQ.slice(0, 3), [Z, Z, Z], { fixture: 'reflection', traceNoise: -1e-3 })).toThrow(
+      /trace/,
+    );
   });
 });
 
@@ -142,10 +177,18 @@ describe('noiseDb: the older relative-only form x + |x|·σ·(g1 + j·g2), σ = 
 
   it('relative only: a zero recorded value stays exactly zero (Z = Z0 gives S11 = 0); a floor does not', () => {
     const z0 = { re: 50, im: 0 };
-    const only = recordImpedances(FREQ.slice(0, 100), new Array(100).fill(z0), { fixture: 'reflection', noiseDb: -40, seed: 2 });
+    const only = recordImpedances(FREQ.slice(0, 100), new Array(100).fill(z0), {
+      fixture: 'reflection',
+      noiseDb: -40,
+      seed: 2,
+    });
     expect(only.network.re[0].every((v) => v === 0)).toBe(true);
     expect(only.network.im[0].every((v) => v === 0)).toBe(true);
-    const floor = recordImpedances(FREQ.slice(0, 100), new Array(100).fill(z0), { fixture: 'reflection', floorDb: -40, seed: 2 });
+    const floor = recordImpedances(FREQ.slice(0, 100), new Array(100).fill(z0), {
+      fixture: 'reflection',
+      floorDb: -40,
+      seed: 2,
+    });
     expect(floor.network.re[0].some((v) => v !== 0)).toBe(true);
   });
 
@@ -158,7 +201,13 @@ describe('noiseDb: the older relative-only form x + |x|·σ·(g1 + j·g2), σ = 
 
 describe('seeded noise', () => {
   const X1: BvdModel = { c0F: 3e-12, branches: [{ fsHz: 1e8 / (2 * Math.PI), r1Ohm: 20, c1F: 10e-15 }] };
-  const spec = { model: X1, fixture: 'series-thru' as const, grid: { kind: 'centered' as const, centerHz: 1e8 / (2 * Math.PI), spanHz: 5000, points: 201 }, floorDb: -70, traceNoise: 1e-3 };
+  const spec = {
+    model: X1,
+    fixture: 'series-thru' as const,
+    grid: { kind: 'centered' as const, centerHz: 1e8 / (2 * Math.PI), spanHz: 5000, points: 201 },
+    floorDb: -70,
+    traceNoise: 1e-3,
+  };
   const file = (seed?: number) => {
     const s = synthesizeSweep({ ...spec, seed });
     return formatSynthFile(s, { kind: 'touchstone', version: 1, format: 'RI' });

@@ -51,7 +51,11 @@ describe('synthesizeSweep, noiseless', () => {
   for (const c of CASES) {
     const name = `${c.fixture}${c.ports ? ` ${c.ports}-port` : ''}${c.parameter ? ` ${c.parameter}` : ''}`;
     it(`${name}: the recorded network converts back to the model impedance within 1e-12 around fs`, () => {
-      const s = synthesizeSweep({ model: X1, grid: { kind: 'centered', centerHz: X1_FS, spanHz: 3000, points: 301 }, ...c });
+      const s = synthesizeSweep({
+        model: X1,
+        grid: { kind: 'centered', centerHz: X1_FS, spanHz: 3000, points: 301 },
+        ...c,
+      });
       // Inverse conversion written independently (src/lib/fixture/to-impedance.ts, conversions derived from the circuit).
       const back = networkToImpedance(s.network, c.fixture, 'x');
       expect(maxRelativeError(back, s.part)).toBeLessThan(1e-12);
@@ -59,10 +63,16 @@ describe('synthesizeSweep, noiseless', () => {
     });
 
     it(`${name}: around fp (|Z| ≈ 550 kΩ) the round trip is exact to the conditioning of the inverse formula`, () => {
-      const s = synthesizeSweep({ model: X1, grid: { kind: 'centered', centerHz: X1_FP, spanHz: 3000, points: 301 }, ...c });
+      const s = synthesizeSweep({
+        model: X1,
+        grid: { kind: 'centered', centerHz: X1_FP, spanHz: 3000, points: 301 },
+        ...c,
+      });
       const back = networkToImpedance(s.network, c.fixture, 'x');
       for (let i = 0; i < back.freqHz.length; i++) {
-        const err = Math.hypot(back.zRe[i] - s.part.zRe[i], back.zIm[i] - s.part.zIm[i]) / Math.hypot(s.part.zRe[i], s.part.zIm[i]);
+        const err =
+          Math.hypot(back.zRe[i] - s.part.zRe[i], back.zIm[i] - s.part.zIm[i]) /
+          Math.hypot(s.part.zRe[i], s.part.zIm[i]);
         // Relative condition number of Z(S) (derived from the fixture conversions): reflection 2|S|/|1 − S²|,
         // series-thru 1/|1 − S21|, shunt-thru 1/|1 − S21|; 1 for Z/Y records.
         expect(err).toBeLessThan(32 * Number.EPSILON * (1 + conditionOf(s.network, c.fixture, i)));
@@ -140,9 +150,18 @@ describe('synthesizeSweep, fixture parasitics and added capacitors', () => {
   it('open/short sweeps of the same fixture compensate back to the part (exact O/S)', () => {
     const parasitics = { rsOhm: 0.5, lsH: 5e-9, cpF: 1e-12 };
     for (const fixture of ['reflection', 'series-thru', 'shunt-thru', 'impedance'] as const) {
-      const s = synthesizeSweep({ model: X1, grid: { kind: 'centered', centerHz: X1_FS, spanHz: 60e3, points: 401 }, fixture, parasitics });
+      const s = synthesizeSweep({
+        model: X1,
+        grid: { kind: 'centered', centerHz: X1_FS, spanHz: 60e3, points: 401 },
+        fixture,
+        parasitics,
+      });
       // The standards on their own, coarser grid; the loader interpolates them (linear in f).
-      const comp = synthesizeCompensation({ parasitics, grid: { kind: 'centered', centerHz: X1_FS, spanHz: 80e3, points: 81 }, fixture });
+      const comp = synthesizeCompensation({
+        parasitics,
+        grid: { kind: 'centered', centerHz: X1_FS, spanHz: 80e3, points: 81 },
+        fixture,
+      });
       const zm = networkToImpedance(s.network, fixture, 'dut');
       const zo = networkToImpedance(comp.open.network, fixture, 'open');
       const zs = networkToImpedance(comp.short.network, fixture, 'short');
@@ -162,7 +181,12 @@ describe('synthesizeSweep, fixture parasitics and added capacitors', () => {
     const fl = X1_FS * Math.sqrt(1 + 10e-15 / (3e-12 + cl));
     // Bisection on the sign of the reactance (series: a zero; parallel: a pole, so use the admittance).
     const reactanceSign = (connection: 'series' | 'parallel', f: number) => {
-      const s = synthesizeSweep({ model, grid: { kind: 'explicit', freqHz: [f] }, fixture: 'impedance', added: { capacitanceF: cl, connection } });
+      const s = synthesizeSweep({
+        model,
+        grid: { kind: 'explicit', freqHz: [f] },
+        fixture: 'impedance',
+        added: { capacitanceF: cl, connection },
+      });
       const x = s.impedance.zIm[0];
       const r = s.impedance.zRe[0];
       return connection === 'series' ? Math.sign(x) : -Math.sign(x / (r * r + x * x));
@@ -184,7 +208,12 @@ describe('synthesizeSweep, fixture parasitics and added capacitors', () => {
 describe('synthesizeSweep, noise', () => {
   for (const noiseDb of [-80, -70, -60]) {
     it(`adds complex Gaussian noise ${noiseDb} dB relative to each recorded entry`, () => {
-      const base: SynthSweepSpec = { model: X1, grid: { kind: 'centered', centerHz: X1_FS, spanHz: 5000, points: 10001 }, fixture: 'series-thru', seed: 7 };
+      const base: SynthSweepSpec = {
+        model: X1,
+        grid: { kind: 'centered', centerHz: X1_FS, spanHz: 5000, points: 10001 },
+        fixture: 'series-thru',
+        seed: 7,
+      };
       const clean = synthesizeSweep(base).network;
       const noisy = synthesizeSweep({ ...base, noiseDb }).network;
       let power = 0;
@@ -212,7 +241,13 @@ describe('synthesizeSweep, noise', () => {
   }
 
   it('is deterministic per seed and differs between seeds', () => {
-    const spec: SynthSweepSpec = { model: X1, grid: { kind: 'centered', centerHz: X1_FS, spanHz: 3000, points: 101 }, fixture: 'reflection', noiseDb: -70, seed: 3 };
+    const spec: SynthSweepSpec = {
+      model: X1,
+      grid: { kind: 'centered', centerHz: X1_FS, spanHz: 3000, points: 101 },
+      fixture: 'reflection',
+      noiseDb: -70,
+      seed: 3,
+    };
     const a = synthesizeSweep(spec).network;
     const b = synthesizeSweep(spec).network;
     const c = synthesizeSweep({ ...spec, seed: 4 }).network;

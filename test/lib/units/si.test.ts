@@ -66,7 +66,9 @@ describe('parseQuantity', () => {
   });
 
   it('names an unknown unit', () => {
-    expect(message('25 K', 'temperature')).toBe('expected a temperature such as "25 C", got unknown unit "K" in "25 K"');
+    expect(message('25 K', 'temperature')).toBe(
+      'expected a temperature such as "25 C", got unknown unit "K" in "25 K"',
+    );
     expect(message('3 ppb', 'ppm')).toMatch(/unknown unit "ppb"/);
   });
 
@@ -83,7 +85,9 @@ describe('parseQuantity', () => {
   it('reads "mhz" as megahertz and refuses "mHz" as ambiguous', () => {
     // common practice: Touchstone (IBIS spec v2.0) takes units case-insensitively, so "mhz" means MHz there.
     expect(value('12 mhz', 'frequency')).toBe(12e6);
-    expect(message('12 mHz', 'frequency')).toBe('expected a frequency such as "12 MHz", got ambiguous unit "mHz" in "12 mHz" (write MHz for megahertz)');
+    expect(message('12 mHz', 'frequency')).toBe(
+      'expected a frequency such as "12 MHz", got ambiguous unit "mHz" in "12 mHz" (write MHz for megahertz)',
+    );
   });
 
   it('keeps prefix case: m is milli and M is mega', () => {
@@ -110,11 +114,17 @@ describe('parseQuantityRange', () => {
   });
 
   it('refuses a range with the bounds reversed', () => {
-    expect(parseQuantityRange('85 to -40 C', 'temperature')).toEqual({ ok: false, message: 'expected the lower bound first, got "85 to -40 C"' });
+    expect(parseQuantityRange('85 to -40 C', 'temperature')).toEqual({
+      ok: false,
+      message: 'expected the lower bound first, got "85 to -40 C"',
+    });
   });
 
   it('refuses a range without a unit', () => {
-    expect(parseQuantityRange('-40 to 85', 'temperature')).toEqual({ ok: false, message: 'expected a temperature such as "25 C", got "85" with no unit' });
+    expect(parseQuantityRange('-40 to 85', 'temperature')).toEqual({
+      ok: false,
+      message: 'expected a temperature such as "25 C", got "85" with no unit',
+    });
   });
 
   it('names the unit of a range in the wrong dimension', () => {
@@ -124,7 +134,10 @@ describe('parseQuantityRange', () => {
   });
 
   it('refuses text that is not a range', () => {
-    expect(parseQuantityRange('-40 - 85 C', 'temperature')).toEqual({ ok: false, message: 'expected a range such as "-40 to 85 C", got "-40 - 85 C"' });
+    expect(parseQuantityRange('-40 - 85 C', 'temperature')).toEqual({
+      ok: false,
+      message: 'expected a range such as "-40 to 85 C", got "-40 - 85 C"',
+    });
   });
 });
 
@@ -165,7 +178,12 @@ describe('formatSi', () => {
   });
 
   it('round-trips through parseQuantity for plain values', () => {
-    for (const [v, unit, kind] of [[12e6, 'Hz', 'frequency'], [8e-12, 'F', 'capacitance'], [1e-4, 'W', 'power'], [4.7e3, 'Ω', 'resistance']] as Array<[number, string, UnitKind]>) {
+    for (const [v, unit, kind] of [
+      [12e6, 'Hz', 'frequency'],
+      [8e-12, 'F', 'capacitance'],
+      [1e-4, 'W', 'power'],
+      [4.7e3, 'Ω', 'resistance'],
+    ] as Array<[number, string, UnitKind]>) {
       expect(value(formatSi(v, unit), kind) / v).toBeCloseTo(1, 12);
     }
   });
