@@ -10,7 +10,6 @@
  * circuit for which no advice is possible, e.g. strays above the load capacitance), 2 usage.
  */
 import { readFile } from 'node:fs/promises';
-import { parseArgs } from 'node:util';
 import { formatIssue } from '../../src/lib/issues.ts';
 import { readdir } from 'node:fs/promises';
 import { join } from 'node:path';
@@ -26,7 +25,7 @@ import {
   type OscillatorCircuit,
 } from '../../src/lib/schema/oscillators.ts';
 import { formatSi, parseQuantity } from '../../src/lib/units/si.ts';
-import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
+import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, parseCommandArgs, processIo, type CliIo } from './io.ts';
 import { loadChosenModel } from './netlist.ts';
 
 const DEFAULT_CIRCUITS = 'content/oscillators.yaml';
@@ -179,34 +178,27 @@ export function formatAdvice(a: PierceAdvice, sampleText: string): string {
 /** Run `advise` with the arguments after the command name. */
 export async function run(args: string[], io: CliIo = processIo): Promise<number> {
   const flagOptions = Object.fromEntries(Object.keys(CIRCUIT_FLAGS).map((k) => [k, { type: 'string' as const }]));
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args,
-      allowPositionals: true,
-      options: {
-        sample: { type: 'string' },
-        'lot-median': { type: 'boolean' },
-        cl: { type: 'string' },
-        circuits: { type: 'string' },
-        circuit: { type: 'string' },
-        json: { type: 'boolean' },
-        all: { type: 'boolean' },
-        format: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-        ...flagOptions,
-      },
-    });
-  } catch (e) {
-    io.err(`motional advise: ${e instanceof Error ? e.message : String(e)}\n\n${USAGE}`);
-    return EXIT_USAGE;
-  }
+  const parsed = parseCommandArgs(
+    'advise',
+    args,
+    {
+      sample: { type: 'string' },
+      'lot-median': { type: 'boolean' },
+      cl: { type: 'string' },
+      circuits: { type: 'string' },
+      circuit: { type: 'string' },
+      json: { type: 'boolean' },
+      all: { type: 'boolean' },
+      format: { type: 'string' },
+      help: { type: 'boolean', short: 'h' },
+      ...flagOptions,
+    },
+    USAGE,
+    io,
+  );
+  if (typeof parsed === 'number') return parsed;
   const { values: v, positionals } = parsed;
   const flags = v as Record<string, string | boolean | undefined>;
-  if (v.help) {
-    io.out(USAGE);
-    return EXIT_OK;
-  }
   const usageError = (message: string) => (io.err(`motional advise: ${message}\n\n${USAGE}`), EXIT_USAGE);
   if (v.all) return runAll(positionals, flags, io, usageError);
   if (v.format !== undefined) return usageError('--format goes with --all (use --json for one part)');

@@ -9,13 +9,12 @@
  * Exit: 0 done (warnings allowed), 1 bad input (invalid record, or no mode could be
  * extracted from any sample), 2 usage.
  */
-import { parseArgs } from 'node:util';
 import { formatIssue, type Issue } from '../../src/lib/issues.ts';
 import { extractPart } from '../../src/lib/extract/extract-part.ts';
 import { formatExtractText } from '../../src/lib/extract/format-text.ts';
 import type { PartResult } from '../../src/lib/extract/types.ts';
 import { loadPart } from '../../src/pipeline/load-part.ts';
-import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
+import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, parseCommandArgs, processIo, type CliIo } from './io.ts';
 
 export const EXTRACT_USAGE = `usage: motional extract PART [--json] [--sample ID]
 
@@ -38,22 +37,15 @@ export function resultJson(result: PartResult): string {
 
 /** Run `extract` with the arguments after the command name. */
 export async function run(args: string[], io: CliIo = processIo): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args,
-      allowPositionals: true,
-      options: { json: { type: 'boolean' }, sample: { type: 'string' }, help: { type: 'boolean', short: 'h' } },
-    });
-  } catch (e) {
-    io.err(`motional extract: ${e instanceof Error ? e.message : String(e)}\n\n${EXTRACT_USAGE}`);
-    return EXIT_USAGE;
-  }
+  const parsed = parseCommandArgs(
+    'extract',
+    args,
+    { json: { type: 'boolean' }, sample: { type: 'string' }, help: { type: 'boolean', short: 'h' } },
+    EXTRACT_USAGE,
+    io,
+  );
+  if (typeof parsed === 'number') return parsed;
   const { values: v, positionals } = parsed;
-  if (v.help) {
-    io.out(EXTRACT_USAGE);
-    return EXIT_OK;
-  }
   if (positionals.length !== 1) {
     io.err(`motional extract: expected one PART, got ${positionals.length}\n\n${EXTRACT_USAGE}`);
     return EXIT_USAGE;

@@ -7,7 +7,6 @@
  * `.s1p`, or the parameters as CSV / JSON. Exit: 0 done, 1 bad input, 2 usage.
  * The header's date is the sample's `measured` date (never the clock).
  */
-import { parseArgs } from 'node:util';
 import { formatIssue } from '../../src/lib/issues.ts';
 import type { SampleResult } from '../../src/lib/extract/types.ts';
 import { extractPart } from '../../src/lib/extract/extract-part.ts';
@@ -25,7 +24,7 @@ import { netlistInfoOf } from '../../src/lib/report/netlist-info.ts';
 import { inductanceOf, qualityOf } from '../../src/lib/models/bvd.ts';
 import { loadPart } from '../../src/pipeline/load-part.ts';
 import type { MainModeResult } from '../../src/lib/extract/main-mode.ts';
-import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
+import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, parseCommandArgs, processIo, type CliIo } from './io.ts';
 
 const USAGE = `usage: motional netlist PART [options]
 
@@ -142,32 +141,25 @@ const FORMATS = ['spice', 'touchstone', 'csv', 'json'] as const;
 
 /** Run `netlist` with the arguments after the command name. */
 export async function run(args: string[], io: CliIo = processIo): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args,
-      allowPositionals: true,
-      options: {
-        sample: { type: 'string' },
-        'lot-median': { type: 'boolean' },
-        'main-only': { type: 'boolean' },
-        'no-spurious': { type: 'boolean' },
-        format: { type: 'string' },
-        start: { type: 'string' },
-        stop: { type: 'string' },
-        points: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    });
-  } catch (e) {
-    io.err(`motional netlist: ${e instanceof Error ? e.message : String(e)}\n\n${USAGE}`);
-    return EXIT_USAGE;
-  }
+  const parsed = parseCommandArgs(
+    'netlist',
+    args,
+    {
+      sample: { type: 'string' },
+      'lot-median': { type: 'boolean' },
+      'main-only': { type: 'boolean' },
+      'no-spurious': { type: 'boolean' },
+      format: { type: 'string' },
+      start: { type: 'string' },
+      stop: { type: 'string' },
+      points: { type: 'string' },
+      help: { type: 'boolean', short: 'h' },
+    },
+    USAGE,
+    io,
+  );
+  if (typeof parsed === 'number') return parsed;
   const { values: v, positionals } = parsed;
-  if (v.help) {
-    io.out(USAGE);
-    return EXIT_OK;
-  }
   const usageError = (message: string) => (io.err(`motional netlist: ${message}\n\n${USAGE}`), EXIT_USAGE);
   if (positionals.length !== 1) return usageError(`expected one PART, got ${positionals.length}`);
   if (v.sample !== undefined && v['lot-median']) return usageError('--sample and --lot-median exclude each other');

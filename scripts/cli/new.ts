@@ -4,10 +4,9 @@
  * not use with the reason, the path written and what to check next. Exit 0 when written, 1 when
  * nothing was written, 2 on a usage error.
  */
-import { parseArgs } from 'node:util';
 import { PART_KINDS, type PartKind } from '../../src/lib/schema/part.ts';
 import { draftFolder } from '../../src/pipeline/draft-folder.ts';
-import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, processIo, type CliIo } from './io.ts';
+import { EXIT_BAD_INPUT, EXIT_OK, EXIT_USAGE, parseCommandArgs, processIo, type CliIo } from './io.ts';
 
 export const NEW_USAGE = `usage: motional new FOLDER [--id ID] [--kind KIND]
 
@@ -25,22 +24,15 @@ exit status: 0 draft written, 1 nothing written, 2 usage error
 
 /** Run \`new\` with the arguments after the command name. */
 export async function run(args: string[], io: CliIo = processIo): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args,
-      allowPositionals: true,
-      options: { id: { type: 'string' }, kind: { type: 'string' }, help: { type: 'boolean', short: 'h' } },
-    });
-  } catch (e) {
-    io.err(`motional new: ${e instanceof Error ? e.message : String(e)}\n\n${NEW_USAGE}`);
-    return EXIT_USAGE;
-  }
+  const parsed = parseCommandArgs(
+    'new',
+    args,
+    { id: { type: 'string' }, kind: { type: 'string' }, help: { type: 'boolean', short: 'h' } },
+    NEW_USAGE,
+    io,
+  );
+  if (typeof parsed === 'number') return parsed;
   const v = parsed.values;
-  if (v.help) {
-    io.out(NEW_USAGE);
-    return EXIT_OK;
-  }
   if (parsed.positionals.length !== 1) {
     io.err(`motional new: expected one FOLDER, got ${parsed.positionals.length}\n\n${NEW_USAGE}`);
     return EXIT_USAGE;

@@ -8,7 +8,8 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { chromium, type Browser } from 'playwright-core';
+import { type Browser } from 'playwright-core';
+import { launchChromium } from '../support/chromium.ts';
 import { requireTool } from '../support/tools.ts';
 import { startStaticServer, type TestServer } from '../support/static-server.ts';
 import { buildFixtureSite } from './fixture-site.ts';
@@ -17,15 +18,6 @@ import { fitFor, FIT_VERDICT_LABEL } from '../../src/lib/report/fits.ts';
 import { DEMO_CIRCUIT } from '../site/fixture.ts';
 
 const BASE = '/cat/';
-const CHROMIUM_ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 const haveChromium = requireTool('chromium');
 
 describe.skipIf(!haveChromium)('catalogue "fits circuit" columns in chromium', () => {
@@ -40,7 +32,7 @@ describe.skipIf(!haveChromium)('catalogue "fits circuit" columns in chromium', (
     await buildFixtureSite(join(work, 'data'), join(work, 'site'), BASE);
     index = JSON.parse(readFileSync(join(work, 'site', 'data', 'index.json'), 'utf8'));
     server = await startStaticServer(join(work, 'site'), BASE);
-    browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
   }, 240_000);
 
   afterAll(async () => {

@@ -10,7 +10,8 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { chromium, type Browser } from 'playwright-core';
+import { type Browser } from 'playwright-core';
+import { launchChromium } from '../support/chromium.ts';
 import { requireTool } from '../support/tools.ts';
 import { startStaticServer, type TestServer } from '../support/static-server.ts';
 import { syntheticPartId, writeSyntheticCatalogue } from '../../scripts/bench/lib/synthetic-catalogue.ts';
@@ -20,15 +21,6 @@ const BASE = '/nojs/';
 const PARTS = 120;
 /** More pages than this means the crawl is running away (a link loop with changing URLs). */
 const MAX_PAGES = 2000;
-const CHROMIUM_ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 const haveChromium = requireTool('chromium');
 
 describe.skipIf(!haveChromium)('every part reachable with JavaScript off', () => {
@@ -59,7 +51,7 @@ describe.skipIf(!haveChromium)('every part reachable with JavaScript off', () =>
     );
     if (build.status !== 0) throw new Error(`build failed (exit ${build.status}):\n${build.stdout}\n${build.stderr}`);
     server = await startStaticServer(join(work, 'site'), BASE);
-    browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
   }, 300_000);
 
   afterAll(async () => {

@@ -10,20 +10,12 @@ import { copyFile, mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { type Browser, type Page } from 'playwright-core';
+import { launchChromium } from '../support/chromium.ts';
 import { requireTool } from '../support/tools.ts';
 import { startPreview, type Preview } from '../../src/pipeline/preview.ts';
 import { syntheticPartId, writeSyntheticCatalogue } from '../../scripts/bench/lib/synthetic-catalogue.ts';
 
-const CHROMIUM_ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 const haveChromium = requireTool('chromium');
 /** Bound on a save showing up, ms: generous, a hung preview only (the speed target is in the bench). */
 const WAIT_MS = 60_000;
@@ -49,7 +41,7 @@ describe.skipIf(!haveChromium)('motional preview in chromium', () => {
       port: 0,
       base: '/pv/',
     });
-    browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
     page = await browser.newPage();
   }, 300_000);
 

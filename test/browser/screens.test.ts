@@ -12,7 +12,8 @@ import { copyFileSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { launchChromium } from '../support/chromium.ts';
 import { requireTool } from '../support/tools.ts';
 import { startStaticServer, type TestServer } from '../support/static-server.ts';
 import { buildTestSite, ROOT, type BuiltSite } from './build-site.ts';
@@ -21,15 +22,6 @@ import type { IndexEntry } from '../../src/site/types.ts';
 const ARTIFACTS = join(ROOT, 'test-artifacts');
 const SCREENSHOTS = join(ROOT, 'content', 'screenshots');
 const BASE = '/cat/';
-const CHROMIUM_ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 const haveChromium = requireTool('chromium');
 /** Phone width of the issue (a common 6.1-inch phone in CSS pixels). */
 const PHONE = { width: 390, height: 844 };
@@ -79,7 +71,7 @@ describe.skipIf(!haveChromium)('the catalogue on every screen', () => {
     built = await buildTestSite(BASE);
     index = JSON.parse(readFileSync(join(built.site, 'data', 'index.json'), 'utf8'));
     server = await startStaticServer(built.site, BASE);
-    browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
     mkdirSync(ARTIFACTS, { recursive: true });
     if (shots) mkdirSync(SCREENSHOTS, { recursive: true });
   });

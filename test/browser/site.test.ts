@@ -6,44 +6,23 @@
  * Expected values come from the command line (`extract --json`, `netlist`, `advise`) when the
  * real build ran, else from the same library calls the command line makes.
  */
-import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { launchChromium } from '../support/chromium.ts';
 import { requireTool } from '../support/tools.ts';
 import { startStaticServer, type TestServer } from '../support/static-server.ts';
-import { buildFixtureSite } from './fixture-site.ts';
+import { buildTestSite, ROOT } from './build-site.ts';
 import type { CompareData, IndexEntry } from '../../src/site/types.ts';
 import { advisePierce } from '../../src/lib/osc/pierce.ts';
 import { sampleNetlist } from '../../src/lib/report/downloads.ts';
 import { DEMO_CIRCUIT, fixtureCatalogue, makeFixturePart } from '../site/fixture.ts';
 
-const ROOT = resolve(import.meta.dirname, '..', '..');
 const ARTIFACTS = join(ROOT, 'test-artifacts');
 const BASE = '/cat/';
-const CHROMIUM_ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 const haveChromium = requireTool('chromium');
-
-/** The real pipeline can build the demo content (env MOTIONAL_SITE_TEST_FIXTURE=1 forces the fixture site). */
-function realBuildPossible(): boolean {
-  if (process.env.MOTIONAL_SITE_TEST_FIXTURE === '1') return false;
-  const parts = join(ROOT, 'content', 'parts');
-  return (
-    existsSync(join(ROOT, 'src', 'lib', 'extract', 'extract-part.ts')) &&
-    existsSync(parts) &&
-    readdirSync(parts).some((d) => existsSync(join(parts, d, 'part.yaml')))
-  );
-}
 
 function cli(args: string[]): string {
   return execFileSync(
@@ -105,34 +84,10 @@ describe.skipIf(!haveChromium)('catalogue site in chromium', () => {
   }
 
   beforeAll(async () => {
-    work = mkdtempSync(join(tmpdir(), 'motional-site-'));
-    site = join(work, 'site');
-    real = realBuildPossible();
-    if (real) {
-      const run = spawnSync(
-        process.execPath,
-        [
-          join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'),
-          join(ROOT, 'scripts', 'motional.ts'),
-          'build',
-          '--content',
-          'content',
-          '--out',
-          site,
-          '--base',
-          BASE,
-          '--quiet',
-        ],
-        { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' } },
-      );
-      if (run.status !== 0) throw new Error(`motional build failed (${run.status}):\n${run.stdout}\n${run.stderr}`);
-    } else {
-      console.warn('site test: demo content or pipeline missing — building the synthetic fixture catalogue instead');
-      await buildFixtureSite(join(work, 'data'), site, BASE);
-    }
+    ({ work, site, real } = await buildTestSite(BASE));
     index = JSON.parse(readFileSync(join(site, 'data', 'index.json'), 'utf8'));
     server = await startStaticServer(site, BASE);
-    browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
     mkdirSync(ARTIFACTS, { recursive: true });
   });
 

@@ -11,7 +11,8 @@ import { cpSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, stat
 import { writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join, relative } from 'node:path';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { type Browser, type Page } from 'playwright-core';
+import { launchChromium } from '../support/chromium.ts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { formatIssue } from '../../src/lib/issues.ts';
 import { buildCatalogue } from '../../src/pipeline/build-catalogue.ts';
@@ -22,15 +23,6 @@ import { HOSTILE, POSIX_NAMES, PORTABLE_NAMES, writeHostilePart } from '../fixtu
 import { ROOT } from './fuzz-support.ts';
 
 const BASE = '/cat/';
-const CHROMIUM_ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 
 let work: string;
 let site: string;
@@ -185,7 +177,7 @@ describe.skipIf(!haveChromium)('hostile part pages in chromium', () => {
 
   beforeAll(async () => {
     server = await startStaticServer(site, BASE);
-    browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
   }, 60_000);
   afterAll(async () => {
     await browser?.close();

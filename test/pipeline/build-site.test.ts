@@ -70,23 +70,18 @@ async function processesWriting(siteDir: string): Promise<number[]> {
   return pids;
 }
 
+/** The build of the test catalogue into `out`, at the sub-path, with the test's own cache. */
+function siteArgs(out: string): string[] {
+  return ['--content', content, '--out', out, '--base', BASE, '--cache-dir', join(tmp, 'cache'), '--quiet'];
+}
+
 describe('motional build (with the site)', () => {
   it('builds a site that works from a sub-path, one page per part', async () => {
     const out = join(tmp, 'site');
     await mkdir(out);
     await writeFile(join(out, 'stale.html'), 'from an older build');
     await writeFile(join(out, OUTPUT_MARKER), '');
-    const run = await startBuild([
-      '--content',
-      content,
-      '--out',
-      out,
-      '--base',
-      BASE,
-      '--cache-dir',
-      join(tmp, 'cache'),
-      '--quiet',
-    ]).done;
+    const run = await startBuild(siteArgs(out)).done;
     expect(run.stderr).not.toMatch(/error/i);
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(/^records found: 2 \(2 valid, 0 invalid\)$/m);
@@ -118,17 +113,7 @@ describe('motional build (with the site)', () => {
     const keptInode = (await stat(keptPage)).ino;
     const yaml = join(content, 'parts', syntheticPartId(2), 'part.yaml');
     await writeFile(yaml, (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: retitled crystal two'));
-    const run = await startBuild([
-      '--content',
-      content,
-      '--out',
-      out,
-      '--base',
-      BASE,
-      '--cache-dir',
-      join(tmp, 'cache'),
-      '--quiet',
-    ]).done;
+    const run = await startBuild(siteArgs(out)).done;
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(/^parts published: 2$/m);
     expect(run.stdout).toMatch(/^cache: 1 hits, 1 misses/m);
@@ -151,17 +136,7 @@ describe('motional build (with the site)', () => {
     const out = join(tmp, 'site');
     const yaml = join(content, 'parts', syntheticPartId(1), 'part.yaml');
     await writeFile(yaml, (await readFile(yaml, 'utf8')).replace(/^title: .*$/m, 'title: retitled crystal one'));
-    const run = await startBuild([
-      '--content',
-      content,
-      '--out',
-      out,
-      '--base',
-      BASE,
-      '--cache-dir',
-      join(tmp, 'cache'),
-      '--quiet',
-    ]).done;
+    const run = await startBuild(siteArgs(out)).done;
     expect(run.code).toBe(0);
     if (!(await siteSupportsPartialPages())) return;
     // the first build (full, with the cache) kept the generator's page modules and checked them
